@@ -1,0 +1,78 @@
+/**
+ * Every default of the tool, defined once. Each is documented beside its value;
+ * the manifest may override those marked "(manifest: …)". The methods page and
+ * the README read these values; tests/defaults.test.ts checks the docs agree.
+ */
+
+/** Nonlinear least squares (src/numeric/nls.ts). */
+export const FIT = {
+  /** Maximum Levenberg–Marquardt iterations before stopping with 'max-iterations'. */
+  maxIterations: 500,
+  /** Stop when the relative decrease in RSS is below this (and the step is small). */
+  rssTolerance: 1e-14,
+  /** Stop when every relative parameter step is below this. */
+  stepTolerance: 1e-12,
+  /** Stop when the scaled gradient is below this. */
+  gradientTolerance: 1e-12,
+  /** Confidence level of parameter intervals. */
+  confidenceLevel: 0.95,
+  /** A fitted parameter whose relative SE exceeds this is flagged as poorly determined. */
+  maxRelativeSe: 0.5,
+} as const;
+
+/** Statistics of the variant-versus-WT comparison (src/analysis/normalise.ts). */
+export const STATS = {
+  /** Confidence level of effect intervals. */
+  confidenceLevel: 0.95,
+  /** q value below which an effect counts as significant (manifest: thresholds.qThreshold). */
+  qThreshold: 0.05,
+} as const;
+
+/**
+ * WT-like bands per metric key `<assay>.<metric>` (manifest: thresholds.bands).
+ * Ratio metrics: [low, high] of variant/WT. Difference metrics: [low, high] of variant − WT.
+ * Common practice, no source: ±20% for rates and velocities is a band many labs use
+ * informally; pCa50 ±0.05 is about the between-preparation SD reported for WT fibres (from memory).
+ */
+export const BANDS: Record<string, [number, number]> = {
+  'atpase.kcat': [0.8, 1.25],
+  'atpase.km': [0.67, 1.5],
+  'atpase.basal': [0.67, 1.5],
+  'motility.velocity': [0.8, 1.25],
+  'motility.fractionImmobile': [-0.1, 0.1],
+  'force.fmax': [0.8, 1.25],
+  'force.pCa50': [-0.05, 0.05],
+  'force.nH': [0.8, 1.25],
+  'force.passive': [0.67, 1.5],
+  'turnover.slowFraction': [-0.1, 0.1],
+  'turnover.kFast': [0.67, 1.5],
+  'turnover.kSlow': [0.67, 1.5],
+};
+
+/** Assay settings (manifest: settings.<name>). */
+export const ASSAY = {
+  /** ATPase: fewer [actin] points than this per unit flags 'too few points'. */
+  atpaseMinPoints: 5,
+  /** NADH traces: initial-rate window from the first reading, in seconds. */
+  nadhWindowS: 300,
+  /** NADH extinction coefficient at 340 nm, M⁻¹cm⁻¹ (Horecker & Kornberg 1948). */
+  nadhEpsilon340: 6220,
+  /** Motility: a filament slower than this (µm/s) is immobile. */
+  motilityImmobileUmS: 0.05,
+  /** Motility tracks: minimum frames for a track to give a velocity. */
+  motilityMinFrames: 5,
+  /** Force–pCa: fewer pCa points than this per preparation flags 'too few points'. */
+  forceMinPoints: 6,
+  /** Single turnover: phases whose rates differ by less than this factor are 'not separated'. */
+  turnoverMinRateRatio: 3,
+  /** Single turnover: the trace should last at least this many slow-phase time constants. */
+  turnoverMinSlowTimeConstants: 1,
+  /** Single turnover: p value of the extra-sum-of-squares F test below which the double exponential is kept. */
+  turnoverFTestAlpha: 0.05,
+} as const;
+
+/** Calibration (src/calibrate). Brnich et al. 2020, Genome Med 12:3. */
+export const CALIBRATION = {
+  /** With this many classified controls or fewer, evidence is capped at supporting. */
+  maxControlsForSupportingOnly: 10,
+} as const;

@@ -1,0 +1,217 @@
+/**
+ * The loaded, validated study: the output of `loadStudy` and the input of analysis.
+ *
+ * Everything here is plain data in canonical units (see src/study/units.ts):
+ * concentrations in µM, velocities in µm/s, time in s, tension in kPa (= mN/mm²),
+ * pCa dimensionless, absorbance and fluorescence in arbitrary units.
+ * Every row keeps where it came from so that warnings and provenance can point at it.
+ */
+
+/** Where a value came from: a CSV line (1-based, header is line 1) or a manifest JSON path. */
+export interface SourceRef {
+  /** Path relative to the study folder, with forward slashes. */
+  file: string;
+  /** 1-based line in the file (CSV); absent for manifest entries. */
+  line?: number;
+  /** Column name (CSV) when the message is about one cell. */
+  column?: string;
+  /** JSON Pointer into the manifest, e.g. /variants/3/hgvs. */
+  jsonPath?: string;
+}
+
+export type Severity = 'error' | 'warning';
+
+/** One problem with the input, reported with its location and the fix. */
+export interface Issue {
+  severity: Severity;
+  /** Stable machine code, e.g. 'csv.unknown-unit'. */
+  code: string;
+  /** What is wrong, in one sentence. */
+  message: string;
+  /** How to fix it, in one sentence. */
+  fix: string;
+  at: SourceRef;
+}
+
+export type ControlClass = 'pathogenic' | 'likely pathogenic' | 'benign' | 'likely benign';
+
+/** Disease-mechanism direction that counts as an abnormal readout. */
+export type DiseaseDirection = 'hypercontractile' | 'hypocontractile' | 'either';
+
+export interface Domain {
+  name: string;
+  start: number;
+  end: number;
+}
+
+export interface Gene {
+  symbol: string;
+  /** Reference protein sequence, one-letter codes, when the manifest gives one. */
+  sequence?: string;
+  domains: Domain[];
+}
+
+export interface Variant {
+  /** URL- and file-safe identifier, unique in the study (e.g. 'MYH7-p.Arg403Gln' → 'myh7-r403q'). */
+  id: string;
+  gene: string;
+  /** True for the wild-type reference. */
+  isWT: boolean;
+  /** HGVS protein notation, e.g. 'p.Arg403Gln'; 'WT' for wild type. */
+  hgvs: string;
+  /** One-letter short form, e.g. 'R403Q'; 'WT' for wild type. */
+  short: string;
+  /** The label used in the CSV files (as given in the manifest). */
+  label: string;
+  residue?: number;
+  /** Three-letter reference and alternate residues, when a missense/nonsense change. */
+  refAA?: string;
+  altAA?: string;
+  /** Known class for calibration controls. */
+  control?: { class: ControlClass; source: string };
+  note?: string;
+  at: SourceRef;
+}
+
+/** Input kinds; each has a row schema in schemas/rows/<kind>.schema.json. */
+export type InputKind =
+  | 'atpase-rates'
+  | 'atpase-nadh'
+  | 'motility-velocities'
+  | 'motility-tracks'
+  | 'force-pca'
+  | 'turnover';
+
+/** Fields every row has. `unit` is the biological unit (protein preparation, fibre, tissue). */
+export interface RowBase {
+  variant: string; // Variant.id after resolution
+  unit: string;
+  batch: string;
+  at: SourceRef;
+}
+
+/** Steady-state ATPase: per-head rate at one [actin]. */
+export interface AtpaseRateRow extends RowBase {
+  actinUM: number;
+  ratePerS: number;
+  replicate?: string;
+}
+
+/**
+ * NADH-coupled ATPase: one A340 reading of one well.
+ * Actin-only background wells have wellType 'actin-only' and variant/unit empty ('').
+ */
+export interface NadhRow extends RowBase {
+  wellType: 'sample' | 'actin-only';
+  well: string;
+  actinUM: number;
+  /** Myosin head concentration in the well (µM); 0 for actin-only wells. */
+  headsUM: number;
+  timeS: number;
+  a340: number;
+  /** Optical path length in cm (default from the manifest file entry). */
+  pathCm: number;
+}
+
+/** Motility: one filament's velocity measured elsewhere. */
+export interface VelocityRow extends RowBase {
+  movie?: string;
+  filament: string;
+  velocityUmS: number;
+}
+
+/** Motility: one centroid position of one filament in one frame (positions in µm). */
+export interface TrackRow extends RowBase {
+  movie: string;
+  filament: string;
+  timeS: number;
+  xUm: number;
+  yUm: number;
+}
+
+/** Force–pCa: steady force at one pCa for one preparation (tension in kPa = mN/mm²). */
+export interface ForceRow extends RowBase {
+  pCa: number;
+  tensionKPa: number;
+  replicate?: string;
+}
+
+/** Single turnover: one fluorescence reading of one chase trace. */
+export interface TurnoverRow extends RowBase {
+  trace: string;
+  timeS: number;
+  fluorescence: number;
+}
+
+export interface RowsByKind {
+  'atpase-rates': AtpaseRateRow[];
+  'atpase-nadh': NadhRow[];
+  'motility-velocities': VelocityRow[];
+  'motility-tracks': TrackRow[];
+  'force-pca': ForceRow[];
+  turnover: TurnoverRow[];
+}
+
+/** Per-file settings from the manifest, already in canonical units. */
+export interface InputFile {
+  kind: InputKind;
+  /** Path relative to the study folder. */
+  path: string;
+  sha256: string;
+  /** Data rows read (excluding header and comment lines). */
+  rows: number;
+  /** Motility tracks: minimum frames a track needs; immobile threshold etc. live in settings. */
+  settings: Record<string, number | string | boolean>;
+}
+
+export interface Exclusion {
+  /** What is excluded: a whole batch, a unit, or a variant. */
+  kind: 'batch' | 'unit' | 'variant';
+  /** Assay id the exclusion applies to, or undefined for all assays. */
+  assay?: string;
+  batch?: string;
+  unit?: string;
+  variant?: string;
+  reason: string;
+  at: SourceRef;
+}
+
+/** Lab-set thresholds; each field overrides the default in src/defaults.ts when present. */
+export interface ThresholdOverrides {
+  /** Per metric key `<assay>.<metric>`: WT-like band [low, high] on the metric's own scale (ratio or difference). */
+  bands?: Record<string, [number, number]>;
+  /** Derive bands from benign controls instead of defaults. */
+  bandsFromBenignControls?: boolean;
+  /** Significance level for q values. */
+  qThreshold?: number;
+  /** Cap on the functional evidence level (e.g. 'moderate'), set by expert-panel rules. */
+  evidenceCap?: 'supporting' | 'moderate' | 'strong' | 'very strong';
+}
+
+export interface Study {
+  title: string;
+  lab: string;
+  dates: string[];
+  /** True when the data is invented (demo, tests); every page then says so. */
+  synthetic: boolean;
+  description?: string;
+  genes: Gene[];
+  variants: Variant[];
+  direction: DiseaseDirection;
+  thresholds: ThresholdOverrides;
+  exclusions: Exclusion[];
+  caveats: string[];
+  /** Optional assay settings from the manifest (e.g. motility immobile threshold), keyed by setting name. */
+  settings: Record<string, number | string | boolean>;
+  files: InputFile[];
+  rows: Partial<RowsByKind>;
+  /** Manifest as given (parsed JSON), for the provenance page. */
+  manifestRaw: unknown;
+  manifestSha256: string;
+}
+
+/** What `loadStudy` returns: a study when there are no errors, and every issue found. */
+export interface LoadOutcome {
+  study?: Study;
+  issues: Issue[];
+}
