@@ -188,8 +188,6 @@ export interface StudyResults {
   calibration: Calibration[];
   controlCharts: ControlChart[];
   exclusions: Array<{ kind: string; assay?: string; batch?: string; unit?: string; variant?: string; reason: string }>;
-  /** Per variant and assay, the chart spec of the variant report (Vega-Lite, data inline). Key `<variantId>/<assayId>`. */
-  charts: Record<string, Record<string, unknown>>;
   provenance: {
     files: Array<{ path: string; kind: string; sha256: string; rows: number }>;
     manifestSha256: string;
