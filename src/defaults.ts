@@ -61,6 +61,17 @@ export const ASSAY = {
   motilityImmobileUmS: 0.05,
   /** Motility tracks: minimum frames for a track to give a velocity. */
   motilityMinFrames: 5,
+  /**
+   * Motility: a unit with fewer analysable filaments than this is flagged 'too few filaments'.
+   * Common practice, no source: labs typically score ≥ 20 filaments before trusting a mean velocity.
+   */
+  motilityMinFilaments: 20,
+  /**
+   * Motility: a unit whose immobile fraction exceeds this is flagged. Twice the upper end of the
+   * 5–10% immobile filaments seen per preparation of human β-cardiac short S1 after dead-head
+   * removal (Nag et al., Sci Adv 2015;1:e1500511).
+   */
+  motilityMaxImmobileFraction: 0.2,
   /** Force–pCa: fewer pCa points than this per preparation flags 'too few points'. */
   forceMinPoints: 6,
   /** Single turnover: phases whose rates differ by less than this factor are 'not separated'. */

@@ -13,6 +13,8 @@ export interface SourceRef {
   file: string;
   /** 1-based line in the file (CSV); absent for manifest entries. */
   line?: number;
+  /** Last line of a range of lines (provenance of a unit); absent for a single line. */
+  lineEnd?: number;
   /** Column name (CSV) when the message is about one cell. */
   column?: string;
   /** JSON Pointer into the manifest, e.g. /variants/3/hgvs. */

@@ -1,0 +1,141 @@
+/**
+ * Steady-state actin-activated ATPase.
+ *
+ * Input: per-head rates (s⁻¹) at each [actin] (atpase-rates), or raw NADH-coupled A340
+ * traces (atpase-nadh) turned into per-head rates by src/assays/nadh.ts first.
+ * Per biological unit (protein preparation), every well at every [actin] enters one fit of
+ *
+ *     v = v0 + kcat·[A] / (KM + [A])        (Michaelis–Menten with a basal term)
+ *
+ * by nonlinear least squares (src/numeric/nls.ts). Wells are technical replicates: they
+ * inform that unit's curve; the statistics later count units, never wells.
+ */
+import { ASSAY, FIT } from '../defaults.js';
+import { fitCurve } from '../numeric/nls.js';
+import { michaelisMentenBasal } from '../numeric/models/michaelis-menten-basal.js';
+import type { FitResult } from '../numeric/types.js';
+import type { Flag, MetricDef, UnitResult } from '../results/types.js';
+import type { AtpaseRateRow, Study } from '../study/types.js';
+import { groupUnits, numberSetting, relativeSeFlags } from './common.js';
+import { groupEncoding, unitChart } from './chart-common.js';
+import { nadhToRates } from './nadh.js';
+import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
+
+const METRICS: MetricDef[] = [
+  {
+    id: 'kcat',
+    label: 'kcat',
+    unit: 's⁻¹',
+    scale: 'ratio',
+    hyper: 'up',
+    primary: true,
+    description: 'Maximal actin-activated rate per head above basal, from the fitted curve.',
+  },
+  {
+    id: 'km',
+    label: 'KM (actin)',
+    unit: 'µM',
+    scale: 'ratio',
+    hyper: 'none',
+    primary: false,
+    description: 'Actin concentration at half-maximal activation.',
+  },
+  {
+    id: 'basal',
+    label: 'Basal rate',
+    unit: 's⁻¹',
+    scale: 'ratio',
+    hyper: 'none',
+    primary: false,
+    description: 'Rate per head without actin (the fitted v0).',
+  },
+];
+
+/** Fit one unit's rates; flags per DESIGN.md §4. */
+export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omit<UnitResult, 'assay' | 'variant' | 'unit' | 'batch' | 'source'> {
+  const x = rows.map((r) => r.actinUM);
+  const y = rows.map((r) => r.ratePerS);
+  const flags: Flag[] = [];
+  const concentrations = new Set(x).size;
+  const maxActin = Math.max(...x);
+  const fit: FitResult = fitCurve(michaelisMentenBasal, x, y);
+  const metrics: Record<string, number | null> = { kcat: null, km: null, basal: null };
+  const metricSe: Record<string, number | null> = { kcat: null, km: null, basal: null };
+  if (concentrations < minPoints) {
+    flags.push({
+      code: 'too-few-points',
+      severity: 'warning',
+      message: `Only ${concentrations} actin concentrations (at least ${minPoints} recommended for a three-parameter curve).`,
+    });
+  }
+  if (!fit.converged) {
+    flags.push({
+      code: 'not-converged',
+      severity: 'warning',
+      message: `The Michaelis–Menten fit did not converge (${fit.stopReason}); kcat, KM and basal are not reported for this unit.`,
+    });
+  } else {
+    for (const p of fit.parameters) {
+      metrics[p.name] = p.estimate;
+      metricSe[p.name] = Number.isFinite(p.se) ? p.se : null;
+    }
+    const km = metrics.km as number;
+    if (km > maxActin) {
+      flags.push({
+        code: 'km-above-range',
+        severity: 'warning',
+        message: `KM (${km.toPrecision(3)} µM) is above the highest actin concentration measured (${maxActin} µM): kcat is an extrapolation.`,
+      });
+    }
+    flags.push(...relativeSeFlags(fit, FIT.maxRelativeSe, { kcat: 'kcat', km: 'KM', basal: 'basal rate' }, ['kcat', 'km']));
+  }
+  const points = rows.map((r) => ({ actin: r.actinUM, rate: r.ratePerS }));
+  const curve: Array<Record<string, number>> = [];
+  if (fit.converged) {
+    const p = fit.parameters.map((q) => q.estimate);
+    const steps = 60;
+    for (let i = 0; i <= steps; i++) {
+      const a = (maxActin * i) / steps;
+      curve.push({ actin: a, rate: michaelisMentenBasal.f(a, p) });
+    }
+  }
+  return { metrics, metricSe, fit, flags, nTechnical: rows.length, plot: { points, curve } };
+}
+
+function analyse(study: Study): UnitResult[] {
+  const minPoints = numberSetting(study, 'atpaseMinPoints', ASSAY.atpaseMinPoints);
+  const direct = study.rows['atpase-rates'] ?? [];
+  const fromTraces = study.rows['atpase-nadh']?.length ? nadhToRates(study.rows['atpase-nadh'], study.settings) : null;
+  const rows = [...direct, ...(fromTraces?.rates ?? [])];
+  const out: UnitResult[] = [];
+  for (const g of groupUnits(rows)) {
+    const r = analyseAtpaseUnit(g.rows, minPoints);
+    const traceFlags = (fromTraces?.flags ?? []).filter((f) => g.rows.some((row) => f.at && row.at.file === f.at.file && row.unit === g.unit));
+    out.push({ assay: 'atpase', variant: g.variant, unit: g.unit, batch: g.batch, ...r, flags: [...r.flags, ...traceFlags], source: g.source });
+  }
+  return out;
+}
+
+function chart(input: AssayChartInput): ChartSpec {
+  return unitChart(input, {
+    title: `Actin-activated ATPase: ${input.variantLabel} beside WT of the same batches`,
+    description: `Rate per head against actin concentration for each protein preparation of ${input.variantLabel} and of WT in the same batches, with the fitted Michaelis–Menten curve of each preparation.`,
+    x: { field: 'actin', title: '[actin] (µM)' },
+    y: { field: 'rate', title: 'ATPase rate per head (s⁻¹)' },
+    encodingExtra: groupEncoding(),
+  });
+}
+
+export const atpase: AssayModule = {
+  id: 'atpase',
+  label: 'Actin-activated ATPase',
+  inputs: ['atpase-rates', 'atpase-nadh'],
+  metrics: METRICS,
+  analyse,
+  chart,
+  methods: [
+    `Per protein preparation, all wells at all actin concentrations are fitted together with ${michaelisMentenBasal.formula} by Levenberg–Marquardt nonlinear least squares; wells are technical replicates and do not count as n.`,
+    `A preparation with fewer than ${ASSAY.atpaseMinPoints} actin concentrations is flagged; KM above the highest actin concentration is flagged because kcat is then extrapolated; a parameter whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value is flagged as poorly determined; a fit that does not converge reports no values and is flagged, never dropped.`,
+    `Raw NADH-coupled traces: the initial rate is the least-squares slope of A340 over the first ${ASSAY.nadhWindowS} s, converted with ε340 = ${ASSAY.nadhEpsilon340} M⁻¹cm⁻¹ and the path length (one NADH oxidised per ATP hydrolysed), minus the actin-only background of the same batch and actin concentration, divided by the myosin head concentration.`,
+  ],
+};
