@@ -22,6 +22,16 @@ export interface CurveModel {
   /** Optional bounds per parameter (inclusive); undefined means unbounded. */
   lower?: readonly (number | undefined)[];
   upper?: readonly (number | undefined)[];
+  /**
+   * Optional canonical form of a solution, applied once after the fit and before the
+   * standard errors are computed: e.g. the double exponential swaps its two phases so
+   * that kFast > kSlow. Must return an equivalent parameter vector (same curve).
+   */
+  canonical?(p: readonly number[]): number[];
+  /** Optional plain-language meaning of each parameter (same order as params), for the methods page. */
+  meanings?: readonly string[];
+  /** Optional literature source of the model, for the methods page. */
+  source?: string;
 }
 
 export type StopReason =
@@ -42,6 +52,8 @@ export interface ParameterEstimate {
   /** 95% confidence interval, estimate ± t(0.975, df)·se; NaN when undefined. */
   ciLow: number;
   ciHigh: number;
+  /** True when the estimate sits on one of its bounds (its SE then ignores the bound). */
+  atBound?: boolean;
 }
 
 export interface FitResult {
@@ -62,6 +74,8 @@ export interface FitResult {
   stopReason: StopReason;
   /** Parameter correlation matrix (rows/cols in parameter order); NaN entries when undefined. */
   correlation: number[][];
+  /** Condition number estimate of the column-scaled weighted Jacobian at the estimate (NaN when undefined). */
+  conditionNumber?: number;
 }
 
 export interface FitOptions {

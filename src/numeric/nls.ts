@@ -1,0 +1,360 @@
+/**
+ * Nonlinear least squares: fit a CurveModel to (x, y) data.
+ *
+ * Method: Levenberg–Marquardt on the weighted residuals r_i = √w_i·(f(x_i; p) − y_i).
+ * Variant chosen:
+ *  - Marquardt's scaled diagonal: the damping term is λ·diag(D) with D_j the largest
+ *    squared Jacobian column norm seen so far (Moré 1978, LNM 630, as in MINPACK), so the
+ *    method does not depend on the units of the parameters;
+ *  - Nielsen's damping update: after an accepted step with gain ratio ρ,
+ *    λ ← λ·max(1/3, 1 − (2ρ − 1)³), ν ← 2; after a rejected one λ ← λ·ν, ν ← 2ν
+ *    (Nielsen 1999, IMM-REP-1999-05; Madsen, Nielsen & Tingleff 2004, "Methods for
+ *    non-linear least squares problems", §3.2);
+ *  - each step solved by QR of the augmented system [J; √(λD)] (src/numeric/linalg.ts),
+ *    never by forming JᵀJ;
+ *  - bounds by projection onto the box, with parameters held at a bound while the
+ *    gradient pushes them outward (a simple active set; Kelley 1999, "Iterative
+ *    methods for optimization", §5.5);
+ *  - analytic Jacobian when model.gradient exists, central finite differences
+ *    otherwise (step ∛ε·|p_j|; one-sided at a bound).
+ * Stopping: scaled gradient (MINPACK's gtol: max_j |J_jᵀr| / (‖J_j‖·‖r‖)), relative RSS
+ * change (actual and predicted), or relative step, with the tolerances of FIT in
+ * src/defaults.ts. A stop is reported as converged only if the Jacobian at the end is
+ * well conditioned (scaled condition number below FIT_CONDITION_LIMIT) and the
+ * parameters stayed finite and below the divergence limit; otherwise the result says
+ * 'singular' or 'diverged'. This is what keeps NIST MGH09's spurious minimum at
+ * infinity from being reported as a solution.
+ *
+ * Uncertainty: covariance s²·(JᵀWJ)⁻¹ at the optimum with s² = RSS/(n − p); 95% CI
+ * estimate ± t(0.975, n − p)·SE, as R's nls/confint.default (Bates & Watts 1988, §2.3).
+ *
+ * Source of check values: NIST StRD nonlinear regression (tests/numeric/nist.test.ts).
+ * @example
+ * fitCurve(michaelisMenten, puromycinTreated.conc, puromycinTreated.rate)
+ * // → Vm 212.6837 (SE 6.947), K 0.06412 (SE 0.008281), RSS 1195.449, converged
+ */
+import { FIT } from '../defaults.js';
+import { tQuantile } from '../stats/distributions.js';
+import { dampedLeastSquares, inverseNormalMatrix } from './linalg.js';
+import type { CurveModel, FitOptions, FitResult, ParameterEstimate, StopReason } from './types.js';
+
+/** Above this scaled condition number of J the optimum is treated as singular (≈ 1/√ε·0.5e-? : 1e10 leaves ~6 digits of the covariance). */
+export const FIT_CONDITION_LIMIT = 1e10;
+/** A parameter whose magnitude exceeds this multiple of max(1, |start|) counts as diverging to infinity. */
+export const FIT_DIVERGENCE_FACTOR = 1e8;
+/** At the iteration limit, a parameter whose magnitude exceeds this multiple of both its start and its halfway value is reported as diverging. */
+export const RUNAWAY_GROWTH = 2;
+/** Initial Levenberg–Marquardt damping λ relative to the scaled diagonal (Moré 1978 uses a comparable trust radius). */
+const INITIAL_DAMPING = 1e-3;
+/** Damping above which the solver gives up searching for a decrease (steps are then ~1e-16 relative). */
+const MAX_DAMPING = 1e32;
+const CBRT_EPS = Math.cbrt(Number.EPSILON);
+
+interface Data {
+  x: number[];
+  y: number[];
+  sqrtW: number[];
+}
+
+/** Weighted residuals f − y at p, and their sum of squares; null when any value is not finite. */
+function residuals(model: CurveModel, data: Data, p: readonly number[]): { r: number[]; rss: number } | null {
+  const r = new Array(data.x.length);
+  let rss = 0;
+  for (let i = 0; i < data.x.length; i++) {
+    const v = data.sqrtW[i] * (model.f(data.x[i], p) - data.y[i]);
+    if (!Number.isFinite(v)) return null;
+    r[i] = v;
+    rss += v * v;
+  }
+  return Number.isFinite(rss) ? { r, rss } : null;
+}
+
+/** Weighted Jacobian ∂r_i/∂p_j (rows = points); null when not finite. */
+function jacobian(
+  model: CurveModel,
+  data: Data,
+  p: readonly number[],
+  lower: readonly number[],
+  upper: readonly number[],
+): number[][] | null {
+  const k = p.length;
+  const rows: number[][] = [];
+  if (model.gradient) {
+    for (let i = 0; i < data.x.length; i++) {
+      const g = model.gradient(data.x[i], p);
+      const row = new Array(k);
+      for (let j = 0; j < k; j++) {
+        row[j] = data.sqrtW[i] * g[j];
+        if (!Number.isFinite(row[j])) return null;
+      }
+      rows.push(row);
+    }
+    return rows;
+  }
+  for (let i = 0; i < data.x.length; i++) rows.push(new Array(k));
+  const trial = p.slice();
+  for (let j = 0; j < k; j++) {
+    const h = CBRT_EPS * (p[j] !== 0 ? Math.abs(p[j]) : 1);
+    const up = p[j] + h <= upper[j];
+    const down = p[j] - h >= lower[j];
+    for (let i = 0; i < data.x.length; i++) {
+      const xi = data.x[i];
+      let plus = NaN;
+      let minus = NaN;
+      if (up) {
+        trial[j] = p[j] + h;
+        plus = model.f(xi, trial);
+      }
+      if (down) {
+        trial[j] = p[j] - h;
+        minus = model.f(xi, trial);
+      }
+      trial[j] = p[j];
+      let d: number;
+      if (Number.isFinite(plus) && Number.isFinite(minus)) d = (plus - minus) / (2 * h);
+      else {
+        const centre = model.f(xi, p);
+        if (Number.isFinite(plus)) d = (plus - centre) / h;
+        else if (Number.isFinite(minus)) d = (centre - minus) / h;
+        else return null;
+      }
+      rows[i][j] = data.sqrtW[i] * d;
+      if (!Number.isFinite(rows[i][j])) return null;
+    }
+  }
+  return rows;
+}
+
+function project(p: readonly number[], lower: readonly number[], upper: readonly number[]): number[] {
+  return p.map((v, j) => Math.min(upper[j], Math.max(lower[j], v)));
+}
+
+/** Fit `model` to the points (x_i, y_i); see the file comment for the method. Never throws on numerical trouble. */
+export function fitCurve(
+  model: CurveModel,
+  x: readonly number[],
+  y: readonly number[],
+  options: FitOptions = {},
+): FitResult {
+  if (x.length !== y.length) throw new Error(`fitCurve: x has ${x.length} values but y has ${y.length}`);
+  const weights = options.weights;
+  if (weights && weights.length !== x.length) throw new Error(`fitCurve: ${weights.length} weights for ${x.length} points`);
+
+  // 1. Data: keep points with finite x, y and a finite positive weight.
+  const data: Data = { x: [], y: [], sqrtW: [] };
+  for (let i = 0; i < x.length; i++) {
+    const w = weights ? weights[i] : 1;
+    if (Number.isFinite(x[i]) && Number.isFinite(y[i]) && Number.isFinite(w) && w > 0) {
+      data.x.push(x[i]);
+      data.y.push(y[i]);
+      data.sqrtW.push(Math.sqrt(w));
+    }
+  }
+  const k = model.params.length;
+  const n = data.x.length;
+  const lower = model.params.map((_, j) => options.lower?.[j] ?? model.lower?.[j] ?? -Infinity);
+  const upper = model.params.map((_, j) => options.upper?.[j] ?? model.upper?.[j] ?? Infinity);
+  const maxIterations = options.maxIterations ?? FIT.maxIterations;
+
+  // 2. Start values, projected into the box.
+  let start: number[];
+  if (options.start) start = options.start.slice();
+  else if (n >= 1) {
+    try {
+      start = model.start(data.x, data.y);
+    } catch {
+      start = new Array(k).fill(NaN);
+    }
+  } else start = new Array(k).fill(NaN);
+  let p = project(start, lower, upper);
+  const finish = (stop: StopReason, converged: boolean, iterations: number) =>
+    summarise(model, data, p, lower, upper, stop, converged, iterations);
+  if (n < k + 1) return finish('too-few-points', false, 0);
+  if (p.some((v) => !Number.isFinite(v))) return finish('non-finite', false, 0);
+  const divergenceLimit = start.map((v) => FIT_DIVERGENCE_FACTOR * Math.max(1, Math.abs(v)));
+
+  // 3. Levenberg–Marquardt iterations.
+  let current = residuals(model, data, p);
+  if (!current) return finish('non-finite', false, 0);
+  let lambda = INITIAL_DAMPING;
+  let nu = 2;
+  const diag = new Array(k).fill(0);
+  let iterations = 0;
+  let stop: StopReason = 'max-iterations';
+  let halfway: number[] = p;
+  outer: while (iterations < maxIterations) {
+    iterations++;
+    if (iterations === Math.ceil(maxIterations / 2)) halfway = p;
+    const jac = jacobian(model, data, p, lower, upper);
+    if (!jac) {
+      stop = 'non-finite';
+      break;
+    }
+    if (current.rss === 0) {
+      stop = 'converged-rss';
+      break;
+    }
+    const gradient = new Array(k).fill(0);
+    const colNorm = new Array(k).fill(0);
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j < k; j++) {
+        gradient[j] += jac[i][j] * current.r[i];
+        colNorm[j] += jac[i][j] * jac[i][j];
+      }
+    }
+    for (let j = 0; j < k; j++) diag[j] = Math.max(diag[j], colNorm[j]);
+    // Active set: a parameter at a bound whose descent direction −g points outward stays fixed.
+    const free = p.map((v, j) => !((v <= lower[j] && gradient[j] > 0) || (v >= upper[j] && gradient[j] < 0)));
+    const rNorm = Math.sqrt(current.rss);
+    let scaledGradient = 0;
+    for (let j = 0; j < k; j++) {
+      if (free[j] && colNorm[j] > 0) scaledGradient = Math.max(scaledGradient, Math.abs(gradient[j]) / (Math.sqrt(colNorm[j]) * rNorm));
+    }
+    if (scaledGradient <= FIT.gradientTolerance) {
+      stop = 'converged-gradient';
+      break;
+    }
+    const freeIdx = free.flatMap((f, j) => (f ? [j] : []));
+    const jFree = jac.map((row) => freeIdx.map((j) => row[j]));
+    const minusR = current.r.map((v) => -v);
+    // Inner loop: increase damping until a step decreases the RSS.
+    for (;;) {
+      const damping = freeIdx.map((j) => Math.sqrt(lambda * Math.max(diag[j], Number.MIN_VALUE)));
+      const stepFree = dampedLeastSquares(jFree, minusR, damping);
+      if (!stepFree) {
+        stop = 'singular';
+        break outer;
+      }
+      const trial = p.slice();
+      freeIdx.forEach((j, m) => (trial[j] = p[j] + stepFree[m]));
+      const next = project(trial, lower, upper);
+      const step = next.map((v, j) => v - p[j]);
+      const smallStep = step.every((s, j) => Math.abs(s) <= FIT.stepTolerance * (Math.abs(p[j]) + FIT.stepTolerance));
+      // Predicted RSS from the linear model: ‖r + J·step‖².
+      let predictedRss = 0;
+      for (let i = 0; i < n; i++) {
+        let v = current.r[i];
+        for (let j = 0; j < k; j++) v += jac[i][j] * step[j];
+        predictedRss += v * v;
+      }
+      const predicted = current.rss - predictedRss;
+      const trialResult = residuals(model, data, next);
+      const actual = trialResult ? current.rss - trialResult.rss : -Infinity;
+      const rho = predicted > 0 ? actual / predicted : -1;
+      if (trialResult && rho > 0 && actual > 0) {
+        p = next;
+        current = trialResult;
+        lambda *= Math.max(1 / 3, 1 - Math.pow(2 * rho - 1, 3));
+        nu = 2;
+        if (p.some((v, j) => Math.abs(v) > divergenceLimit[j])) {
+          stop = 'diverged';
+          break outer;
+        }
+        if (actual <= FIT.rssTolerance * (current.rss + actual) && predicted <= FIT.rssTolerance * (current.rss + actual)) {
+          stop = 'converged-rss';
+          break outer;
+        }
+        if (smallStep) {
+          stop = 'converged-step';
+          break outer;
+        }
+        break;
+      }
+      if (smallStep) {
+        stop = 'converged-step';
+        break outer;
+      }
+      lambda *= nu;
+      nu *= 2;
+      if (lambda > MAX_DAMPING) {
+        stop = 'converged-step';
+        break outer;
+      }
+    }
+  }
+  // A run that ends at the iteration limit with a parameter still growing fast is on its
+  // way to infinity (e.g. a saturating curve fitted to straight-line data): say so.
+  if (stop === 'max-iterations' && p.some((v, j) => Math.abs(v) > RUNAWAY_GROWTH * Math.max(Math.abs(start[j]), Math.abs(halfway[j])))) {
+    stop = 'diverged';
+  }
+  const converged = stop === 'converged-rss' || stop === 'converged-step' || stop === 'converged-gradient';
+  return finish(stop, converged, iterations);
+}
+
+/**
+ * Final statistics at p: canonical parameter order, covariance, SEs, CIs, R², correlation.
+ * Downgrades a 'converged' stop to 'singular' when the Jacobian is rank-deficient or badly conditioned.
+ */
+function summarise(
+  model: CurveModel,
+  data: Data,
+  pIn: readonly number[],
+  lower: readonly number[],
+  upper: readonly number[],
+  stopIn: StopReason,
+  convergedIn: boolean,
+  iterations: number,
+): FitResult {
+  const k = model.params.length;
+  const n = data.x.length;
+  const p = model.canonical ? model.canonical(pIn) : pIn.slice();
+  let stop = stopIn;
+  let converged = convergedIn;
+  const df = n - k;
+  const res = p.every(Number.isFinite) ? residuals(model, data, p) : null;
+  const rss = res ? res.rss : NaN;
+  let covariance: number[][] | null = null;
+  let condition = NaN;
+  if (res && n >= k) {
+    const jac = jacobian(model, data, p, lower, upper);
+    const inv = jac ? inverseNormalMatrix(jac) : null;
+    if (inv) {
+      condition = inv.condition;
+      if (df > 0) {
+        const s2 = rss / df;
+        covariance = inv.inverse.map((row) => row.map((v) => v * s2));
+      }
+    }
+    if (converged && (!inv || !(inv.condition < FIT_CONDITION_LIMIT))) {
+      converged = false;
+      stop = 'singular';
+    }
+  }
+  const t = df > 0 ? tQuantile(0.5 + FIT.confidenceLevel / 2, df) : NaN;
+  const parameters: ParameterEstimate[] = model.params.map((name, j) => {
+    const variance = covariance ? covariance[j][j] : NaN;
+    const se = variance >= 0 ? Math.sqrt(variance) : NaN;
+    const estimate: ParameterEstimate = { name, estimate: p[j], se, ciLow: p[j] - t * se, ciHigh: p[j] + t * se };
+    if (p[j] <= lower[j] || p[j] >= upper[j]) estimate.atBound = true;
+    return estimate;
+  });
+  const correlation = model.params.map((_, i) =>
+    model.params.map((__, j) => (covariance ? covariance[i][j] / Math.sqrt(covariance[i][i] * covariance[j][j]) : NaN)),
+  );
+  // R²: unweighted, 1 − Σ(y − f)² / Σ(y − ȳ)².
+  let r2 = NaN;
+  if (res && n > 0) {
+    const mean = data.y.reduce((s, v) => s + v, 0) / n;
+    let tss = 0;
+    let sse = 0;
+    for (let i = 0; i < n; i++) {
+      tss += (data.y[i] - mean) ** 2;
+      sse += (data.y[i] - model.f(data.x[i], p)) ** 2;
+    }
+    r2 = tss > 0 ? 1 - sse / tss : NaN;
+  }
+  return {
+    modelId: model.id,
+    parameters,
+    rss,
+    residualSd: df > 0 ? Math.sqrt(rss / df) : NaN,
+    df,
+    r2,
+    n,
+    iterations,
+    converged,
+    stopReason: stop,
+    correlation,
+    conditionNumber: condition,
+  };
+}
