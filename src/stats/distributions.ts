@@ -50,11 +50,14 @@ export function fCdf(f: number, df1: number, df2: number): number {
 
 /**
  * Upper-tail probability of the F distribution, P(F > f): the p value of an F test.
- * @example fUpperP(3, 2, 10) // → 0.0954
+ * Computed as P(F(df2, df1) < 1/f), which keeps relative precision in the far tail
+ * where 1 − cdf would round to 0.
+ * @example fUpperP(3, 2, 10) // → 0.0954 (R: pf(3, 2, 10, lower.tail = FALSE) = 0.09536743)
  */
 export function fUpperP(f: number, df1: number, df2: number): number {
-  if (f === Infinity) return 0;
-  return 1 - fCdfLib(f, df1, df2);
+  if (Number.isNaN(f) || !(df1 > 0) || !(df2 > 0)) return NaN;
+  if (f <= 0) return 1;
+  return fCdfLib(1 / f, df2, df1);
 }
 
 /**

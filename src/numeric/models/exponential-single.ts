@@ -1,0 +1,62 @@
+/**
+ * Single exponential decay with offset.
+ *
+ * y = A·exp(−k·t) + c
+ *  - amplitude (A): signal change that decays (fluorescence units);
+ *  - k: rate constant (1/time unit of t, s⁻¹);
+ *  - offset (c): plateau at long times.
+ * Source: first-order kinetics; used as the fall-back for single-turnover chase traces
+ * when two phases are not resolved (e.g. Hooijman, Stewart & Cooke 2011, Biophys J 100:1969).
+ * Bounds: k ≥ 0. Start rule: k scanned over 60 log-spaced values from 0.1/(time span) to
+ * max(100/(time span), 1/(smallest time step)); at each, A and c by linear least squares;
+ * the best is the start (variable projection).
+ * @example exponentialSingle.f(10, [2, 0.1, 1]) // → 1.735759 (2·e⁻¹ + 1)
+ */
+import type { CurveModel } from '../types.js';
+import { linearLeastSquares, logGrid, range } from './start-helpers.js';
+
+const RATE_GRID_POINTS = 60;
+
+/**
+ * Rate candidates spanning what the sampling of t can resolve.
+ * @example rateCandidates([0, 1, 2, 10], 3) // → [0.01, ~0.32, 10]
+ */
+export function rateCandidates(t: readonly number[], count: number): number[] {
+  const [low, high] = range(t);
+  const span = high - low > 0 ? high - low : 1;
+  const sorted = [...t].sort((a, b) => a - b);
+  let minStep = Infinity;
+  for (let i = 1; i < sorted.length; i++) {
+    const d = sorted[i] - sorted[i - 1];
+    if (d > 0 && d < minStep) minStep = d;
+  }
+  const fastest = Math.max(100 / span, Number.isFinite(minStep) ? 1 / minStep : 0);
+  return logGrid(0.1 / span, fastest, count);
+}
+
+export const exponentialSingle: CurveModel = {
+  id: 'exponential-single',
+  formula: 'y = A·exp(−k·t) + c',
+  params: ['amplitude', 'k', 'offset'],
+  meanings: ['decaying amplitude', 'rate constant (per time unit)', 'plateau at long times'],
+  source: 'first-order kinetics; single-turnover fall-back as in Hooijman et al. 2011, Biophys J 100:1969',
+  f: (t, p) => p[0] * Math.exp(-p[1] * t) + p[2],
+  gradient(t, p) {
+    const e = Math.exp(-p[1] * t);
+    return [e, -p[0] * t * e, 1];
+  },
+  start(x, y) {
+    const ones = x.map(() => 1);
+    let best: number[] = [range(y)[1] - range(y)[0], 1, range(y)[0]];
+    let bestRss = Infinity;
+    for (const k of rateCandidates(x, RATE_GRID_POINTS)) {
+      const fit = linearLeastSquares([x.map((t) => Math.exp(-k * t)), ones], y);
+      if (fit && fit.rss < bestRss) {
+        bestRss = fit.rss;
+        best = [fit.coefficients[0], k, fit.coefficients[1]];
+      }
+    }
+    return best;
+  },
+  lower: [undefined, 0, undefined],
+};
