@@ -1,0 +1,251 @@
+/**
+ * analyseStudy: the pure heart of myofolio. A checked Study in, StudyResults out.
+ *
+ *   Study ──analyse──▶ UnitResult[]           per biological unit, per assay (src/assays/*)
+ *         ──exclude──▶ units marked excluded  manifest exclusions, with their reasons
+ *         ──normalise▶ MetricComparison[]     variant vs WT of the same batches (normalise.ts)
+ *         ──score────▶ assay and variant calls, with sentences (score.ts)
+ *         ──qc───────▶ WT control charts, Westgard rules; rejected batches flag their variants
+ *         ──calibrate▶ OddsPath per assay and overall; evidence ceiling per variant
+ *         ──────────▶ StudyResults (src/results/types.ts)
+ *
+ * No I/O, no clock: the build time comes in as an argument.
+ */
+import { ASSAYS } from '../assays/registry.js';
+import type { AssayModule } from '../assays/types.js';
+import { bandFromBenignControls } from '../calibrate/bands.js';
+import { calibrate, evidenceForReadout } from '../calibrate/oddspath.js';
+import { BANDS, STATS } from '../defaults.js';
+import type {
+  AssayCall,
+  Calibration,
+  ControlChart,
+  Flag,
+  MetricComparison,
+  StudyResults,
+  UnitResult,
+  VariantResult,
+} from '../results/types.js';
+import type { Exclusion, Study, Variant } from '../study/types.js';
+import { normaliseAssay } from './normalise.js';
+import { assayCall, variantCall } from './score.js';
+import { wtControlCharts } from './control-charts.js';
+
+export interface AnalyseOptions {
+  toolVersion: string;
+  /** ISO time stamp of the build (from SOURCE_DATE_EPOCH when set). */
+  builtAt: string;
+  /** Restrict to these assay modules (default: the registry). */
+  assays?: readonly AssayModule[];
+}
+
+export const COMPARISON_METHOD =
+  'Batch-stratified linear model (randomised block design: batch as block, variant vs WT as treatment; Montgomery, Design and Analysis of Experiments, ch. 4): ' +
+  'the effect is the weighted mean of within-batch differences of means (log scale for ratio metrics), weights n_variant·n_WT/(n_variant + n_WT); ' +
+  'residual variance from within-group and between-batch scatter on N − B − 1 degrees of freedom; t interval and two-sided t test; ' +
+  'Benjamini–Hochberg q values across variants within each metric (Benjamini & Hochberg 1995). n is the number of biological units.';
+
+function matchesExclusion(u: UnitResult, e: Exclusion, variants: Variant[]): boolean {
+  if (e.assay && e.assay !== u.assay) return false;
+  if (e.batch !== undefined && e.batch !== u.batch) return false;
+  if (e.unit !== undefined && e.unit !== u.unit) return false;
+  if (e.variant !== undefined) {
+    const v = variants.find((x) => x.id === u.variant);
+    if (!v || (e.variant !== v.id && e.variant !== v.label && e.variant !== v.hgvs && e.variant !== v.short)) return false;
+  }
+  return e.batch !== undefined || e.unit !== undefined || e.variant !== undefined;
+}
+
+/** Resolve bands: defaults, then manifest overrides, then (when asked) benign-control bands. */
+function resolveBands(study: Study): { bands: Record<string, [number, number]>; source: Record<string, string> } {
+  const bands: Record<string, [number, number]> = { ...BANDS };
+  const source: Record<string, string> = {};
+  for (const k of Object.keys(bands)) source[k] = 'default (src/defaults.ts)';
+  for (const [k, v] of Object.entries(study.thresholds.bands ?? {})) {
+    bands[k] = v;
+    source[k] = 'manifest';
+  }
+  return { bands, source };
+}
+
+export function analyseStudy(study: Study, options: AnalyseOptions): StudyResults {
+  const modules = (options.assays ?? ASSAYS).filter((a) => a.inputs.some((k) => (study.rows[k]?.length ?? 0) > 0));
+  const variants = study.variants;
+  const qThreshold = study.thresholds.qThreshold ?? STATS.qThreshold;
+
+  // 1. Per-unit analysis, then manifest exclusions (kept for display, out of the statistics).
+  const units: UnitResult[] = [];
+  for (const m of modules) units.push(...m.analyse(study));
+  for (const u of units) {
+    const e = study.exclusions.find((x) => matchesExclusion(u, x, variants));
+    if (e) u.excluded = e.reason;
+  }
+
+  // 2. Normalise to paired WT and score metrics.
+  const { bands, source: bandSource } = resolveBands(study);
+  const normOptions = {
+    confidenceLevel: STATS.confidenceLevel,
+    qThreshold,
+    bands,
+    variants: variants.map((v) => ({ id: v.id, isWT: v.isWT })),
+  };
+  let comparisons = modules.flatMap((m) => normaliseAssay(m.id, m.metrics, units, normOptions));
+  if (study.thresholds.bandsFromBenignControls) {
+    const benign = new Set(variants.filter((v) => v.control && v.control.class.includes('benign')).map((v) => v.id));
+    for (const m of modules) {
+      for (const def of m.metrics) {
+        const key = `${m.id}.${def.id}`;
+        if (bandSource[key] === 'manifest') continue;
+        const effects = comparisons
+          .filter((c) => c.assay === m.id && c.metric === def.id && benign.has(c.variant) && c.effect !== null)
+          .map((c) => c.effect as number);
+        const derived = bandFromBenignControls(effects, def.scale);
+        if (derived.band) {
+          bands[key] = derived.band;
+          bandSource[key] = derived.rule;
+        } else {
+          bandSource[key] = `default (src/defaults.ts): ${derived.reason}`;
+        }
+      }
+    }
+    comparisons = modules.flatMap((m) => normaliseAssay(m.id, m.metrics, units, normOptions));
+  }
+
+  // 3. WT control charts (Westgard); rejected batches flag the variants compared in them.
+  const controlCharts: ControlChart[] = modules.flatMap((m) => wtControlCharts(m, units, variants));
+
+  // 4. Assay and variant calls.
+  const labels: Record<string, string> = Object.fromEntries(modules.map((m) => [m.id, m.label]));
+  const assayCalls: AssayCall[] = [];
+  for (const v of variants) {
+    if (v.isWT) continue;
+    for (const m of modules) {
+      const mine = comparisons.filter((c) => c.assay === m.id && c.variant === v.id);
+      assayCalls.push(assayCall(m.id, v.id, mine, m.metrics, study.direction));
+    }
+  }
+
+  // 5. Calibration per assay and overall, from the controls' readouts.
+  const cap = study.thresholds.evidenceCap;
+  const controls = variants.filter((v) => v.control && !v.isWT);
+  const calibration: Calibration[] = modules.map((m) =>
+    calibrate(
+      m.id,
+      controls.map((v) => ({
+        id: v.id,
+        knownClass: v.control!.class,
+        readout: assayCalls.find((a) => a.assay === m.id && a.variant === v.id)?.readout ?? null,
+      })),
+      { cap },
+    ),
+  );
+  const overallByVariant = new Map<string, ReturnType<typeof variantCall>>();
+  for (const v of variants) {
+    if (v.isWT) continue;
+    overallByVariant.set(v.id, variantCall(assayCalls.filter((a) => a.variant === v.id), labels, study.direction));
+  }
+  const overallCal = calibrate(
+    'overall',
+    controls.map((v) => ({ id: v.id, knownClass: v.control!.class, readout: overallByVariant.get(v.id)?.readout ?? null })),
+    { cap },
+  );
+  calibration.push(overallCal);
+
+  // 6. Variant results.
+  const variantResults: VariantResult[] = variants.map((v) => {
+    const overall = v.isWT
+      ? { call: 'within WT range' as const, sentence: 'Wild-type reference: every comparison is made against it.', readout: null }
+      : overallByVariant.get(v.id)!;
+    const flags = variantFlags(v, units, comparisons, controlCharts);
+    let evidence: VariantResult['evidence'];
+    if (v.isWT) evidence = { level: 'none', scope: 'overall', sentence: 'Not applicable: wild-type reference.' };
+    else if (v.control)
+      evidence = {
+        level: 'none',
+        scope: 'overall',
+        sentence: `Calibration control (known class: ${v.control.class}; source: ${v.control.source}). Its readout calibrates the assays; it is not scored as evidence for itself.`,
+      };
+    else evidence = { scope: 'overall', ...evidenceForReadout(overallCal, overall.readout) };
+    const gene = study.genes.find((g) => g.symbol === v.gene);
+    const domain = v.residue === undefined ? undefined : gene?.domains.find((d) => v.residue! >= d.start && v.residue! <= d.end)?.name;
+    return {
+      id: v.id,
+      gene: v.gene,
+      hgvs: v.hgvs,
+      short: v.short,
+      label: v.label,
+      isWT: v.isWT,
+      ...(v.residue !== undefined ? { residue: v.residue } : {}),
+      ...(domain ? { domain } : {}),
+      ...(v.control ? { control: v.control } : {}),
+      ...(v.note ? { note: v.note } : {}),
+      assayCalls: assayCalls.filter((a) => a.variant === v.id),
+      overall,
+      evidence,
+      flags,
+    };
+  });
+
+  return {
+    schemaVersion: 1,
+    tool: { name: 'myofolio', version: options.toolVersion },
+    study: {
+      title: study.title,
+      lab: study.lab,
+      dates: study.dates,
+      synthetic: study.synthetic,
+      ...(study.description ? { description: study.description } : {}),
+      direction: study.direction,
+      caveats: study.caveats,
+      genes: study.genes.map((g) => ({ symbol: g.symbol, ...(g.sequence ? { length: g.sequence.length } : {}), domains: g.domains })),
+    },
+    settings: {
+      qThreshold,
+      bands,
+      bandSource,
+      comparisonMethod: COMPARISON_METHOD,
+      ...(cap ? { evidenceCap: cap } : {}),
+    },
+    assays: modules.map((m) => ({ id: m.id, label: m.label, metrics: m.metrics, methods: m.methods })),
+    variants: variantResults,
+    units,
+    comparisons,
+    calibration,
+    controlCharts,
+    exclusions: study.exclusions.map(({ at: _at, ...rest }) => rest),
+    provenance: {
+      files: study.files.map((f) => ({ path: f.path, kind: f.kind, sha256: f.sha256, rows: f.rows })),
+      manifestSha256: study.manifestSha256,
+      manifest: study.manifestRaw,
+      builtAt: options.builtAt,
+    },
+    issues: [],
+  };
+}
+
+/** Flags a reader of the variant's report needs: fit problems, comparison problems, rejected WT batches. */
+function variantFlags(v: Variant, units: UnitResult[], comparisons: MetricComparison[], charts: ControlChart[]): Flag[] {
+  const flags: Flag[] = [];
+  const mine = units.filter((u) => u.variant === v.id);
+  for (const u of mine) {
+    for (const f of u.flags) flags.push({ ...f, message: `${u.assay}, unit ${u.unit} (batch ${u.batch}): ${f.message}` });
+    if (u.excluded) flags.push({ code: 'excluded', severity: 'info', message: `${u.assay}, unit ${u.unit} (batch ${u.batch}) excluded: ${u.excluded}` });
+  }
+  if (v.isWT) return flags;
+  for (const c of comparisons.filter((x) => x.variant === v.id)) {
+    for (const f of c.flags) flags.push({ ...f, message: `${c.assay} ${c.metric}: ${f.message}` });
+  }
+  for (const chart of charts) {
+    const batches = new Set(comparisons.filter((c) => c.variant === v.id && c.assay === chart.assay).flatMap((c) => c.batches));
+    for (const b of chart.rejectedBatches) {
+      if (!batches.has(b)) continue;
+      const rules = [...new Set(chart.points.filter((p) => p.batch === b).flatMap((p) => p.rules).filter((r) => r !== '1-2s'))];
+      flags.push({
+        code: 'wt-qc-rejected',
+        severity: 'reject',
+        message: `${chart.assay} ${chart.metric}: compared in batch ${b}, whose WT control values broke Westgard rule${rules.length === 1 ? '' : 's'} ${rules.join(', ')}.`,
+      });
+    }
+  }
+  return flags;
+}
