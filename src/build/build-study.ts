@@ -1,0 +1,93 @@
+/**
+ * buildStudy: the I/O shell around the pure pipeline.
+ *
+ *   study folder ──readStudyFolder──▶ files (bytes, SHA-256)      src/study/read-folder.ts
+ *                ──loadStudy───────▶ Study | issues               src/study/load.ts (pure)
+ *                ──analyseStudy────▶ StudyResults                 src/analysis/analyse-study.ts (pure)
+ *                ──buildSite───────▶ pages + SVG charts            src/site/build-site.ts
+ *                ──downloads───────▶ results.json, results.csv
+ *                ──swapIn──────────▶ output folder (atomic rename; the last good output survives a failure)
+ *
+ * Returns issues as data; the CLI decides what to print and the exit code.
+ */
+import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { analyseStudy } from '../analysis/analyse-study.js';
+import { assayById } from '../assays/registry.js';
+import { planOutput, makeStaging, swapIn } from '../cli/output.js';
+import { resultsCsv } from '../results/csv.js';
+import type { StudyResults } from '../results/types.js';
+import { buildSite } from '../site/build-site.js';
+import { loadStudy } from '../study/load.js';
+import { readStudyFolder } from '../study/read-folder.js';
+import type { Issue } from '../study/types.js';
+import { TOOL_VERSION } from '../version.js';
+
+export interface BuildOptions {
+  force?: boolean;
+  /** Seconds since the epoch for the build time stamp (SOURCE_DATE_EPOCH); default now. */
+  sourceDateEpoch?: number;
+  /** Progress callback (phase name); the CLI prints it. */
+  onPhase?: (phase: string) => void;
+}
+
+export interface BuildOutcome {
+  ok: boolean;
+  issues: Issue[];
+  out?: string;
+  pages?: number;
+  results?: StudyResults;
+  movedAside?: string;
+}
+
+/** The per-assay charts of one variant report: the variant's units beside WT units of the same batches. */
+export function variantCharts(results: StudyResults, variantId: string): Array<{ assay: string; title: string; spec: Record<string, unknown> }> {
+  const v = results.variants.find((x) => x.id === variantId);
+  if (!v) return [];
+  const wtIds = new Set(results.variants.filter((x) => x.isWT).map((x) => x.id));
+  const charts: Array<{ assay: string; title: string; spec: Record<string, unknown> }> = [];
+  for (const a of results.assays) {
+    const module = assayById(a.id);
+    if (!module) continue;
+    const variantUnits = results.units.filter((u) => u.assay === a.id && u.variant === variantId);
+    if (variantUnits.length === 0) continue;
+    const batches = new Set(variantUnits.map((u) => u.batch));
+    const wtUnits = results.units.filter((u) => u.assay === a.id && wtIds.has(u.variant) && (v.isWT || batches.has(u.batch)));
+    const spec = module.chart({ variantLabel: v.isWT ? 'WT' : v.hgvs, variantUnits: v.isWT ? [] : variantUnits, wtUnits });
+    charts.push({ assay: a.id, title: a.label, spec });
+  }
+  return charts;
+}
+
+export async function buildStudy(studyDir: string, outDir: string, options: BuildOptions = {}): Promise<BuildOutcome> {
+  const phase = options.onPhase ?? (() => {});
+  phase('read');
+  const plan = planOutput(studyDir, outDir, options.force ?? false);
+  const folder = readStudyFolder(studyDir);
+  if (!folder.files) return { ok: false, issues: folder.issues };
+  phase('check');
+  const loaded = loadStudy(folder.files);
+  const issues = [...folder.issues, ...loaded.issues];
+  if (!loaded.study || issues.some((i) => i.severity === 'error')) return { ok: false, issues };
+  phase('analyse');
+  const epoch = options.sourceDateEpoch;
+  const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
+  const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt });
+  results.issues = issues;
+  const tag = String(process.pid);
+  const staging = makeStaging(plan.out, tag);
+  try {
+    phase('pages');
+    const site = await buildSite(results, staging, { chartsFor: (id: string) => variantCharts(results, id), sourceDateEpoch: epoch });
+    phase('write');
+    const downloads = path.join(staging, 'downloads');
+    mkdirSync(downloads, { recursive: true });
+    writeFileSync(path.join(downloads, 'results.json'), JSON.stringify(results, null, 1) + '\n');
+    writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
+    const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag);
+    return { ok: true, issues, out: plan.out, pages: site.pages, results, movedAside };
+  } catch (err) {
+    rmSync(staging, { recursive: true, force: true });
+    throw err;
+  }
+}
