@@ -4,6 +4,7 @@
  * (grouping into units and source ranges live in ./common.ts). Pure: no I/O, no clock, no randomness.
  */
 import { ASSAY } from '../defaults.js';
+import { mean } from '../stats/descriptive.js';
 
 export type AssaySettingName = keyof typeof ASSAY;
 
@@ -38,32 +39,6 @@ export function groupBy<T>(items: readonly T[], key: (item: T) => string): Map<s
     else out.set(k, [item]);
   }
   return out;
-}
-
-/**
- * Arithmetic mean; NaN for an empty list.
- * @example mean([1, 2, 3, 6]) // → 3
- */
-export function mean(values: readonly number[]): number {
-  if (values.length === 0) return NaN;
-  let sum = 0;
-  for (const v of values) sum += v;
-  return sum / values.length;
-}
-
-/**
- * Sample quantile, type 7 of Hyndman & Fan (1996), the default of R's `quantile()`
- * and of numpy: h = (n − 1)·p, linear interpolation between the order statistics
- * around h. NaN for an empty list.
- * @example quantile([1, 2, 3, 4], 0.95) // → 3.85 (R: quantile(1:4, 0.95) = 3.85)
- */
-export function quantile(values: readonly number[], p: number): number {
-  if (values.length === 0) return NaN;
-  const sorted = [...values].sort((a, b) => a - b);
-  const h = (sorted.length - 1) * p;
-  const lo = Math.floor(h);
-  const hi = Math.min(lo + 1, sorted.length - 1);
-  return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
 }
 
 /**

@@ -14,7 +14,8 @@
 import { ASSAY } from '../defaults.js';
 import type { Flag, MetricDef, UnitResult } from '../results/types.js';
 import type { SourceRef, Study, TrackRow, VelocityRow } from '../study/types.js';
-import { assaySetting, mean, quantile, roundForPlot } from './assay-common.js';
+import { mean, quantile } from '../stats/descriptive.js';
+import { assaySetting, roundForPlot } from './assay-common.js';
 import { groupUnits, sourceRanges } from './common.js';
 import type { SettingsBag } from './assay-common.js';
 import { tracksToFilaments } from './motility-tracks.js';

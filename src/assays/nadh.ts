@@ -10,7 +10,8 @@
  */
 import type { Flag } from '../results/types.js';
 import type { AtpaseRateRow, NadhRow, SourceRef } from '../study/types.js';
-import { assaySetting, groupBy, straightLineFit, mean } from './assay-common.js';
+import { mean } from '../stats/descriptive.js';
+import { assaySetting, groupBy, straightLineFit } from './assay-common.js';
 import type { SettingsBag } from './assay-common.js';
 
 /** Minimum readings inside the window for a slope (a line through 2 points has no error estimate). */
