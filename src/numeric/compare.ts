@@ -34,7 +34,7 @@ export interface FTestResult {
  * Keeps the complex model when p < alpha and both fits converged.
  * @example
  * extraSumOfSquaresF({ rss: 10, df: 20, … }, { rss: 5, df: 18, … }, 0.05)
- * // → f = ((10 − 5)/2)/(5/18) = 9, df1 2, df2 18, p = 0.00190, keep 'complex'
+ * // → f = ((10 − 5)/2)/(5/18) = 9, df1 2, df2 18, p = 0.001953, keep 'complex'
  */
 export function extraSumOfSquaresF(simple: FitResult, complex: FitResult, alpha: number): FTestResult {
   const df1 = simple.df - complex.df;

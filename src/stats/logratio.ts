@@ -7,7 +7,7 @@
  * limits and proper use", arXiv:0710.2024. Valid only when a, b > 0; NaN otherwise.
  * @example
  * logRatioInterval({ numerator: 14, seNumerator: 3, denominator: 7, seDenominator: 2, df: Infinity, level: 0.95 })
- * // → ratio 2, seLog 0.357143, low 0.993180, high 4.027468
+ * // → ratio 2, seLog 0.357143, low 0.993183, high 4.027454
  */
 import { criticalValue, type RatioInput } from './fieller.js';
 
