@@ -179,13 +179,14 @@ function isPathogenic(c: ControlClass): boolean {
  * 2. No pathogenic or no benign control counted: no OddsPath (null), level 'none'.
  * 3. Pseudo-count: one pathogenic control that reads normal and one benign control that
  *    reads abnormal are added to the readout sets, so that no posterior is 0 or 1.
- *    Variant chosen: by default ALWAYS added, and P1 counts the added pair. The paper
- *    adds them where no misclassification is seen; adding them only when a cell is zero
- *    makes OddsPath non-monotone (9 of 10 pathogenic abnormal with 1 of 10 benign abnormal
- *    gives 9.0, better than the perfect 10 of 10 with the same benign set, 5.0 after the
- *    pseudo-count), so we add them always: a better assay never earns less, and the
- *    estimate is never more optimistic than the observed counts. With perfect separation
- *    both rules agree: OddsPath(PS3) = nP·(nB + 1)/(nP + 1), OddsPath(BS3) = (nB + 1)/(nB·(nP + 1)).
+ *    Variant chosen: by default ALWAYS added, and P1 counts the added pair. The paper's
+ *    stated aim (no posterior of 0 or 1) only bites when a cell is zero, but adding the pair
+ *    only then makes OddsPath non-monotone: 9 of 10 pathogenic abnormal with 1 of 10 benign
+ *    abnormal gives 9.0 as observed, more than the better assay with 10 of 10 pathogenic
+ *    abnormal and the same benign set, which gets the pair and 5.0. Added always, a better
+ *    assay never earns less, and the result is never more optimistic than the raw counts
+ *    (the PS3 OddsPath can only fall and the BS3 OddsPath only rise). With perfect separation
+ *    both readings agree: OddsPath(PS3) = nP·(nB + 1)/(nP + 1), OddsPath(BS3) = (nB + 1)/(nB·(nP + 1)).
  *    Option `pseudoCount: 'when-any-cell-zero'` gives the other reading.
  * 4. OddsPath of each readout and its Table 3 level. With a = pathogenic abnormal,
  *    b = pathogenic normal, c = benign abnormal, d = benign normal (after the pseudo-count),

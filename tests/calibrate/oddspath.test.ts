@@ -315,3 +315,27 @@ describe('evidenceLevelOfRatio: exact comparison on counts', () => {
     expect(cal.oddsPathNormal).toBeCloseTo(oddsPath(cal.p1!, cal.p2Normal!), 12);
   });
 });
+
+describe('calibrate: the default pseudo-count is cautious and monotone (follows from the formula; exhaustive over small tables)', () => {
+  it('PS3 OddsPath never above the raw counts, BS3 never below; moving a control to the right readout never lowers evidence', () => {
+    const op = (pa: number, pn: number, ba: number, bn: number) => calibrate('x', table(pa, pn, ba, bn));
+    for (let pa = 0; pa <= 5; pa++)
+      for (let pn = 0; pn <= 5; pn++)
+        for (let ba = 0; ba <= 5; ba++)
+          for (let bn = 0; bn <= 5; bn++) {
+            if (pa + pn === 0 || ba + bn === 0) continue;
+            const cal = op(pa, pn, ba, bn);
+            if (ba > 0) expect(cal.oddsPathAbnormal!).toBeLessThanOrEqual((pa * (ba + bn)) / (ba * (pa + pn)) + 1e-12);
+            if (bn > 0 && pn > 0 && cal.oddsPathNormal !== null)
+              expect(cal.oddsPathNormal).toBeGreaterThanOrEqual((pn * (ba + bn)) / (bn * (pa + pn)) - 1e-12);
+            if (pn > 0) {
+              const better = op(pa + 1, pn - 1, ba, bn);
+              expect(better.oddsPathAbnormal!).toBeGreaterThan(cal.oddsPathAbnormal!);
+            }
+            if (ba > 0) {
+              const better = op(pa, pn, ba - 1, bn + 1);
+              expect(better.oddsPathNormal!).toBeLessThan(cal.oddsPathNormal ?? Infinity);
+            }
+          }
+  });
+});
