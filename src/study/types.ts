@@ -17,6 +17,8 @@ export interface SourceRef {
   lineEnd?: number;
   /** Column name (CSV) when the message is about one cell. */
   column?: string;
+  /** 1-based column number (CSV) matching `column`, for `file:line:col` output. */
+  col?: number;
   /** JSON Pointer into the manifest, e.g. /variants/3/hgvs. */
   jsonPath?: string;
 }

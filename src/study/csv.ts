@@ -1,0 +1,140 @@
+/**
+ * CSV reading (RFC 4180 via papaparse) with file line numbers, and strict number cells.
+ *
+ * Rules:
+ * - UTF-8, with or without BOM; invalid UTF-8 is an error.
+ * - Lines starting with '#' are comments; empty and whitespace-only lines are skipped.
+ * - The delimiter is sniffed from the header line only: ';' when it has more semicolons
+ *   than commas outside quotes, else ','. It is then passed to papaparse explicitly.
+ * - Rows are reported with the 1-based file line where they start.
+ */
+import Papa from 'papaparse';
+import { MSG, issue } from './messages.js';
+import type { Issue } from './types.js';
+
+export interface CsvRow {
+  cells: string[];
+  /** 1-based file line where the row starts. */
+  line: number;
+}
+
+export interface CsvTable {
+  delimiter: ',' | ';';
+  header?: CsvRow;
+  rows: CsvRow[];
+  issues: Issue[];
+}
+
+/** Decode file bytes as UTF-8 (BOM removed); undefined when the bytes are not UTF-8. */
+export function decodeUtf8(data: Uint8Array | string): string | undefined {
+  let text: string;
+  if (typeof data === 'string') text = data;
+  else {
+    try {
+      text = new TextDecoder('utf-8', { fatal: true }).decode(data);
+    } catch {
+      return undefined;
+    }
+  }
+  return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+}
+
+/** Count ',' and ';' outside double quotes in the first non-comment, non-blank line. */
+export function sniffDelimiter(text: string): ',' | ';' {
+  for (const line of text.split(/\r\n|\n|\r/)) {
+    if (line.trim() === '' || line.startsWith('#')) continue;
+    let commas = 0;
+    let semis = 0;
+    let quoted = false;
+    for (const ch of line) {
+      if (ch === '"') quoted = !quoted;
+      else if (!quoted && ch === ',') commas++;
+      else if (!quoted && ch === ';') semis++;
+    }
+    return semis > commas ? ';' : ',';
+  }
+  return ',';
+}
+
+/** Offsets at which each line starts, for offset → line lookups. */
+function lineStarts(text: string): number[] {
+  const starts = [0];
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 10) starts.push(i + 1);
+    else if (c === 13 && text.charCodeAt(i + 1) !== 10) starts.push(i + 1);
+  }
+  return starts;
+}
+
+function lineAt(starts: number[], offset: number): number {
+  let lo = 0;
+  let hi = starts.length - 1;
+  while (lo < hi) {
+    const mid = (lo + hi + 1) >> 1;
+    if (starts[mid] <= offset) lo = mid;
+    else hi = mid - 1;
+  }
+  return lo + 1;
+}
+
+/** Parse decoded CSV text into a header and rows with line numbers. */
+export function parseCsv(input: string, file: string): CsvTable {
+  const text = input.charCodeAt(0) === 0xfeff ? input.slice(1) : input;
+  const delimiter = sniffDelimiter(text);
+  const starts = lineStarts(text);
+  const rows: CsvRow[] = [];
+  const issues: Issue[] = [];
+  Papa.parse<string[]>(text, {
+    delimiter,
+    header: false,
+    comments: '#',
+    skipEmptyLines: 'greedy',
+    step(result) {
+      const cells = result.data;
+      // cursor is the offset just after the row (past its line break).
+      const end = Math.max(0, Math.min(result.meta.cursor, text.length) - 1);
+      const endLine = lineAt(starts, end);
+      const inner = cells.reduce((n, c) => n + (c.match(/\r\n|\n|\r/g)?.length ?? 0), 0);
+      const line = Math.max(1, endLine - inner);
+      // One issue per broken row: papaparse often reports the same quote twice.
+      for (const err of result.errors.slice(0, 1)) {
+        const at = typeof err.index === 'number' ? lineAt(starts, err.index) : line;
+        issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at }));
+      }
+      rows.push({ cells, line });
+    },
+  });
+  const [header, ...data] = rows;
+  return { delimiter, header, rows: data, issues };
+}
+
+export type NumberParse =
+  | { ok: true; value: number }
+  | { ok: false; reason: 'not-a-number' | 'decimal-comma' | 'decimal-point' | 'not-an-integer' };
+
+const PLAIN_NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
+
+/**
+ * Strict number parsing of one cell (already trimmed).
+ * Accepted: optional sign, digits with one decimal separator, optional exponent
+ * ('12', '-0.5', '.5', '1e-3', '00123' = 123). Rejected: thousands separators, units,
+ * dates, 'NaN', 'Infinity', hex, empty text. With decimal ',' the separator must be ','
+ * and a '.' is rejected, so a mixed-up file cannot pass silently.
+ * @example parseNumberCell('1,5', ',') // { ok: true, value: 1.5 }
+ * @example parseNumberCell('1,5', '.') // { ok: false, reason: 'decimal-comma' }
+ */
+export function parseNumberCell(text: string, decimal: '.' | ',', integer = false): NumberParse {
+  let t = text;
+  if (decimal === ',') {
+    if (t.includes('.')) return { ok: false, reason: PLAIN_NUMBER.test(t) ? 'decimal-point' : 'not-a-number' };
+    t = t.replace(',', '.');
+  } else if (/^[+-]?\d*,\d+([eE][+-]?\d+)?$/.test(t)) {
+    return { ok: false, reason: 'decimal-comma' };
+  }
+  if (!PLAIN_NUMBER.test(t)) return { ok: false, reason: 'not-a-number' };
+  const value = Number(t);
+  if (!Number.isFinite(value)) return { ok: false, reason: 'not-a-number' };
+  if (integer && !Number.isInteger(value)) return { ok: false, reason: 'not-an-integer' };
+  return { ok: true, value };
+}

@@ -1,0 +1,141 @@
+/**
+ * loadStudy: manifest text + file contents → Study in canonical units, and every issue. Pure
+ * (no fs; SHA-256 via node:crypto, a pure computation).
+ *
+ *   manifest text ──readManifest──▶ genes, variants, file entries
+ *        │ per file: decode UTF-8 ─▶ parseCsv ─▶ readRows (header, units, cells, row schema)
+ *        ▼
+ *   cross checks (WT in every batch, unused variants, exclusions) ─▶ LoadOutcome
+ *
+ * All problems are collected in one pass; a study is returned only when no error was found.
+ */
+import { createHash } from 'node:crypto';
+import { checkExclusionsMatch, checkUnusedVariants, checkWildTypePerBatch } from './checks.js';
+import { decodeUtf8, parseCsv } from './csv.js';
+import { readManifest } from './manifest.js';
+import { MSG, issue } from './messages.js';
+import { readRows } from './rows.js';
+import { MANIFEST_NAME } from './schemas.js';
+import type { InputFile, InputKind, Issue, LoadOutcome, RowsByKind, Study } from './types.js';
+
+/** The contents of a study folder, read by the CLI (see read-folder.ts) or built in memory. */
+export interface StudyFiles {
+  /** Manifest file name for messages; default 'study.json'. */
+  manifestPath?: string;
+  manifest: string | Uint8Array;
+  /** Files by path relative to the study folder (forward slashes). */
+  files: ReadonlyMap<string, string | Uint8Array> | Readonly<Record<string, string | Uint8Array>>;
+  /** SHA-256 (hex) by path when the reader computed it; computed here otherwise. */
+  sha256?: ReadonlyMap<string, string>;
+  /** Problems the reader found (paths outside the folder, links, devices). */
+  readIssues?: Issue[];
+}
+
+/** SHA-256 of text (as UTF-8) or bytes, hex. */
+export function sha256Hex(data: string | Uint8Array): string {
+  return createHash('sha256').update(data).digest('hex');
+}
+
+/**
+ * Is a manifest path a plain relative path inside the study folder?
+ * Rejected: absolute paths, drive letters, backslashes, '..' and '.' segments, empty segments.
+ * @example isInsideFolder('data/rates.csv') // true
+ * @example isInsideFolder('../other/rates.csv') // false
+ */
+export function isInsideFolder(path: string): boolean {
+  if (path.startsWith('/') || /^[A-Za-z]:/.test(path) || path.includes('\\') || path.includes('\0')) return false;
+  return path.split('/').every((seg) => seg !== '' && seg !== '..' && seg !== '.');
+}
+
+function getFile(files: StudyFiles['files'], path: string): string | Uint8Array | undefined {
+  if (files instanceof Map) return files.get(path);
+  const rec = files as Readonly<Record<string, string | Uint8Array>>;
+  return Object.prototype.hasOwnProperty.call(rec, path) ? rec[path] : undefined;
+}
+
+/** Load and validate a study. Pure: see the module comment. */
+export function loadStudy(input: StudyFiles): LoadOutcome {
+  const manifestPath = input.manifestPath ?? MANIFEST_NAME;
+  const issues: Issue[] = [...(input.readIssues ?? [])];
+  const manifestText = decodeUtf8(input.manifest);
+  if (manifestText === undefined) {
+    issues.push(issue(MSG.encoding(), { file: manifestPath }));
+    return { issues };
+  }
+  const { manifest, issues: manifestIssues } = readManifest(manifestText, manifestPath);
+  issues.push(...manifestIssues);
+  if (!manifest) return { issues };
+
+  const rows: Partial<Record<InputKind, unknown[]>> = {};
+  const inputFiles: InputFile[] = [];
+  const labelsSeen = new Set<string>();
+  const batches = new Set<string>();
+  const units = new Set<string>();
+  const readerFlagged = new Set((input.readIssues ?? []).map((i) => i.at.file));
+
+  for (const spec of manifest.files) {
+    const path = spec.entry.path;
+    const jsonPath = `/files/${spec.index}/path`;
+    if (!isInsideFolder(path)) {
+      if (!readerFlagged.has(path)) issues.push(issue(MSG.pathOutside(path), { file: manifestPath, jsonPath }));
+      continue;
+    }
+    const data = getFile(input.files, path);
+    if (data === undefined) {
+      if (!readerFlagged.has(path)) issues.push(issue(MSG.fileNotFound(path), { file: manifestPath, jsonPath }));
+      continue;
+    }
+    const text = decodeUtf8(data);
+    if (text === undefined) {
+      issues.push(issue(MSG.encoding(), { file: path }));
+      continue;
+    }
+    const table = parseCsv(text, path);
+    issues.push(...table.issues);
+    const got = readRows(spec.entry.kind, table, spec, path, manifest.byLabel, issues);
+    (rows[spec.entry.kind] ??= []).push(...(got.rows as unknown[]));
+    got.labelsSeen.forEach((l) => labelsSeen.add(l));
+    got.batches.forEach((b) => batches.add(b));
+    got.units.forEach((u) => units.add(u));
+    const settings: Record<string, number | string | boolean> = { decimal: spec.decimal };
+    if (spec.pathLengthCm !== undefined) settings.pathLengthCm = spec.pathLengthCm;
+    if (spec.pixelSizeUm !== undefined) settings.pixelSizeUm = spec.pixelSizeUm;
+    if (spec.frameIntervalS !== undefined) settings.frameIntervalS = spec.frameIntervalS;
+    if (spec.crossSectionMm2 !== undefined) settings.crossSectionMm2 = spec.crossSectionMm2;
+    if (spec.missing.length) settings.missing = spec.missing.join(' ');
+    inputFiles.push({
+      kind: spec.entry.kind,
+      path,
+      sha256: input.sha256?.get(path) ?? sha256Hex(data),
+      rows: got.rowCount,
+      settings,
+    });
+  }
+
+  const typedRows = rows as Partial<RowsByKind>;
+  issues.push(...checkWildTypePerBatch(typedRows, manifest.variants));
+  issues.push(...checkUnusedVariants(manifest.variants, labelsSeen));
+  issues.push(...checkExclusionsMatch(manifest.exclusions, batches, units));
+
+  if (issues.some((i) => i.severity === 'error')) return { issues };
+  const json = manifest.json;
+  const study: Study = {
+    title: json.title,
+    lab: json.lab,
+    dates: json.dates,
+    synthetic: json.synthetic,
+    ...(json.description !== undefined ? { description: json.description } : {}),
+    genes: manifest.genes,
+    variants: manifest.variants,
+    direction: json.direction,
+    thresholds: json.thresholds ?? {},
+    exclusions: manifest.exclusions,
+    caveats: json.caveats ?? [],
+    settings: manifest.settings,
+    files: inputFiles,
+    rows: typedRows,
+    manifestRaw: manifest.raw,
+    manifestSha256: sha256Hex(input.manifest),
+  };
+  return { study, issues };
+}

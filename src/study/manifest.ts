@@ -1,0 +1,364 @@
+/**
+ * Manifest reading: JSON → schema validation → genes, variants (HGVS normalised),
+ * file entries (units resolved), thresholds, exclusions, settings. Pure.
+ */
+import type { ErrorObject } from 'ajv';
+import { ASSAY, BANDS } from '../defaults.js';
+import { checkReferenceResidue, isWildTypeText, parseProteinChange, variantId } from './hgvs.js';
+import { MSG, issue, type MessageText } from './messages.js';
+import { CATALOGUE, validators } from './schemas.js';
+import type {
+  ControlClass,
+  DiseaseDirection,
+  Exclusion,
+  Gene,
+  InputKind,
+  Issue,
+  ThresholdOverrides,
+  Variant,
+} from './types.js';
+import { conversionFactor, lookupUnit, unitChoices, UNITS, type Quantity } from './units.js';
+
+/** A value with a unit as written in the manifest. */
+export interface ManifestQuantity {
+  value: number;
+  unit: string;
+}
+
+/** One files[] entry as written in the manifest. */
+export interface ManifestFile {
+  path: string;
+  kind: InputKind;
+  units?: Record<string, string>;
+  decimal?: '.' | ',';
+  missing?: string[];
+  pathLength?: ManifestQuantity;
+  pixelSize?: ManifestQuantity;
+  frameInterval?: ManifestQuantity;
+  crossSection?: { unit: string; value?: number; byUnit?: Record<string, number> };
+}
+
+interface ManifestJson {
+  title: string;
+  lab: string;
+  dates: string[];
+  synthetic: boolean;
+  description?: string;
+  genes: { symbol: string; sequence?: string; domains?: { name: string; start: number; end: number }[] }[];
+  variants: { wt?: boolean; hgvs?: string; gene?: string; label?: string; control?: { class: ControlClass; source: string }; note?: string }[];
+  direction: DiseaseDirection;
+  files: ManifestFile[];
+  thresholds?: ThresholdOverrides;
+  exclusions?: Omit<Exclusion, 'at'>[];
+  caveats?: string[];
+  settings?: Record<string, number | string | boolean>;
+}
+
+/** A file entry with its settings converted to canonical units. */
+export interface FileSpec {
+  index: number;
+  entry: ManifestFile;
+  decimal: '.' | ',';
+  missing: string[];
+  /** Manifest units per column (validated). */
+  units: Record<string, string>;
+  pathLengthCm?: number;
+  pixelSizeUm?: number;
+  frameIntervalS?: number;
+  crossSectionMm2?: number;
+  crossSectionByUnitMm2?: Record<string, number>;
+}
+
+export interface ParsedManifest {
+  raw: unknown;
+  json: ManifestJson;
+  genes: Gene[];
+  variants: Variant[];
+  /** CSV label → variant. */
+  byLabel: Map<string, Variant>;
+  files: FileSpec[];
+  exclusions: Exclusion[];
+  settings: Record<string, number | string | boolean>;
+}
+
+/** Assay ids, read from the metric keys of BANDS (`<assay>.<metric>`). */
+export const ASSAY_IDS: readonly string[] = [...new Set(Object.keys(BANDS).map((k) => k.split('.')[0]))];
+
+/** Metrics compared on the ratio scale: every band whose key is not a difference metric. */
+const DIFFERENCE_METRICS = new Set(['motility.fractionImmobile', 'force.pCa50', 'turnover.slowFraction']);
+
+function describeType(t: unknown): string {
+  if (Array.isArray(t)) return t.join(' or ');
+  return t === 'integer' ? 'whole number' : String(t);
+}
+
+/** Map one ajv error of the manifest schema to a catalogue message; undefined to drop it. */
+function manifestMessage(err: ErrorObject): { text: MessageText; path: string } | undefined {
+  const path = err.instancePath;
+  switch (err.keyword) {
+    case 'if':
+      return undefined; // the failing then-branch reports the problem itself
+    case 'required': {
+      const prop = (err.params as { missingProperty: string }).missingProperty;
+      return { text: MSG.schemaRequired(prop), path: `${path}/${prop}` };
+    }
+    case 'additionalProperties': {
+      const prop = (err.params as { additionalProperty: string }).additionalProperty;
+      return { text: MSG.schemaUnknownField(prop), path: `${path}/${prop}` };
+    }
+    case 'false schema':
+      if (/^\/variants\/\d+\//.test(path)) return { text: MSG.schemaWtHasHgvs(), path };
+      return { text: MSG.schemaNotForKind(), path };
+    case 'type':
+      return { text: MSG.schemaType(describeType((err.params as { type: unknown }).type)), path };
+    case 'enum':
+      return { text: MSG.schemaEnum((err.params as { allowedValues: unknown[] }).allowedValues), path };
+    case 'const':
+      return { text: MSG.schemaEnum([(err.params as { allowedValue: unknown }).allowedValue]), path };
+    case 'format':
+      return { text: MSG.schemaFormat((err.params as { format: string }).format), path };
+    case 'minLength':
+      return { text: MSG.schemaRange('non-empty text'), path };
+    case 'minItems':
+      return { text: MSG.schemaRange(`a list of at least ${(err.params as { limit: number }).limit} item(s)`), path };
+    case 'maxItems':
+      return { text: MSG.schemaRange(`a list of at most ${(err.params as { limit: number }).limit} items`), path };
+    case 'minimum':
+    case 'maximum':
+    case 'exclusiveMinimum':
+    case 'exclusiveMaximum': {
+      const p = err.params as { comparison: string; limit: number };
+      return { text: MSG.schemaRange(`${p.comparison} ${p.limit}`), path };
+    }
+    case 'pattern':
+      return { text: MSG.schemaPattern(path.includes('sequence') ? 'one-letter amino-acid codes' : 'letters, digits, . _ -'), path };
+    default:
+      return { text: MSG.schemaOther(err.message ?? err.keyword), path };
+  }
+}
+
+function quantity(q: ManifestQuantity | undefined, kind: Quantity, path: string, file: string, issues: Issue[]): number | undefined {
+  if (!q) return undefined;
+  const factor = conversionFactor(kind, q.unit);
+  if (factor === undefined) {
+    issues.push(issue(MSG.unitUnknown(q.unit, UNITS[kind].label, unitChoices(kind)), { file, jsonPath: `${path}/unit` }));
+    return undefined;
+  }
+  return q.value * factor;
+}
+
+/**
+ * Parse and validate the manifest text. Returns the parsed manifest when it is usable
+ * (schema-valid); semantic problems are issues but still return what could be read.
+ */
+export function readManifest(text: string, file: string): { manifest?: ParsedManifest; issues: Issue[] } {
+  const issues: Issue[] = [];
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
+  } catch (err) {
+    const reason = err instanceof Error ? err.message : String(err);
+    return { issues: [issue(MSG.manifestNotJson(reason.replace(/\.$/, '')), { file })] };
+  }
+  const validate = validators().manifest;
+  if (!validate(raw)) {
+    for (const err of validate.errors ?? []) {
+      const m = manifestMessage(err);
+      if (m) issues.push(issue(m.text, { file, jsonPath: m.path || '/' }));
+    }
+    return { issues };
+  }
+  const json = raw as ManifestJson;
+  const at = (jsonPath: string) => ({ file, jsonPath });
+
+  // Genes and domains.
+  const genes: Gene[] = [];
+  const geneIndex = new Map<string, Gene>();
+  json.genes.forEach((g, gi) => {
+    if (geneIndex.has(g.symbol)) issues.push(issue(MSG.duplicateGene(g.symbol), at(`/genes/${gi}/symbol`)));
+    const sequence = g.sequence?.replace(/\s+/g, '').toUpperCase();
+    const gene: Gene = { symbol: g.symbol, ...(sequence ? { sequence } : {}), domains: [] };
+    (g.domains ?? []).forEach((d, di) => {
+      if (d.start > d.end) issues.push(issue(MSG.domainOrder(d.name), at(`/genes/${gi}/domains/${di}/end`)));
+      else if (sequence && d.end > sequence.length) issues.push(issue(MSG.domainBeyondSequence(d.name, sequence.length), at(`/genes/${gi}/domains/${di}/end`)));
+      gene.domains.push({ name: d.name, start: d.start, end: d.end });
+    });
+    genes.push(gene);
+    geneIndex.set(g.symbol, gene);
+  });
+  const symbols = genes.map((g) => g.symbol);
+
+  // Variants.
+  const variants: Variant[] = [];
+  const byLabel = new Map<string, Variant>();
+  const seenHgvs = new Set<string>();
+  const wtGenes = new Set<string>();
+  json.variants.forEach((v, vi) => {
+    const path = `/variants/${vi}`;
+    let geneSymbol = v.gene;
+    if (geneSymbol === undefined) {
+      if (genes.length > 1) {
+        issues.push(issue(MSG.geneRequired(symbols), at(`${path}/gene`)));
+        return;
+      }
+      geneSymbol = symbols[0];
+    } else if (!geneIndex.has(geneSymbol)) {
+      issues.push(issue(MSG.unknownGene(geneSymbol, symbols), at(`${path}/gene`)));
+      return;
+    }
+    const gene = geneIndex.get(geneSymbol)!;
+    let variant: Variant;
+    if (v.wt === true || (v.hgvs !== undefined && isWildTypeText(v.hgvs))) {
+      if (wtGenes.has(gene.symbol)) issues.push(issue(MSG.multipleWildType(gene.symbol), at(`${path}/wt`)));
+      wtGenes.add(gene.symbol);
+      variant = {
+        id: variantId(gene.symbol, 'wt'),
+        gene: gene.symbol,
+        isWT: true,
+        hgvs: 'WT',
+        short: 'WT',
+        label: v.label ?? 'WT',
+        at: at(path),
+      };
+    } else {
+      const parsed = parseProteinChange(v.hgvs!);
+      if (!parsed.ok) {
+        issues.push(issue(MSG.hgvsInvalid(v.hgvs!, parsed.reason), at(`${path}/hgvs`)));
+        return;
+      }
+      const c = parsed.change;
+      if (gene.sequence) {
+        const bad = checkReferenceResidue(c, gene.sequence);
+        if (bad?.beyondEnd) issues.push(issue(MSG.residueBeyondSequence(c.hgvs, gene.symbol, gene.sequence.length), at(`${path}/hgvs`)));
+        else if (bad) issues.push(issue(MSG.referenceMismatch(c.hgvs, gene.symbol, `${bad.found}${c.residue}`), at(`${path}/hgvs`)));
+      }
+      const key = `${gene.symbol}:${c.hgvs}`;
+      if (seenHgvs.has(key)) issues.push(issue(MSG.duplicateVariant(c.hgvs), at(`${path}/hgvs`)));
+      seenHgvs.add(key);
+      variant = {
+        id: variantId(gene.symbol, c.short),
+        gene: gene.symbol,
+        isWT: false,
+        hgvs: c.hgvs,
+        short: c.short,
+        label: v.label ?? c.short,
+        residue: c.residue,
+        refAA: c.refAA,
+        ...(c.altAA ? { altAA: c.altAA } : {}),
+        ...(v.control ? { control: { class: v.control.class, source: v.control.source } } : {}),
+        at: at(path),
+      };
+    }
+    if (v.note !== undefined) variant.note = v.note;
+    if (byLabel.has(variant.label)) {
+      issues.push(issue(MSG.duplicateLabel(variant.label), at(`${path}/label`)));
+      return;
+    }
+    byLabel.set(variant.label, variant);
+    variants.push(variant);
+  });
+  if (wtGenes.size === 0 && !issues.some((i) => i.at.jsonPath?.startsWith('/variants/'))) {
+    issues.push(issue(MSG.noWildType(), at('/variants')));
+  }
+
+  // Files.
+  const files: FileSpec[] = [];
+  const seenPaths = new Set<string>();
+  json.files.forEach((f, fi) => {
+    const path = `/files/${fi}`;
+    if (seenPaths.has(f.path)) issues.push(issue(MSG.duplicateFile(f.path), at(`${path}/path`)));
+    seenPaths.add(f.path);
+    const cat = CATALOGUE[f.kind];
+    const units: Record<string, string> = {};
+    for (const [column, unitText] of Object.entries(f.units ?? {})) {
+      const def = cat.columns.find((c) => c.name.toLowerCase() === column.toLowerCase());
+      if (!def?.quantity) {
+        issues.push(issue(MSG.unitsUnknownColumn(column, f.kind), at(`${path}/units/${column}`)));
+        continue;
+      }
+      const ok = lookupUnit(def.quantity, unitText) || (def.pixels && unitText.trim() === 'px');
+      if (!ok) {
+        const choices = [...unitChoices(def.quantity), ...(def.pixels ? ['px'] : [])];
+        issues.push(issue(MSG.unitUnknown(unitText, UNITS[def.quantity].label, choices), at(`${path}/units/${column}`)));
+        continue;
+      }
+      units[def.name] = unitText;
+    }
+    const spec: FileSpec = {
+      index: fi,
+      entry: f,
+      decimal: f.decimal ?? '.',
+      missing: f.missing ?? [],
+      units,
+      pathLengthCm: quantity(f.pathLength, 'path', `${path}/pathLength`, file, issues),
+      pixelSizeUm: quantity(f.pixelSize, 'length', `${path}/pixelSize`, file, issues),
+      frameIntervalS: quantity(f.frameInterval, 'time', `${path}/frameInterval`, file, issues),
+    };
+    if (f.crossSection) {
+      const factor = conversionFactor('area', f.crossSection.unit);
+      if (factor === undefined) {
+        issues.push(issue(MSG.unitUnknown(f.crossSection.unit, UNITS.area.label, unitChoices('area')), at(`${path}/crossSection/unit`)));
+      } else {
+        if (f.crossSection.value !== undefined) spec.crossSectionMm2 = f.crossSection.value * factor;
+        if (f.crossSection.byUnit) {
+          spec.crossSectionByUnitMm2 = Object.fromEntries(Object.entries(f.crossSection.byUnit).map(([u, a]) => [u, a * factor]));
+        }
+      }
+    }
+    files.push(spec);
+  });
+
+  // Thresholds.
+  const bandKeys = Object.keys(BANDS);
+  for (const [key, band] of Object.entries(json.thresholds?.bands ?? {})) {
+    const p = `/thresholds/bands/${key}`;
+    if (!bandKeys.includes(key)) issues.push(issue(MSG.unknownBand(key, bandKeys), at(p)));
+    else if (band[0] >= band[1]) issues.push(issue(MSG.bandOrder(key), at(p)));
+    else if (!DIFFERENCE_METRICS.has(key) && band[0] <= 0) issues.push(issue(MSG.ratioBandSign(key), at(p)));
+  }
+
+  // Exclusions (data matches are checked after the rows are read).
+  const exclusions: Exclusion[] = [];
+  (json.exclusions ?? []).forEach((x, xi) => {
+    const p = `/exclusions/${xi}`;
+    if (x.assay !== undefined && !ASSAY_IDS.includes(x.assay)) issues.push(issue(MSG.unknownAssay(x.assay, ASSAY_IDS), at(`${p}/assay`)));
+    let variant = x.variant;
+    if (variant !== undefined) {
+      const v = byLabel.get(variant);
+      if (!v) issues.push(issue(MSG.exclusionUnknownVariant(variant), at(`${p}/variant`)));
+      else variant = v.id;
+    }
+    exclusions.push({
+      kind: x.kind,
+      ...(x.assay !== undefined ? { assay: x.assay } : {}),
+      ...(x.batch !== undefined ? { batch: x.batch } : {}),
+      ...(x.unit !== undefined ? { unit: x.unit } : {}),
+      ...(variant !== undefined ? { variant } : {}),
+      reason: x.reason,
+      at: at(p),
+    });
+  });
+
+  // Settings: names and types from ASSAY in src/defaults.ts.
+  const known = Object.keys(ASSAY);
+  const settings: Record<string, number | string | boolean> = {};
+  for (const [name, value] of Object.entries(json.settings ?? {})) {
+    const p = `/settings/${name}`;
+    if (!known.includes(name)) {
+      issues.push(issue(MSG.unknownSetting(name, known), at(p)));
+      continue;
+    }
+    const expected = typeof ASSAY[name as keyof typeof ASSAY];
+    if (typeof value !== expected) {
+      issues.push(issue(MSG.settingType(name, expected), at(p)));
+      continue;
+    }
+    if (typeof value === 'number' && !(value > 0)) {
+      issues.push(issue(MSG.settingRange(name), at(p)));
+      continue;
+    }
+    settings[name] = value;
+  }
+
+  return { manifest: { raw, json, genes, variants, byLabel, files, exclusions, settings }, issues };
+}

@@ -1,0 +1,144 @@
+/**
+ * The JSON Schemas of the study folder and the column catalogue read from them.
+ * The row schemas are the one source of truth for CSV columns: names, types, units
+ * (x-quantity), required columns, alternatives, duplicate keys and plausibility limits.
+ */
+import { Ajv2020 } from 'ajv/dist/2020.js';
+import type { ValidateFunction } from 'ajv';
+import addFormatsMod from 'ajv-formats';
+import manifestSchema from '../../schemas/manifest.schema.json' with { type: 'json' };
+import atpaseRates from '../../schemas/rows/atpase-rates.schema.json' with { type: 'json' };
+import atpaseNadh from '../../schemas/rows/atpase-nadh.schema.json' with { type: 'json' };
+import motilityVelocities from '../../schemas/rows/motility-velocities.schema.json' with { type: 'json' };
+import motilityTracks from '../../schemas/rows/motility-tracks.schema.json' with { type: 'json' };
+import forcePca from '../../schemas/rows/force-pca.schema.json' with { type: 'json' };
+import turnover from '../../schemas/rows/turnover.schema.json' with { type: 'json' };
+import type { InputKind } from './types.js';
+import type { Quantity } from './units.js';
+
+export const INPUT_KINDS: readonly InputKind[] = [
+  'atpase-rates',
+  'atpase-nadh',
+  'motility-velocities',
+  'motility-tracks',
+  'force-pca',
+  'turnover',
+];
+
+/** The manifest file name in a study folder. */
+export const MANIFEST_NAME = 'study.json';
+
+export const ROW_SCHEMAS: Record<InputKind, Record<string, unknown>> = {
+  'atpase-rates': atpaseRates,
+  'atpase-nadh': atpaseNadh,
+  'motility-velocities': motilityVelocities,
+  'motility-tracks': motilityTracks,
+  'force-pca': forcePca,
+  turnover,
+};
+
+export const MANIFEST_SCHEMA: Record<string, unknown> = manifestSchema;
+
+/** One CSV column as the row schema declares it. */
+export interface ColumnDef {
+  name: string;
+  type: 'string' | 'number' | 'integer';
+  description: string;
+  required: boolean;
+  /** Physical quantity when the column carries a unit; absent for unitless columns. */
+  quantity?: Quantity;
+  /** Positions may also be in px (needs the file's pixelSize). */
+  pixels: boolean;
+  /** Field of the typed row (src/study/types.ts) the column fills. */
+  field: string;
+  enum?: string[];
+  minimum?: number;
+  exclusiveMinimum?: number;
+  maximum?: number;
+  /** Plausible range in canonical units; values outside are warnings. */
+  plausible?: { min?: number; max?: number; reason: string };
+}
+
+export interface KindCatalogue {
+  kind: InputKind;
+  title: string;
+  description: string;
+  columns: ColumnDef[];
+  /** Groups of columns of which at least one must be present. */
+  alternatives: string[][];
+  /** Columns that identify one observation (duplicates are errors). */
+  rowKey: string[];
+}
+
+interface RawProp {
+  type: 'string' | 'number' | 'integer';
+  description: string;
+  enum?: string[];
+  minimum?: number;
+  exclusiveMinimum?: number;
+  maximum?: number;
+  'x-quantity'?: Quantity;
+  'x-pixels'?: boolean;
+  'x-field': string;
+  'x-plausible'?: { min?: number; max?: number; reason: string };
+}
+
+function catalogue(kind: InputKind): KindCatalogue {
+  const schema = ROW_SCHEMAS[kind] as {
+    title: string;
+    description: string;
+    properties: Record<string, RawProp>;
+    required: string[];
+    'x-alternatives'?: string[][];
+    'x-rowKey': string[];
+  };
+  const columns = Object.entries(schema.properties).map(([name, p]): ColumnDef => ({
+    name,
+    type: p.type,
+    description: p.description,
+    required: schema.required.includes(name),
+    quantity: p['x-quantity'],
+    pixels: p['x-pixels'] === true,
+    field: p['x-field'],
+    enum: p.enum,
+    minimum: p.minimum,
+    exclusiveMinimum: p.exclusiveMinimum,
+    maximum: p.maximum,
+    plausible: p['x-plausible'],
+  }));
+  return {
+    kind,
+    title: schema.title,
+    description: schema.description,
+    columns,
+    alternatives: schema['x-alternatives'] ?? [],
+    rowKey: schema['x-rowKey'],
+  };
+}
+
+export const CATALOGUE: Record<InputKind, KindCatalogue> = Object.fromEntries(
+  INPUT_KINDS.map((k) => [k, catalogue(k)]),
+) as Record<InputKind, KindCatalogue>;
+
+function makeAjv(): Ajv2020 {
+  const ajv = new Ajv2020({ allErrors: true, strict: true, strictTuples: false, strictRequired: false, allowUnionTypes: true });
+  for (const word of ['x-kind', 'x-quantity', 'x-pixels', 'x-field', 'x-plausible', 'x-rowKey', 'x-alternatives']) {
+    ajv.addKeyword(word);
+  }
+  addFormatsMod.default(ajv);
+  return ajv;
+}
+
+let compiled: { manifest: ValidateFunction; rows: Record<InputKind, ValidateFunction> } | undefined;
+
+/** Compiled validators (compiled once per process). */
+export function validators(): { manifest: ValidateFunction; rows: Record<InputKind, ValidateFunction> } {
+  if (!compiled) {
+    const ajv = makeAjv();
+    compiled = {
+      manifest: ajv.compile(MANIFEST_SCHEMA),
+      rows: Object.fromEntries(INPUT_KINDS.map((k) => [k, ajv.compile(ROW_SCHEMAS[k])])) as Record<InputKind, ValidateFunction>,
+    };
+  }
+  return compiled;
+}
