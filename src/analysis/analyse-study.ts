@@ -99,7 +99,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
         const effects = comparisons
           .filter((c) => c.assay === m.id && c.metric === def.id && benign.has(c.variant) && c.effect !== null)
           .map((c) => c.effect as number);
-        const derived = bandFromBenignControls(effects, def.scale);
+        const derived = bandFromBenignControls(effects, def.scale, { atLeast: BANDS[key] });
         if (derived.band) {
           bands[key] = derived.band;
           bandSource[key] = derived.rule;
