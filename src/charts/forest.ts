@@ -1,0 +1,99 @@
+/**
+ * Forest plot of one variant's normalised metrics: effect and 95% CI of every metric against
+ * its WT-like band. Ratio metrics (variant/WT) share a log axis with a reference line at 1;
+ * difference metrics (variant − WT) get their own linear panel with a reference line at 0.
+ */
+import type { MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
+import { type ChartDef, fmt, fmtCi, fmtP, metricLabel } from './chart-def.js';
+import { BAND_FILL, CI_COLOUR, METRIC_CALL_STYLE, REFERENCE, callScale } from './palette.js';
+
+interface Row {
+  row: string;
+  effect: number;
+  lo: number | null;
+  hi: number | null;
+  bandLo: number;
+  bandHi: number;
+  call: string;
+}
+
+function panel(rows: Row[], scale: MetricScale, calls: string[]) {
+  const log = scale === 'ratio';
+  const xScale = log ? { type: 'log', nice: false } : { zero: false, nice: true };
+  const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 260 } };
+  const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
+  const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, title: xTitle });
+  return {
+    width: 380,
+    height: Math.max(40, rows.length * 30),
+    data: { values: rows },
+    layer: [
+      { mark: { type: 'rect', color: BAND_FILL }, encoding: { y, x: x('bandLo'), x2: { field: 'bandHi' } } },
+      {
+        data: { values: [{ ref: log ? 1 : 0 }] },
+        mark: { type: 'rule', color: REFERENCE, strokeDash: [4, 3] },
+        encoding: { x: x('ref') },
+      },
+      {
+        data: { values: rows.filter((r) => r.lo !== null && r.hi !== null) },
+        mark: { type: 'rule', color: CI_COLOUR, strokeWidth: 2 },
+        encoding: { y, x: x('lo'), x2: { field: 'hi' } },
+      },
+      {
+        mark: { type: 'point', filled: true, size: 110, opacity: 1, stroke: '#ffffff', strokeWidth: 0.8 },
+        encoding: {
+          y,
+          x: x('effect'),
+          color: { field: 'call', type: 'nominal', title: 'Metric call', scale: callScale(METRIC_CALL_STYLE, calls as never, 'colour') },
+          shape: { field: 'call', type: 'nominal', title: 'Metric call', scale: callScale(METRIC_CALL_STYLE, calls as never, 'shape') },
+        },
+      },
+    ],
+  };
+}
+
+/** Forest plot of one variant, or null when it has no estimable comparison. */
+export function forestChart(results: StudyResults, variant: VariantResult, name: string): ChartDef | null {
+  const comps = results.comparisons.filter((c) => c.variant === variant.id);
+  const estimable = comps.filter((c): c is MetricComparison & { effect: number } => c.effect !== null && Number.isFinite(c.effect));
+  if (estimable.length === 0) return null;
+  const toRow = (c: MetricComparison & { effect: number }): Row => ({
+    row: metricLabel(results, c.assay, c.metric),
+    effect: c.effect,
+    lo: c.ciLow,
+    hi: c.ciHigh,
+    bandLo: c.band[0],
+    bandHi: c.band[1],
+    call: c.call,
+  });
+  const ratio = estimable.filter((c) => c.scale === 'ratio').map(toRow);
+  const diff = estimable.filter((c) => c.scale === 'difference').map(toRow);
+  const calls = [...new Set(estimable.map((c) => c.call))];
+  const panels = [...(ratio.length ? [panel(ratio, 'ratio', calls)] : []), ...(diff.length ? [panel(diff, 'difference', calls)] : [])];
+  const title = `Normalised metrics of ${name} against paired WT`;
+  const spec = {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    title,
+    vconcat: panels,
+    spacing: 18,
+    resolve: { scale: { color: 'shared', shape: 'shared' }, legend: { color: 'shared', shape: 'shared' } },
+  };
+  const parts = estimable.map((c) => `${metricLabel(results, c.assay, c.metric)} ${fmt(c.effect)} (95% CI ${fmtCi(c.ciLow, c.ciHigh)}), ${c.call}`);
+  const description =
+    `Forest plot: each metric of ${name} as ${ratio.length ? 'a ratio to WT on a log axis' : ''}` +
+    `${ratio.length && diff.length ? ' or ' : ''}${diff.length ? 'a difference from WT on a linear axis' : ''}, ` +
+    `with its 95% confidence interval; shaded areas are the WT-like bands. ${parts.join('; ')}.`;
+  const table = {
+    columns: ['Metric', 'Scale', 'Effect', '95% CI', 'WT-like band', 'q', 'Call'],
+    rows: comps.map((c) => [
+      metricLabel(results, c.assay, c.metric),
+      c.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',
+      fmt(c.effect),
+      fmtCi(c.ciLow, c.ciHigh),
+      `${fmt(c.band[0])}–${fmt(c.band[1])}`,
+      fmtP(c.q),
+      c.call,
+    ]),
+  };
+  return { key: `forest:${variant.id}`, title, description, spec, table };
+}

@@ -1,0 +1,107 @@
+/**
+ * Vega-Lite spec → standalone, accessible, deterministic SVG string, in Node.
+ *
+ *   spec ──vega-lite compile──▶ vega spec ──parse──▶ View(renderer 'none') ──toSVG──▶ raw SVG
+ *        ──renumber ids with a per-chart prefix──▶ add role/title/desc ──▶ SVG
+ *
+ * Vega numbers clip paths from a process-global counter (`clip1`, `clip2`, …), so the raw SVG
+ * differs between runs and two charts from different processes can collide on one page.
+ * Every id is renamed `<prefix>-<n>` in order of appearance, where the prefix is derived from
+ * the chart key: the same chart always gives the same bytes.
+ */
+import { createHash } from 'node:crypto';
+import { compile } from 'vega-lite';
+import * as vega from 'vega';
+import type { ChartSpec } from '../assays/types.js';
+
+/** Font stack present on build machines (DejaVu) and common in browsers. */
+export const CHART_FONT = 'DejaVu Sans, Verdana, sans-serif';
+
+export interface RenderOptions {
+  /** Stable chart key (e.g. 'forest:var-1'); defaults to chartKey(spec). */
+  key?: string;
+  /** Accessible title; defaults to the spec's title text. */
+  title?: string;
+  /** Text description; defaults to the spec's description. */
+  description?: string;
+}
+
+/** Canonical JSON: object keys sorted, so equal specs give equal strings. */
+function canonical(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`;
+  if (value && typeof value === 'object') {
+    const entries = Object.entries(value as Record<string, unknown>)
+      .filter(([, v]) => v !== undefined)
+      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonical(v)}`).join(',')}}`;
+  }
+  return JSON.stringify(value) ?? 'null';
+}
+
+/**
+ * Content key of a spec: SHA-256 of its canonical JSON (first 16 hex digits).
+ * This is the seam for a render cache keyed by content. Example: chartKey({}) → '44136fa355b3678a'.
+ */
+export function chartKey(spec: ChartSpec): string {
+  return createHash('sha256').update(canonical(spec)).digest('hex').slice(0, 16);
+}
+
+function escapeXml(text: string): string {
+  return text.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+}
+
+/** Id prefix for a key: letters only at the start, safe in XML ids and CSS selectors. */
+function idPrefix(key: string): string {
+  return `c${createHash('sha256').update(key).digest('hex').slice(0, 10)}`;
+}
+
+/** Rename every id (and its url(#…)/href="#…" references) to `<prefix>-<n>` in order of appearance. */
+export function renumberIds(svg: string, prefix: string): string {
+  const ids: string[] = [];
+  for (const m of svg.matchAll(/\sid="([^"]+)"/g)) if (!ids.includes(m[1])) ids.push(m[1]);
+  if (ids.length === 0) return svg;
+  const map = new Map(ids.map((id, i) => [id, `${prefix}-${i + 1}`]));
+  const alternation = ids.map((id) => id.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')).join('|');
+  const re = new RegExp(`(\\sid="|url\\(#|href="#)(${alternation})(?=[")])`, 'g');
+  return svg.replace(re, (_m, lead: string, id: string) => `${lead}${map.get(id)}`);
+}
+
+function specText(value: unknown): string | undefined {
+  if (typeof value === 'string') return value;
+  if (Array.isArray(value)) return value.join(' ');
+  if (value && typeof value === 'object' && 'text' in value) return specText((value as { text: unknown }).text);
+  return undefined;
+}
+
+/** Add the chart font to the spec's config without overriding what the spec sets. */
+function withFont(spec: ChartSpec): ChartSpec {
+  const config = (spec.config as Record<string, unknown> | undefined) ?? {};
+  // aria: false drops vega's per-mark ARIA; the root <svg role="img"> carries title and description.
+  return { ...spec, config: { font: CHART_FONT, aria: false, ...config } };
+}
+
+/** Render a Vega-Lite spec to an SVG string with role="img", <title> and <desc>, and stable ids. */
+export async function renderSvg(spec: ChartSpec, options: RenderOptions = {}): Promise<string> {
+  const key = options.key ?? chartKey(spec);
+  const title = options.title ?? specText(spec.title) ?? 'Chart';
+  const description = options.description ?? specText(spec.description) ?? title;
+  const compiled = compile(withFont(spec) as never).spec;
+  const view = new vega.View(vega.parse(compiled), { renderer: 'none' });
+  let raw: string;
+  try {
+    raw = await view.toSVG();
+  } finally {
+    view.finalize();
+  }
+  const prefix = idPrefix(key);
+  let svg = renumberIds(raw, prefix);
+  const titleId = `${prefix}-title`;
+  const descId = `${prefix}-desc`;
+  svg = svg.replace(
+    /^<svg\b([^>]*)>/,
+    (_m, attrs: string) =>
+      `<svg${attrs} role="img" aria-labelledby="${titleId} ${descId}" focusable="false">` +
+      `<title id="${titleId}">${escapeXml(title)}</title><desc id="${descId}">${escapeXml(description)}</desc>`,
+  );
+  return svg;
+}

@@ -1,0 +1,109 @@
+/** Shapes of the data handed to the templates, and small helpers shared by the page builders. */
+import type { ChartDef, DataTable } from '../charts/chart-def.js';
+import { FUNCTION_CALL_STYLE, METRIC_CALL_STYLE } from '../charts/palette.js';
+import { renderSvg } from '../charts/render.js';
+import type { Calibration, Flag, FunctionCall, MetricCall } from '../results/types.js';
+import type { SourceRef } from '../study/types.js';
+import { slug } from './paths.js';
+
+export interface ChartBlock {
+  /** HTML id of the figure. */
+  id: string;
+  title: string;
+  description: string;
+  svg: string;
+  table: DataTable;
+}
+
+export interface CallView {
+  call: string;
+  glyph: string;
+  /** CSS class, e.g. 'call-hypercontractile'. */
+  cls: string;
+}
+
+export function functionCall(call: FunctionCall): CallView {
+  return { call, glyph: FUNCTION_CALL_STYLE[call]?.glyph ?? '?', cls: `call-${slug(call)}` };
+}
+
+export function metricCall(call: MetricCall): CallView {
+  return { call, glyph: METRIC_CALL_STYLE[call]?.glyph ?? '?', cls: `call-${slug(call)}` };
+}
+
+/** Render chart definitions to blocks, in order (deterministic). */
+export async function renderBlocks(defs: Array<ChartDef | null>): Promise<ChartBlock[]> {
+  const out: ChartBlock[] = [];
+  for (const d of defs) {
+    if (!d) continue;
+    const svg = await renderSvg(d.spec, { key: d.key, title: d.title, description: d.description });
+    out.push({ id: `chart-${slug(d.key)}`, title: d.title, description: d.description, svg, table: d.table });
+  }
+  return out;
+}
+
+/** 'file.csv line 12' / 'manifest.json /variants/3' style location text. */
+export function where(at: SourceRef | undefined): string {
+  if (!at) return '';
+  const parts = [at.file];
+  if (at.line !== undefined) parts.push(`line ${at.line}`);
+  if (at.column) parts.push(`column ${at.column}`);
+  if (at.jsonPath) parts.push(at.jsonPath);
+  return parts.join(', ');
+}
+
+export interface FlagView {
+  severity: string;
+  code: string;
+  message: string;
+  where: string;
+  context: string;
+}
+
+export function flagView(f: Flag, context: string): FlagView {
+  return { severity: f.severity, code: f.code, message: f.message, where: where(f.at), context };
+}
+
+/**
+ * Compress sorted line numbers into ranges. Example: lineRanges([2, 3, 4, 9]) → '2–4, 9'.
+ */
+export function lineRanges(lines: number[]): string {
+  const s = [...new Set(lines)].sort((a, b) => a - b);
+  const parts: string[] = [];
+  for (let i = 0; i < s.length; ) {
+    let j = i;
+    while (j + 1 < s.length && s[j + 1] === s[j] + 1) j++;
+    parts.push(i === j ? `${s[i]}` : `${s[i]}–${s[j]}`);
+    i = j + 1;
+  }
+  return parts.join(', ');
+}
+
+/** Published OddsPath thresholds (Brnich et al. 2020, Genome Med 12:3, Table 3; strict inequalities). */
+export const ODDSPATH_THRESHOLDS = [
+  { level: 'PS3 very strong', rule: 'OddsPath > 350' },
+  { level: 'PS3 strong', rule: 'OddsPath > 18.7' },
+  { level: 'PS3 moderate', rule: 'OddsPath > 4.3' },
+  { level: 'PS3 supporting', rule: 'OddsPath > 2.1' },
+  { level: 'no evidence', rule: '0.48 ≤ OddsPath ≤ 2.1' },
+  { level: 'BS3 supporting', rule: 'OddsPath < 0.48' },
+  { level: 'BS3 moderate', rule: 'OddsPath < 0.23' },
+  { level: 'BS3 strong', rule: 'OddsPath < 0.053' },
+];
+
+export interface CalibrationView {
+  scope: string;
+  c: Calibration['counts'];
+  total: number;
+  oddsPathAbnormal: string;
+  oddsPathNormal: string;
+  levelAbnormal: string;
+  levelNormal: string;
+  notes: string[];
+}
+
+/** Our own words for the caveats every report carries. */
+export const STANDARD_CAVEATS = [
+  'These are research measurements, not a clinical test, and they are not validated for diagnostic use.',
+  'A functional assay result is one line of evidence about a variant; on its own it does not make a variant pathogenic or benign.',
+  'Classifying a variant is the work of a qualified clinical laboratory applying its local rules; this report only suggests the strongest functional evidence level the calibration supports.',
+];

@@ -1,0 +1,194 @@
+/** Data for the index table and the per-variant reports. */
+import { type ChartsFor, specTable } from '../charts/assay-charts.js';
+import { fmt, fmtCi, fmtP, variantNames } from '../charts/chart-def.js';
+import { forestChart } from '../charts/forest.js';
+import type { StudyResults, VariantResult } from '../results/types.js';
+import { type CalibrationView, type CallView, type ChartBlock, type FlagView, flagView, functionCall, lineRanges, metricCall, renderBlocks } from './view-common.js';
+import { fmtCalibration } from './view-study.js';
+import { PATHS } from './paths.js';
+
+export interface IndexRow {
+  id: string;
+  name: string;
+  href: string;
+  gene: string;
+  hgvs: string;
+  residue: string;
+  domain: string;
+  isWT: boolean;
+  control: string;
+  assayCalls: Array<CallView & { assay: string }>;
+  overall: CallView;
+  evidence: string;
+  flags: string[];
+  /** Lower-case text the search box matches. */
+  search: string;
+}
+
+export interface MetricRow {
+  metric: string;
+  unit: string;
+  scale: string;
+  effect: string;
+  ci: string;
+  q: string;
+  n: string;
+  batches: string;
+  call: CallView;
+  sentence: string;
+  flags: string;
+}
+
+export interface VariantPage {
+  path: string;
+  root: string;
+  /** Page title (HTML <title>). */
+  title: string;
+  v: VariantResult;
+  name: string;
+  overall: CallView;
+  control: string;
+  assays: Array<{ id: string; label: string; href: string; call: CallView; sentence: string; metrics: MetricRow[]; charts: ChartBlock[]; units: Array<{ unit: string; batch: string; values: string; n: number; excluded: string; flags: string }> }>;
+  forest: ChartBlock | null;
+  flags: FlagView[];
+  exclusions: StudyResults['exclusions'];
+  sources: Array<{ file: string; lines: string }>;
+  evidence: { level: string; scope: string; sentence: string; calibration: CalibrationView | null };
+  prev: { name: string; href: string } | null;
+  next: { name: string; href: string } | null;
+}
+
+export function indexRows(results: StudyResults, slugs: Map<string, string>): IndexRow[] {
+  const names = variantNames(results);
+  return results.variants.map((v) => {
+    const flags = [...new Set(variantFlagCodes(results, v))].sort();
+    const assayCalls = results.assays.map((a) => {
+      const c = v.assayCalls.find((x) => x.assay === a.id);
+      return { assay: a.id, ...functionCall(c?.call ?? 'not measured') };
+    });
+    const control = v.control ? `${v.control.class} control` : '';
+    const name = names.get(v.id) ?? v.short;
+    return {
+      id: v.id,
+      name,
+      href: PATHS.variant(slugs.get(v.id) as string),
+      gene: v.gene,
+      hgvs: v.hgvs,
+      residue: v.residue === undefined ? '' : String(v.residue),
+      domain: v.domain ?? '',
+      isWT: v.isWT,
+      control: v.isWT ? 'reference' : control,
+      assayCalls,
+      overall: functionCall(v.overall.call),
+      evidence: v.evidence.level,
+      flags,
+      search: [name, v.gene, v.hgvs, v.short, v.label, v.domain ?? '', control, v.note ?? ''].join(' ').toLowerCase(),
+    };
+  });
+}
+
+function variantFlagCodes(results: StudyResults, v: VariantResult): string[] {
+  return [
+    ...v.flags.map((f) => f.code),
+    ...results.comparisons.filter((c) => c.variant === v.id).flatMap((c) => c.flags.map((f) => f.code)),
+    ...results.units.filter((u) => u.variant === v.id).flatMap((u) => u.flags.map((f) => f.code)),
+  ];
+}
+
+const unitsLabel = (results: StudyResults, assay: string, metric: string) =>
+  results.assays.find((a) => a.id === assay)?.metrics.find((m) => m.id === metric);
+
+/** Build every variant page (rendering its forest plot and assay charts). */
+export async function variantPages(results: StudyResults, slugs: Map<string, string>, chartsFor?: ChartsFor): Promise<VariantPage[]> {
+  const names = variantNames(results);
+  const pages: VariantPage[] = [];
+  const assaySlugs = new Map(results.assays.map((a) => [a.id, a.id]));
+  for (const v of results.variants) {
+    const name = names.get(v.id) ?? v.short;
+    const extra = chartsFor ? await chartsFor(v.id) : [];
+    const assays = [];
+    for (const a of results.assays) {
+      const comps = results.comparisons.filter((c) => c.variant === v.id && c.assay === a.id);
+      const units = results.units.filter((u) => u.variant === v.id && u.assay === a.id);
+      const call = v.assayCalls.find((c) => c.assay === a.id);
+      if (comps.length === 0 && units.length === 0 && !call) continue;
+      const charts = await renderBlocks(
+        extra
+          .filter((c) => c.assay === a.id)
+          .map((c, i) => ({ key: `assay:${v.id}:${a.id}:${i}`, title: c.title, description: c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`, spec: c.spec, table: specTable(c.spec) })),
+      );
+      assays.push({
+        id: a.id,
+        label: a.label,
+        href: PATHS.assay(assaySlugs.get(a.id) as string),
+        call: functionCall(call?.call ?? 'not measured'),
+        sentence: call?.sentence ?? '',
+        metrics: comps.map((c) => {
+          const def = unitsLabel(results, c.assay, c.metric);
+          return {
+            metric: def?.label ?? c.metric,
+            unit: def?.unit ?? '',
+            scale: c.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',
+            effect: fmt(c.effect),
+            ci: fmtCi(c.ciLow, c.ciHigh),
+            q: fmtP(c.q),
+            n: `${c.nVariantUnits} / ${c.nWtUnits}`,
+            batches: c.batches.join(', '),
+            call: metricCall(c.call),
+            sentence: c.sentence,
+            flags: c.flags.map((f) => f.code).join(', '),
+          };
+        }),
+        charts,
+        units: units.map((u) => ({
+          unit: u.unit,
+          batch: u.batch,
+          values: Object.entries(u.metrics).map(([k, x]) => `${unitsLabel(results, a.id, k)?.label ?? k} ${fmt(x)}`).join('; '),
+          n: u.nTechnical,
+          excluded: u.excluded ?? '',
+          flags: u.flags.map((f) => f.code).join(', '),
+        })),
+      });
+    }
+    const flags: FlagView[] = [
+      ...v.flags.map((f) => flagView(f, 'variant')),
+      ...results.comparisons.filter((c) => c.variant === v.id).flatMap((c) => c.flags.map((f) => flagView(f, `${c.assay} ${c.metric}`))),
+      ...results.units.filter((u) => u.variant === v.id).flatMap((u) => u.flags.map((f) => flagView(f, `${u.assay} unit ${u.unit}`))),
+    ];
+    const myUnits = results.units.filter((u) => u.variant === v.id);
+    const myBatches = new Set(myUnits.map((u) => `${u.assay}|${u.batch}`));
+    const exclusions = results.exclusions.filter(
+      (e) => e.variant === v.id || (e.unit !== undefined && myUnits.some((u) => u.unit === e.unit)) || (e.kind === 'batch' && e.batch !== undefined && [...myBatches].some((k) => k.endsWith(`|${e.batch}`) && (!e.assay || k.startsWith(`${e.assay}|`)))),
+    );
+    const lines = new Map<string, number[]>();
+    for (const u of myUnits) for (const s of u.source) {
+      const list = lines.get(s.file) ?? [];
+      if (s.line !== undefined) list.push(s.line);
+      lines.set(s.file, list);
+    }
+    const cal = results.calibration.find((c) => c.scope === v.evidence.scope);
+    pages.push({
+      path: PATHS.variant(slugs.get(v.id) as string),
+      root: '../',
+      title: v.isWT ? `${v.gene} wild type` : `${name} (${v.gene} ${v.hgvs})`,
+      v,
+      name,
+      overall: functionCall(v.overall.call),
+      control: v.control ? `${v.control.class} control (${v.control.source})` : '',
+      assays,
+      forest: (await renderBlocks([forestChart(results, v, name)]))[0] ?? null,
+      flags,
+      exclusions,
+      sources: [...lines.keys()].sort().map((file) => ({ file, lines: lineRanges(lines.get(file) as number[]) || 'whole file' })),
+      evidence: { level: v.evidence.level, scope: v.evidence.scope, sentence: v.evidence.sentence, calibration: cal ? fmtCalibration(cal) : null },
+      prev: null,
+      next: null,
+    });
+  }
+  pages.forEach((p, i) => {
+    const link = (q: VariantPage | undefined) => (q ? { name: q.name, href: q.path } : null);
+    p.prev = link(pages[i - 1]);
+    p.next = link(pages[i + 1]);
+  });
+  return pages;
+}
