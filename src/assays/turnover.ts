@@ -1,0 +1,362 @@
+/**
+ * Single turnover (mant-nucleotide chase): fluorescence decay of each chase trace.
+ *
+ *   rows ──group by unit, then trace──▶ (t, F) of one trace
+ *        ──fit single and double exponential + offset──▶ choose (F test, rate ratio, amplitudes)
+ *        ──▶ per trace: slow fraction, kFast, kSlow ──mean over traces──▶ UnitResult
+ *
+ * Traces are technical replicates of their protein preparation: each is fitted on its own
+ * and the unit's metrics are the mean of its traces' metrics. Pure: no I/O.
+ */
+import { ASSAY, FIT } from '../defaults.js';
+import { extraSumOfSquaresF } from '../numeric/compare.js';
+import { exponentialDouble, slowFraction } from '../numeric/models/exponential-double.js';
+import { exponentialSingle } from '../numeric/models/exponential-single.js';
+import { fitCurve } from '../numeric/nls.js';
+import type { FitResult } from '../numeric/types.js';
+import type { Flag, MetricDef, UnitResult } from '../results/types.js';
+import type { SourceRef, Study, TurnoverRow } from '../study/types.js';
+import { mean, se } from '../stats/descriptive.js';
+import { assaySetting, groupBy, roundForPlot } from './assay-common.js';
+import type { SettingsBag } from './assay-common.js';
+import { GROUP_COLOURS } from './chart-common.js';
+import { groupUnits, relativeSeFlags } from './common.js';
+import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
+
+export const TURNOVER_METRICS: MetricDef[] = [
+  {
+    id: 'slowFraction',
+    label: 'Slow-phase fraction',
+    unit: '',
+    scale: 'difference',
+    hyper: 'down',
+    primary: true,
+    description:
+      'Slow amplitude over the sum of fast and slow amplitudes: the share of heads in the slow (super-relaxed) state. Fewer slow heads means more heads available, counted as hypercontractile.',
+  },
+  {
+    id: 'kFast',
+    label: 'Fast-phase rate',
+    unit: 's⁻¹',
+    scale: 'ratio',
+    hyper: 'none',
+    primary: false,
+    description: 'Rate constant of the fast phase of nucleotide release.',
+  },
+  {
+    id: 'kSlow',
+    label: 'Slow-phase rate',
+    unit: 's⁻¹',
+    scale: 'ratio',
+    hyper: 'none',
+    primary: false,
+    description: 'Rate constant of the slow phase of nucleotide release.',
+  },
+];
+
+/** Thresholds in force for the turnover analysis. */
+export interface TurnoverSettings {
+  fTestAlpha: number;
+  minRateRatio: number;
+  minSlowTimeConstants: number;
+}
+
+/** Read the turnover settings: later bags (more specific) override earlier ones, then src/defaults.ts. */
+export function turnoverSettings(...bags: SettingsBag[]): TurnoverSettings {
+  return {
+    fTestAlpha: assaySetting('turnoverFTestAlpha', ...bags),
+    minRateRatio: assaySetting('turnoverMinRateRatio', ...bags),
+    minSlowTimeConstants: assaySetting('turnoverMinSlowTimeConstants', ...bags),
+  };
+}
+
+/** One trace's fits, the model chosen and its metrics. */
+export interface TraceResult {
+  model: 'double' | 'single' | 'none';
+  /** The fit chosen (double, or single as the fall-back); absent when neither converged. */
+  fit?: FitResult;
+  single: FitResult;
+  double: FitResult;
+  /** Why the double exponential was kept or rejected, in words. */
+  reason: string;
+  slowFraction: number | null;
+  slowFractionSe: number | null;
+  kFast: number | null;
+  kSlow: number | null;
+  /** Rate of the single-exponential fall-back (reported in notes only). */
+  kSingle: number | null;
+  durationS: number;
+  flags: Flag[];
+}
+
+function param(fit: FitResult, name: string): number {
+  return fit.parameters.find((p) => p.name === name)?.estimate ?? NaN;
+}
+
+/**
+ * Fit one chase trace and decide between two phases and one.
+ *
+ * Method: y = Afast·exp(−kFast·t) + Aslow·exp(−kSlow·t) + c and y = A·exp(−k·t) + c, both
+ * by Levenberg–Marquardt least squares (src/numeric/nls.ts), t as recorded (amplitudes
+ * refer to t = 0). The double exponential is kept only when all of these hold:
+ * (1) the extra-sum-of-squares F test of double against single gives p < turnoverFTestAlpha
+ * (src/numeric/compare.ts; Motulsky & Christopoulos 2004, ch. 22), which also requires
+ * the double fit to have converged; (2) kFast/kSlow ≥ turnoverMinRateRatio; (3) both
+ * amplitudes are positive. Otherwise the single exponential is the trace's model and the
+ * slow fraction, kFast and kSlow are not estimable for that trace (a single rate cannot be
+ * assigned to either phase). Slow fraction = Aslow/(Afast + Aslow), SE by the delta method.
+ * A trace shorter than turnoverMinSlowTimeConstants/kSlow is flagged (slow phase not
+ * followed long enough).
+ * Source: model and slow fraction as in Hooijman, Stewart & Cooke 2011, Biophys J
+ * 100:1969, and Sarkar et al., Sci Adv 2020 (REFERENCES.md §6).
+ * @example fitTurnoverTrace(t, 0.7·e^(−0.03t) + 0.3·e^(−0.0034t) sampled 0–1800 s, settings)
+ *   // → { model: 'double', slowFraction: 0.30, kFast: 0.030, kSlow: 0.0034, … }
+ */
+export function fitTurnoverTrace(
+  timeS: readonly number[],
+  fluorescence: readonly number[],
+  settings: TurnoverSettings,
+  label = 'trace',
+  at?: SourceRef,
+): TraceResult {
+  const single = fitCurve(exponentialSingle, timeS, fluorescence);
+  const double = fitCurve(exponentialDouble, timeS, fluorescence);
+  const durationS = Math.max(...timeS) - Math.min(...timeS);
+  const flags: Flag[] = [];
+  const test = extraSumOfSquaresF(single, double, settings.fTestAlpha);
+  const aFast = param(double, 'aFast');
+  const aSlow = param(double, 'aSlow');
+  const kFast = param(double, 'kFast');
+  const kSlow = param(double, 'kSlow');
+  const problems: string[] = [];
+  if (test.keep !== 'complex') problems.push(test.reason);
+  else {
+    if (!(kSlow > 0) || !(kFast / kSlow >= settings.minRateRatio)) {
+      problems.push(`the rates differ by a factor ${(kFast / kSlow).toPrecision(3)}, less than ${settings.minRateRatio}`);
+    }
+    if (!(aFast > 0) || !(aSlow > 0)) problems.push('an amplitude is not positive');
+  }
+  const base = { single, double, durationS };
+  if (problems.length === 0) {
+    const sf = slowFraction(double);
+    flags.push(...relativeSeFlags(double, FIT.maxRelativeSe, { kFast: `kFast of ${label}`, kSlow: `kSlow of ${label}`, aSlow: `slow amplitude of ${label}` }, ['kFast', 'kSlow', 'aSlow']).map((f) => ({ ...f, at })));
+    if (durationS < settings.minSlowTimeConstants / kSlow) {
+      flags.push({
+        code: 'window-too-short',
+        severity: 'warning',
+        message: `${label} lasts ${durationS.toPrecision(3)} s, less than ${settings.minSlowTimeConstants} slow-phase time constant(s) (1/kSlow = ${(1 / kSlow).toPrecision(3)} s): the slow phase is not followed long enough.`,
+        at,
+      });
+    }
+    return {
+      ...base,
+      model: 'double',
+      fit: double,
+      reason: `two phases kept: ${test.reason}`,
+      slowFraction: sf.estimate,
+      slowFractionSe: Number.isFinite(sf.se) ? sf.se : null,
+      kFast,
+      kSlow,
+      kSingle: null,
+      flags,
+    };
+  }
+  const reason = `phases not separated (${problems.join('; ')})`;
+  if (!single.converged) {
+    flags.push({
+      code: 'not-converged',
+      severity: 'warning',
+      message: `Neither the double nor the single exponential fit of ${label} converged (${single.stopReason}); the trace gives no values.`,
+      at,
+    });
+    return { ...base, model: 'none', reason, slowFraction: null, slowFractionSe: null, kFast: null, kSlow: null, kSingle: null, flags };
+  }
+  const k = param(single, 'k');
+  flags.push({
+    code: 'phases-not-separated',
+    severity: 'warning',
+    message: `${label}: ${reason}; a single exponential (k = ${k.toPrecision(3)} s⁻¹) was used, so the slow fraction, kFast and kSlow are not estimable for this trace.`,
+    at,
+  });
+  return { ...base, model: 'single', fit: single, reason, slowFraction: null, slowFractionSe: null, kFast: null, kSlow: null, kSingle: k, flags };
+}
+
+/** Points of the fitted-curve grid per trace. */
+const CURVE_POINTS = 101;
+
+/**
+ * Normalised fluorescence of a trace: (F − c)/(F̂(t_first) − c) from the chosen fit
+ * (offset c, fitted value at the first time), so each fitted trace falls from 1 to 0.
+ * Without a fit: (F − F_last)/(F_first − F_last) with the readings themselves.
+ */
+function normaliser(trace: TraceResult, t: number[], y: number[]): (value: number) => number {
+  if (trace.fit) {
+    const p = trace.fit.parameters.map((q) => q.estimate);
+    const model = trace.model === 'double' ? exponentialDouble : exponentialSingle;
+    const c = param(trace.fit, 'offset');
+    const top = model.f(Math.min(...t), p) - c;
+    return (v) => (v - c) / top;
+  }
+  const first = y[t.indexOf(Math.min(...t))];
+  const last = y[t.indexOf(Math.max(...t))];
+  return (v) => (v - last) / (first - last);
+}
+
+/** Analyse one unit's traces: fit each, average the estimable metrics over traces. */
+export function analyseTurnoverUnit(
+  rows: readonly TurnoverRow[],
+  settings: TurnoverSettings,
+): Pick<UnitResult, 'metrics' | 'metricSe' | 'fit' | 'modelNote' | 'flags' | 'nTechnical' | 'plot'> {
+  const traces = [...groupBy(rows, (r) => r.trace).values()];
+  const flags: Flag[] = [];
+  const points: Array<Record<string, number | string>> = [];
+  const curve: Array<Record<string, number | string>> = [];
+  const results: TraceResult[] = [];
+  for (const traceRows of traces) {
+    const sorted = [...traceRows].sort((a, b) => a.timeS - b.timeS);
+    const t = sorted.map((r) => r.timeS);
+    const y = sorted.map((r) => r.fluorescence);
+    const name = `Trace ${sorted[0].trace}`;
+    const result = fitTurnoverTrace(t, y, settings, name, sorted[0].at);
+    results.push(result);
+    flags.push(...result.flags);
+    const norm = normaliser(result, t, y);
+    for (let i = 0; i < t.length; i++) {
+      const value = norm(y[i]);
+      const point: Record<string, number | string> = { trace: sorted[0].trace, time: t[i], fluorescence: y[i] };
+      if (Number.isFinite(value)) point.normFluorescence = roundForPlot(value);
+      points.push(point);
+    }
+    if (result.fit) {
+      const p = result.fit.parameters.map((q) => q.estimate);
+      const model = result.model === 'double' ? exponentialDouble : exponentialSingle;
+      const t0 = t[0];
+      const t1 = t[t.length - 1];
+      for (let i = 0; i < CURVE_POINTS; i++) {
+        const time = t0 + ((t1 - t0) * i) / (CURVE_POINTS - 1);
+        curve.push({ trace: sorted[0].trace, model: result.model, time: roundForPlot(time), normFluorescence: roundForPlot(norm(model.f(time, p))) });
+      }
+    }
+  }
+  const metrics: Record<string, number | null> = {};
+  const metricSe: Record<string, number | null> = {};
+  for (const [id, seOf] of [
+    ['slowFraction', (r: TraceResult) => r.slowFractionSe],
+    ['kFast', (r: TraceResult) => seOfParam(r, 'kFast')],
+    ['kSlow', (r: TraceResult) => seOfParam(r, 'kSlow')],
+  ] as const) {
+    const estimable = results.filter((r) => r[id] !== null);
+    const values = estimable.map((r) => r[id] as number);
+    metrics[id] = values.length > 0 ? mean(values) : null;
+    // One trace: the fit's SE; several: the standard error of the mean across traces.
+    metricSe[id] = values.length === 1 ? seOf(estimable[0]) : values.length > 1 ? se(values) : null;
+  }
+  const nDouble = results.filter((r) => r.model === 'double').length;
+  const nSingle = results.filter((r) => r.model === 'single').length;
+  const modelNote =
+    nDouble === results.length
+      ? undefined
+      : `double exponential in ${nDouble} of ${results.length} trace(s); single exponential in ${nSingle} (phases not separated)` +
+        (results.length - nDouble - nSingle > 0 ? `; no converged fit in ${results.length - nDouble - nSingle}` : '');
+  return {
+    metrics,
+    metricSe,
+    fit: results.length === 1 ? results[0].fit : undefined,
+    ...(modelNote ? { modelNote } : {}),
+    flags,
+    nTechnical: results.length,
+    plot: { points, curve },
+  };
+}
+
+function seOfParam(r: TraceResult, name: string): number | null {
+  const s = r.fit?.parameters.find((p) => p.name === name)?.se;
+  return s !== undefined && Number.isFinite(s) ? s : null;
+}
+
+/** Settings of the input file a row came from (manifest per-file settings), if any. */
+function fileSettings(study: Study, file: string | undefined): SettingsBag {
+  return study.files.find((f) => f.path === file)?.settings;
+}
+
+/** Per-unit analysis of a study's single-turnover traces. */
+export function analyseTurnover(study: Study): UnitResult[] {
+  return groupUnits(study.rows.turnover ?? []).map((g) => {
+    const settings = turnoverSettings(study.settings, fileSettings(study, g.rows[0].at.file));
+    return { assay: 'turnover', variant: g.variant, unit: g.unit, batch: g.batch, ...analyseTurnoverUnit(g.rows, settings), source: g.source };
+  });
+}
+
+/**
+ * Variant-report chart: normalised fluorescence against time, readings as points and each
+ * trace's chosen fit as a line; WT and variant told apart by colour, point shape and
+ * line dash.
+ */
+export function turnoverChart(input: AssayChartInput): ChartSpec {
+  const flatten = (units: AssayChartInput['wtUnits'], group: 'WT' | 'Variant', part: 'points' | 'curve') =>
+    units.flatMap((u) =>
+      (u.plot[part] ?? []).map((r) => ({ ...r, group, unit: `${u.unit} (${u.batch})`, traceKey: `${group} ${u.unit} (${u.batch}) ${r.trace}` })),
+    );
+  const points = [...flatten(input.wtUnits, 'WT', 'points'), ...flatten(input.variantUnits, 'Variant', 'points')];
+  const curve = [...flatten(input.wtUnits, 'WT', 'curve'), ...flatten(input.variantUnits, 'Variant', 'curve')];
+  const x = { field: 'time', type: 'quantitative', title: 'Time after chase (s)' };
+  const y = { field: 'normFluorescence', type: 'quantitative', title: 'Normalised fluorescence' };
+  const color = {
+    field: 'group',
+    type: 'nominal',
+    title: null,
+    scale: { domain: ['WT', 'Variant'], range: [GROUP_COLOURS.WT, GROUP_COLOURS.Variant] },
+  };
+  return {
+    title: `Single turnover: ${input.variantLabel} beside WT of the same batches`,
+    description:
+      `Fluorescence of each chase trace of ${input.variantLabel} and of WT in the same batches, normalised so that each trace's fit falls from 1 at the first reading to 0 at its plateau, ` +
+      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise). A slower overall decay means a larger slow-phase fraction.`,
+    width: 420,
+    height: 260,
+    layer: [
+      {
+        data: { values: points },
+        mark: { type: 'point', filled: true, size: 12, opacity: 0.45 },
+        encoding: {
+          x,
+          y,
+          color,
+          shape: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: ['circle', 'triangle-up'] } },
+        },
+      },
+      {
+        data: { values: curve },
+        mark: { type: 'line', strokeWidth: 1.6 },
+        encoding: {
+          x,
+          y,
+          color,
+          detail: { field: 'traceKey', type: 'nominal' },
+          strokeDash: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: [[4, 3], [1, 0]] } },
+          tooltip: [
+            { field: 'unit', type: 'nominal', title: 'Preparation' },
+            { field: 'trace', type: 'nominal', title: 'Trace' },
+            { field: 'model', type: 'nominal', title: 'Model' },
+          ],
+        },
+      },
+    ],
+  };
+}
+
+export const turnover: AssayModule = {
+  id: 'turnover',
+  label: 'Single turnover (mant-nucleotide chase)',
+  inputs: ['turnover'],
+  metrics: TURNOVER_METRICS,
+  analyse: analyseTurnover,
+  chart: turnoverChart,
+  methods: [
+    `Each chase trace is fitted with ${exponentialDouble.formula} and with ${exponentialSingle.formula} by Levenberg–Marquardt nonlinear least squares, time as recorded so that amplitudes refer to t = 0.`,
+    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${ASSAY.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${ASSAY.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), and both amplitudes are positive. Otherwise the phases are not separated: the single exponential is used, the trace is flagged, and its slow fraction, fast rate and slow rate are not estimable (one rate cannot be assigned to either phase).`,
+    'Slow-phase fraction = Aslow/(Afast + Aslow) (Sarkar et al., Sci Adv 2020), with its standard error by the delta method.',
+    'Traces are technical replicates: each preparation’s metrics are the means of its traces’ estimable metrics, and the preparation is the unit counted in the comparison with WT. The slow fraction is primary (difference scale; a decrease, more heads available, counts as hypercontractile); fast and slow rates are reported only.',
+    `Flags: phases not separated; a trace shorter than ${ASSAY.turnoverMinSlowTimeConstants} slow-phase time constant(s) 1/kSlow (setting turnoverMinSlowTimeConstants); a rate or slow amplitude whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value; no converged fit.`,
+  ],
+};
