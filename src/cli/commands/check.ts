@@ -1,0 +1,68 @@
+/** `myofolio check <study-dir>`: load and validate a study; print every problem. */
+import { existsSync, statSync } from 'node:fs';
+import { isAbsolute, join } from 'node:path';
+import { loadStudy } from '../../study/load.js';
+import { MSG, issue } from '../../study/messages.js';
+import { readStudyFolder } from '../../study/read-folder.js';
+import { MANIFEST_NAME } from '../../study/schemas.js';
+import type { Issue } from '../../study/types.js';
+import type { Command, Io } from '../main.js';
+import { CLI } from '../messages.js';
+
+/** One issue as `file:line:col: severity: message — fix` (JSON path instead of line for the manifest). */
+export function formatIssue(i: Issue): string {
+  let where = i.at.file;
+  if (i.at.line !== undefined) where += `:${i.at.line}${i.at.col !== undefined ? `:${i.at.col}` : ''}`;
+  else if (i.at.jsonPath !== undefined) where += `:${i.at.jsonPath}`;
+  return `${where}: ${i.severity}: ${i.message} — ${i.fix}`;
+}
+
+/** Issues in reading order: by file, then line, then column; manifest first. */
+export function sortIssues(issues: readonly Issue[], manifestName: string): Issue[] {
+  return [...issues].sort((a, b) => {
+    const fa = a.at.file === manifestName ? '' : a.at.file;
+    const fb = b.at.file === manifestName ? '' : b.at.file;
+    if (fa !== fb) return fa < fb ? -1 : 1;
+    return (a.at.line ?? 0) - (b.at.line ?? 0) || (a.at.col ?? 0) - (b.at.col ?? 0);
+  });
+}
+
+export const command: Command = {
+  name: 'check',
+  usage: 'check <study-dir>',
+  summary: 'Validate a study folder and list every error and warning.',
+  async run(args: string[], io: Io): Promise<number> {
+    const option = args.find((a) => a.startsWith('-'));
+    if (option) {
+      io.stderr.write(CLI.unknownOption(option, this.usage));
+      return 2;
+    }
+    if (args.length !== 1) {
+      io.stderr.write(CLI.badArgs(this.usage));
+      return 2;
+    }
+    const dir = isAbsolute(args[0]) ? args[0] : join(io.cwd, args[0]);
+    if (!existsSync(dir) || !statSync(dir).isDirectory()) {
+      io.stderr.write(CLI.cannotRead(args[0], 'no such folder'));
+      return 1;
+    }
+    if (!existsSync(join(dir, MANIFEST_NAME))) {
+      io.stdout.write(`${formatIssue(issue(MSG.manifestMissing(MANIFEST_NAME), { file: MANIFEST_NAME }))}\n`);
+      io.stdout.write(CLI.checkSummary(1, 0));
+      return 1;
+    }
+    let files;
+    try {
+      files = readStudyFolder(dir);
+    } catch (err) {
+      io.stderr.write(CLI.cannotRead(args[0], err instanceof Error ? err.message : String(err)));
+      return 1;
+    }
+    const { issues } = loadStudy(files);
+    const sorted = sortIssues(issues, files.manifestPath ?? 'study.json');
+    for (const i of sorted) io.stdout.write(`${formatIssue(i)}\n`);
+    const errors = issues.filter((i) => i.severity === 'error').length;
+    io.stdout.write(CLI.checkSummary(errors, issues.length - errors));
+    return errors > 0 ? 1 : 0;
+  },
+};
