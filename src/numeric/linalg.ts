@@ -26,38 +26,48 @@ export function householderQr(
 ): { r: number[][]; qtb: number[] } {
   const m = a.length;
   const k = m > 0 ? a[0].length : 0;
-  const work = a.map((row) => row.slice());
-  const rhs = b.slice();
+  // Work on contiguous columns (faster than rows for column-wise reflections).
+  const cols: Float64Array[] = [];
+  for (let c = 0; c < k; c++) {
+    const col = new Float64Array(m);
+    for (let i = 0; i < m; i++) col[i] = a[i][c];
+    cols.push(col);
+  }
+  const rhs = Float64Array.from(b);
+  const v = new Float64Array(m);
   for (let j = 0; j < k; j++) {
+    const x = cols[j];
     let norm = 0;
-    for (let i = j; i < m; i++) norm = Math.hypot(norm, work[i][j]);
+    for (let i = j; i < m; i++) norm = Math.hypot(norm, x[i]);
     if (norm === 0) continue;
-    const alpha = work[j][j] > 0 ? -norm : norm;
-    // v = x − alpha·e1, stored in place below the diagonal.
-    const v: number[] = new Array(m - j);
-    for (let i = j; i < m; i++) v[i - j] = work[i][j];
-    v[0] -= alpha;
+    const alpha = x[j] > 0 ? -norm : norm;
+    // v = x − alpha·e1 (entries j..m−1).
     let vv = 0;
-    for (const vi of v) vv += vi * vi;
+    for (let i = j; i < m; i++) {
+      v[i] = x[i];
+      if (i === j) v[i] -= alpha;
+      vv += v[i] * v[i];
+    }
     if (vv === 0) continue;
     for (let c = j; c < k; c++) {
+      const col = cols[c];
       let dot = 0;
-      for (let i = j; i < m; i++) dot += v[i - j] * work[i][c];
+      for (let i = j; i < m; i++) dot += v[i] * col[i];
       const s = (2 * dot) / vv;
-      for (let i = j; i < m; i++) work[i][c] -= s * v[i - j];
+      for (let i = j; i < m; i++) col[i] -= s * v[i];
     }
     let dotB = 0;
-    for (let i = j; i < m; i++) dotB += v[i - j] * rhs[i];
+    for (let i = j; i < m; i++) dotB += v[i] * rhs[i];
     const sB = (2 * dotB) / vv;
-    for (let i = j; i < m; i++) rhs[i] -= sB * v[i - j];
+    for (let i = j; i < m; i++) rhs[i] -= sB * v[i];
   }
   const r: number[][] = [];
   for (let i = 0; i < k; i++) {
     const row = new Array(k).fill(0);
-    for (let c = i; c < k; c++) row[c] = work[i][c];
+    for (let c = i; c < k; c++) row[c] = cols[c][i];
     r.push(row);
   }
-  return { r, qtb: rhs.slice(0, k) };
+  return { r, qtb: Array.from(rhs.subarray(0, k)) };
 }
 
 /**
@@ -87,7 +97,7 @@ export function dampedLeastSquares(
   d: readonly number[],
 ): number[] | null {
   const k = d.length;
-  const rows: number[][] = a.map((row) => row.slice());
+  const rows: (readonly number[])[] = a.slice();
   const rhs = b.slice();
   for (let j = 0; j < k; j++) {
     if (d[j] === 0) continue;

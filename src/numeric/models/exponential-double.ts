@@ -16,7 +16,7 @@
  */
 import type { CurveModel, FitResult } from '../types.js';
 import { rateCandidates } from './exponential-single.js';
-import { linearLeastSquares, range } from './start-helpers.js';
+import { range, solve3 } from './start-helpers.js';
 
 const RATE_GRID_POINTS = 30;
 /** Smallest ratio kfast/kslow in the start scan. */
@@ -42,18 +42,49 @@ export const exponentialDouble: CurveModel = {
   },
   start(x, y) {
     const rates = rateCandidates(x, RATE_GRID_POINTS);
-    const ones = x.map(() => 1);
+    const n = x.length;
     const exps = rates.map((k) => x.map((t) => Math.exp(-k * t)));
+    // Gram sums, so each (kfast, kslow) pair costs one 3×3 solve (normal equations are
+    // accurate enough for a starting value).
+    const count = rates.length;
+    const sums = new Array<number>(count).fill(0);
+    const withY = new Array<number>(count).fill(0);
+    const cross = rates.map(() => new Array<number>(count).fill(0));
+    let sumY = 0;
+    for (let i = 0; i < n; i++) sumY += y[i];
+    for (let a = 0; a < count; a++) {
+      const ea = exps[a];
+      for (let i = 0; i < n; i++) {
+        sums[a] += ea[i];
+        withY[a] += ea[i] * y[i];
+      }
+      for (let b = 0; b <= a; b++) {
+        const eb = exps[b];
+        let s = 0;
+        for (let i = 0; i < n; i++) s += ea[i] * eb[i];
+        cross[a][b] = s;
+        cross[b][a] = s;
+      }
+    }
     const spread = range(y)[1] - range(y)[0];
     let best: number[] = [spread / 2, rates[RATE_GRID_POINTS - 5], spread / 2, rates[5], range(y)[0]];
     let bestRss = Infinity;
     for (let fast = 0; fast < rates.length; fast++) {
       for (let slow = 0; slow < fast; slow++) {
         if (rates[fast] < START_MIN_RATIO * rates[slow]) continue;
-        const fit = linearLeastSquares([exps[fast], exps[slow], ones], y);
-        if (fit && fit.rss < bestRss) {
-          bestRss = fit.rss;
-          best = [fit.coefficients[0], rates[fast], fit.coefficients[1], rates[slow], fit.coefficients[2]];
+        const gram = [
+          [cross[fast][fast], cross[fast][slow], sums[fast]],
+          [cross[slow][fast], cross[slow][slow], sums[slow]],
+          [sums[fast], sums[slow], n],
+        ];
+        const rhs = [withY[fast], withY[slow], sumY];
+        const c = solve3(gram, rhs);
+        if (!c) continue;
+        // RSS up to the constant Σy²: cᵀGc − 2cᵀb = −cᵀb at the normal-equation solution.
+        const score = -(c[0] * rhs[0] + c[1] * rhs[1] + c[2] * rhs[2]);
+        if (score < bestRss) {
+          bestRss = score;
+          best = [c[0], rates[fast], c[1], rates[slow], c[2]];
         }
       }
     }

@@ -64,3 +64,24 @@ export function range(values: readonly number[]): [number, number] {
   }
   return [low, high];
 }
+
+/**
+ * Solve a 3×3 linear system by Cramer's rule; null when the determinant is zero relative
+ * to the entries (used only for starting values, where a crude solve is enough).
+ * @example solve3([[2, 0, 0], [0, 3, 0], [0, 0, 4]], [2, 3, 4]) // → [1, 1, 1]
+ */
+export function solve3(a: readonly (readonly number[])[], b: readonly number[]): number[] | null {
+  const det = (m: readonly (readonly number[])[]) =>
+    m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) -
+    m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0]) +
+    m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
+  const d = det(a);
+  const scale = Math.max(...a.flat().map(Math.abs));
+  if (!(Math.abs(d) > 1e-13 * scale * scale * scale)) return null;
+  const out: number[] = [];
+  for (let c = 0; c < 3; c++) {
+    const m = a.map((row, i) => row.map((v, j) => (j === c ? b[i] : v)));
+    out.push(det(m) / d);
+  }
+  return out;
+}
