@@ -134,7 +134,7 @@ function fileSettings(study: Study, file: string | undefined): SettingsBag {
   return study.files.find((f) => f.path === file)?.settings;
 }
 
-interface UnitInput {
+export interface UnitInput {
   variant: string;
   unit: string;
   batch: string;
@@ -160,7 +160,11 @@ function collectUnits(study: Study): UnitInput[] {
 
 /**
  * Analyse one unit: filaments from tracks (preferred when both inputs exist) or from
- * velocity rows, then classification, summaries and flags.
+ * velocity rows, then classification and summaries (`summariseFilaments`) and flags.
+ * nTechnical = analysed filaments.
+ * @example analyseMotilityUnit({ variant:'wt', unit:'p1', batch:'b1', tracks: [], velocities: rowsOf([0.02, 0.8, 1.0, 1.2]) }, motilitySettings())
+ *   // → metrics { velocity: 1.0, medianVelocity: 1.0, p95Velocity: 1.18, fractionImmobile: 0.25 }, nTechnical 4,
+ *   //   flags ['motility-too-few-filaments', 'motility-high-immobile-fraction']
  */
 export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings): UnitResult {
   const flags: Flag[] = [];

@@ -79,6 +79,11 @@ export function wellInitialRate(rows: readonly NadhRow[], windowS: number, epsil
   };
 }
 
+/**
+ * Whether two actin concentrations are the same well condition: equal within a relative
+ * tolerance of 1e-6 (guards against unit-conversion rounding, e.g. 0.02 mM → 20 µM).
+ * @example sameActin(20, 20.0000000001) // → true; sameActin(20, 40) // → false
+ */
 function sameActin(a: number, b: number): boolean {
   return Math.abs(a - b) <= ACTIN_MATCH_TOLERANCE * Math.max(Math.abs(a), Math.abs(b), 1e-12) || (a === 0 && b === 0);
 }

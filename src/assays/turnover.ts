@@ -188,6 +188,7 @@ const CURVE_POINTS = 101;
  * Normalised fluorescence of a trace: (F − c)/(F̂(t_first) − c) from the chosen fit
  * (offset c, fitted value at the first time), so each fitted trace falls from 1 to 0.
  * Without a fit: (F − F_last)/(F_first − F_last) with the readings themselves.
+ * @example normaliser(doubleFitWithOffset120AndAmplitude500, t, y)(300.2) // → 0.36035 (t = 60 s of the REFERENCES.md §6 curve)
  */
 function normaliser(trace: TraceResult, t: number[], y: number[]): (value: number) => number {
   if (trace.fit) {
@@ -202,7 +203,14 @@ function normaliser(trace: TraceResult, t: number[], y: number[]): (value: numbe
   return (v) => (v - last) / (first - last);
 }
 
-/** Analyse one unit's traces: fit each, average the estimable metrics over traces. */
+/**
+ * Analyse one unit's traces: fit each (`fitTurnoverTrace`), then the unit's slow fraction,
+ * kFast and kSlow are the arithmetic means over the traces where they are estimable;
+ * their SE is the fit's SE with one trace and the standard error of the mean across traces
+ * with several. nTechnical = number of traces.
+ * @example analyseTurnoverUnit(rowsOfTracesWithSlowFractions0.2And0.4AndOneSinglePhase, settings)
+ *   // → metrics.slowFraction ≈ 0.3, nTechnical 3, modelNote 'double exponential in 2 of 3 trace(s); …'
+ */
 export function analyseTurnoverUnit(
   rows: readonly TurnoverRow[],
   settings: TurnoverSettings,
@@ -316,16 +324,6 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
     height: 260,
     layer: [
       {
-        data: { values: points },
-        mark: { type: 'point', filled: true, size: 12, opacity: 0.45 },
-        encoding: {
-          x,
-          y,
-          color,
-          shape: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: ['circle', 'triangle-up'] } },
-        },
-      },
-      {
         data: { values: curve },
         mark: { type: 'line', strokeWidth: 1.6 },
         encoding: {
@@ -339,6 +337,16 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
             { field: 'trace', type: 'nominal', title: 'Trace' },
             { field: 'model', type: 'nominal', title: 'Model' },
           ],
+        },
+      },
+      {
+        data: { values: points },
+        mark: { type: 'point', filled: true, size: 12, opacity: 0.45 },
+        encoding: {
+          x,
+          y,
+          color,
+          shape: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: ['circle', 'triangle-up'] } },
         },
       },
     ],
