@@ -21,7 +21,7 @@ export interface ChartDef {
 
 /**
  * Display form of a number: 3 significant digits, trailing zeros dropped; '—' for null/NaN.
- * Example: fmt(1.23456) → '1.23'; fmt(0.000123456) → '0.000123'; fmt(null) → '—'.
+ * Example: fmt(1.23456) → '1.23'; fmt(0.000123456) → '1.23e-4'; fmt(null) → '—'.
  */
 export function fmt(x: number | null | undefined, digits = 3): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '—';
@@ -72,4 +72,30 @@ export function metricLabel(results: StudyResults, assay: string, metric: string
 /** Unit suffix for axis titles, e.g. ' (s⁻¹)' or ''. */
 export function unitSuffix(unit: string | undefined): string {
   return unit ? ` (${unit})` : '';
+}
+
+/** Ratio tick candidates: symmetric about 1 on the log scale (0.8 ↔ 1.25, 0.67 ↔ 1.5, 0.5 ↔ 2). */
+const RATIO_TICKS = [0.01, 0.02, 0.05, 0.1, 0.2, 0.25, 0.33, 0.5, 0.67, 0.8, 1, 1.25, 1.5, 2, 3, 4, 5, 10, 20, 50, 100];
+const COARSE_TICKS = [0.01, 0.02, 0.05, 0.1, 0.2, 0.5, 1, 2, 5, 10, 20, 50, 100];
+
+/**
+ * Explicit x or y scale for effects, so that every interval and band is inside the plot and ticks
+ * stay readable (vega's text-width estimate in Node hides overlapping labels unpredictably).
+ * Log scale: domain from the smallest to the largest value (always including 1), widened by 8%
+ * on each side multiplicatively; ticks from a fixed list of ratios. Linear: 6% padding, 0 included.
+ * Example: effectScale([0.55, 1.76], true) → domain [0.509, 1.90], ticks [0.67, 0.8, 1, 1.25, 1.5].
+ */
+export function effectScale(values: Array<number | null | undefined>, log: boolean): { scale: Record<string, unknown>; axis: Record<string, unknown> } {
+  const finite = values.filter((v): v is number => typeof v === 'number' && Number.isFinite(v) && (!log || v > 0));
+  if (log) {
+    const lo = Math.min(1, ...finite) / 1.08;
+    const hi = Math.max(1, ...finite) * 1.08;
+    let ticks = RATIO_TICKS.filter((t) => t >= lo && t <= hi);
+    if (ticks.length > 9) ticks = COARSE_TICKS.filter((t) => t >= lo && t <= hi);
+    return { scale: { type: 'log', domain: [Number(lo.toPrecision(3)), Number(hi.toPrecision(3))], nice: false }, axis: { values: ticks, format: '~g' } };
+  }
+  const lo = Math.min(0, ...finite);
+  const hi = Math.max(0, ...finite);
+  const pad = (hi - lo || 1) * 0.06;
+  return { scale: { domain: [lo - pad, hi + pad], nice: false, zero: false }, axis: { tickCount: 6 } };
 }

@@ -3,7 +3,7 @@
  * against the metric's WT-like band (shaded) and the no-change line (1 for ratios, 0 for differences).
  */
 import type { MetricComparison, StudyResults } from '../results/types.js';
-import { type ChartDef, fmt, fmtCi, fmtP, metricLabel, unitSuffix, variantNames } from './chart-def.js';
+import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel, unitSuffix, variantNames } from './chart-def.js';
 import { BAND_FILL, CI_COLOUR, METRIC_CALL_STYLE, REFERENCE, callScale } from './palette.js';
 
 /** Effects chart of one metric of one assay, or null when no variant has an estimable effect. */
@@ -21,10 +21,10 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
   const rows = est.map((c) => ({ row: names.get(c.variant) ?? c.variant, effect: c.effect, lo: c.ciLow, hi: c.ciHigh, call: c.call }));
   const order = rows.map((r) => r.row);
   const y = { field: 'row', type: 'nominal', sort: order, title: 'Variant', axis: { labelLimit: 200 } };
-  const xScale = log ? { type: 'log', nice: false } : { zero: false, nice: true };
+  const { scale: xScale, axis } = effectScale([...rows.flatMap((r) => [r.effect, r.lo, r.hi]), band[0], band[1]], log);
   const label = metricLabel(results, assayId, metricId);
   const xTitle = log ? `${def?.label ?? metricId}: ratio to paired WT (log scale)` : `${def?.label ?? metricId}: difference from paired WT${unitSuffix(def?.unit)}`;
-  const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, title: xTitle });
+  const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, axis, title: xTitle });
   const calls = [...new Set(rows.map((r) => r.call))];
   const title = `${label}: all variants against paired WT`;
   const spec = {

@@ -4,7 +4,7 @@
  * difference metrics (variant − WT) get their own linear panel with a reference line at 0.
  */
 import type { MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
-import { type ChartDef, fmt, fmtCi, fmtP, metricLabel } from './chart-def.js';
+import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel } from './chart-def.js';
 import { BAND_FILL, CI_COLOUR, METRIC_CALL_STYLE, REFERENCE, callScale } from './palette.js';
 
 interface Row {
@@ -19,10 +19,10 @@ interface Row {
 
 function panel(rows: Row[], scale: MetricScale, calls: string[]) {
   const log = scale === 'ratio';
-  const xScale = log ? { type: 'log', nice: false } : { zero: false, nice: true };
-  const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 260 } };
+  const { scale: xScale, axis } = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
+  const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 340 } };
   const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
-  const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, title: xTitle });
+  const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, axis, title: xTitle });
   return {
     width: 380,
     height: Math.max(40, rows.length * 30),

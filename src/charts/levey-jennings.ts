@@ -39,7 +39,9 @@ export function leveyJenningsChart(results: StudyResults, cc: ControlChart): Cha
   const present = (Object.keys(STATUS) as Status[]).filter((s) => points.some((p) => p.status === s));
   const x = { field: 'batch', type: 'ordinal', sort: order, title: 'Batch (in order)', axis: { labelAngle: -40, labelLimit: 90 } };
   const yTitle = `${def?.label ?? cc.metric}${unitSuffix(def?.unit)}`;
-  const y = (field: string) => ({ field, type: 'quantitative', scale: { zero: false, domain: [mean - 3.6 * sd, mean + 3.6 * sd] }, title: yTitle });
+  const lo = Math.min(mean - 3.6 * sd, ...points.map((p) => p.value - 0.3 * sd));
+  const hi = Math.max(mean + 3.6 * sd, ...points.map((p) => p.value + 0.3 * sd));
+  const y = (field: string) => ({ field, type: 'quantitative', scale: { zero: false, nice: false, domain: [lo, hi] }, title: yTitle });
   const title = `WT control chart: ${label}`;
   const spec = {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
@@ -81,7 +83,7 @@ export function leveyJenningsChart(results: StudyResults, cc: ControlChart): Cha
         ],
       },
     ],
-    config: { view: { stroke: null } },
+    config: { view: { stroke: null }, legend: { orient: 'bottom', direction: 'horizontal' } },
   };
   const flagged = points.filter((p) => p.status !== 'in control');
   const description =

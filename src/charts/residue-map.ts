@@ -21,7 +21,7 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
   const points = variants
     .map((v) => ({ residue: v.residue as number, name: names.get(v.id) ?? v.short, call: v.overall.call, domain: v.domain ?? '' }))
     .sort((a, b) => a.residue - b.residue || (a.name < b.name ? -1 : 1));
-  const bars = domains.map((d, i) => ({ name: d.name, start: d.start, end: d.end, mid: (d.start + d.end) / 2, fill: DOMAIN_FILLS[i % 2] }));
+  const bars = domains.map((d) => ({ name: d.name, start: d.start, end: d.end, mid: (d.start + d.end) / 2 }));
   const calls = [...new Set(points.map((p) => p.call))];
   const lanes = (Object.keys(FUNCTION_CALL_STYLE) as string[]).filter((c) => calls.includes(c as never));
   const x = { type: 'quantitative', scale: { domain: [1, maxResidue], nice: false, zero: false }, title: `Residue (${gene})` };
@@ -55,20 +55,19 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
         : []),
     ],
   };
+  const barLayer = (fill: string, values: typeof bars) => ({
+    data: { values },
+    mark: { type: 'rect', height: 22, stroke: '#5a6570', strokeWidth: 0.6, color: fill },
+    encoding: { x: { field: 'start', ...x }, x2: { field: 'end' } },
+  });
   const domainLayer = {
     width,
     height: 44,
-    data: { values: bars.length ? bars : [{ name: '', start: 1, end: 1, mid: 1, fill: '#ffffff' }] },
     layer: [
+      barLayer(DOMAIN_FILLS[0], bars.filter((_b, i) => i % 2 === 0)),
+      barLayer(DOMAIN_FILLS[1], bars.filter((_b, i) => i % 2 === 1)),
       {
-        mark: { type: 'rect', height: 22, stroke: '#5a6570', strokeWidth: 0.6 },
-        encoding: {
-          x: { field: 'start', ...x },
-          x2: { field: 'end' },
-          color: { field: 'fill', type: 'nominal', scale: null, legend: null },
-        },
-      },
-      {
+        data: { values: bars },
         mark: { type: 'text', fontSize: 10, color: '#1b2530', limit: 120 },
         encoding: { x: { field: 'mid', ...x }, text: { field: 'name', type: 'nominal' } },
       },

@@ -4,7 +4,7 @@
  * where both effects lie inside their WT-like bands. Marks are coloured and shaped by overall call.
  */
 import type { MetricComparison, StudyResults } from '../results/types.js';
-import { type ChartDef, fmt, fmtCi, metricLabel, variantById, variantNames } from './chart-def.js';
+import { type ChartDef, effectScale, fmt, fmtCi, metricLabel, variantById, variantNames } from './chart-def.js';
 import { BAND_FILL, CI_COLOUR, FUNCTION_CALL_STYLE, callScale } from './palette.js';
 
 type Pick = { assay: string; metric: string };
@@ -38,10 +38,13 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
   const second = cb.get(ids[0]) as MetricComparison;
   const la = metricLabel(results, a.assay, a.metric);
   const lb = metricLabel(results, b.assay, b.metric);
-  const scaleOf = (c: MetricComparison) => (c.scale === 'ratio' ? { type: 'log', nice: false } : { zero: false, nice: true });
-  const titleOf = (c: MetricComparison, l: string) => (c.scale === 'ratio' ? `${l}: ratio to WT (log)` : `${l}: difference from WT`);
-  const X = (field: string) => ({ field, type: 'quantitative', scale: scaleOf(first), title: titleOf(first, la) });
-  const Y = (field: string) => ({ field, type: 'quantitative', scale: scaleOf(second), title: titleOf(second, lb) });
+  const sx = effectScale([...rows.flatMap((r) => [r.x, r.xlo, r.xhi]), ...first.band], first.scale === 'ratio');
+  const sy = effectScale([...rows.flatMap((r) => [r.y, r.ylo, r.yhi]), ...second.band], second.scale === 'ratio');
+  const short = (p: Pick) => results.assays.find((x) => x.id === p.assay)?.metrics.find((m) => m.id === p.metric)?.label ?? p.metric;
+  // Axis titles name the metric only (the chart title names the assays): long titles push the plot down.
+  const titleOf = (c: MetricComparison, p: Pick) => (c.scale === 'ratio' ? `${short(p)}: ratio to WT (log)` : `${short(p)}: difference from WT`);
+  const X = (field: string) => ({ field, type: 'quantitative', scale: sx.scale, axis: sx.axis, title: titleOf(first, a) });
+  const Y = (field: string) => ({ field, type: 'quantitative', scale: sy.scale, axis: sy.axis, title: titleOf(second, b) });
   const calls = [...new Set(rows.map((r) => r.call))];
   const title = `${la} against ${lb}`;
   const spec = {

@@ -1,0 +1,130 @@
+import { describe, expect, it } from 'vitest';
+import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
+import { effectsChart } from '../../src/charts/effects.js';
+import { forestChart } from '../../src/charts/forest.js';
+import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
+import { chartKey, renderSvg, renumberIds } from '../../src/charts/render.js';
+import { residueMapChart } from '../../src/charts/residue-map.js';
+import { scatterCharts } from '../../src/charts/scatter.js';
+import { lineRanges } from '../../src/site/view-common.js';
+import { relLink, rootPrefix, slug, uniqueSlugs } from '../../src/site/paths.js';
+import { XSS, makeFixture } from '../fixtures/results-fixture.js';
+
+const simple = { data: { values: [{ a: 1, b: 2 }, { a: 2, b: 3 }] }, mark: 'point', encoding: { x: { field: 'a', type: 'quantitative' }, y: { field: 'b', type: 'quantitative' } } };
+
+describe('renderSvg', () => {
+  it('gives the same bytes for the same key, whatever vega rendered before', async () => {
+    const first = await renderSvg(simple, { key: 'k', title: 'T', description: 'D' });
+    await renderSvg(simple, { key: 'other' }); // advances vega's global clip counter
+    expect(await renderSvg(simple, { key: 'k', title: 'T', description: 'D' })).toBe(first);
+  });
+
+  it('prefixes ids per key so charts never collide, and rewrites references', async () => {
+    const a = await renderSvg({ ...simple, mark: { type: 'point', clip: true } }, { key: 'a' });
+    const b = await renderSvg({ ...simple, mark: { type: 'point', clip: true } }, { key: 'b' });
+    const ids = (s: string) => [...s.matchAll(/\sid="([^"]+)"/g)].map((m) => m[1]);
+    expect(ids(a).length).toBeGreaterThan(2);
+    expect(ids(a).filter((id) => ids(b).includes(id))).toEqual([]);
+    for (const m of a.matchAll(/url\(#([^)]+)\)/g)) expect(ids(a)).toContain(m[1]);
+  });
+
+  it('adds role, title and description, escaped', async () => {
+    const svg = await renderSvg(simple, { key: 'x', title: `T ${XSS}`, description: 'two points' });
+    expect(svg).toMatch(/^<svg[^>]* role="img" aria-labelledby="c[0-9a-f]+-title c[0-9a-f]+-desc"/);
+    expect(svg).toContain('<desc id=');
+    expect(svg).not.toContain('<script');
+    expect(svg).toContain('DejaVu Sans');
+  });
+
+  it('renumbers ids in order of appearance', () => {
+    const raw = '<svg><clipPath id="clip7"/><g clip-path="url(#clip7)"/><clipPath id="clip3"/><use href="#clip3"/></svg>';
+    expect(renumberIds(raw, 'p')).toBe('<svg><clipPath id="p-1"/><g clip-path="url(#p-1)"/><clipPath id="p-2"/><use href="#p-2"/></svg>');
+  });
+
+  it('keys equal specs equally regardless of key order', () => {
+    expect(chartKey({ a: 1, b: [1, { c: 2, d: 3 }] })).toBe(chartKey({ b: [1, { d: 3, c: 2 }], a: 1 }));
+    expect(chartKey({ a: 1 })).not.toBe(chartKey({ a: 2 }));
+  });
+});
+
+describe('study chart specs', () => {
+  const r = makeFixture();
+  const all = () => [
+    forestChart(r, r.variants[1], 'G120S'),
+    effectsChart(r, 'atpase', 'kcat'),
+    effectsChart(r, 'motility', 'fractionImmobile'),
+    residueMapChart(r, 'SYNM1'),
+    ...scatterCharts(r),
+    ...r.controlCharts.map((c) => leveyJenningsChart(r, c)),
+  ];
+
+  it('all render, carry data as values (no expressions) and tables with one row per datum', async () => {
+    for (const def of all()) {
+      expect(def).not.toBeNull();
+      const d = def!;
+      const text = JSON.stringify(d.spec);
+      expect(text).not.toMatch(/"(filter|calculate|expr|signal)"/);
+      expect(d.table.rows.length).toBeGreaterThan(0);
+      expect(d.table.rows.every((row) => row.length === d.table.columns.length)).toBe(true);
+      expect(await renderSvg(d.spec, { key: d.key, title: d.title, description: d.description })).toMatch(/^<svg/);
+    }
+  });
+
+  it('puts ratio metrics on a log axis and difference metrics on their own linear panel', () => {
+    const spec = forestChart(r, r.variants[1], 'G120S')!.spec as { vconcat: Array<{ layer: Array<{ encoding: { x: { scale: { type?: string } } } }> }> };
+    expect(spec.vconcat).toHaveLength(2);
+    expect(spec.vconcat[0].layer[0].encoding.x.scale.type).toBe('log');
+    expect(spec.vconcat[1].layer[0].encoding.x.scale.type).toBeUndefined();
+  });
+
+  it('sorts the effects chart by effect', () => {
+    const def = effectsChart(r, 'atpase', 'kcat')!;
+    const effects = def.table.rows.map((row) => Number(row[1])).filter(Number.isFinite);
+    expect(effects).toEqual([...effects].sort((a, b) => a - b));
+    // Fixture values: L260P 0.55 is the lowest, G120S 1.52 the highest (invented).
+    expect(def.table.rows[0][0]).toBe('L260P');
+  });
+
+  it('marks Westgard violations by shape as well as colour', () => {
+    const def = leveyJenningsChart(r, r.controlCharts[0])!;
+    const text = JSON.stringify(def.spec);
+    expect(text).toContain('"shape":{"field":"status"');
+    expect(def.table.rows.find((row) => row[0] === 'B8')?.[4]).toBe('rejected');
+    expect(def.table.rows.find((row) => row[0] === 'B4')?.[4]).toBe('warning (1-2s)');
+  });
+
+  it('shapes residue-map marks by call and lists every variant with a residue', () => {
+    const def = residueMapChart(r, 'SYNM1')!;
+    expect(JSON.stringify(def.spec)).toContain('"shape":{"field":"call"');
+    expect(def.table.rows.map((row) => row[0])).toEqual(['G120S', 'L260P', 'E415K', 'R505W', 'V630I', 'D870N']);
+  });
+});
+
+describe('formatting and paths (common practice, no source)', () => {
+  it('formats numbers', () => {
+    expect(fmt(1.23456)).toBe('1.23');
+    expect(fmt(0.000123456)).toBe('1.23e-4');
+    expect(fmt(0.00123456)).toBe('0.00123');
+    expect(fmt(null)).toBe('—');
+    expect(fmtP(0.01234)).toBe('0.012');
+    expect(fmtP(1e-6)).toBe('< 0.0001');
+  });
+
+  it('chooses log-axis domains that hold every value and symmetric ratio ticks', () => {
+    const { scale, axis } = effectScale([0.55, 1.76], true);
+    expect(scale.domain).toEqual([0.509, 1.9]);
+    expect(axis.values).toEqual([0.67, 0.8, 1, 1.25, 1.5]);
+    const lin = effectScale([-0.08, 0.1], false);
+    expect((lin.scale.domain as number[])[0]).toBeLessThan(-0.08);
+    expect((lin.scale.domain as number[])[1]).toBeGreaterThan(0.1);
+  });
+
+  it('computes slugs and relative links', () => {
+    expect(slug('SYNM1 p.Gly120Ser')).toBe('synm1-p-gly120ser');
+    expect([...uniqueSlugs(['A b', 'a-b', 'a_b']).values()]).toEqual(['a-b', 'a-b-2', 'a-b-3']);
+    expect(rootPrefix('variants/a.html')).toBe('../');
+    expect(rootPrefix('index.html')).toBe('./');
+    expect(relLink('variants/a.html', 'index.html')).toBe('../index.html');
+    expect(lineRanges([9, 2, 3, 4, 4])).toBe('2–4, 9');
+  });
+});
