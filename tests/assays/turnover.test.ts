@@ -170,3 +170,18 @@ describe('turnover chart and methods', () => {
     expect(text).toContain(`${FIT.maxRelativeSe * 100}%`);
   });
 });
+
+describe('turnover: short traces never throw', () => {
+  it('flags a trace too short for two phases, and one too short for any fit', () => {
+    const four = fitTurnoverTrace([0, 10, 20, 30], [1, 0.7, 0.5, 0.35], SETTINGS, 'Trace F');
+    expect(four.double.converged).toBe(false);
+    expect(four.double.stopReason).toBe('too-few-points');
+    expect(four.model).toBe('single');
+    const two = fitTurnoverTrace([0, 10], [1, 0.7], SETTINGS, 'Trace T');
+    expect(two.model).toBe('none');
+    expect(two.flags.map((f) => f.code)).toEqual(['not-converged']);
+    const [unit] = turnover.analyse(makeStudy({ turnover: traceRows('wt', 'p1', 'b1', 'T', [0, 10], [1, 0.7]) }));
+    expect(unit.metrics).toEqual({ slowFraction: null, kFast: null, kSlow: null });
+    expect(unit.plot.curve).toEqual([]);
+  });
+});
