@@ -202,6 +202,7 @@ export function readRows<K extends InputKind>(
     const obj: Record<string, string | number> = {};
     let bad = false;
     let skipped = false;
+    const failed = new Set<string>();
     for (const c of columns) {
       const text = row.cells[c.index].trim();
       const token = spec.missing.find((m) => m === text);
@@ -225,6 +226,7 @@ export function readRows<K extends InputKind>(
           : parsed.reason === 'not-an-integer' ? MSG.notAnInteger(c.def.name, text)
           : MSG.notANumber(c.def.name, text);
         issues.push(issue(msg, cellAt(c)));
+        failed.add(c.def.name);
         bad = true;
         continue;
       }
@@ -235,6 +237,7 @@ export function readRows<K extends InputKind>(
       for (const err of validate.errors ?? []) {
         if (err.keyword === 'if') continue;
         const name = err.keyword === 'required' ? (err.params as { missingProperty: string }).missingProperty : err.instancePath.slice(1);
+        if (failed.has(name)) continue; // already reported as a bad number
         const c = byName.get(name);
         const at = c ? cellAt(c) : { file, line, column: name };
         if (err.keyword === 'required') {

@@ -1,0 +1,94 @@
+/**
+ * The README's input reference (between `<!-- input-reference:start -->` and
+ * `<!-- input-reference:end -->`), generated from the schemas and the unit table so the
+ * docs cannot drift: tests/study/readme.test.ts compares README.md with this text.
+ * Regenerate with: npx tsx src/study/reference-doc.ts --write
+ */
+import { ASSAY } from '../defaults.js';
+import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME, MANIFEST_SCHEMA } from './schemas.js';
+import { UNITS, type Quantity } from './units.js';
+
+export const START_MARKER = '<!-- input-reference:start -->';
+export const END_MARKER = '<!-- input-reference:end -->';
+
+const cell = (s: string) => s.replace(/\|/g, '\\|').replace(/\n/g, ' ');
+
+/** Markdown table of one input kind's columns (one row per column, in schema order). */
+export function columnTable(kind: (typeof INPUT_KINDS)[number]): string {
+  const cat = CATALOGUE[kind];
+  const rows = cat.columns.map((c) => {
+    const need = c.required ? 'yes' : cat.alternatives.some((g) => g.includes(c.name)) ? 'one of ' + cat.alternatives.find((g) => g.includes(c.name))!.join('/') : 'no';
+    const units = c.quantity ? UNITS[c.quantity].units.map((u) => u.symbol).join(', ') + (c.pixels ? ', px' : '') : '—';
+    const range = [c.minimum !== undefined ? `≥ ${c.minimum}` : '', c.exclusiveMinimum !== undefined ? `> ${c.exclusiveMinimum}` : '', c.maximum !== undefined ? `≤ ${c.maximum}` : '', c.enum ? c.enum.join(' / ') : '']
+      .filter(Boolean)
+      .join(', ');
+    return `| \`${c.name}\` | ${need} | ${c.type}${range ? ` (${range})` : ''} | ${units} | ${cell(c.description)} |`;
+  });
+  return ['| column | required | type | units | description |', '|---|---|---|---|---|', ...rows].join('\n');
+}
+
+/** The whole generated section (without the markers). */
+export function inputReference(): string {
+  const props = (MANIFEST_SCHEMA as { properties: Record<string, { description?: string }>; required: string[] }).properties;
+  const required = (MANIFEST_SCHEMA as { required: string[] }).required;
+  const out: string[] = [];
+  out.push('## Input reference', '');
+  out.push(
+    `A study folder holds one manifest, \`${MANIFEST_NAME}\` (checked against \`schemas/manifest.schema.json\`), and CSV files, one row per observation (row schemas in \`schemas/rows/\`). \`myofolio init <dir>\` writes a starter folder; \`myofolio check <dir>\` lists every problem as \`file:line:col: severity: message — fix\` and exits 1 when there are errors.`,
+    '',
+  );
+  out.push('### Manifest fields', '', '| field | required | description |', '|---|---|---|');
+  for (const [name, p] of Object.entries(props)) {
+    if (name === '$schema') continue;
+    out.push(`| \`${name}\` | ${required.includes(name) ? 'yes' : 'no'} | ${cell(p.description ?? '')} |`);
+  }
+  out.push('');
+  out.push(
+    'Variants: `{"wt": true}` for the wild type; others give `hgvs` as `p.Arg403Gln`, `p.R403Q` or `R403Q` (normalised to `p.Arg403Gln`, short form `R403Q`), optionally `label` (the name in the CSV files, default the short form), `gene` (needed when several genes are declared), `control` `{"class": "pathogenic" | "likely pathogenic" | "benign" | "likely benign", "source": "…"}` and `note`. When a gene has a `sequence`, the reference residue of every variant is checked against it.',
+    '',
+    'Files: `path` (relative, inside the folder), `kind` (one of the input kinds below), `units` per column when the header does not give them, `decimal` (`.` default, or `,` with `;` as delimiter), `missing` (cell texts meaning no value, e.g. `["NA"]`; a row whose required value is missing is skipped with a warning), and per kind: `pathLength` (atpase-nadh), `pixelSize` and `frameInterval` (motility-tracks), `crossSection` (force-pca; `value` for all preparations or `byUnit`), each `{"value": …, "unit": "…"}`.',
+    '',
+    `Settings (\`settings\`) override the assay defaults of \`src/defaults.ts\` by name: ${Object.keys(ASSAY).map((k) => `\`${k}\``).join(', ')}. Unknown names and values of the wrong type are errors.`,
+    '',
+  );
+  out.push('### CSV rules', '');
+  out.push(
+    '- UTF-8 with or without BOM; delimiter `,` or `;`, read from the header line; lines starting with `#` are comments; blank lines are skipped.',
+    '- Units go in the header (`actin (uM)`, `actin [µM]`, `actin_uM`, `velocity (nm/s)`, `velocity_nm_s`) or in the manifest `units`; µ may be written `u`. A measurement column without a unit, or with an unknown unit, is an error. Values are converted on load to µM, µm/s, s, kPa (= mN/mm²), µm, 1/s.',
+    '- Numbers are strict: `12`, `-0.5`, `.5`, `1e-3` and `00123` (= 123, in number columns only; text columns keep the text) are numbers; `1,2` is an error unless the file declares a decimal comma; `NA`, dates, units and thousands separators are errors unless declared as missing-value tokens.',
+    '- Every variant in a CSV must be declared in the manifest; every batch that holds a variant must hold WT for the same input kind; repeated observations are errors, identical rows warnings; implausible values are warnings.',
+    '',
+  );
+  out.push('### Units', '', '| quantity | canonical | accepted |', '|---|---|---|');
+  for (const q of Object.keys(UNITS) as Quantity[]) {
+    out.push(`| ${UNITS[q].label} | ${UNITS[q].canonical} | ${UNITS[q].units.map((u) => [u.symbol, ...u.aliases].join(', ')).join('; ')} |`);
+  }
+  out.push('');
+  for (const kind of INPUT_KINDS) {
+    const cat = CATALOGUE[kind];
+    out.push(`### \`${kind}\`: ${cat.title}`, '', cell(cat.description), '', columnTable(kind), '');
+  }
+  return out.join('\n');
+}
+
+/** Replace the text between the markers of a README. */
+export function spliceReference(readme: string, section: string): string {
+  const start = readme.indexOf(START_MARKER);
+  const end = readme.indexOf(END_MARKER);
+  if (start < 0 || end < start) throw new Error('README markers not found');
+  return readme.slice(0, start + START_MARKER.length) + '\n' + section + '\n' + readme.slice(end);
+}
+
+/** The text between the markers, without the surrounding line breaks. */
+export function extractReference(readme: string): string | undefined {
+  const start = readme.indexOf(START_MARKER);
+  const end = readme.indexOf(END_MARKER);
+  if (start < 0 || end < start) return undefined;
+  return readme.slice(start + START_MARKER.length, end).replace(/^\n/, '').replace(/\n$/, '');
+}
+
+if (process.argv[1]?.endsWith('reference-doc.ts') && process.argv.includes('--write')) {
+  const fs = await import('node:fs');
+  const readme = fs.readFileSync('README.md', 'utf8');
+  fs.writeFileSync('README.md', spliceReference(readme, inputReference()));
+}
