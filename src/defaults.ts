@@ -39,6 +39,8 @@ export const BANDS: Record<string, [number, number]> = {
   'atpase.km': [0.67, 1.5],
   'atpase.basal': [0.67, 1.5],
   'motility.velocity': [0.8, 1.25],
+  'motility.medianVelocity': [0.8, 1.25],
+  'motility.p95Velocity': [0.8, 1.25],
   'motility.fractionImmobile': [-0.1, 0.1],
   'force.fmax': [0.8, 1.25],
   'force.pCa50': [-0.05, 0.05],
