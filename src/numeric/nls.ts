@@ -38,7 +38,7 @@ import { tQuantile } from '../stats/distributions.js';
 import { dampedLeastSquares, inverseNormalMatrix } from './linalg.js';
 import type { CurveModel, FitOptions, FitResult, ParameterEstimate, StopReason } from './types.js';
 
-/** Above this scaled condition number of J the optimum is treated as singular (≈ 1/√ε·0.5e-? : 1e10 leaves ~6 digits of the covariance). */
+/** Above this condition number of the column-scaled Jacobian a stop is reported as singular: (JᵀJ)⁻¹ then loses ~ 2·log10(1e10) = 20 of ~16 digits, i.e. the SEs are meaningless. NIST StRD problems here stay below 1e2. */
 export const FIT_CONDITION_LIMIT = 1e10;
 /** A parameter whose magnitude exceeds this multiple of max(1, |start|) counts as diverging to infinity. */
 export const FIT_DIVERGENCE_FACTOR = 1e8;
