@@ -71,18 +71,18 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
   const labelsSeen = new Set<string>();
   const batches = new Set<string>();
   const units = new Set<string>();
-  const readerFlagged = new Set((input.readIssues ?? []).map((i) => i.at.file));
+  const readerFlagged = new Set((input.readIssues ?? []).map((i) => i.at.jsonPath));
 
   for (const spec of manifest.files) {
     const path = spec.entry.path;
     const jsonPath = `/files/${spec.index}/path`;
     if (!isInsideFolder(path)) {
-      if (!readerFlagged.has(path)) issues.push(issue(MSG.pathOutside(path), { file: manifestPath, jsonPath }));
+      if (!readerFlagged.has(jsonPath)) issues.push(issue(MSG.pathOutside(path), { file: manifestPath, jsonPath }));
       continue;
     }
     const data = getFile(input.files, path);
     if (data === undefined) {
-      if (!readerFlagged.has(path)) issues.push(issue(MSG.fileNotFound(path), { file: manifestPath, jsonPath }));
+      if (!readerFlagged.has(jsonPath)) issues.push(issue(MSG.fileNotFound(path), { file: manifestPath, jsonPath }));
       continue;
     }
     const text = decodeUtf8(data);

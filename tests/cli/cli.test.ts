@@ -1,0 +1,131 @@
+import { execFileSync } from 'node:child_process';
+import { appendFileSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { main } from '../../src/cli/main.js';
+
+const REPO = join(import.meta.dirname, '../..');
+const root = mkdtempSync(join(tmpdir(), 'myofolio-cli-'));
+afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+async function run(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  const code = await main(argv, { stdout: { write: (s: string) => (out += s) }, stderr: { write: (s: string) => (err += s) }, cwd: root });
+  return { code, out, err };
+}
+
+describe('myofolio CLI', () => {
+  it('--version prints the package.json version', async () => {
+    const pkg = JSON.parse(readFileSync(join(REPO, 'package.json'), 'utf8'));
+    expect(await run('--version')).toEqual({ code: 0, out: `${pkg.version}\n`, err: '' });
+  });
+
+  it('--help lists the commands', async () => {
+    const r = await run('--help');
+    expect(r.code).toBe(0);
+    expect(r.out).toContain('init <dir>');
+    expect(r.out).toContain('check <study-dir>');
+  });
+
+  it('usage errors exit 2', async () => {
+    expect((await run()).code).toBe(2);
+    const unknown = await run('frobnicate');
+    expect(unknown.code).toBe(2);
+    expect(unknown.err).toContain("unknown command 'frobnicate'");
+    expect((await run('check')).code).toBe(2);
+    expect((await run('check', 'a', 'b')).code).toBe(2);
+    expect((await run('init', '--force', 'x')).code).toBe(2);
+  });
+
+  it('init writes a starter folder, prints the next command, and refuses a non-empty folder', async () => {
+    const r = await run('init', 'starter');
+    expect(r.code).toBe(0);
+    expect(r.out).toContain('myofolio check starter');
+    expect(readdirSync(join(root, 'starter')).sort()).toEqual([
+      'atpase-nadh.csv', 'atpase-rates.csv', 'force-pca.csv', 'motility-tracks.csv', 'motility-velocities.csv', 'study.json', 'turnover.csv',
+    ]);
+    expect(readFileSync(join(root, 'starter', 'atpase-rates.csv'), 'utf8')).toContain('# actin (required): Actin concentration in the well. Units: M, mM, µM, nM.');
+    const again = await run('init', 'starter');
+    expect(again.code).toBe(1);
+    expect(again.err).toContain('is not empty');
+  });
+
+  it('a fresh starter passes check with warnings only', async () => {
+    await run('init', 'fresh');
+    const r = await run('check', 'fresh');
+    expect(r.code).toBe(0);
+    expect(r.out).toContain('warning: The file has a header but no data rows.');
+    expect(r.out).not.toContain(': error:');
+  });
+
+  it('a starter filled in passes check with no problems', async () => {
+    await run('init', 'filled');
+    const dir = join(root, 'filled');
+    const m = JSON.parse(readFileSync(join(dir, 'study.json'), 'utf8'));
+    m.genes[0] = { symbol: 'ZZG1', sequence: 'MRKAEL', domains: [{ name: 'head', start: 1, end: 6 }] };
+    m.variants.push({ hgvs: 'R2Q' });
+    writeFileSync(join(dir, 'study.json'), JSON.stringify(m, null, 2));
+    const rows: Record<string, string[]> = {
+      'atpase-rates.csv': ['WT,w1,B1,0,0.03,a', 'WT,w1,B1,50,2.6,a', 'R2Q,p1,B1,0,0.04,a', 'R2Q,p1,B1,50,3.1,a'],
+      'atpase-nadh.csv': [',,B1,actin-only,A1,50,0,0,0.9,0.5', 'WT,w1,B1,sample,A2,50,0.05,0,0.9,0.5', 'R2Q,p1,B1,sample,A3,50,0.05,0,0.9,0.5'],
+      'motility-velocities.csv': ['WT,w1,B1,m1,f1,0.8', 'R2Q,p1,B1,m1,f1,0.9'],
+      'motility-tracks.csv': ['WT,w1,B1,m1,f1,0,1.0,1.0', 'WT,w1,B1,m1,f1,0.2,1.2,1.0', 'R2Q,p1,B1,m1,f1,0,3.0,3.0'],
+      'force-pca.csv': ['WT,w1,B1,9,1.5,', 'WT,w1,B1,4.5,31,', 'R2Q,p1,B1,4.5,33,'],
+      'turnover.csv': ['WT,w1,B1,t1,0,100', 'WT,w1,B1,t1,10,90', 'R2Q,p1,B1,t1,0,100'],
+    };
+    for (const [file, lines] of Object.entries(rows)) appendFileSync(join(dir, file), lines.join('\n') + '\n');
+    const r = await run('check', 'filled');
+    expect(r.out).toBe('No problems found.\n');
+    expect(r.code).toBe(0);
+  });
+
+  it('check prints file:line:col: severity: message — fix and exits 1 on errors', async () => {
+    await run('init', 'broken');
+    const dir = join(root, 'broken');
+    appendFileSync(join(dir, 'atpase-rates.csv'), 'WT,w1,B1,-3,0.03,a\n');
+    const r = await run('check', 'broken');
+    expect(r.code).toBe(1);
+    // The header is line 9 of the template (8 comment lines), so the row is line 10; actin is column 4.
+    expect(r.out).toContain("atpase-rates.csv:10:4: error: -3 in 'actin' is out of range: it must be >= 0. — Correct the value; actin must be >= 0.");
+    expect(r.out).toMatch(/1 error\(s\), \d+ warning\(s\)\.\n$/);
+  });
+
+  it('check names manifest problems by JSON path', async () => {
+    await run('init', 'badmanifest');
+    const dir = join(root, 'badmanifest');
+    const m = JSON.parse(readFileSync(join(dir, 'study.json'), 'utf8'));
+    m.variants.push({ hgvs: 'Q9' });
+    writeFileSync(join(dir, 'study.json'), JSON.stringify(m));
+    const r = await run('check', 'badmanifest');
+    expect(r.code).toBe(1);
+    expect(r.out).toContain("study.json:/variants/1/hgvs: error: 'Q9' is not a protein change myofolio understands");
+  });
+
+  it('check on a folder without a manifest, or a missing folder, exits 1', async () => {
+    mkdirSync(join(root, 'empty'));
+    const r = await run('check', 'empty');
+    expect(r.code).toBe(1);
+    expect(r.out).toContain("study.json: error: The study folder has no manifest 'study.json'.");
+    expect((await run('check', 'nowhere')).code).toBe(1);
+  });
+
+  it('the demo study passes check', async () => {
+    const r = await run('check', join(REPO, 'data-demo'));
+    expect(r.out).not.toContain(': error:');
+    expect(r.code).toBe(0);
+  });
+
+  it('the launcher runs under node and sets the exit code', () => {
+    const out = execFileSync(process.execPath, [join(REPO, 'src/cli/myofolio.js'), '--version'], { encoding: 'utf8' });
+    expect(out.trim()).toMatch(/^\d+\.\d+\.\d+/);
+    let code = 0;
+    try {
+      execFileSync(process.execPath, [join(REPO, 'src/cli/myofolio.js'), 'nonsense'], { encoding: 'utf8', stdio: 'pipe' });
+    } catch (e) {
+      code = (e as { status: number }).status;
+    }
+    expect(code).toBe(2);
+  });
+});
