@@ -36,8 +36,8 @@ export function checkWildTypePerBatch(rows: Partial<RowsByKind>, variants: reado
 }
 
 /** Declared variants that no file uses: one warning each, at the manifest entry. */
-export function checkUnusedVariants(variants: readonly Variant[], labelsSeen: ReadonlySet<string>): Issue[] {
-  return variants.filter((v) => !labelsSeen.has(v.label)).map((v) => issue(MSG.variantUnused(v.label), v.at));
+export function checkUnusedVariants(variants: readonly Variant[], idsSeen: ReadonlySet<string>): Issue[] {
+  return variants.filter((v) => !idsSeen.has(v.id)).map((v) => issue(MSG.variantUnused(v.label), v.at));
 }
 
 /** Exclusions whose batch or unit occurs in no file: a warning (a typo would silently exclude nothing). */

@@ -68,7 +68,7 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
 
   const rows: Partial<Record<InputKind, unknown[]>> = {};
   const inputFiles: InputFile[] = [];
-  const labelsSeen = new Set<string>();
+  const variantsSeen = new Set<string>();
   const batches = new Set<string>();
   const units = new Set<string>();
   const readerFlagged = new Set((input.readIssues ?? []).map((i) => i.at.jsonPath));
@@ -94,7 +94,7 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
     issues.push(...table.issues);
     const got = readRows(spec.entry.kind, table, spec, path, manifest.byLabel, issues);
     (rows[spec.entry.kind] ??= []).push(...(got.rows as unknown[]));
-    got.labelsSeen.forEach((l) => labelsSeen.add(l));
+    got.variantsSeen.forEach((id) => variantsSeen.add(id));
     got.batches.forEach((b) => batches.add(b));
     got.units.forEach((u) => units.add(u));
     const settings: Record<string, number | string | boolean> = { decimal: spec.decimal };
@@ -114,7 +114,7 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
 
   const typedRows = rows as Partial<RowsByKind>;
   issues.push(...checkWildTypePerBatch(typedRows, manifest.variants));
-  issues.push(...checkUnusedVariants(manifest.variants, labelsSeen));
+  issues.push(...checkUnusedVariants(manifest.variants, variantsSeen));
   issues.push(...checkExclusionsMatch(manifest.exclusions, batches, units));
 
   if (issues.some((i) => i.severity === 'error')) return { issues };

@@ -74,7 +74,7 @@ export interface ParsedManifest {
   json: ManifestJson;
   genes: Gene[];
   variants: Variant[];
-  /** CSV label → variant. */
+  /** CSV name → variant: each label, plus the short form and HGVS of a variant when no other variant uses them as label. */
   byLabel: Map<string, Variant>;
   files: FileSpec[];
   exclusions: Exclusion[];
@@ -257,6 +257,12 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
     byLabel.set(variant.label, variant);
     variants.push(variant);
   });
+  // Short forms and HGVS are accepted in the CSV files too, where unambiguous (one gene; labels win).
+  if (genes.length === 1) {
+    for (const v of variants) {
+      for (const alias of [v.short, v.hgvs]) if (!byLabel.has(alias)) byLabel.set(alias, v);
+    }
+  }
   if (wtGenes.size === 0 && !issues.some((i) => i.at.jsonPath?.startsWith('/variants/'))) {
     issues.push(issue(MSG.noWildType(), at('/variants')));
   }

@@ -44,7 +44,7 @@ export function inputReference(): string {
   }
   out.push('');
   out.push(
-    'Variants: `{"wt": true}` for the wild type; others give `hgvs` as `p.Arg403Gln`, `p.R403Q` or `R403Q` (normalised to `p.Arg403Gln`, short form `R403Q`), optionally `label` (the name in the CSV files, default the short form), `gene` (needed when several genes are declared), `control` `{"class": "pathogenic" | "likely pathogenic" | "benign" | "likely benign", "source": "…"}` and `note`. When a gene has a `sequence`, the reference residue of every variant is checked against it.',
+    'Variants: `{"wt": true}` for the wild type; others give `hgvs` as `p.Arg403Gln`, `p.R403Q` or `R403Q` (normalised to `p.Arg403Gln`, short form `R403Q`), optionally `label` (the name in the CSV files, default the short form; with one gene the CSV files may also use the short form or the HGVS), `gene` (needed when several genes are declared), `control` `{"class": "pathogenic" | "likely pathogenic" | "benign" | "likely benign", "source": "…"}` and `note`. When a gene has a `sequence`, the reference residue of every variant is checked against it.',
     '',
     'Files: `path` (relative, inside the folder), `kind` (one of the input kinds below), `units` per column when the header does not give them, `decimal` (`.` default, or `,` with `;` as delimiter), `missing` (cell texts meaning no value, e.g. `["NA"]`; a row whose required value is missing is skipped with a warning), and per kind: `pathLength` (atpase-nadh), `pixelSize` and `frameInterval` (motility-tracks), `crossSection` (force-pca; `value` for all preparations or `byUnit`), each `{"value": …, "unit": "…"}`.',
     '',

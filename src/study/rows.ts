@@ -29,8 +29,8 @@ export interface ResolvedColumn {
 export interface FileRows<K extends InputKind = InputKind> {
   kind: K;
   rows: RowsByKind[K];
-  /** Labels of variants met in the file, by label. */
-  labelsSeen: Set<string>;
+  /** Ids of the variants met in the file. */
+  variantsSeen: Set<string>;
   batches: Set<string>;
   units: Set<string>;
   /** Data rows read (excluding header and comments), whether or not they were usable. */
@@ -81,7 +81,7 @@ export function readRows<K extends InputKind>(
   issues: Issue[],
 ): FileRows<K> {
   const cat = CATALOGUE[kind];
-  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], labelsSeen: new Set(), batches: new Set(), units: new Set(), rowCount: table.rows.length };
+  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), batches: new Set(), units: new Set(), rowCount: table.rows.length };
   if (!table.header) {
     issues.push(issue(MSG.noHeader(), { file }));
     return out;
@@ -267,7 +267,7 @@ export function readRows<K extends InputKind>(
         issues.push(issue(MSG.unknownVariant(label), cellAt(byName.get('variant')!)));
         continue;
       }
-      out.labelsSeen.add(label);
+      out.variantsSeen.add(variant.id);
       variantId = variant.id;
     }
 

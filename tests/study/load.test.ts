@@ -205,3 +205,13 @@ describe('conversions and accepted forms', () => {
     expect(errors(o)).toEqual([]);
   });
 });
+
+describe('variant names in CSV files', () => {
+  it('accept the label, the short form and the HGVS of a declared variant', () => {
+    const x = baseManifest();
+    x.variants[1].label = 'mutant-1';
+    const o = load(x, { 'rates.csv': `${RATE_HEAD}\nWT,w1,B1,0,0.03\nmutant-1,p1,B1,0,0.04\nR2Q,p1,B1,5,0.5\np.Arg2Gln,p1,B1,10,0.9\np.Lys4Glu,p2,B1,0,0.03\n` });
+    expect(errors(o)).toEqual([]);
+    expect(o.study!.rows['atpase-rates']!.map((r) => r.variant)).toEqual(['zzg1-wt', 'zzg1-r2q', 'zzg1-r2q', 'zzg1-r2q', 'zzg1-k4e']);
+  });
+});
