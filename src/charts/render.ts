@@ -94,7 +94,8 @@ export async function renderSvg(spec: ChartSpec, options: RenderOptions = {}): P
     view.finalize();
   }
   const prefix = idPrefix(key);
-  let svg = renumberIds(raw, prefix);
+  // Inner ARIA roles from vega (graphics-symbol, …) would each need their own name; the root role="img" speaks for the chart.
+  let svg = renumberIds(raw.replace(/\s(?:role|aria-[a-z]+)="[^"]*"/g, ''), prefix);
   const titleId = `${prefix}-title`;
   const descId = `${prefix}-desc`;
   svg = svg.replace(

@@ -42,9 +42,9 @@
     var raw = cell.hasAttribute('data-value') ? cell.getAttribute('data-value') : cell.textContent.trim();
     if (kind === 'number') {
       var n = parseFloat(raw);
-      return isNaN(n) ? Infinity : n;
+      return isNaN(n) ? null : n;
     }
-    return raw.toLowerCase();
+    return raw === '' || raw === '—' ? null : raw.toLowerCase();
   }
 
   var headers = Array.prototype.slice.call(table.tHead.rows[0].cells);
@@ -66,6 +66,8 @@
       var sorted = rows.slice().sort(function (a, b) {
         var x = cellValue(a, index, kind);
         var y = cellValue(b, index, kind);
+        // Empty cells (no residue, no domain) go last in either direction.
+        if (x === null || y === null) return x === y ? rows.indexOf(a) - rows.indexOf(b) : x === null ? 1 : -1;
         if (x < y) return -sign;
         if (x > y) return sign;
         return rows.indexOf(a) - rows.indexOf(b);
