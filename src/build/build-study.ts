@@ -64,10 +64,9 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   phase('read');
   const plan = planOutput(studyDir, outDir, options.force ?? false);
   const folder = readStudyFolder(studyDir);
-  if (!folder.files) return { ok: false, issues: folder.issues };
   phase('check');
-  const loaded = loadStudy(folder.files);
-  const issues = [...folder.issues, ...loaded.issues];
+  const loaded = loadStudy(folder);
+  const issues = loaded.issues;
   if (!loaded.study || issues.some((i) => i.severity === 'error')) return { ok: false, issues };
   phase('analyse');
   const epoch = options.sourceDateEpoch;

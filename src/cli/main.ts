@@ -27,6 +27,7 @@ export interface Command {
 const COMMANDS: Record<string, () => Promise<{ command: Command }>> = {
   init: () => import('./commands/init.js'),
   check: () => import('./commands/check.js'),
+  build: () => import('./commands/build.js'),
 };
 
 /** The version in package.json. */

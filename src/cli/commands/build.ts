@@ -1,0 +1,101 @@
+/** `myofolio build <study-dir> [--out <dir>] [--force]`: check, analyse and write the report site. */
+import { existsSync, statSync } from 'node:fs';
+import { isAbsolute, join, relative } from 'node:path';
+import { buildStudy } from '../../build/build-study.js';
+import { MANIFEST_NAME } from '../../study/schemas.js';
+import type { Command, Io } from '../main.js';
+import { CLI } from '../messages.js';
+import { OutputError } from '../output.js';
+import { formatIssue, sortIssues } from './check.js';
+
+/** Default output folder, relative to the working directory. */
+export const DEFAULT_OUT = '_site';
+
+interface BuildArgs {
+  study: string;
+  out: string;
+  force: boolean;
+}
+
+function parseArgs(args: string[]): BuildArgs | string {
+  let out = DEFAULT_OUT;
+  let force = false;
+  const positional: string[] = [];
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
+    if (a === '--out' || a === '-o') {
+      const v = args[++i];
+      if (v === undefined || v.startsWith('-')) return `option ${a} needs a folder`;
+      out = v;
+    } else if (a.startsWith('--out=')) out = a.slice('--out='.length);
+    else if (a === '--force') force = true;
+    else if (a.startsWith('-')) return `unknown option '${a}'`;
+    else positional.push(a);
+  }
+  if (positional.length !== 1) return 'give exactly one study folder';
+  return { study: positional[0], out, force };
+}
+
+/** SOURCE_DATE_EPOCH (reproducible builds spec): whole seconds since 1970, or undefined. */
+export function sourceDateEpoch(env: NodeJS.ProcessEnv): number | undefined {
+  const raw = env.SOURCE_DATE_EPOCH;
+  if (raw === undefined || raw === '') return undefined;
+  return /^\d+$/.test(raw) ? Number(raw) : undefined;
+}
+
+export const command: Command = {
+  name: 'build',
+  usage: 'build <study-dir> [--out <dir>] [--force]',
+  summary: `Check, analyse and write the report site (default --out ${DEFAULT_OUT}).`,
+  async run(args: string[], io: Io): Promise<number> {
+    const parsed = parseArgs(args);
+    if (typeof parsed === 'string') {
+      io.stderr.write(`myofolio build: ${parsed}.\n${CLI.badArgs(this.usage)}`);
+      return 2;
+    }
+    const dir = isAbsolute(parsed.study) ? parsed.study : join(io.cwd, parsed.study);
+    const out = isAbsolute(parsed.out) ? parsed.out : join(io.cwd, parsed.out);
+    if (!existsSync(dir) || !statSync(dir).isDirectory()) {
+      io.stderr.write(`myofolio build: cannot read the study folder '${parsed.study}': no such folder.\n`);
+      return 1;
+    }
+    if (!existsSync(join(dir, MANIFEST_NAME))) {
+      io.stderr.write(`myofolio build: '${parsed.study}' has no ${MANIFEST_NAME}. Run 'myofolio init <dir>' for a starter study.\n`);
+      return 1;
+    }
+    const started = Date.now();
+    const tty = Boolean((io.stderr as { isTTY?: boolean }).isTTY);
+    try {
+      const outcome = await buildStudy(dir, out, {
+        force: parsed.force,
+        sourceDateEpoch: sourceDateEpoch(process.env),
+        onPhase: tty ? (p) => io.stderr.write(`\r\x1b[K${p}…`) : undefined,
+      });
+      if (tty) io.stderr.write('\r\x1b[K');
+      for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i)}\n`);
+      if (!outcome.ok) {
+        const errors = outcome.issues.filter((i) => i.severity === 'error').length;
+        io.stdout.write(`${errors} error(s): nothing was built; the previous output, if any, is unchanged.\n`);
+        return 1;
+      }
+      const r = outcome.results!;
+      const shown = relative(io.cwd, outcome.out!) || '.';
+      io.stdout.write(
+        `Built ${r.variants.length} variants, ${r.assays.length} assays, ${outcome.pages} pages in ${((Date.now() - started) / 1000).toFixed(1)} s.\n` +
+          `Open ${join(shown, 'index.html')} in a browser.\n`,
+      );
+      if (outcome.movedAside) io.stdout.write(`The folder that was there before was moved to ${relative(io.cwd, outcome.movedAside)}.\n`);
+      return 0;
+    } catch (err) {
+      if (tty) io.stderr.write('\r\x1b[K');
+      if (err instanceof OutputError) {
+        io.stderr.write(`myofolio build: ${err.message}\n  fix: ${err.fix}\n`);
+        return 1;
+      }
+      const message = err instanceof Error ? err.message : String(err);
+      io.stderr.write(`myofolio build: the build failed: ${message}\nThe previous output, if any, is unchanged. Please report this with the study's check output.\n`);
+      if (process.env.MYOFOLIO_DEBUG && err instanceof Error) io.stderr.write(`${err.stack}\n`);
+      return 1;
+    }
+  },
+};
