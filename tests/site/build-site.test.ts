@@ -1,7 +1,11 @@
 import { existsSync } from 'node:fs';
-import { readFile } from 'node:fs/promises';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
 import { join, posix } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { chartsFromModules } from '../../src/charts/assay-charts.js';
+import type { UnitResult } from '../../src/results/types.js';
+import { buildSite } from '../../src/site/build-site.js';
 import { STANDARD_CAVEATS } from '../../src/site/view-common.js';
 import { makeFixture } from '../fixtures/results-fixture.js';
 import { buildFixture, cleanup, links, listFiles, readPages } from './helpers.js';
@@ -101,6 +105,31 @@ describe('buildSite on the synthetic fixture', () => {
     expect(html).toContain('rel="next" href="../variants/synm1-l260p.html"');
     expect(html).toContain('data/atpase.csv');
     expect(html).toMatch(/lines [0-9]+/);
+  });
+
+  it('places assay charts from a chartsFor callback (built from assay modules) with their numbers', async () => {
+    const fx = makeFixture();
+    const module = {
+      id: 'atpase',
+      label: 'Actin-activated ATPase',
+      chart: ({ variantUnits, wtUnits }: { variantUnits: UnitResult[]; wtUnits: UnitResult[] }) => ({
+        data: { values: [...variantUnits, ...wtUnits].flatMap((u) => u.plot.points.map((p) => ({ who: u.variant, ...p }))) },
+        mark: 'point',
+        encoding: { x: { field: 'actinUM', type: 'quantitative' }, y: { field: 'rate', type: 'quantitative' }, shape: { field: 'who', type: 'nominal' } },
+      }),
+    };
+    const withCharts = await mkdtemp(join(tmpdir(), 'myofolio-assay-charts-'));
+    await buildSite(fx, withCharts, { chartsFor: chartsFromModules(fx, [module]), sourceDateEpoch: 0 });
+    const html = await readFile(join(withCharts, 'variants/synm1-g120s.html'), 'utf8');
+    expect(html).toContain('Actin-activated ATPase: G120S beside paired WT');
+    // 3 variant units + 3 WT units of the same batches, 6 points each (fixture).
+    const table = html.slice(html.indexOf('<figure class="chart"')).split('</figure>')[0];
+    expect(table).toContain('<svg');
+    expect(table.match(/<tr>/g)?.length).toBe(1 + 36);
+    expect(table).toContain('<th scope="col">actinUM</th>');
+    const wt = await readFile(join(withCharts, 'variants/synm1-wt.html'), 'utf8');
+    expect(wt).not.toContain('beside paired WT');
+    await rm(withCharts, { recursive: true, force: true });
   });
 
   it('is byte-identical across two builds', async () => {
