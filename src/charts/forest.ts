@@ -20,7 +20,7 @@ interface Row {
 function panel(rows: Row[], scale: MetricScale, calls: string[]) {
   const log = scale === 'ratio';
   const { scale: xScale, axis } = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
-  const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 340 } };
+  const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 440 } };
   const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
   const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, axis, title: xTitle });
   return {

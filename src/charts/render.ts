@@ -77,7 +77,20 @@ function specText(value: unknown): string | undefined {
 function withFont(spec: ChartSpec): ChartSpec {
   const config = (spec.config as Record<string, unknown> | undefined) ?? {};
   // aria: false drops vega's per-mark ARIA; the root <svg role="img"> carries title and description.
-  return { ...spec, config: { font: CHART_FONT, aria: false, ...config } };
+  // Slightly larger text than vega's defaults: charts are read on screen and on paper at 100%.
+  const base = {
+    font: CHART_FONT,
+    aria: false,
+    axis: { labelFontSize: 12, titleFontSize: 12 },
+    legend: { labelFontSize: 12, titleFontSize: 12 },
+    title: { fontSize: 14, anchor: 'start' },
+  };
+  const merged: Record<string, unknown> = { ...base };
+  for (const [k, v] of Object.entries(config)) {
+    const b = merged[k];
+    merged[k] = b && typeof b === 'object' && v && typeof v === 'object' && !Array.isArray(v) ? { ...b, ...v } : v;
+  }
+  return { ...spec, config: merged };
 }
 
 /** Render a Vega-Lite spec to an SVG string with role="img", <title> and <desc>, and stable ids. */
