@@ -31,8 +31,10 @@ export const STATS = {
 /**
  * WT-like bands per metric key `<assay>.<metric>` (manifest: thresholds.bands).
  * Ratio metrics: [low, high] of variant/WT. Difference metrics: [low, high] of variant − WT.
- * Common practice, no source: ±20% for rates and velocities is a band many labs use
- * informally; pCa50 ±0.05 is about the between-preparation SD reported for WT fibres (from memory).
+ * Common practice, no source: 0.8–1.25 (±20–25%, symmetric on the log scale) for rates, velocities
+ * and force is a band many labs use informally. pCa50 ±0.1 is the same size on the calcium axis:
+ * a shift of 0.1 pCa units is a 10^0.1 = 1.26-fold change in [Ca²⁺] at half activation. Fractions
+ * (immobile filaments, slow turnover phase) use ±0.10 absolute.
  */
 export const BANDS: Record<string, [number, number]> = {
   'atpase.kcat': [0.8, 1.25],
@@ -43,7 +45,7 @@ export const BANDS: Record<string, [number, number]> = {
   'motility.p95Velocity': [0.8, 1.25],
   'motility.fractionImmobile': [-0.1, 0.1],
   'force.fmax': [0.8, 1.25],
-  'force.pCa50': [-0.05, 0.05],
+  'force.pCa50': [-0.1, 0.1],
   'force.nH': [0.8, 1.25],
   'force.passive': [0.67, 1.5],
   'turnover.slowFraction': [-0.1, 0.1],

@@ -38,7 +38,7 @@ const WT: AssayTruth = {
 
 const SOURCE = 'invented for the demo';
 
-type Plan = Omit<ScenarioVariant, 'hgvs' | 'batch'> & { residue: number };
+type Plan = Omit<ScenarioVariant, 'hgvs' | 'batches'> & { residue: number };
 
 /** The demo variants: residue, effects, which files hold them. */
 const PLANS: Plan[] = [
@@ -86,7 +86,7 @@ export function demoScenario(): Scenario {
     // Mix R403Q, p.R403Q and p.Arg403Gln spellings, to show normalisation.
     const hgvs =
       i % 3 === 0 ? `${ref}${residue}${alt}` : i % 3 === 1 ? `p.${ref}${residue}${alt}` : `p.${AMINO_ACIDS[ref]}${residue}${AMINO_ACIDS[alt]}`;
-    return { ...rest, hgvs, batch: batches[i % batches.length] };
+    return { ...rest, hgvs, batches: [batches[i % batches.length], batches[(i + 1) % batches.length]] };
   });
   return {
     seed: SEED,
@@ -112,8 +112,8 @@ export function demoScenario(): Scenario {
     ],
     batches,
     wt: WT,
-    wtUnitsPerBatch: 2,
-    unitsPerVariant: 3,
+    wtUnitsPerBatch: 3,
+    unitsPerVariant: 4,
     variants,
     unitSd: 0.06,
     batchSd: 0.05,

@@ -39,7 +39,8 @@ export interface ScenarioVariant {
   note?: string;
   /** Effects on the WT truth: factors for ratio parameters, shifts for ADDITIVE ones. */
   effects: Partial<AssayTruth>;
-  batch: string;
+  /** Batches the variant was measured in; its units are spread over them in turn. */
+  batches: string[];
   atpase: 'rates' | 'nadh' | 'none';
   motility: 'velocities' | 'tracks' | 'none';
   force: boolean;
@@ -114,8 +115,8 @@ const NADH_DURATION_S = 300;
 const TRACK_FRAMES = 25;
 const TRACK_FRAME_S = 0.2;
 const PIXEL_UM = 0.16;
-const FILAMENTS_PER_MOVIE = 15;
-const VELOCITY_FILAMENTS = 30;
+const FILAMENTS_PER_MOVIE = 30;
+const VELOCITY_FILAMENTS = 40;
 const TURNOVER_EVERY_S = 10;
 
 interface UnitPlan {
@@ -169,7 +170,8 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
     const label = v.label ?? (parsed.ok ? parsed.change.short : v.hgvs);
     const base = applyEffects(v.effects);
     for (let i = 1; i <= s.unitsPerVariant; i++) {
-      variantUnits.push({ label, unit: `${label}-p${i}`, batch: v.batch, truth: unitTruth(base, v.batch), variant: v, first: i === 1 });
+      const batch = v.batches[(i - 1) % v.batches.length];
+      variantUnits.push({ label, unit: `${label}-p${i}`, batch, truth: unitTruth(base, batch), variant: v, first: i === 1 });
     }
   }
   for (const u of [...wtUnits, ...variantUnits]) truth[`${u.label}|${u.unit}|${u.batch}`] = u.truth;
