@@ -8,7 +8,9 @@
  * Numerical Optimization, 2nd ed., §10.3; Moré 1978, "The Levenberg–Marquardt
  * algorithm: implementation and theory", LNM 630).
  *
- * Matrices are arrays of rows (number[][]); sizes here are small (points × ≤ 6).
+ * Matrices are arrays of rows (number[][]) in the convenience functions, and flat
+ * Float64Arrays stored column by column in the in-place routines the solver's inner loop
+ * uses (no allocation per iteration); sizes here are small (points × ≤ 6).
  */
 
 /**
@@ -17,7 +19,8 @@
  * diagonal of R containing a zero when the matrix is rank-deficient.
  *
  * Method: Householder reflections, column by column (Golub & Van Loan, Matrix
- * Computations, 4th ed., Algorithm 5.2.1), no pivoting.
+ * Computations, 4th ed., Algorithm 5.2.1), no pivoting; a wrapper around
+ * `householderQrInPlace` for arrays of rows.
  * @example householderQr([[3],[4]], [1, 2]) // → R = [[-5]], qtb = [-2.2]
  */
 export function householderQr(
@@ -26,48 +29,155 @@ export function householderQr(
 ): { r: number[][]; qtb: number[] } {
   const m = a.length;
   const k = m > 0 ? a[0].length : 0;
-  // Work on contiguous columns (faster than rows for column-wise reflections).
-  const cols: Float64Array[] = [];
-  for (let c = 0; c < k; c++) {
-    const col = new Float64Array(m);
-    for (let i = 0; i < m; i++) col[i] = a[i][c];
-    cols.push(col);
-  }
+  const cols = new Float64Array(m * k);
+  for (let c = 0; c < k; c++) for (let i = 0; i < m; i++) cols[c * m + i] = a[i][c];
   const rhs = Float64Array.from(b);
-  const v = new Float64Array(m);
-  for (let j = 0; j < k; j++) {
-    const x = cols[j];
-    let norm = 0;
-    for (let i = j; i < m; i++) norm = Math.hypot(norm, x[i]);
-    if (norm === 0) continue;
-    const alpha = x[j] > 0 ? -norm : norm;
-    // v = x − alpha·e1 (entries j..m−1).
-    let vv = 0;
-    for (let i = j; i < m; i++) {
-      v[i] = x[i];
-      if (i === j) v[i] -= alpha;
-      vv += v[i] * v[i];
-    }
-    if (vv === 0) continue;
-    for (let c = j; c < k; c++) {
-      const col = cols[c];
-      let dot = 0;
-      for (let i = j; i < m; i++) dot += v[i] * col[i];
-      const s = (2 * dot) / vv;
-      for (let i = j; i < m; i++) col[i] -= s * v[i];
-    }
-    let dotB = 0;
-    for (let i = j; i < m; i++) dotB += v[i] * rhs[i];
-    const sB = (2 * dotB) / vv;
-    for (let i = j; i < m; i++) rhs[i] -= sB * v[i];
-  }
+  householderQrInPlace(cols, m, k, rhs);
   const r: number[][] = [];
   for (let i = 0; i < k; i++) {
     const row = new Array(k).fill(0);
-    for (let c = i; c < k; c++) row[c] = cols[c][i];
+    for (let c = i; c < k; c++) row[c] = cols[c * m + i];
     r.push(row);
   }
   return { r, qtb: Array.from(rhs.subarray(0, k)) };
+}
+/**
+ * Euclidean norm of v[from..to) without overflow or harmful underflow: the entries are
+ * scaled by the largest magnitude first (the two-pass form of LAPACK's dnrm2 idea;
+ * Blue 1978, ACM TOMS 4:15, in its simplest variant).
+ * @example scaledNorm(Float64Array.of(3, 4), 0, 2) // → 5
+ */
+export function scaledNorm(v: Float64Array, from: number, to: number): number {
+  let big = 0;
+  for (let i = from; i < to; i++) {
+    const a = Math.abs(v[i]);
+    if (a > big) big = a;
+  }
+  if (big === 0 || !Number.isFinite(big)) return big;
+  let s = 0;
+  for (let i = from; i < to; i++) {
+    const a = v[i] / big;
+    s += a * a;
+  }
+  return big * Math.sqrt(s);
+}
+
+/**
+ * In-place Householder QR of an m×k matrix stored column by column in `a`
+ * (a[c·m + i] = A[i][c]), applied at the same time to `b` (length m). Afterwards the upper
+ * triangle R sits in a[c·m + i] for i ≤ c, and b[0..k) holds the first k entries of Qᵀb.
+ * Entries below the diagonal are left as scratch. A column whose remaining part is zero is
+ * skipped (its R_jj is then 0: rank-deficient).
+ *
+ * Method: Householder reflections column by column (Golub & Van Loan, Matrix Computations,
+ * 4th ed., Algorithm 5.2.1), no pivoting; the same arithmetic as `householderQr`, on a flat
+ * Float64Array with no allocation, for the solver's inner loop.
+ * @example
+ * const a = Float64Array.of(3, 4); const b = Float64Array.of(1, 2);
+ * householderQrInPlace(a, 2, 1, b) // → a[0] = −5 (R), b[0] = −2.2 (Qᵀb)
+ */
+export function householderQrInPlace(a: Float64Array, m: number, k: number, b: Float64Array): void {
+  for (let j = 0; j < k; j++) {
+    const xo = j * m;
+    const norm = scaledNorm(a, xo + j, xo + m);
+    if (norm === 0) continue;
+    const xj = a[xo + j];
+    const alpha = xj > 0 ? -norm : norm;
+    // v = x − alpha·e1 (entries j..m−1), held in place of x below the diagonal; v_j separately.
+    const vj = xj - alpha;
+    let vv = vj * vj;
+    for (let i = j + 1; i < m; i++) vv += a[xo + i] * a[xo + i];
+    if (vv === 0) continue;
+    for (let c = j + 1; c < k; c++) {
+      const co = c * m;
+      let dot = vj * a[co + j];
+      for (let i = j + 1; i < m; i++) dot += a[xo + i] * a[co + i];
+      const s = (2 * dot) / vv;
+      a[co + j] -= s * vj;
+      for (let i = j + 1; i < m; i++) a[co + i] -= s * a[xo + i];
+    }
+    let dotB = vj * b[j];
+    for (let i = j + 1; i < m; i++) dotB += a[xo + i] * b[i];
+    const sB = (2 * dotB) / vv;
+    b[j] -= sB * vj;
+    for (let i = j + 1; i < m; i++) b[i] -= sB * a[xo + i];
+    // The column itself becomes alpha·e1.
+    a[xo + j] = alpha;
+  }
+}
+
+/**
+ * Given the QR factor of A (upper triangle R of a k×k block stored column by column with
+ * leading dimension `ld`, and qtb = first k entries of Qᵀb), solve
+ * min ‖A·x − b‖² + Σ d_j²·x_j² without refactoring A: the rows diag(d) are rotated into R
+ * by Givens rotations, one damping row at a time, then back substitution. Writes x into
+ * `out` and returns true, or returns false when the damped triangle is singular.
+ *
+ * Method: the "qrsolv" step of MINPACK's lmpar (Moré 1978, LNM 630, §3; Moré, Garbow &
+ * Hillstrom 1980, ANL-80-74), without column pivoting: QR([A; D]) = QR([R; D]) since
+ * Qᵀ maps A to [R; 0], so each Levenberg–Marquardt trial costs O(k³), not O(m·k²).
+ * `work` must hold at least k·k + 2k numbers.
+ * @example
+ * // A = [[1],[1]], b = [1, 3]: R = [[−√2]], qtb = [−2√2]; with d = [0] → x = [2]
+ * dampedSolveFromQr(Float64Array.of(-Math.SQRT2), 1, 1, Float64Array.of(-2 * Math.SQRT2), Float64Array.of(0), out, work) // out[0] → 2
+ */
+export function dampedSolveFromQr(
+  r: Float64Array,
+  ld: number,
+  k: number,
+  qtb: Float64Array,
+  d: Float64Array,
+  out: Float64Array,
+  work: Float64Array,
+): boolean {
+  // s: k×k upper triangle row-major copy of R; z: right-hand side; w: the damping row.
+  const s = work;
+  const z = k * k;
+  const w = z + k;
+  for (let i = 0; i < k; i++) {
+    for (let c = 0; c < k; c++) s[i * k + c] = c >= i ? r[c * ld + i] : 0;
+    work[z + i] = qtb[i];
+  }
+  for (let j = 0; j < k; j++) {
+    if (d[j] === 0) continue;
+    for (let c = 0; c < k; c++) work[w + c] = 0;
+    work[w + j] = d[j];
+    let wRhs = 0;
+    for (let l = j; l < k; l++) {
+      const wl = work[w + l];
+      if (wl === 0) continue;
+      const sll = s[l * k + l];
+      // Givens rotation zeroing w_l against s_ll.
+      let cos: number;
+      let sin: number;
+      if (Math.abs(sll) < Math.abs(wl)) {
+        const cot = sll / wl;
+        sin = 1 / Math.sqrt(1 + cot * cot);
+        cos = sin * cot;
+      } else {
+        const tan = wl / sll;
+        cos = 1 / Math.sqrt(1 + tan * tan);
+        sin = cos * tan;
+      }
+      for (let c = l; c < k; c++) {
+        const a = s[l * k + c];
+        const b = work[w + c];
+        s[l * k + c] = cos * a + sin * b;
+        work[w + c] = -sin * a + cos * b;
+      }
+      const zl = work[z + l];
+      work[z + l] = cos * zl + sin * wRhs;
+      wRhs = -sin * zl + cos * wRhs;
+    }
+  }
+  for (let i = k - 1; i >= 0; i--) {
+    const dii = s[i * k + i];
+    if (dii === 0 || !Number.isFinite(dii)) return false;
+    let acc = work[z + i];
+    for (let c = i + 1; c < k; c++) acc -= s[i * k + c] * out[c];
+    out[i] = acc / dii;
+  }
+  return true;
 }
 
 /**
@@ -124,16 +234,37 @@ export function inverseNormalMatrix(
 ): { inverse: number[][]; condition: number } | null {
   const m = a.length;
   const k = m > 0 ? a[0].length : 0;
+  const cols = new Float64Array(m * k);
+  for (let c = 0; c < k; c++) for (let i = 0; i < m; i++) cols[c * m + i] = a[i][c];
+  return inverseNormalMatrixColumns(cols, m, k);
+}
+
+/**
+ * `inverseNormalMatrix` for an m×k matrix stored column by column (a[c·m + i] = A[i][c]);
+ * `a` is left unchanged. Same method and result.
+ * @example inverseNormalMatrixColumns(Float64Array.of(1, 0, 0, 0, 2, 0), 3, 2) // → inverse [[1, 0], [0, 0.25]], condition 1
+ */
+export function inverseNormalMatrixColumns(
+  a: Float64Array,
+  m: number,
+  k: number,
+): { inverse: number[][]; condition: number } | null {
   if (m < k) return null;
-  const scale = new Array(k).fill(0);
+  const scale = new Float64Array(k);
+  const scaled = new Float64Array(m * k);
   for (let j = 0; j < k; j++) {
-    let s = 0;
-    for (let i = 0; i < m; i++) s = Math.hypot(s, a[i][j]);
+    const s = scaledNorm(a, j * m, (j + 1) * m);
     if (s === 0 || !Number.isFinite(s)) return null;
     scale[j] = s;
+    for (let i = 0; i < m; i++) scaled[j * m + i] = a[j * m + i] / s;
   }
-  const scaled = a.map((row) => row.map((v, j) => v / scale[j]));
-  const { r } = householderQr(scaled, new Array(m).fill(0));
+  householderQrInPlace(scaled, m, k, new Float64Array(m));
+  const r: number[][] = [];
+  for (let i = 0; i < k; i++) {
+    const row = new Array(k).fill(0);
+    for (let c = i; c < k; c++) row[c] = scaled[c * m + i];
+    r.push(row);
+  }
   let maxDiag = 0;
   let minDiag = Infinity;
   for (let j = 0; j < k; j++) {

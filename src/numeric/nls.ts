@@ -10,8 +10,10 @@
  *    λ ← λ·max(1/3, 1 − (2ρ − 1)³), ν ← 2; after a rejected one λ ← λ·ν, ν ← 2ν
  *    (Nielsen 1999, IMM-REP-1999-05; Madsen, Nielsen & Tingleff 2004, "Methods for
  *    non-linear least squares problems", §3.2);
- *  - each step solved by QR of the augmented system [J; √(λD)] (src/numeric/linalg.ts),
- *    never by forming JᵀJ;
+ *  - each step solved as the least-squares problem [J; √(λD)]·δ ≈ [−r; 0], never by
+ *    forming JᵀJ: J (free columns) is factored by Householder QR once per iteration and
+ *    each damping trial only rotates the rows √(λD) into R by Givens rotations (MINPACK's
+ *    qrsolv; Moré 1978), src/numeric/linalg.ts; work arrays are allocated once per fit;
  *  - bounds by projection onto the box, with parameters held at a bound while the
  *    gradient pushes them outward (a simple active set; Kelley 1999, "Iterative
  *    methods for optimization", §5.5);
@@ -35,7 +37,7 @@
  */
 import { FIT } from '../defaults.js';
 import { tQuantile } from '../stats/distributions.js';
-import { dampedLeastSquares, inverseNormalMatrix } from './linalg.js';
+import { dampedSolveFromQr, householderQrInPlace, inverseNormalMatrixColumns } from './linalg.js';
 import type { CurveModel, FitOptions, FitResult, ParameterEstimate, StopReason } from './types.js';
 
 /** Above this condition number of the column-scaled Jacobian a stop is reported as singular: (JᵀJ)⁻¹ then loses ~ 2·log10(1e10) = 20 of ~16 digits, i.e. the SEs are meaningless. NIST StRD problems here stay below 1e2. */
@@ -51,53 +53,59 @@ const MAX_DAMPING = 1e32;
 const CBRT_EPS = Math.cbrt(Number.EPSILON);
 
 interface Data {
-  x: number[];
-  y: number[];
-  sqrtW: number[];
+  x: Float64Array;
+  y: Float64Array;
+  sqrtW: Float64Array;
+  /** The x values as a plain array, for model.start. */
+  xList: number[];
+  yList: number[];
 }
 
-/** Weighted residuals f − y at p, and their sum of squares; null when any value is not finite. */
-function residuals(model: CurveModel, data: Data, p: readonly number[]): { r: number[]; rss: number } | null {
-  const r = new Array(data.x.length);
+/** Weighted residuals f − y at p written into `out`; returns their sum of squares, or NaN when any value is not finite. */
+function residuals(model: CurveModel, data: Data, p: readonly number[], out: Float64Array): number {
+  const n = data.x.length;
   let rss = 0;
-  for (let i = 0; i < data.x.length; i++) {
+  for (let i = 0; i < n; i++) {
     const v = data.sqrtW[i] * (model.f(data.x[i], p) - data.y[i]);
-    if (!Number.isFinite(v)) return null;
-    r[i] = v;
+    if (!Number.isFinite(v)) return NaN;
+    out[i] = v;
     rss += v * v;
   }
-  return Number.isFinite(rss) ? { r, rss } : null;
+  return Number.isFinite(rss) ? rss : NaN;
 }
 
-/** Weighted Jacobian ∂r_i/∂p_j (rows = points); null when not finite. */
+/**
+ * Weighted Jacobian ∂r_i/∂p_j written into `out`, stored column by column
+ * (out[j·n + i]); returns false when a value is not finite.
+ */
 function jacobian(
   model: CurveModel,
   data: Data,
   p: readonly number[],
   lower: readonly number[],
   upper: readonly number[],
-): number[][] | null {
+  out: Float64Array,
+): boolean {
   const k = p.length;
-  const rows: number[][] = [];
+  const n = data.x.length;
   if (model.gradient) {
-    for (let i = 0; i < data.x.length; i++) {
+    for (let i = 0; i < n; i++) {
       const g = model.gradient(data.x[i], p);
-      const row = new Array(k);
+      const w = data.sqrtW[i];
       for (let j = 0; j < k; j++) {
-        row[j] = data.sqrtW[i] * g[j];
-        if (!Number.isFinite(row[j])) return null;
+        const v = w * g[j];
+        if (!Number.isFinite(v)) return false;
+        out[j * n + i] = v;
       }
-      rows.push(row);
     }
-    return rows;
+    return true;
   }
-  for (let i = 0; i < data.x.length; i++) rows.push(new Array(k));
   const trial = p.slice();
   for (let j = 0; j < k; j++) {
     const h = CBRT_EPS * (p[j] !== 0 ? Math.abs(p[j]) : 1);
     const up = p[j] + h <= upper[j];
     const down = p[j] - h >= lower[j];
-    for (let i = 0; i < data.x.length; i++) {
+    for (let i = 0; i < n; i++) {
       const xi = data.x[i];
       let plus = NaN;
       let minus = NaN;
@@ -116,13 +124,14 @@ function jacobian(
         const centre = model.f(xi, p);
         if (Number.isFinite(plus)) d = (plus - centre) / h;
         else if (Number.isFinite(minus)) d = (centre - minus) / h;
-        else return null;
+        else return false;
       }
-      rows[i][j] = data.sqrtW[i] * d;
-      if (!Number.isFinite(rows[i][j])) return null;
+      const v = data.sqrtW[i] * d;
+      if (!Number.isFinite(v)) return false;
+      out[j * n + i] = v;
     }
   }
-  return rows;
+  return true;
 }
 
 function project(p: readonly number[], lower: readonly number[], upper: readonly number[]): number[] {
@@ -141,17 +150,20 @@ export function fitCurve(
   if (weights && weights.length !== x.length) throw new Error(`fitCurve: ${weights.length} weights for ${x.length} points`);
 
   // 1. Data: keep points with finite x, y and a finite positive weight.
-  const data: Data = { x: [], y: [], sqrtW: [] };
+  const xList: number[] = [];
+  const yList: number[] = [];
+  const wList: number[] = [];
   for (let i = 0; i < x.length; i++) {
     const w = weights ? weights[i] : 1;
     if (Number.isFinite(x[i]) && Number.isFinite(y[i]) && Number.isFinite(w) && w > 0) {
-      data.x.push(x[i]);
-      data.y.push(y[i]);
-      data.sqrtW.push(Math.sqrt(w));
+      xList.push(x[i]);
+      yList.push(y[i]);
+      wList.push(Math.sqrt(w));
     }
   }
+  const data: Data = { x: Float64Array.from(xList), y: Float64Array.from(yList), sqrtW: Float64Array.from(wList), xList, yList };
   const k = model.params.length;
-  const n = data.x.length;
+  const n = xList.length;
   const lower = model.params.map((_, j) => options.lower?.[j] ?? model.lower?.[j] ?? -Infinity);
   const upper = model.params.map((_, j) => options.upper?.[j] ?? model.upper?.[j] ?? Infinity);
   const maxIterations = options.maxIterations ?? FIT.maxIterations;
@@ -161,7 +173,7 @@ export function fitCurve(
   if (options.start) start = options.start.slice();
   else if (n >= 1) {
     try {
-      start = model.start(data.x, data.y);
+      start = model.start(xList, yList);
     } catch {
       start = new Array(k).fill(NaN);
     }
@@ -173,84 +185,113 @@ export function fitCurve(
   if (p.some((v) => !Number.isFinite(v))) return finish('non-finite', false, 0);
   const divergenceLimit = start.map((v) => FIT_DIVERGENCE_FACTOR * Math.max(1, Math.abs(v)));
 
+  // Work buffers, allocated once per fit.
+  let r = new Float64Array(n);
+  let rTrial = new Float64Array(n);
+  const jac = new Float64Array(n * k);
+  const qr = new Float64Array(n * k);
+  const qtr = new Float64Array(n);
+  const gradient = new Float64Array(k);
+  const colNorm = new Float64Array(k);
+  const damping = new Float64Array(k);
+  const stepFree = new Float64Array(k);
+  const step = new Float64Array(k);
+  const solveWork = new Float64Array(k * k + 2 * k);
+  const freeIdx: number[] = [];
+
   // 3. Levenberg–Marquardt iterations.
-  let current = residuals(model, data, p);
-  if (!current) return finish('non-finite', false, 0);
+  let rss = residuals(model, data, p, r);
+  if (Number.isNaN(rss)) return finish('non-finite', false, 0);
   let lambda = INITIAL_DAMPING;
   let nu = 2;
-  const diag = new Array(k).fill(0);
+  const diag = new Float64Array(k);
   let iterations = 0;
   let stop: StopReason = 'max-iterations';
   let halfway: number[] = p;
   outer: while (iterations < maxIterations) {
     iterations++;
     if (iterations === Math.ceil(maxIterations / 2)) halfway = p;
-    const jac = jacobian(model, data, p, lower, upper);
-    if (!jac) {
+    if (!jacobian(model, data, p, lower, upper, jac)) {
       stop = 'non-finite';
       break;
     }
-    if (current.rss === 0) {
+    if (rss === 0) {
       stop = 'converged-rss';
       break;
     }
-    const gradient = new Array(k).fill(0);
-    const colNorm = new Array(k).fill(0);
-    for (let i = 0; i < n; i++) {
-      for (let j = 0; j < k; j++) {
-        gradient[j] += jac[i][j] * current.r[i];
-        colNorm[j] += jac[i][j] * jac[i][j];
-      }
-    }
-    for (let j = 0; j < k; j++) diag[j] = Math.max(diag[j], colNorm[j]);
-    // Active set: a parameter at a bound whose descent direction −g points outward stays fixed.
-    const free = p.map((v, j) => !((v <= lower[j] && gradient[j] > 0) || (v >= upper[j] && gradient[j] < 0)));
-    const rNorm = Math.sqrt(current.rss);
-    let scaledGradient = 0;
     for (let j = 0; j < k; j++) {
-      if (free[j] && colNorm[j] > 0) scaledGradient = Math.max(scaledGradient, Math.abs(gradient[j]) / (Math.sqrt(colNorm[j]) * rNorm));
+      let g = 0;
+      let c = 0;
+      const o = j * n;
+      for (let i = 0; i < n; i++) {
+        const v = jac[o + i];
+        g += v * r[i];
+        c += v * v;
+      }
+      gradient[j] = g;
+      colNorm[j] = c;
+      if (c > diag[j]) diag[j] = c;
+    }
+    // Active set: a parameter at a bound whose descent direction −g points outward stays fixed.
+    freeIdx.length = 0;
+    for (let j = 0; j < k; j++) {
+      if (!((p[j] <= lower[j] && gradient[j] > 0) || (p[j] >= upper[j] && gradient[j] < 0))) freeIdx.push(j);
+    }
+    const rNorm = Math.sqrt(rss);
+    let scaledGradient = 0;
+    for (const j of freeIdx) {
+      if (colNorm[j] > 0) scaledGradient = Math.max(scaledGradient, Math.abs(gradient[j]) / (Math.sqrt(colNorm[j]) * rNorm));
     }
     if (scaledGradient <= FIT.gradientTolerance) {
       stop = 'converged-gradient';
       break;
     }
-    const freeIdx = free.flatMap((f, j) => (f ? [j] : []));
-    const jFree = jac.map((row) => freeIdx.map((j) => row[j]));
-    const minusR = current.r.map((v) => -v);
+    // QR of the free columns of J once per iteration, applied to −r; each damping trial
+    // then only rotates the damping rows into R (dampedSolveFromQr).
+    const kf = freeIdx.length;
+    for (let m = 0; m < kf; m++) qr.set(jac.subarray(freeIdx[m] * n, (freeIdx[m] + 1) * n), m * n);
+    for (let i = 0; i < n; i++) qtr[i] = -r[i];
+    householderQrInPlace(qr, n, kf, qtr);
     // Inner loop: increase damping until a step decreases the RSS.
     for (;;) {
-      const damping = freeIdx.map((j) => Math.sqrt(lambda * Math.max(diag[j], Number.MIN_VALUE)));
-      const stepFree = dampedLeastSquares(jFree, minusR, damping);
-      if (!stepFree) {
+      for (let m = 0; m < kf; m++) damping[m] = Math.sqrt(lambda * Math.max(diag[freeIdx[m]], Number.MIN_VALUE));
+      if (!dampedSolveFromQr(qr, n, kf, qtr, damping, stepFree, solveWork)) {
         stop = 'singular';
         break outer;
       }
       const trial = p.slice();
-      freeIdx.forEach((j, m) => (trial[j] = p[j] + stepFree[m]));
+      for (let m = 0; m < kf; m++) trial[freeIdx[m]] = p[freeIdx[m]] + stepFree[m];
       const next = project(trial, lower, upper);
-      const step = next.map((v, j) => v - p[j]);
-      const smallStep = step.every((s, j) => Math.abs(s) <= FIT.stepTolerance * (Math.abs(p[j]) + FIT.stepTolerance));
+      let smallStep = true;
+      for (let j = 0; j < k; j++) {
+        step[j] = next[j] - p[j];
+        if (!(Math.abs(step[j]) <= FIT.stepTolerance * (Math.abs(p[j]) + FIT.stepTolerance))) smallStep = false;
+      }
       // Predicted RSS from the linear model: ‖r + J·step‖².
       let predictedRss = 0;
       for (let i = 0; i < n; i++) {
-        let v = current.r[i];
-        for (let j = 0; j < k; j++) v += jac[i][j] * step[j];
+        let v = r[i];
+        for (let j = 0; j < k; j++) v += jac[j * n + i] * step[j];
         predictedRss += v * v;
       }
-      const predicted = current.rss - predictedRss;
-      const trialResult = residuals(model, data, next);
-      const actual = trialResult ? current.rss - trialResult.rss : -Infinity;
+      const predicted = rss - predictedRss;
+      const trialRss = residuals(model, data, next, rTrial);
+      const finite = !Number.isNaN(trialRss);
+      const actual = finite ? rss - trialRss : -Infinity;
       const rho = predicted > 0 ? actual / predicted : -1;
-      if (trialResult && rho > 0 && actual > 0) {
+      if (finite && rho > 0 && actual > 0) {
         p = next;
-        current = trialResult;
+        rss = trialRss;
+        const swap = r;
+        r = rTrial;
+        rTrial = swap;
         lambda *= Math.max(1 / 3, 1 - Math.pow(2 * rho - 1, 3));
         nu = 2;
         if (p.some((v, j) => Math.abs(v) > divergenceLimit[j])) {
           stop = 'diverged';
           break outer;
         }
-        if (actual <= FIT.rssTolerance * (current.rss + actual) && predicted <= FIT.rssTolerance * (current.rss + actual)) {
+        if (actual <= FIT.rssTolerance * (rss + actual) && predicted <= FIT.rssTolerance * (rss + actual)) {
           stop = 'converged-rss';
           break outer;
         }
@@ -281,6 +322,17 @@ export function fitCurve(
   return finish(stop, converged, iterations);
 }
 
+/** t(0.5 + level/2, df) for the parameter intervals, remembered per df (a pure function of df). */
+const tCache = new Map<number, number>();
+function tCritical(df: number): number {
+  let t = tCache.get(df);
+  if (t === undefined) {
+    t = tQuantile(0.5 + FIT.confidenceLevel / 2, df);
+    if (tCache.size < 10000) tCache.set(df, t);
+  }
+  return t;
+}
+
 /**
  * Final statistics at p: canonical parameter order, covariance, SEs, CIs, R², correlation.
  * Downgrades a 'converged' stop to 'singular' when the Jacobian is rank-deficient or badly conditioned.
@@ -301,13 +353,14 @@ function summarise(
   let stop = stopIn;
   let converged = convergedIn;
   const df = n - k;
-  const res = p.every(Number.isFinite) ? residuals(model, data, p) : null;
-  const rss = res ? res.rss : NaN;
+  const resid = new Float64Array(n);
+  const rss = p.every(Number.isFinite) ? residuals(model, data, p, resid) : NaN;
+  const res = !Number.isNaN(rss);
   let covariance: number[][] | null = null;
   let condition = NaN;
   if (res && n >= k) {
-    const jac = jacobian(model, data, p, lower, upper);
-    const inv = jac ? inverseNormalMatrix(jac) : null;
+    const jac = new Float64Array(n * k);
+    const inv = jacobian(model, data, p, lower, upper, jac) ? inverseNormalMatrixColumns(jac, n, k) : null;
     if (inv) {
       condition = inv.condition;
       if (df > 0) {
@@ -320,7 +373,7 @@ function summarise(
       stop = 'singular';
     }
   }
-  const t = df > 0 ? tQuantile(0.5 + FIT.confidenceLevel / 2, df) : NaN;
+  const t = df > 0 ? tCritical(df) : NaN;
   const parameters: ParameterEstimate[] = model.params.map((name, j) => {
     const variance = covariance ? covariance[j][j] : NaN;
     const se = variance >= 0 ? Math.sqrt(variance) : NaN;
