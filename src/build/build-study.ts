@@ -13,7 +13,8 @@
 import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
-import { assayById } from '../assays/registry.js';
+import { ASSAYS } from '../assays/registry.js';
+import { chartsFromModules } from '../charts/assay-charts.js';
 import { planOutput, makeStaging, swapIn } from '../cli/output.js';
 import { resultsCsv } from '../results/csv.js';
 import type { StudyResults } from '../results/types.js';
@@ -40,25 +41,6 @@ export interface BuildOutcome {
   movedAside?: string;
 }
 
-/** The per-assay charts of one variant report: the variant's units beside WT units of the same batches. */
-export function variantCharts(results: StudyResults, variantId: string): Array<{ assay: string; title: string; spec: Record<string, unknown> }> {
-  const v = results.variants.find((x) => x.id === variantId);
-  if (!v) return [];
-  const wtIds = new Set(results.variants.filter((x) => x.isWT).map((x) => x.id));
-  const charts: Array<{ assay: string; title: string; spec: Record<string, unknown> }> = [];
-  for (const a of results.assays) {
-    const module = assayById(a.id);
-    if (!module) continue;
-    const variantUnits = results.units.filter((u) => u.assay === a.id && u.variant === variantId);
-    if (variantUnits.length === 0) continue;
-    const batches = new Set(variantUnits.map((u) => u.batch));
-    const wtUnits = results.units.filter((u) => u.assay === a.id && wtIds.has(u.variant) && (v.isWT || batches.has(u.batch)));
-    const spec = module.chart({ variantLabel: v.isWT ? 'WT' : v.hgvs, variantUnits: v.isWT ? [] : variantUnits, wtUnits });
-    charts.push({ assay: a.id, title: a.label, spec });
-  }
-  return charts;
-}
-
 export async function buildStudy(studyDir: string, outDir: string, options: BuildOptions = {}): Promise<BuildOutcome> {
   const phase = options.onPhase ?? (() => {});
   phase('read');
@@ -77,7 +59,7 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   const staging = makeStaging(plan.out, tag);
   try {
     phase('pages');
-    const site = await buildSite(results, staging, { chartsFor: (id: string) => variantCharts(results, id), sourceDateEpoch: epoch });
+    const site = await buildSite(results, staging, { chartsFor: chartsFromModules(results, ASSAYS), sourceDateEpoch: epoch });
     phase('write');
     const downloads = path.join(staging, 'downloads');
     mkdirSync(downloads, { recursive: true });

@@ -21,7 +21,7 @@ export type ChartsFor = (variantId: string) => AssayChart[] | Promise<AssayChart
  * Build a `chartsFor` callback from assay modules: for each assay the variant has units in,
  * call the module's chart() with the variant's units and the WT units of the same batches.
  */
-export function chartsFromModules(results: StudyResults, modules: Array<Pick<AssayModule, 'id' | 'label' | 'chart'>>): ChartsFor {
+export function chartsFromModules(results: StudyResults, modules: ReadonlyArray<Pick<AssayModule, 'id' | 'label' | 'chart'>>): ChartsFor {
   const wtIds = new Set(results.variants.filter((v) => v.isWT).map((v) => v.id));
   return (variantId) => {
     const v = results.variants.find((x) => x.id === variantId);
@@ -32,7 +32,8 @@ export function chartsFromModules(results: StudyResults, modules: Array<Pick<Ass
       const batches = new Set(variantUnits.map((u) => u.batch));
       const wtUnits = results.units.filter((u) => u.assay === m.id && wtIds.has(u.variant) && batches.has(u.batch));
       const spec = m.chart({ variantLabel: v.short, variantUnits, wtUnits });
-      return [{ assay: m.id, title: `${m.label}: ${v.short} beside paired WT`, spec }];
+      const description = typeof spec.description === 'string' ? spec.description : undefined;
+      return [{ assay: m.id, title: `${m.label}: ${v.short} beside paired WT`, spec, ...(description ? { description } : {}) }];
     });
   };
 }
