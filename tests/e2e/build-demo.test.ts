@@ -1,0 +1,67 @@
+/**
+ * End to end: `myofolio build data-demo` through the CLI entry, into a fresh folder.
+ * Checks the output folder's contract: pages, downloads, results.json valid against
+ * schemas/results.schema.json, results.csv one row per variant × metric, synthetic banner.
+ */
+import { describe, expect, it, beforeAll } from 'vitest';
+import { existsSync, mkdtempSync, readFileSync, readdirSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { Ajv2020 } from 'ajv/dist/2020.js';
+import { main } from '../../src/cli/main.js';
+import { RESULTS_CSV_COLUMNS } from '../../src/results/csv.js';
+import type { StudyResults } from '../../src/results/types.js';
+
+const out = path.join(mkdtempSync(path.join(os.tmpdir(), 'myofolio-e2e-')), 'site');
+let code = -1;
+let stdout = '';
+
+beforeAll(async () => {
+  const io = { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stdout += s) }, cwd: process.cwd() };
+  process.env.SOURCE_DATE_EPOCH = '1767225600';
+  code = await main(['build', 'data-demo', '--out', out], io);
+}, 180_000);
+
+describe('myofolio build data-demo', () => {
+  it('exits 0 and says where to open the site', () => {
+    expect(code, stdout).toBe(0);
+    expect(stdout).toMatch(/Open .*index\.html/);
+  });
+
+  it('writes index, one report per variant, methods page and downloads', () => {
+    const results = JSON.parse(readFileSync(path.join(out, 'downloads/results.json'), 'utf8')) as StudyResults;
+    expect(existsSync(path.join(out, 'index.html'))).toBe(true);
+    expect(existsSync(path.join(out, 'methods.html'))).toBe(true);
+    const reports = readdirSync(path.join(out, 'variants')).filter((f) => f.endsWith('.html'));
+    expect(reports.length).toBe(results.variants.length); // WT has a report too (its own data and QC)
+    expect(results.provenance.builtAt).toBe('2026-01-01T00:00:00.000Z');
+  });
+
+  it('results.json is valid against schemas/results.schema.json', () => {
+    const schema = JSON.parse(readFileSync('schemas/results.schema.json', 'utf8'));
+    const ajv = new Ajv2020({ allErrors: true, strict: false });
+    const validate = ajv.compile(schema);
+    const data = JSON.parse(readFileSync(path.join(out, 'downloads/results.json'), 'utf8'));
+    const ok = validate(data);
+    expect(validate.errors?.slice(0, 5) ?? [], 'schema errors').toEqual([]);
+    expect(ok).toBe(true);
+  });
+
+  it('results.csv has one row per variant × metric with the documented columns', () => {
+    const results = JSON.parse(readFileSync(path.join(out, 'downloads/results.json'), 'utf8')) as StudyResults;
+    const lines = readFileSync(path.join(out, 'downloads/results.csv'), 'utf8').trimEnd().split('\r\n');
+    expect(lines[0]).toBe(RESULTS_CSV_COLUMNS.join(','));
+    expect(lines.length - 1).toBe(results.comparisons.length);
+  });
+
+  it('every page carries the synthetic-data banner and the reports carry the caveats', () => {
+    const files = ['index.html', ...readdirSync(path.join(out, 'variants')).map((f) => `variants/${f}`)];
+    for (const f of files) {
+      const html = readFileSync(path.join(out, f), 'utf8');
+      expect(html, f).toMatch(/Synthetic demonstration data/);
+    }
+    const report = readFileSync(path.join(out, 'variants', readdirSync(path.join(out, 'variants'))[0]), 'utf8');
+    expect(report).toMatch(/not a clinical test/);
+    expect(report).toMatch(/one line of evidence/);
+  });
+});
