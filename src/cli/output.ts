@@ -4,7 +4,7 @@
  * inside the study folder, and into a non-empty folder it did not create unless forced; even
  * forced, it moves the old folder aside rather than deleting what it did not write.
  */
-import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync, lstatSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, realpathSync, renameSync, rmSync, rmdirSync, writeFileSync, lstatSync } from 'node:fs';
 import path from 'node:path';
 
 /** File that marks a folder as myofolio output (safe to replace on the next build). */
@@ -21,14 +21,78 @@ function isInside(child: string, parent: string): boolean {
   return rel === '' || (!rel.startsWith('..') && !path.isAbsolute(rel));
 }
 
+/** The real path of `p` (symbolic links resolved) even when its last parts do not exist yet. */
+function realPath(p: string): string {
+  const abs = path.resolve(p);
+  const rest: string[] = [];
+  let cur = abs;
+  for (;;) {
+    try {
+      return path.join(realpathSync(cur), ...rest.reverse());
+    } catch {
+      const parent = path.dirname(cur);
+      if (parent === cur) return abs;
+      rest.push(path.basename(cur));
+      cur = parent;
+    }
+  }
+}
+
+/** Does this folder carry our marker (so it was written by myofolio)? */
+function hasMarker(dir: string): boolean {
+  try {
+    return lstatSync(path.join(dir, OUTPUT_MARKER)).isFile();
+  } catch {
+    return false;
+  }
+}
+
+function processAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (err) {
+    return (err as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+/**
+ * Remove staging and previous-output folders left next to `out` by builds that were killed:
+ * only folders named `<out>.building-<pid>-*` or `<out>.previous-<pid>-*` that carry our marker
+ * and whose process is gone. Anything else is left alone. Returns the folders removed.
+ */
+export function cleanStale(out: string): string[] {
+  const parent = path.dirname(out);
+  const base = path.basename(out);
+  const removed: string[] = [];
+  let names: string[];
+  try {
+    names = readdirSync(parent);
+  } catch {
+    return removed;
+  }
+  for (const name of names) {
+    const m = /^\.(building|previous)-(\d+)-[^/]+$/.exec(name.slice(base.length));
+    if (!name.startsWith(base) || !m) continue;
+    const full = path.join(parent, name);
+    const pid = Number(m[2]);
+    if (pid === process.pid || processAlive(pid)) continue;
+    if (!lstatSync(full).isDirectory() || !hasMarker(full)) continue;
+    rmSync(full, { recursive: true, force: true });
+    removed.push(full);
+  }
+  return removed;
+}
+
 /** Check where the output may go; returns the absolute output folder. */
 export function planOutput(studyDir: string, outDir: string, force: boolean): { out: string; replaceForeign: boolean } {
   const out = path.resolve(outDir);
   const study = path.resolve(studyDir);
-  if (isInside(out, study)) {
+  // Compare real paths too, so a link cannot lead the output into the study folder.
+  if (isInside(out, study) || isInside(realPath(out), realPath(study))) {
     throw new OutputError(`The output folder ${outDir} is inside the study folder ${studyDir}.`, 'Choose an output folder outside the study folder, e.g. --out _site; myofolio never writes into a study folder.');
   }
-  if (isInside(study, out)) {
+  if (isInside(study, out) || isInside(realPath(study), realPath(out))) {
     throw new OutputError(`The output folder ${outDir} contains the study folder ${studyDir}.`, 'Choose an output folder that does not contain the study, e.g. --out _site.');
   }
   if (!existsSync(out)) return { out, replaceForeign: false };
@@ -45,9 +109,10 @@ export function planOutput(studyDir: string, outDir: string, force: boolean): { 
 
 /** A fresh temporary folder next to the output (same file system, so the swap is a rename). */
 export function makeStaging(out: string, tag: string): string {
-  const staging = `${out}.building-${tag}`;
-  rmSync(staging, { recursive: true, force: true });
-  mkdirSync(staging, { recursive: true });
+  cleanStale(out);
+  mkdirSync(path.dirname(out), { recursive: true });
+  // A new, uniquely named folder: never reuses (or deletes) anything already there.
+  const staging = mkdtempSync(`${out}.building-${tag}-`);
   writeFileSync(path.join(staging, OUTPUT_MARKER), 'This folder was written by myofolio build and is replaced by the next build.\n');
   return staging;
 }
@@ -58,15 +123,26 @@ export function swapIn(staging: string, out: string, replaceForeign: boolean, ta
   let old: string | undefined;
   if (existsSync(out)) {
     if (replaceForeign) {
-      movedAside = `${out}.replaced-${tag}`;
+      movedAside = mkdtempSync(`${out}.replaced-${tag}-`);
+      rmdirSync(movedAside);
       renameSync(out, movedAside);
     } else {
-      old = `${out}.previous-${tag}`;
-      rmSync(old, { recursive: true, force: true });
+      // Our own previous output (it has the marker) or an empty folder.
+      old = mkdtempSync(`${out}.previous-${tag}-`);
+      rmdirSync(old);
       renameSync(out, old);
     }
   }
   renameSync(staging, out);
-  if (old) rmSync(old, { recursive: true, force: true });
+  if (old) {
+    if (hasMarker(old)) rmSync(old, { recursive: true, force: true });
+    else {
+      try {
+        rmdirSync(old); // was empty; if something appeared in it meanwhile, it is left in place
+      } catch {
+        /* left next to the output */
+      }
+    }
+  }
   return movedAside;
 }

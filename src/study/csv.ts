@@ -9,7 +9,7 @@
  * - Rows are reported with the 1-based file line where they start.
  */
 import Papa from 'papaparse';
-import { MSG, issue } from './messages.js';
+import { MSG, issue, type MessageText } from './messages.js';
 import type { Issue } from './types.js';
 
 export interface CsvRow {
@@ -37,6 +37,83 @@ export function decodeUtf8(data: Uint8Array | string): string | undefined {
     }
   }
   return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+}
+
+/** Decoded text, or the encoding problem with the 1-based line and column where it starts. */
+export type DecodeResult = { ok: true; text: string } | { ok: false; problem: MessageText; line?: number; col?: number };
+
+/** 1-based line and column (in characters) of a byte offset whose preceding bytes are valid UTF-8. */
+function bytePosition(bytes: Uint8Array, offset: number): { line: number; col: number } {
+  let line = 1;
+  let lineStart = 0;
+  for (let k = 0; k < offset; k++) {
+    if (bytes[k] === 10 || (bytes[k] === 13 && bytes[k + 1] !== 10)) {
+      line++;
+      lineStart = k + 1;
+    }
+  }
+  const before = new TextDecoder('utf-8').decode(bytes.subarray(lineStart, offset)).replace(/^\uFEFF/, '');
+  return { line, col: [...before].length + 1 };
+}
+
+/**
+ * Offset of the first byte that is not part of a well-formed UTF-8 sequence (Unicode 15, Table 3-7:
+ * shortest form, no surrogates, at most U+10FFFF), or -1 when the bytes are valid UTF-8.
+ * @example firstInvalidUtf8(new Uint8Array([0x61, 0xb5])) // 1 (Latin-1 µ)
+ */
+export function firstInvalidUtf8(b: Uint8Array): number {
+  let i = 0;
+  while (i < b.length) {
+    const c = b[i];
+    if (c < 0x80) {
+      i++;
+      continue;
+    }
+    let need: number;
+    let lo = 0x80;
+    let hi = 0xbf;
+    if (c >= 0xc2 && c <= 0xdf) need = 1;
+    else if (c >= 0xe0 && c <= 0xef) {
+      need = 2;
+      if (c === 0xe0) lo = 0xa0;
+      if (c === 0xed) hi = 0x9f;
+    } else if (c >= 0xf0 && c <= 0xf4) {
+      need = 3;
+      if (c === 0xf0) lo = 0x90;
+      if (c === 0xf4) hi = 0x8f;
+    } else return i;
+    for (let k = 1; k <= need; k++) {
+      const d = b[i + k];
+      if (d === undefined || d < (k === 1 ? lo : 0x80) || d > (k === 1 ? hi : 0xbf)) return i;
+    }
+    i += need + 1;
+  }
+  return -1;
+}
+
+/**
+ * Decode file bytes as UTF-8 text for the loader, or say precisely why not: a UTF-16 byte-order
+ * mark, the first byte that is not UTF-8 (with its line and column, and the Latin-1 reading of
+ * that byte), or NUL characters (binary data, UTF-16 without BOM).
+ */
+export function decodeText(data: Uint8Array | string): DecodeResult {
+  if (typeof data !== 'string') {
+    if (data[0] === 0xff && data[1] === 0xfe) return { ok: false, problem: MSG.encodingUtf16('little-endian'), line: 1, col: 1 };
+    if (data[0] === 0xfe && data[1] === 0xff) return { ok: false, problem: MSG.encodingUtf16('big-endian'), line: 1, col: 1 };
+  }
+  const text = decodeUtf8(data);
+  if (text === undefined) {
+    const bytes = data as Uint8Array;
+    const at = firstInvalidUtf8(bytes);
+    if (at < 0) return { ok: false, problem: MSG.encoding() };
+    return { ok: false, problem: MSG.encodingByte(bytes[at]), ...bytePosition(bytes, at) };
+  }
+  const nul = text.indexOf('\0');
+  if (nul >= 0) {
+    const before = text.slice(0, nul).split(/\r\n|\n|\r/);
+    return { ok: false, problem: MSG.nulCharacter(), line: before.length, col: [...before[before.length - 1]].length + 1 };
+  }
+  return { ok: true, text };
 }
 
 /** Count ',' and ';' outside double quotes in the first non-comment, non-blank line. */
@@ -99,8 +176,11 @@ export function parseCsv(input: string, file: string): CsvTable {
       const line = Math.max(1, endLine - inner);
       // One issue per broken row: papaparse often reports the same quote twice.
       for (const err of result.errors.slice(0, 1)) {
-        const at = typeof err.index === 'number' ? lineAt(starts, err.index) : line;
-        issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at }));
+        if (typeof err.index === 'number') {
+          const offset = Math.min(Math.max(0, err.index), text.length);
+          const at = lineAt(starts, offset);
+          issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at, col: offset - starts[at - 1] + 1 }));
+        } else issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line }));
       }
       rows.push({ cells, line });
     },

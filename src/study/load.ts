@@ -11,7 +11,7 @@
  */
 import { createHash } from 'node:crypto';
 import { checkExclusionsMatch, checkUnusedVariants, checkWildTypePerBatch } from './checks.js';
-import { decodeUtf8, parseCsv } from './csv.js';
+import { decodeText, parseCsv } from './csv.js';
 import { readManifest } from './manifest.js';
 import { MSG, issue } from './messages.js';
 import { readRows } from './rows.js';
@@ -57,11 +57,14 @@ function getFile(files: StudyFiles['files'], path: string): string | Uint8Array 
 export function loadStudy(input: StudyFiles): LoadOutcome {
   const manifestPath = input.manifestPath ?? MANIFEST_NAME;
   const issues: Issue[] = [...(input.readIssues ?? [])];
-  const manifestText = decodeUtf8(input.manifest);
-  if (manifestText === undefined) {
-    issues.push(issue(MSG.encoding(), { file: manifestPath }));
+  // The reader could not read the manifest itself (not a regular file, too large): nothing to parse.
+  if (issues.some((i) => i.severity === 'error' && i.at.file === manifestPath && i.at.jsonPath === undefined)) return { issues };
+  const decodedManifest = decodeText(input.manifest);
+  if (!decodedManifest.ok) {
+    issues.push(issue(decodedManifest.problem, { file: manifestPath, line: decodedManifest.line, col: decodedManifest.col }));
     return { issues };
   }
+  const manifestText = decodedManifest.text;
   const { manifest, issues: manifestIssues } = readManifest(manifestText, manifestPath);
   issues.push(...manifestIssues);
   if (!manifest) return { issues };
@@ -85,11 +88,12 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
       if (!readerFlagged.has(jsonPath)) issues.push(issue(MSG.fileNotFound(path), { file: manifestPath, jsonPath }));
       continue;
     }
-    const text = decodeUtf8(data);
-    if (text === undefined) {
-      issues.push(issue(MSG.encoding(), { file: path }));
+    const decoded = decodeText(data);
+    if (!decoded.ok) {
+      issues.push(issue(decoded.problem, { file: path, line: decoded.line, col: decoded.col }));
       continue;
     }
+    const text = decoded.text;
     const table = parseCsv(text, path);
     issues.push(...table.issues);
     const got = readRows(spec.entry.kind, table, spec, path, manifest.byLabel, issues);

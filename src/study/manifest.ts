@@ -5,6 +5,7 @@
 import type { ErrorObject } from 'ajv';
 import { ASSAY, BANDS } from '../defaults.js';
 import { checkReferenceResidue, isWildTypeText, parseProteinChange, variantId } from './hgvs.js';
+import { locateJsonError } from './json-position.js';
 import { MSG, issue, type MessageText } from './messages.js';
 import { CATALOGUE, validators } from './schemas.js';
 import type {
@@ -157,6 +158,9 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
   try {
     raw = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
   } catch (err) {
+    const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+    const where = locateJsonError(body);
+    if (where) return { issues: [issue(MSG.manifestNotJson(where.reason), { file, line: where.line, col: where.col })] };
     const reason = err instanceof Error ? err.message : String(err);
     return { issues: [issue(MSG.manifestNotJson(reason.replace(/\.$/, '')), { file })] };
   }

@@ -21,6 +21,9 @@ export const MSG = {
   fileNotFound: (path: string) => e('folder.file-not-found', `The file '${path}' named in the manifest does not exist in the study folder.`, 'Correct the path in the manifest (relative to the study folder, forward slashes) or add the file.'),
   pathOutside: (path: string) => e('folder.path-outside', `The path '${path}' leaves the study folder.`, 'Copy the file into the study folder and give a relative path without "..".'),
   notRegularFile: (path: string) => e('folder.not-a-file', `'${path}' is not a regular file inside the study folder (a directory, device, or link pointing outside).`, 'Replace it with a plain file inside the study folder.'),
+  notRegularManifest: (name: string) => e('folder.manifest-not-a-file', `The manifest '${name}' is not a regular file inside the study folder (a directory, device, pipe, or link pointing outside).`, `Replace ${name} with a plain JSON file inside the study folder.`),
+  fileTooLarge: (path: string, bytes: number, limit: number) => e('folder.file-too-large', `'${path}' is ${(bytes / 1048576).toFixed(1)} MiB; myofolio reads files of at most ${limit / 1048576} MiB.`, 'Split the data into several files of the same kind and list each in the manifest (rows of one kind from several files are combined).'),
+  unreadable: (path: string, reason: string) => e('folder.unreadable', `'${path}' cannot be read: ${reason}.`, 'Check that the file exists and that you may read it.'),
   manifestMissing: (name: string) => e('folder.no-manifest', `The study folder has no manifest '${name}'.`, `Create ${name} (run 'myofolio init <dir>' for a starter).`),
 
   // ---- manifest ----
@@ -64,6 +67,14 @@ export const MSG = {
 
   // ---- CSV structure ----
   encoding: () => e('csv.encoding', 'The file is not valid UTF-8 text.', 'Save the file as UTF-8 (with or without BOM).'),
+  encodingByte: (byte: number) =>
+    e(
+      'csv.encoding',
+      `The file is not valid UTF-8 text: byte 0x${byte.toString(16).toUpperCase().padStart(2, '0')} here does not belong to a UTF-8 character${byte >= 0xa0 ? ` (in Latin-1/Windows-1252 it would be '${String.fromCharCode(byte)}', so the file was probably saved in that encoding)` : ''}.`,
+      'Save the file as UTF-8 (in a spreadsheet: "CSV UTF-8"; in an editor: encoding UTF-8).',
+    ),
+  encodingUtf16: (order: string) => e('csv.encoding', `The file is UTF-16 text (${order} byte-order mark), not UTF-8.`, 'Save the file as UTF-8 (in a spreadsheet: "CSV UTF-8"; in an editor: encoding UTF-8).'),
+  nulCharacter: () => e('csv.nul', 'The file contains NUL characters: it is binary data or UTF-16 text without a byte-order mark.', 'Save the file as UTF-8 text.'),
   noHeader: () => e('csv.no-header', 'The file has no header line.', 'Put the column names on the first line that is not a # comment.'),
   noRows: () => w('csv.no-rows', 'The file has a header but no data rows.', 'Add data rows, or remove the file from the manifest.'),
   quotes: (detail: string) => e('csv.quotes', `Broken quoting: ${detail}.`, 'Close every quoted field with a double quote and write a quote inside a field as "".'),

@@ -196,7 +196,8 @@ export function readRows<K extends InputKind>(
     const line = row.line;
     const cellAt = (c: ResolvedColumn): SourceRef => ({ file, line, column: c.def.name, col: c.index + 1 });
     if (row.cells.length !== width) {
-      issues.push(issue(MSG.fieldCount(width, row.cells.length), { file, line }));
+      // Column: the first extra field, or the first missing one.
+      issues.push(issue(MSG.fieldCount(width, row.cells.length), { file, line, col: Math.min(width, row.cells.length) + 1 }));
       continue;
     }
     const obj: Record<string, string | number> = {};
