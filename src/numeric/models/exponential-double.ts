@@ -9,16 +9,21 @@
  * Ordering: the two phases are interchangeable in the formula; after the fit the
  * `canonical` hook swaps them so that kFast ≥ kSlow, before SEs are computed.
  * Source: Hooijman, Stewart & Cooke 2011, Biophys J 100:1969; Anderson et al. 2018, PNAS 115:E8143.
- * Bounds: both rates ≥ 0. Start rule: the (kfast, kslow) pair scanned over a 30-point
- * log grid (see rateCandidates) with kfast ≥ 1.5·kslow; at each pair the two amplitudes and
- * the offset by linear least squares; the best is the start (variable projection).
+ * Bounds: both rates ≥ 0. Start rule (variable projection, coarse to fine): the
+ * (kfast, kslow) pair scanned over a 16-point log grid (see rateCandidates) with
+ * kfast ≥ 1.5·kslow; at each pair the two amplitudes and the offset by linear least squares
+ * (normal equations from Gram sums); then ln kfast refined by golden-section search between
+ * the neighbours of the best grid rate with kslow fixed, and ln kslow likewise with the
+ * refined kfast fixed (to 2%, ratio kept ≥ 1.5); the lowest RSS seen is the start.
  * @example exponentialDouble.f(60, [0.7, 0.03, 0.3, 0.0034, 0]) // → 0.36035 (REFERENCES.md §6 [C])
  */
 import type { CurveModel, FitResult } from '../types.js';
 import { rateCandidates } from './exponential-single.js';
-import { range, solve3 } from './start-helpers.js';
+import { goldenSection, range, solveSymmetric3 } from './start-helpers.js';
 
-const RATE_GRID_POINTS = 30;
+const RATE_GRID_POINTS = 16;
+/** Width in ln k below which each golden-section refinement of a start rate stops (2%). */
+const RATE_REFINE_TOLERANCE = 0.02;
 /** Smallest ratio kfast/kslow in the start scan. */
 const START_MIN_RATIO = 1.5;
 
@@ -41,53 +46,130 @@ export const exponentialDouble: CurveModel = {
     return [eFast, -p[0] * t * eFast, eSlow, -p[2] * t * eSlow, 1];
   },
   start(x, y) {
-    const rates = rateCandidates(x, RATE_GRID_POINTS);
     const n = x.length;
-    const exps = rates.map((k) => x.map((t) => Math.exp(-k * t)));
-    // Gram sums, so each (kfast, kslow) pair costs one 3×3 solve (normal equations are
-    // accurate enough for a starting value).
+    const rates = rateCandidates(x, RATE_GRID_POINTS);
     const count = rates.length;
-    const sums = new Array<number>(count).fill(0);
-    const withY = new Array<number>(count).fill(0);
-    const cross = rates.map(() => new Array<number>(count).fill(0));
+    // exp(−k·t) per grid rate, and the Gram sums, so each (kfast, kslow) pair costs one 3×3
+    // solve (normal equations are accurate enough for a starting value).
+    const exps = new Float64Array(count * n);
+    const sums = new Float64Array(count);
+    const withY = new Float64Array(count);
+    const cross = new Float64Array(count * count);
     let sumY = 0;
     for (let i = 0; i < n; i++) sumY += y[i];
     for (let a = 0; a < count; a++) {
-      const ea = exps[a];
+      const o = a * n;
+      const k = rates[a];
+      let s1 = 0;
+      let sy = 0;
+      let ss = 0;
       for (let i = 0; i < n; i++) {
-        sums[a] += ea[i];
-        withY[a] += ea[i] * y[i];
+        const e = Math.exp(-k * x[i]);
+        exps[o + i] = e;
+        s1 += e;
+        sy += e * y[i];
+        ss += e * e;
       }
-      for (let b = 0; b <= a; b++) {
-        const eb = exps[b];
-        let s = 0;
-        for (let i = 0; i < n; i++) s += ea[i] * eb[i];
-        cross[a][b] = s;
-        cross[b][a] = s;
+      sums[a] = s1;
+      withY[a] = sy;
+      cross[a * count + a] = ss;
+      for (let b = 0; b < a; b++) {
+        const ob = b * n;
+        let sab = 0;
+        for (let i = 0; i < n; i++) sab += exps[o + i] * exps[ob + i];
+        cross[a * count + b] = sab;
+        cross[b * count + a] = sab;
       }
     }
-    const spread = range(y)[1] - range(y)[0];
-    let best: number[] = [spread / 2, rates[RATE_GRID_POINTS - 5], spread / 2, rates[5], range(y)[0]];
-    let bestRss = Infinity;
-    for (let fast = 0; fast < rates.length; fast++) {
+    const [yLow, yHigh] = range(y);
+    const spread = yHigh - yLow;
+    let best: number[] = [spread / 2, rates[count - 5], spread / 2, rates[4], yLow];
+    let bestScore = Infinity;
+    const c = new Float64Array(3);
+    /** RSS up to the constant Σy² (cᵀGc − 2cᵀb = −cᵀb at the normal-equation solution); keeps the best. */
+    const score = (kFast: number, kSlow: number, ff: number, fs: number, f1: number, fy: number, ss: number, s1: number, sy: number): number => {
+      if (!solveSymmetric3(ff, fs, f1, ss, s1, n, fy, sy, sumY, c)) return Infinity;
+      const value = -(c[0] * fy + c[1] * sy + c[2] * sumY);
+      if (!Number.isFinite(value)) return Infinity;
+      if (value < bestScore) {
+        bestScore = value;
+        best = [c[0], kFast, c[1], kSlow, c[2]];
+      }
+      return value;
+    };
+    let bestFast = -1;
+    let bestSlow = -1;
+    let gridBest = Infinity;
+    for (let fast = 0; fast < count; fast++) {
       for (let slow = 0; slow < fast; slow++) {
         if (rates[fast] < START_MIN_RATIO * rates[slow]) continue;
-        const gram = [
-          [cross[fast][fast], cross[fast][slow], sums[fast]],
-          [cross[slow][fast], cross[slow][slow], sums[slow]],
-          [sums[fast], sums[slow], n],
-        ];
-        const rhs = [withY[fast], withY[slow], sumY];
-        const c = solve3(gram, rhs);
-        if (!c) continue;
-        // RSS up to the constant Σy²: cᵀGc − 2cᵀb = −cᵀb at the normal-equation solution.
-        const score = -(c[0] * rhs[0] + c[1] * rhs[1] + c[2] * rhs[2]);
-        if (score < bestRss) {
-          bestRss = score;
-          best = [c[0], rates[fast], c[1], rates[slow], c[2]];
+        const value = score(
+          rates[fast],
+          rates[slow],
+          cross[fast * count + fast],
+          cross[fast * count + slow],
+          sums[fast],
+          withY[fast],
+          cross[slow * count + slow],
+          sums[slow],
+          withY[slow],
+        );
+        if (value < gridBest) {
+          gridBest = value;
+          bestFast = fast;
+          bestSlow = slow;
         }
       }
     }
+    if (bestFast < 0) return best;
+    // Refine: golden-section search on ln kfast with kslow fixed, then on ln kslow with
+    // kfast fixed, each between the neighbours of the best grid rate (ratio kept ≥ START_MIN_RATIO).
+    const e = new Float64Array(n);
+    const other = new Float64Array(n);
+    /** Gram sums of the phase with rate k against the fixed phase `other` (rate kOther). */
+    const refine = (moving: 'fast' | 'slow', kOther: number, lowK: number, highK: number): number => {
+      for (let i = 0; i < n; i++) other[i] = Math.exp(-kOther * x[i]);
+      let oo = 0;
+      let o1 = 0;
+      let oy = 0;
+      for (let i = 0; i < n; i++) {
+        oo += other[i] * other[i];
+        o1 += other[i];
+        oy += other[i] * y[i];
+      }
+      let kBest = NaN;
+      let valueBest = Infinity;
+      const at = (u: number): number => {
+        const k = Math.exp(u);
+        let ee = 0;
+        let e1 = 0;
+        let ey = 0;
+        let eo = 0;
+        for (let i = 0; i < n; i++) {
+          const v = Math.exp(-k * x[i]);
+          e[i] = v;
+          ee += v * v;
+          e1 += v;
+          ey += v * y[i];
+          eo += v * other[i];
+        }
+        const value = moving === 'fast' ? score(k, kOther, ee, eo, e1, ey, oo, o1, oy) : score(kOther, k, oo, eo, o1, oy, ee, e1, ey);
+        if (value < valueBest) {
+          valueBest = value;
+          kBest = k;
+        }
+        return value;
+      };
+      if (lowK < highK) goldenSection(at, Math.log(lowK), Math.log(highK), RATE_REFINE_TOLERANCE);
+      return kBest;
+    };
+    const neighbours = (index: number): [number, number] => [rates[Math.max(0, index - 1)], rates[Math.min(count - 1, index + 1)]];
+    const [fastLow, fastHigh] = neighbours(bestFast);
+    const kSlowGrid = rates[bestSlow];
+    const kFast = refine('fast', kSlowGrid, Math.max(fastLow, START_MIN_RATIO * kSlowGrid), fastHigh);
+    const kFastNow = Number.isFinite(kFast) && best[1] === kFast ? kFast : best[1];
+    const [slowLow, slowHigh] = neighbours(bestSlow);
+    refine('slow', kFastNow, slowLow, Math.min(slowHigh, kFastNow / START_MIN_RATIO));
     return best;
   },
   canonical(p) {

@@ -7,15 +7,19 @@
  *  - offset (c): plateau at long times.
  * Source: first-order kinetics; used as the fall-back for single-turnover chase traces
  * when two phases are not resolved (e.g. Hooijman, Stewart & Cooke 2011, Biophys J 100:1969).
- * Bounds: k ≥ 0. Start rule: k scanned over 60 log-spaced values from 0.1/(time span) to
- * max(100/(time span), 1/(smallest time step)); at each, A and c by linear least squares;
- * the best is the start (variable projection).
+ * Bounds: k ≥ 0. Start rule (variable projection, coarse to fine): k scanned over 15
+ * log-spaced values from 0.1/(time span) to max(100/(time span), 1/(smallest time step));
+ * at each, A and c by linear least squares in closed form (lineOnBasis); then ln k refined
+ * by golden-section search between the neighbours of the best grid value, to 1%; the
+ * lowest RSS seen is the start.
  * @example exponentialSingle.f(10, [2, 0.1, 1]) // → 1.735759 (2·e⁻¹ + 1)
  */
 import type { CurveModel } from '../types.js';
-import { linearLeastSquares, logGrid, range } from './start-helpers.js';
+import { goldenSection, lineOnBasis, logGrid, range } from './start-helpers.js';
 
-const RATE_GRID_POINTS = 60;
+const RATE_GRID_POINTS = 15;
+/** Width in ln k below which the golden-section refinement of the start rate stops (1%). */
+const RATE_REFINE_TOLERANCE = 0.01;
 
 /**
  * Rate candidates spanning what the sampling of t can resolve.
@@ -46,15 +50,35 @@ export const exponentialSingle: CurveModel = {
     return [e, -p[0] * t * e, 1];
   },
   start(x, y) {
-    const ones = x.map(() => 1);
     let best: number[] = [range(y)[1] - range(y)[0], 1, range(y)[0]];
     let bestRss = Infinity;
-    for (const k of rateCandidates(x, RATE_GRID_POINTS)) {
-      const fit = linearLeastSquares([x.map((t) => Math.exp(-k * t)), ones], y);
-      if (fit && fit.rss < bestRss) {
+    const e = new Float64Array(x.length);
+    /** Projected RSS at rate k (A and c by closed-form least squares); keeps the best. */
+    const rssAt = (k: number): number => {
+      for (let i = 0; i < x.length; i++) e[i] = Math.exp(-k * x[i]);
+      const fit = lineOnBasis(e, y, true);
+      if (!fit) return Infinity;
+      if (fit.rss < bestRss) {
         bestRss = fit.rss;
-        best = [fit.coefficients[0], k, fit.coefficients[1]];
+        best = [fit.b, k, fit.a];
       }
+      return fit.rss;
+    };
+    const rates = rateCandidates(x, RATE_GRID_POINTS);
+    let bestIndex = -1;
+    let gridBest = Infinity;
+    rates.forEach((k, i) => {
+      const rss = rssAt(k);
+      if (rss < gridBest) {
+        gridBest = rss;
+        bestIndex = i;
+      }
+    });
+    if (bestIndex >= 0) {
+      // Refine ln k between the neighbours of the best grid rate.
+      const lowK = rates[Math.max(0, bestIndex - 1)];
+      const highK = rates[Math.min(rates.length - 1, bestIndex + 1)];
+      goldenSection((u) => rssAt(Math.exp(u)), Math.log(lowK), Math.log(highK), RATE_REFINE_TOLERANCE);
     }
     return best;
   },

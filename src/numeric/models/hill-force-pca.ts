@@ -10,27 +10,33 @@
  * (REFERENCES.md §6).
  *
  * Source: Hill 1910, J Physiol 40:iv–vii; the pCa form as in e.g. Moss 1992, Circ Res 70:865.
- * Bounds: nH ≥ 0. Start rule: pCa50 scanned every 0.05 from (lowest pCa − 0.5) to
- * (highest pCa + 0.5) and nH over {0.5, 1, 1.5, 2, 3, 4, 6}; at each, Fpassive and Fmax by
- * linear least squares; the best is the start (variable projection).
+ * Bounds: nH ≥ 0. Start rule (variable projection, coarse to fine): pCa50 scanned about
+ * every 0.2 from (lowest pCa − 0.5) to (highest pCa + 0.5) and nH over
+ * {0.5, 1, 1.5, 2, 3, 4, 6}; then pCa50 about every 0.05 within one coarse step of the best
+ * point, with nH at the best candidate and its two neighbours in that list; at each,
+ * Fpassive and Fmax by linear least squares in closed form (lineOnBasis); the best is the
+ * start.
  * Numerics: 1/(1 + 10^z) is evaluated as 10^(−z)/(1 + 10^(−z)) for z > 0, so a steep
- * curve never overflows to Infinity/Infinity.
+ * curve never overflows to Infinity/Infinity; 10^u is computed as exp(u·ln 10) (about five
+ * times faster than Math.pow here, same value to ~1e-15 relative).
  * @example hillForcePca.f(5.8, [2, 30, 5.8, 3]) // → 17 (passive + fmax/2)
  */
 import type { CurveModel } from '../types.js';
-import { linearGrid, linearLeastSquares, range } from './start-helpers.js';
+import { lineOnBasis, linearGrid, range } from './start-helpers.js';
 
 const LN10 = Math.LN10;
 const NH_CANDIDATES = [0.5, 1, 1.5, 2, 3, 4, 6];
-const PCA50_GRID_STEP = 0.05;
+/** pCa50 spacing of the coarse start scan over the whole range, and of the fine scan around its best point. */
+const PCA50_COARSE_STEP = 0.2;
+const PCA50_FINE_STEP = 0.05;
 
 /** Fraction activated, 1/(1 + 10^z), without overflow. */
 function activated(z: number): number {
   if (z > 0) {
-    const e = Math.pow(10, -z);
+    const e = Math.exp(-LN10 * z);
     return e / (1 + e);
   }
-  return 1 / (1 + Math.pow(10, z));
+  return 1 / (1 + Math.exp(LN10 * z));
 }
 
 export const hillForcePca: CurveModel = {
@@ -55,18 +61,33 @@ export const hillForcePca: CurveModel = {
   },
   start(x, y) {
     const [low, high] = range(x);
-    const steps = Math.max(1, Math.round((high - low + 1) / PCA50_GRID_STEP) + 1);
-    const ones = x.map(() => 1);
+    const g = new Float64Array(x.length);
     let best: number[] = [range(y)[0], range(y)[1] - range(y)[0], (low + high) / 2, 2];
     let bestRss = Infinity;
-    for (const pCa50 of linearGrid(low - 0.5, high + 0.5, steps)) {
-      for (const nH of NH_CANDIDATES) {
-        const fit = linearLeastSquares([ones, x.map((v) => activated(nH * (v - pCa50)))], y);
-        if (fit && fit.rss < bestRss) {
-          bestRss = fit.rss;
-          best = [fit.coefficients[0], fit.coefficients[1], pCa50, nH];
-        }
+    const tryAt = (pCa50: number, nH: number) => {
+      for (let i = 0; i < x.length; i++) g[i] = activated(nH * (x[i] - pCa50));
+      const fit = lineOnBasis(g, y, true);
+      if (fit && fit.rss < bestRss) {
+        bestRss = fit.rss;
+        best = [fit.a, fit.b, pCa50, nH];
       }
+    };
+    // Coarse scan over the whole range, then a fine one around its best point.
+    const scanLow = low - 0.5;
+    const scanHigh = high + 0.5;
+    const coarseSteps = Math.max(2, Math.round((scanHigh - scanLow) / PCA50_COARSE_STEP) + 1);
+    for (const pCa50 of linearGrid(scanLow, scanHigh, coarseSteps)) {
+      for (const nH of NH_CANDIDATES) tryAt(pCa50, nH);
+    }
+    const spacing = (scanHigh - scanLow) / (coarseSteps - 1);
+    const centre = best[2];
+    const at = Math.max(0, NH_CANDIDATES.indexOf(best[3]));
+    const nHs = NH_CANDIDATES.slice(Math.max(0, at - 1), at + 2);
+    const fineLow = Math.max(scanLow, centre - spacing);
+    const fineHigh = Math.min(scanHigh, centre + spacing);
+    const fineSteps = Math.max(2, Math.round((fineHigh - fineLow) / PCA50_FINE_STEP) + 1);
+    for (const pCa50 of linearGrid(fineLow, fineHigh, fineSteps)) {
+      for (const nH of nHs) tryAt(pCa50, nH);
     }
     return best;
   },

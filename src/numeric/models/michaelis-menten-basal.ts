@@ -10,14 +10,15 @@
  * Source: Michaelis & Menten 1913, Biochem Z 49:333; basal-term form as used for actomyosin
  * ATPase, e.g. De La Cruz & Ostap 2009, Methods Enzymol 455:157. Bounds: KM ≥ 0.
  * Start rule: KM scanned over 40 log-spaced values from (smallest positive [A])/10 to
- * 10·(largest [A]); at each, v0 and kcat (or Vm) by linear least squares; the best pair
- * is the start (variable projection, src/numeric/models/start-helpers.ts).
+ * 10·(largest [A]); at each, v0 and kcat (or Vm) by linear least squares in closed form
+ * (lineOnBasis); the best pair is the start (variable projection,
+ * src/numeric/models/start-helpers.ts).
  * @example
  * fitCurve(michaelisMenten, [0.02, 0.02, 0.06, …], [76, 47, 97, …]) // Puromycin treated
  * // → vm 212.68, k 0.06412 (R: nls(rate ~ Vm*conc/(K+conc)), An Introduction to R §11.7.1)
  */
 import type { CurveModel } from '../types.js';
-import { linearLeastSquares, logGrid, range } from './start-helpers.js';
+import { lineOnBasis, logGrid, range } from './start-helpers.js';
 
 const KM_GRID_POINTS = 40;
 
@@ -48,12 +49,13 @@ export const michaelisMentenBasal: CurveModel = {
   start(x, y) {
     let best: number[] = [0, Math.max(...y), range(x)[1] / 2];
     let bestRss = Infinity;
-    const ones = x.map(() => 1);
+    const g = new Float64Array(x.length);
     for (const km of kmCandidates(x)) {
-      const fit = linearLeastSquares([ones, x.map((a) => a / (km + a))], y);
+      for (let i = 0; i < x.length; i++) g[i] = x[i] / (km + x[i]);
+      const fit = lineOnBasis(g, y, true);
       if (fit && fit.rss < bestRss) {
         bestRss = fit.rss;
-        best = [fit.coefficients[0], fit.coefficients[1], km];
+        best = [fit.a, fit.b, km];
       }
     }
     return best;
@@ -76,11 +78,13 @@ export const michaelisMenten: CurveModel = {
   start(x, y) {
     let best: number[] = [Math.max(...y), range(x)[1] / 2];
     let bestRss = Infinity;
+    const g = new Float64Array(x.length);
     for (const km of kmCandidates(x)) {
-      const fit = linearLeastSquares([x.map((a) => a / (km + a))], y);
+      for (let i = 0; i < x.length; i++) g[i] = x[i] / (km + x[i]);
+      const fit = lineOnBasis(g, y, false);
       if (fit && fit.rss < bestRss) {
         bestRss = fit.rss;
-        best = [fit.coefficients[0], km];
+        best = [fit.b, km];
       }
     }
     return best;

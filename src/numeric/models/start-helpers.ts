@@ -85,3 +85,126 @@ export function solve3(a: readonly (readonly number[])[], b: readonly number[]):
   }
   return out;
 }
+
+/**
+ * Closed-form least squares of y on one basis column g, with or without an intercept:
+ * y ≈ a + b·g (intercept) or y ≈ b·g. The same solution as `linearLeastSquares([ones, g], y)`
+ * or `linearLeastSquares([g], y)`, by centred sums (simple linear regression, e.g. Draper &
+ * Smith, Applied Regression Analysis, 3rd ed., §1.2) instead of a QR factorisation, so a
+ * start scan costs a few passes over the data per grid point. RSS by a second pass over
+ * the residuals (never negative). Null when g has no spread (is zero without intercept).
+ * @example lineOnBasis([0, 1, 2], [1, 3, 5], true) // → { a: 1, b: 2, rss: 0 }
+ */
+export function lineOnBasis(
+  g: ArrayLike<number>,
+  y: ArrayLike<number>,
+  intercept: boolean,
+): { a: number; b: number; rss: number } | null {
+  const n = y.length;
+  let a = 0;
+  let b: number;
+  if (intercept) {
+    let mg = 0;
+    let my = 0;
+    for (let i = 0; i < n; i++) {
+      mg += g[i];
+      my += y[i];
+    }
+    mg /= n;
+    my /= n;
+    let sgg = 0;
+    let sgy = 0;
+    for (let i = 0; i < n; i++) {
+      const dg = g[i] - mg;
+      sgg += dg * dg;
+      sgy += dg * (y[i] - my);
+    }
+    if (!(sgg > 0)) return null;
+    b = sgy / sgg;
+    a = my - b * mg;
+  } else {
+    let sgg = 0;
+    let sgy = 0;
+    for (let i = 0; i < n; i++) {
+      sgg += g[i] * g[i];
+      sgy += g[i] * y[i];
+    }
+    if (!(sgg > 0)) return null;
+    b = sgy / sgg;
+  }
+  let rss = 0;
+  for (let i = 0; i < n; i++) {
+    const e = y[i] - a - b * g[i];
+    rss += e * e;
+  }
+  if (!Number.isFinite(a) || !Number.isFinite(b) || !Number.isFinite(rss)) return null;
+  return { a, b, rss };
+}
+
+/** Golden ratio conjugate (√5 − 1)/2, the interval reduction per golden-section step. */
+const GOLDEN = (Math.sqrt(5) - 1) / 2;
+
+/**
+ * Minimise a function of one variable on [low, high] by golden-section search, stopping
+ * when the bracket is narrower than `tolerance`; returns the best point evaluated and its
+ * value. If the function is not unimodal on the interval the answer is a local minimum
+ * (callers keep their grid's best when it is lower).
+ * Method: golden-section search (Kiefer 1953, Proc AMS 4:502; Press et al., Numerical
+ * Recipes, 3rd ed., §10.2).
+ * @example goldenSection((u) => (u - 2) ** 2, 0, 5, 1e-6) // → { at ≈ 2, value ≈ 0 }
+ */
+export function goldenSection(fn: (u: number) => number, low: number, high: number, tolerance: number): { at: number; value: number } {
+  let a = low;
+  let b = high;
+  let c = b - GOLDEN * (b - a);
+  let d = a + GOLDEN * (b - a);
+  let fc = fn(c);
+  let fd = fn(d);
+  while (b - a > tolerance) {
+    if (fc <= fd) {
+      b = d;
+      d = c;
+      fd = fc;
+      c = b - GOLDEN * (b - a);
+      fc = fn(c);
+    } else {
+      a = c;
+      c = d;
+      fc = fd;
+      d = a + GOLDEN * (b - a);
+      fd = fn(d);
+    }
+  }
+  return fc <= fd ? { at: c, value: fc } : { at: d, value: fd };
+}
+
+/**
+ * Solve the symmetric 3×3 system [[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]]·c = b
+ * by Cramer's rule without allocating (the same rule and singularity test as `solve3`);
+ * writes c into `out` and returns false when the determinant is zero relative to the
+ * entries. Used only for starting values.
+ * @example solveSymmetric3(2, 0, 0, 3, 0, 4, 2, 3, 4, out) // → true, out = [1, 1, 1]
+ */
+export function solveSymmetric3(
+  a00: number,
+  a01: number,
+  a02: number,
+  a11: number,
+  a12: number,
+  a22: number,
+  b0: number,
+  b1: number,
+  b2: number,
+  out: Float64Array,
+): boolean {
+  const m11 = a11 * a22 - a12 * a12;
+  const m12 = a01 * a22 - a12 * a02;
+  const m13 = a01 * a12 - a11 * a02;
+  const det = a00 * m11 - a01 * m12 + a02 * m13;
+  const scale = Math.max(Math.abs(a00), Math.abs(a01), Math.abs(a02), Math.abs(a11), Math.abs(a12), Math.abs(a22));
+  if (!(Math.abs(det) > 1e-13 * scale * scale * scale)) return false;
+  out[0] = (b0 * m11 - a01 * (b1 * a22 - a12 * b2) + a02 * (b1 * a12 - a11 * b2)) / det;
+  out[1] = (a00 * (b1 * a22 - a12 * b2) - b0 * m12 + a02 * (a01 * b2 - b1 * a02)) / det;
+  out[2] = (a00 * (a11 * b2 - b1 * a12) - a01 * (a01 * b2 - b1 * a02) + b0 * m13) / det;
+  return true;
+}
