@@ -223,18 +223,16 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   };
 }
 
-/** Flags a reader of the variant's report needs: fit problems, comparison problems, rejected WT batches. */
+/**
+ * Flags about the variant as a whole: excluded units and comparisons made in batches whose WT control
+ * values broke a Westgard rejection rule. Fit and comparison flags stay on their unit and comparison records.
+ */
 function variantFlags(v: Variant, units: UnitResult[], comparisons: MetricComparison[], charts: ControlChart[]): Flag[] {
   const flags: Flag[] = [];
-  const mine = units.filter((u) => u.variant === v.id);
-  for (const u of mine) {
-    for (const f of u.flags) flags.push({ ...f, message: `${u.assay}, unit ${u.unit} (batch ${u.batch}): ${f.message}` });
-    if (u.excluded) flags.push({ code: 'excluded', severity: 'info', message: `${u.assay}, unit ${u.unit} (batch ${u.batch}) excluded: ${u.excluded}` });
+  for (const u of units.filter((x) => x.variant === v.id && x.excluded)) {
+    flags.push({ code: 'excluded', severity: 'info', message: `${u.assay}, unit ${u.unit} (batch ${u.batch}) excluded: ${u.excluded}` });
   }
   if (v.isWT) return flags;
-  for (const c of comparisons.filter((x) => x.variant === v.id)) {
-    for (const f of c.flags) flags.push({ ...f, message: `${c.assay} ${c.metric}: ${f.message}` });
-  }
   for (const chart of charts) {
     const batches = new Set(comparisons.filter((c) => c.variant === v.id && c.assay === chart.assay).flatMap((c) => c.batches));
     for (const b of chart.rejectedBatches) {

@@ -158,6 +158,7 @@ export interface VariantResult {
   overall: { call: FunctionCall; sentence: string; readout: 'abnormal' | 'normal' | null };
   /** Evidence ceiling for this variant's readout (overall), with the counts behind it. */
   evidence: { level: EvidenceLevel; scope: string; sentence: string };
+  /** Flags about the variant as a whole (excluded units, WT QC rejections); unit and comparison flags live on those records. */
   flags: Flag[];
 }
 

@@ -80,7 +80,7 @@ export function indexRows(results: StudyResults, slugs: Map<string, string>): In
       control: v.isWT ? 'reference' : control,
       assayCalls,
       overall: functionCall(v.overall.call),
-      evidence: v.evidence.level,
+      evidence: v.control ? 'n/a (calibration control)' : v.evidence.level,
       flags,
       search: [name, v.gene, v.hgvs, v.short, v.label, v.domain ?? '', control, v.note ?? ''].join(' ').toLowerCase(),
     };
