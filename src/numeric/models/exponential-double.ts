@@ -12,17 +12,17 @@
  * Bounds: both rates ≥ 0. Start rule (variable projection, coarse to fine): the
  * (kfast, kslow) pair scanned over a 16-point log grid (see rateCandidates) with
  * kfast ≥ 1.5·kslow; at each pair the two amplitudes and the offset by linear least squares
- * (normal equations from Gram sums); then ln kfast refined by golden-section search between
+ * (normal equations from Gram sums); then ln kfast refined by Brent's method between
  * the neighbours of the best grid rate with kslow fixed, and ln kslow likewise with the
  * refined kfast fixed (to 2%, ratio kept ≥ 1.5); the lowest RSS seen is the start.
  * @example exponentialDouble.f(60, [0.7, 0.03, 0.3, 0.0034, 0]) // → 0.36035 (REFERENCES.md §6 [C])
  */
 import type { CurveModel, FitResult } from '../types.js';
 import { rateCandidates } from './exponential-single.js';
-import { goldenSection, range, solveSymmetric3 } from './start-helpers.js';
+import { brentMinimise, range, solveSymmetric3 } from './start-helpers.js';
 
 const RATE_GRID_POINTS = 16;
-/** Width in ln k below which each golden-section refinement of a start rate stops (2%). */
+/** Tolerance in ln k of each one-dimensional refinement of a start rate (about ±2%). */
 const RATE_REFINE_TOLERANCE = 0.02;
 /** Smallest ratio kfast/kslow in the start scan. */
 const START_MIN_RATIO = 1.5;
@@ -122,7 +122,7 @@ export const exponentialDouble: CurveModel = {
       }
     }
     if (bestFast < 0) return best;
-    // Refine: golden-section search on ln kfast with kslow fixed, then on ln kslow with
+    // Refine: Brent minimisation on ln kfast with kslow fixed, then on ln kslow with
     // kfast fixed, each between the neighbours of the best grid rate (ratio kept ≥ START_MIN_RATIO).
     const e = new Float64Array(n);
     const other = new Float64Array(n);
@@ -160,7 +160,7 @@ export const exponentialDouble: CurveModel = {
         }
         return value;
       };
-      if (lowK < highK) goldenSection(at, Math.log(lowK), Math.log(highK), RATE_REFINE_TOLERANCE);
+      if (lowK < highK) brentMinimise(at, Math.log(lowK), Math.log(highK), RATE_REFINE_TOLERANCE);
       return kBest;
     };
     const neighbours = (index: number): [number, number] => [rates[Math.max(0, index - 1)], rates[Math.min(count - 1, index + 1)]];

@@ -10,16 +10,21 @@
  * Bounds: k ≥ 0. Start rule (variable projection, coarse to fine): k scanned over 15
  * log-spaced values from 0.1/(time span) to max(100/(time span), 1/(smallest time step));
  * at each, A and c by linear least squares in closed form (lineOnBasis); then ln k refined
- * by golden-section search between the neighbours of the best grid value, to 1%; the
- * lowest RSS seen is the start.
+ * by Brent's method (brentMinimise) between the neighbours of the best grid value, to 1e-7;
+ * the lowest RSS seen is the start.
  * @example exponentialSingle.f(10, [2, 0.1, 1]) // → 1.735759 (2·e⁻¹ + 1)
  */
 import type { CurveModel } from '../types.js';
-import { goldenSection, lineOnBasis, logGrid, range } from './start-helpers.js';
+import { brentMinimise, lineOnBasis, logGrid, range } from './start-helpers.js';
 
 const RATE_GRID_POINTS = 15;
-/** Width in ln k below which the golden-section refinement of the start rate stops (1%). */
-const RATE_REFINE_TOLERANCE = 0.01;
+/**
+ * Tolerance in ln k of the refinement of the start rate: the projected RSS is then at its
+ * minimum over k to about machine precision, which is the least-squares optimum of the
+ * separable model, so Levenberg–Marquardt only polishes it (large-residual data, e.g. a
+ * two-phase trace, otherwise costs many linearly convergent iterations).
+ */
+const RATE_REFINE_TOLERANCE = 1e-7;
 
 /**
  * Rate candidates spanning what the sampling of t can resolve.
@@ -78,7 +83,7 @@ export const exponentialSingle: CurveModel = {
       // Refine ln k between the neighbours of the best grid rate.
       const lowK = rates[Math.max(0, bestIndex - 1)];
       const highK = rates[Math.min(rates.length - 1, bestIndex + 1)];
-      goldenSection((u) => rssAt(Math.exp(u)), Math.log(lowK), Math.log(highK), RATE_REFINE_TOLERANCE);
+      brentMinimise((u) => rssAt(Math.exp(u)), Math.log(lowK), Math.log(highK), RATE_REFINE_TOLERANCE);
     }
     return best;
   },

@@ -141,41 +141,88 @@ export function lineOnBasis(
   return { a, b, rss };
 }
 
-/** Golden ratio conjugate (√5 − 1)/2, the interval reduction per golden-section step. */
-const GOLDEN = (Math.sqrt(5) - 1) / 2;
+/** 1 − (√5 − 1)/2: the fraction of an interval taken by a golden-section step. */
+const GOLDEN_STEP = (3 - Math.sqrt(5)) / 2;
 
 /**
- * Minimise a function of one variable on [low, high] by golden-section search, stopping
- * when the bracket is narrower than `tolerance`; returns the best point evaluated and its
- * value. If the function is not unimodal on the interval the answer is a local minimum
- * (callers keep their grid's best when it is lower).
- * Method: golden-section search (Kiefer 1953, Proc AMS 4:502; Press et al., Numerical
- * Recipes, 3rd ed., §10.2).
- * @example goldenSection((u) => (u - 2) ** 2, 0, 5, 1e-6) // → { at ≈ 2, value ≈ 0 }
+ * Minimise a function of one variable on [low, high] without derivatives; stops when the
+ * minimum is located to within about ±`tolerance` (absolute) and returns the best point
+ * evaluated and its value. If the function is not unimodal on the interval the answer is
+ * a local minimum (callers keep their grid's best when it is lower). Non-finite values are
+ * treated as worse than any finite one.
+ * Method: Brent's method, golden-section steps combined with parabolic interpolation
+ * (Brent 1973, "Algorithms for Minimization without Derivatives", ch. 5; as in Press et al.,
+ * Numerical Recipes, 3rd ed., §10.3), at most 100 evaluations.
+ * @example brentMinimise((u) => (u - 2) ** 2, 0, 5, 1e-8) // → { at ≈ 2, value ≈ 0 } in about 5 evaluations
  */
-export function goldenSection(fn: (u: number) => number, low: number, high: number, tolerance: number): { at: number; value: number } {
-  let a = low;
-  let b = high;
-  let c = b - GOLDEN * (b - a);
-  let d = a + GOLDEN * (b - a);
-  let fc = fn(c);
-  let fd = fn(d);
-  while (b - a > tolerance) {
-    if (fc <= fd) {
-      b = d;
-      d = c;
-      fd = fc;
-      c = b - GOLDEN * (b - a);
-      fc = fn(c);
+export function brentMinimise(fn: (u: number) => number, low: number, high: number, tolerance: number): { at: number; value: number } {
+  const f = (u: number) => {
+    const value = fn(u);
+    return Number.isNaN(value) ? Infinity : value;
+  };
+  let a = Math.min(low, high);
+  let b = Math.max(low, high);
+  let x = a + GOLDEN_STEP * (b - a);
+  let w = x;
+  let v = x;
+  let fx = f(x);
+  let fw = fx;
+  let fv = fx;
+  let d = 0;
+  let e = 0;
+  const tol1 = tolerance;
+  const tol2 = 2 * tolerance;
+  for (let evaluation = 1; evaluation < 100; evaluation++) {
+    const xm = 0.5 * (a + b);
+    if (Math.abs(x - xm) <= tol2 - 0.5 * (b - a)) break;
+    let golden = true;
+    if (Math.abs(e) > tol1) {
+      // Parabola through (v, fv), (w, fw), (x, fx).
+      const r = (x - w) * (fx - fv);
+      let q = (x - v) * (fx - fw);
+      let p = (x - v) * q - (x - w) * r;
+      q = 2 * (q - r);
+      if (q > 0) p = -p;
+      q = Math.abs(q);
+      const previous = e;
+      e = d;
+      if (Number.isFinite(p) && q > 0 && Math.abs(p) < Math.abs(0.5 * q * previous) && p > q * (a - x) && p < q * (b - x)) {
+        d = p / q;
+        const u = x + d;
+        if (u - a < tol2 || b - u < tol2) d = xm - x >= 0 ? tol1 : -tol1;
+        golden = false;
+      }
+    }
+    if (golden) {
+      e = x >= xm ? a - x : b - x;
+      d = GOLDEN_STEP * e;
+    }
+    const u = Math.abs(d) >= tol1 ? x + d : x + (d >= 0 ? tol1 : -tol1);
+    const fu = f(u);
+    if (fu <= fx) {
+      if (u >= x) a = x;
+      else b = x;
+      v = w;
+      fv = fw;
+      w = x;
+      fw = fx;
+      x = u;
+      fx = fu;
     } else {
-      a = c;
-      c = d;
-      fc = fd;
-      d = a + GOLDEN * (b - a);
-      fd = fn(d);
+      if (u < x) a = u;
+      else b = u;
+      if (fu <= fw || w === x) {
+        v = w;
+        fv = fw;
+        w = u;
+        fw = fu;
+      } else if (fu <= fv || v === x || v === w) {
+        v = u;
+        fv = fu;
+      }
     }
   }
-  return fc <= fd ? { at: c, value: fc } : { at: d, value: fd };
+  return { at: x, value: fx };
 }
 
 /**
