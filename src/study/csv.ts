@@ -173,12 +173,15 @@ export function parseCsv(input: string, file: string): CsvTable {
       const end = Math.max(0, Math.min(result.meta.cursor, text.length) - 1);
       const endLine = lineAt(starts, end);
       const inner = cells.reduce((n, c) => n + (c.match(/\r\n|\n|\r/g)?.length ?? 0), 0);
-      const line = Math.max(1, endLine - inner);
+      let line = Math.max(1, endLine - inner);
       // One issue per broken row: papaparse often reports the same quote twice.
       for (const err of result.errors.slice(0, 1)) {
         if (typeof err.index === 'number') {
-          const offset = Math.min(Math.max(0, err.index), text.length);
+          let offset = Math.min(Math.max(0, err.index), text.length);
+          // papaparse points just past an unclosed opening quote: point at the quote itself.
+          if (err.code === 'MissingQuotes' && text[offset] !== '"' && text[offset - 1] === '"') offset--;
           const at = lineAt(starts, offset);
+          if (err.code === 'MissingQuotes') line = Math.min(line, at); // the row starts where its quote opens
           issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at, col: offset - starts[at - 1] + 1 }));
         } else issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line }));
       }

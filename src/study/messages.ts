@@ -30,7 +30,7 @@ export const MSG = {
   manifestNotJson: (reason: string) => e('manifest.not-json', `The manifest is not valid JSON: ${reason}.`, 'Fix the JSON syntax (a JSON validator or editor shows the spot).'),
   schemaRequired: (prop: string) => e('manifest.required', `The required field '${prop}' is missing.`, `Add '${prop}' here.`),
   schemaUnknownField: (prop: string) => e('manifest.unknown-field', `'${prop}' is not a manifest field here.`, 'Remove it or correct its spelling (see the manifest reference in the README).'),
-  schemaType: (expected: string) => e('manifest.type', `The value must be of type ${expected}.`, `Write a ${expected} here.`),
+  schemaType: (expected: string) => e('manifest.type', `The value must be of type ${expected}.`, `Write ${/^[aeiou]/.test(expected) ? 'an' : 'a'} ${expected} here.`),
   schemaEnum: (allowed: readonly unknown[]) => e('manifest.enum', `The value is not one of the allowed values.`, `Use one of: ${allowed.map((a) => JSON.stringify(a)).join(', ')}.`),
   schemaFormat: (format: string) => e('manifest.format', `The value is not a valid ${format}.`, format === 'date' ? 'Write dates as YYYY-MM-DD.' : `Write a valid ${format}.`),
   schemaRange: (rule: string) => e('manifest.range', `The value must be ${rule}.`, `Give a value that is ${rule}.`),
