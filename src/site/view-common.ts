@@ -1,7 +1,8 @@
 /** Shapes of the data handed to the templates, and small helpers shared by the page builders. */
 import type { ChartDef, DataTable } from '../charts/chart-def.js';
 import { FUNCTION_CALL_STYLE, METRIC_CALL_STYLE } from '../charts/palette.js';
-import { renderSvg } from '../charts/render.js';
+import type { ChartSpec } from '../assays/types.js';
+import { renderSvg, type RenderOptions } from '../charts/render.js';
 import type { Calibration, Flag, FunctionCall, MetricCall } from '../results/types.js';
 import type { SourceRef } from '../study/types.js';
 import { slug } from './paths.js';
@@ -30,14 +31,33 @@ export function metricCall(call: MetricCall): CallView {
   return { call, glyph: METRIC_CALL_STYLE[call]?.glyph ?? '?', cls: `call-${slug(call)}` };
 }
 
-/** Render chart definitions to blocks, in order (deterministic). */
-export async function renderBlocks(defs: Array<ChartDef | null>): Promise<ChartBlock[]> {
-  const out: ChartBlock[] = [];
-  for (const d of defs) {
-    if (!d) continue;
-    const svg = await renderSvg(d.spec, { key: d.key, title: d.title, description: d.description });
-    out.push({ id: `chart-${slug(d.key)}`, title: d.title, description: d.description, svg, table: d.table });
-  }
+/** Renders one chart to SVG; a pooled and cached one comes from createChartRenderer (src/charts/pool.ts). */
+export type RenderFn = (spec: ChartSpec, options: RenderOptions) => Promise<string>;
+
+/**
+ * Render chart definitions to blocks, in order (deterministic). All charts of the list are
+ * handed to the renderer at once, so a pooled renderer draws them in parallel.
+ */
+export async function renderBlocks(defs: Array<ChartDef | null>, render: RenderFn = renderSvg): Promise<ChartBlock[]> {
+  const present = defs.filter((d): d is ChartDef => d !== null);
+  const svgs = await Promise.all(present.map((d) => render(d.spec, { key: d.key, title: d.title, description: d.description })));
+  return present.map((d, i) => ({ id: `chart-${slug(d.key)}`, title: d.title, description: d.description, svg: svgs[i], table: d.table }));
+}
+
+/**
+ * Map over items with at most `limit` calls in flight; results in input order.
+ * Bounds memory (specs and SVGs of only `limit` items are alive at once) while keeping a pool busy.
+ */
+export async function mapLimit<T, R>(items: readonly T[], limit: number, fn: (item: T, index: number) => Promise<R>): Promise<R[]> {
+  const out = new Array<R>(items.length);
+  let next = 0;
+  const lane = async () => {
+    while (next < items.length) {
+      const i = next++;
+      out[i] = await fn(items[i], i);
+    }
+  };
+  await Promise.all(Array.from({ length: Math.max(1, Math.min(limit, items.length)) }, lane));
   return out;
 }
 

@@ -6,7 +6,7 @@ import { residueMapChart } from '../charts/residue-map.js';
 import { scatterCharts } from '../charts/scatter.js';
 import type { Calibration, StudyResults } from '../results/types.js';
 import { PATHS } from './paths.js';
-import { type CalibrationView, type ChartBlock, ODDSPATH_THRESHOLDS, renderBlocks } from './view-common.js';
+import { type CalibrationView, type ChartBlock, ODDSPATH_THRESHOLDS, type RenderFn, renderBlocks } from './view-common.js';
 
 export function fmtCalibration(c: Calibration): CalibrationView {
   return {
@@ -35,7 +35,7 @@ export interface AssayPage {
   exclusions: StudyResults['exclusions'];
 }
 
-export async function assayPages(results: StudyResults): Promise<AssayPage[]> {
+export async function assayPages(results: StudyResults, render?: RenderFn): Promise<AssayPage[]> {
   const pages: AssayPage[] = [];
   for (const a of results.assays) {
     const cal = results.calibration.find((c) => c.scope === a.id);
@@ -47,7 +47,7 @@ export async function assayPages(results: StudyResults): Promise<AssayPage[]> {
         baseline: cc.baseline,
         rejected: cc.rejectedBatches.join(', '),
         warnings: cc.warningBatches.join(', '),
-        chart: (await renderBlocks([leveyJenningsChart(results, cc)]))[0] ?? null,
+        chart: (await renderBlocks([leveyJenningsChart(results, cc)], render))[0] ?? null,
       });
     }
     pages.push({
@@ -58,7 +58,7 @@ export async function assayPages(results: StudyResults): Promise<AssayPage[]> {
       label: a.label,
       metrics: a.metrics,
       methods: a.methods,
-      effects: await renderBlocks(a.metrics.map((m) => effectsChart(results, a.id, m.id))),
+      effects: await renderBlocks(a.metrics.map((m) => effectsChart(results, a.id, m.id)), render),
       calibration: cal ? fmtCalibration(cal) : null,
       controlCharts,
       exclusions: results.exclusions.filter((e) => e.assay === a.id || e.assay === undefined),
@@ -67,12 +67,12 @@ export async function assayPages(results: StudyResults): Promise<AssayPage[]> {
   return pages;
 }
 
-export async function residueCharts(results: StudyResults): Promise<ChartBlock[]> {
-  return renderBlocks(results.study.genes.map((g) => residueMapChart(results, g.symbol)));
+export async function residueCharts(results: StudyResults, render?: RenderFn): Promise<ChartBlock[]> {
+  return renderBlocks(results.study.genes.map((g) => residueMapChart(results, g.symbol)), render);
 }
 
-export async function compareCharts(results: StudyResults): Promise<ChartBlock[]> {
-  return renderBlocks(scatterCharts(results));
+export async function compareCharts(results: StudyResults, render?: RenderFn): Promise<ChartBlock[]> {
+  return renderBlocks(scatterCharts(results), render);
 }
 
 export function methodsData(results: StudyResults) {

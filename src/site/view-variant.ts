@@ -3,7 +3,7 @@ import { type ChartsFor, specTable } from '../charts/assay-charts.js';
 import { fmt, fmtCi, fmtP, variantNames } from '../charts/chart-def.js';
 import { forestChart } from '../charts/forest.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
-import { type CalibrationView, type CallView, type ChartBlock, type FlagView, flagView, functionCall, lineRanges, metricCall, renderBlocks } from './view-common.js';
+import { type CalibrationView, type CallView, type ChartBlock, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
 import { fmtCalibration } from './view-study.js';
 import { PATHS } from './paths.js';
 
@@ -58,10 +58,20 @@ export interface VariantPage {
   next: { name: string; href: string } | null;
 }
 
+/** Comparisons and units of each variant, in results order (one pass instead of a scan per variant). */
+function byVariant(results: StudyResults) {
+  const comps = new Map<string, StudyResults['comparisons']>();
+  const units = new Map<string, StudyResults['units']>();
+  for (const c of results.comparisons) (comps.get(c.variant) ?? comps.set(c.variant, []).get(c.variant)!).push(c);
+  for (const u of results.units) (units.get(u.variant) ?? units.set(u.variant, []).get(u.variant)!).push(u);
+  return { comps: (id: string) => comps.get(id) ?? [], units: (id: string) => units.get(id) ?? [] };
+}
+
 export function indexRows(results: StudyResults, slugs: Map<string, string>): IndexRow[] {
   const names = variantNames(results);
+  const idx = byVariant(results);
   return results.variants.map((v) => {
-    const flags = [...new Set(variantFlagCodes(results, v))].sort();
+    const flags = [...new Set(variantFlagCodes(v, idx.comps(v.id), idx.units(v.id)))].sort();
     const assayCalls = results.assays.map((a) => {
       const c = v.assayCalls.find((x) => x.assay === a.id);
       return { assay: a.id, ...functionCall(c?.call ?? 'not measured') };
@@ -87,35 +97,45 @@ export function indexRows(results: StudyResults, slugs: Map<string, string>): In
   });
 }
 
-function variantFlagCodes(results: StudyResults, v: VariantResult): string[] {
-  return [
-    ...v.flags.map((f) => f.code),
-    ...results.comparisons.filter((c) => c.variant === v.id).flatMap((c) => c.flags.map((f) => f.code)),
-    ...results.units.filter((u) => u.variant === v.id).flatMap((u) => u.flags.map((f) => f.code)),
-  ];
+function variantFlagCodes(v: VariantResult, comps: StudyResults['comparisons'], units: StudyResults['units']): string[] {
+  return [...v.flags.map((f) => f.code), ...comps.flatMap((c) => c.flags.map((f) => f.code)), ...units.flatMap((u) => u.flags.map((f) => f.code))];
 }
 
 const unitsLabel = (results: StudyResults, assay: string, metric: string) =>
   results.assays.find((a) => a.id === assay)?.metrics.find((m) => m.id === metric);
 
+export interface VariantPagesOptions {
+  /** Chart renderer (default: renderSvg in this thread, no cache). */
+  render?: RenderFn;
+  /** Variants whose pages are built at once (default 8): bounds memory, keeps a pool busy. */
+  concurrency?: number;
+  /** Called after each variant page: (done, total). */
+  onVariant?: (done: number, total: number) => void;
+}
+
 /** Build every variant page (rendering its forest plot and assay charts). */
-export async function variantPages(results: StudyResults, slugs: Map<string, string>, chartsFor?: ChartsFor): Promise<VariantPage[]> {
+export async function variantPages(results: StudyResults, slugs: Map<string, string>, chartsFor?: ChartsFor, options: VariantPagesOptions = {}): Promise<VariantPage[]> {
   const names = variantNames(results);
-  const pages: VariantPage[] = [];
   const assaySlugs = new Map(results.assays.map((a) => [a.id, a.id]));
-  for (const v of results.variants) {
+  const idx = byVariant(results);
+  const render = options.render;
+  let done = 0;
+  const pages = await mapLimit(results.variants, options.concurrency ?? 8, async (v): Promise<VariantPage> => {
     const name = names.get(v.id) ?? v.short;
     const extra = chartsFor ? await chartsFor(v.id) : [];
+    const myComps = idx.comps(v.id);
+    const myUnits = idx.units(v.id);
     const assays = [];
     for (const a of results.assays) {
-      const comps = results.comparisons.filter((c) => c.variant === v.id && c.assay === a.id);
-      const units = results.units.filter((u) => u.variant === v.id && u.assay === a.id);
+      const comps = myComps.filter((c) => c.assay === a.id);
+      const units = myUnits.filter((u) => u.assay === a.id);
       const call = v.assayCalls.find((c) => c.assay === a.id);
       if (comps.length === 0 && units.length === 0 && !call) continue;
       const charts = await renderBlocks(
         extra
           .filter((c) => c.assay === a.id)
           .map((c, i) => ({ key: `assay:${v.id}:${a.id}:${i}`, title: c.title, description: c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`, spec: c.spec, table: specTable(c.spec) })),
+        render,
       );
       assays.push({
         id: a.id,
@@ -152,10 +172,9 @@ export async function variantPages(results: StudyResults, slugs: Map<string, str
     }
     const flags: FlagView[] = [
       ...v.flags.map((f) => flagView(f, 'variant')),
-      ...results.comparisons.filter((c) => c.variant === v.id).flatMap((c) => c.flags.map((f) => flagView(f, `${c.assay} ${c.metric}`))),
-      ...results.units.filter((u) => u.variant === v.id).flatMap((u) => u.flags.map((f) => flagView(f, `${u.assay} unit ${u.unit}`))),
+      ...myComps.flatMap((c) => c.flags.map((f) => flagView(f, `${c.assay} ${c.metric}`))),
+      ...myUnits.flatMap((u) => u.flags.map((f) => flagView(f, `${u.assay} unit ${u.unit}`))),
     ];
-    const myUnits = results.units.filter((u) => u.variant === v.id);
     const myBatches = new Set(myUnits.map((u) => `${u.assay}|${u.batch}`));
     const exclusions = results.exclusions.filter(
       (e) => e.variant === v.id || (e.unit !== undefined && myUnits.some((u) => u.unit === e.unit)) || (e.kind === 'batch' && e.batch !== undefined && [...myBatches].some((k) => k.endsWith(`|${e.batch}`) && (!e.assay || k.startsWith(`${e.assay}|`)))),
@@ -167,7 +186,9 @@ export async function variantPages(results: StudyResults, slugs: Map<string, str
       lines.set(s.file, list);
     }
     const cal = results.calibration.find((c) => c.scope === v.evidence.scope);
-    pages.push({
+    const forest = (await renderBlocks([forestChart(results, v, name)], render))[0] ?? null;
+    options.onVariant?.(++done, results.variants.length);
+    return {
       path: PATHS.variant(slugs.get(v.id) as string),
       root: '../',
       title: v.isWT ? `${v.gene} wild type` : `${name} (${v.gene} ${v.hgvs})`,
@@ -176,15 +197,15 @@ export async function variantPages(results: StudyResults, slugs: Map<string, str
       overall: functionCall(v.overall.call),
       control: v.control ? `${v.control.class} control (${v.control.source})` : '',
       assays,
-      forest: (await renderBlocks([forestChart(results, v, name)]))[0] ?? null,
+      forest,
       flags,
       exclusions,
       sources: [...lines.keys()].sort().map((file) => ({ file, lines: lineRanges(lines.get(file) as number[]) || 'whole file' })),
       evidence: { level: v.evidence.level, scope: v.evidence.scope, sentence: v.evidence.sentence, calibration: cal ? fmtCalibration(cal) : null },
       prev: null,
       next: null,
-    });
-  }
+    };
+  });
   pages.forEach((p, i) => {
     const link = (q: VariantPage | undefined) => (q ? { name: q.name, href: q.path } : null);
     p.prev = link(pages[i - 1]);

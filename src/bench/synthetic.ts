@@ -1,0 +1,234 @@
+/**
+ * Synthetic studies for the scale benchmark: N invented variants of an invented gene (symbol
+ * ZZBENCH1, random seeded sequence), all four assays, batches of ~20 variants with 3 WT units
+ * per batch and 3 units per variant. Every value is invented (labelled synthetic).
+ *
+ * Rows come from the seeded demo simulator (src/demo/simulate.ts); the per-unit truths it
+ * returns are then used to redraw three files at benchmark density, because the simulator's
+ * own densities are demo-sized: motility velocities (300 filaments per unit instead of 40),
+ * force–pCa (10 pCa points instead of 9) and single-turnover traces (400 points per trace
+ * instead of 91–181). ATPase rates (8 [actin] × 3 wells), NADH wells and motility tracks are
+ * kept as the simulator writes them.
+ */
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { createRng, simulateStudy, type AssayTruth, type Scenario, type ScenarioVariant } from '../demo/simulate.js';
+import { MANIFEST_NAME } from '../study/schemas.js';
+
+const AMINO = 'ACDEFGHIKLMNPQRSTVWY';
+const WT: AssayTruth = {
+  kcat: 5.0,
+  km: 45,
+  basal: 0.03,
+  velocity: 0.8,
+  fractionImmobile: 0.07,
+  pCa50: 5.8,
+  nH: 3.0,
+  fmax: 30,
+  passive: 1.5,
+  kFast: 0.03,
+  kSlow: 0.0034,
+  slowFraction: 0.3,
+};
+
+export interface SyntheticOptions {
+  variants: number;
+  seed?: number;
+  /** Variants per batch (each variant's units spread over its batch and the next). */
+  perBatch?: number;
+  filaments?: number;
+  turnoverPoints?: number;
+  /** Data rows per CSV part (default 30,000). */
+  maxRowsPerFile?: number;
+}
+
+/** Scenario of `variants` invented variants (deterministic for a seed). */
+export function benchScenario(o: SyntheticOptions): Scenario {
+  const seed = o.seed ?? 9001;
+  const rng = createRng(seed);
+  const n = o.variants;
+  // Each residue carries at most 10 different changes, so the gene grows with the study.
+  const length = Math.max(420, Math.ceil(n / 10) + 10);
+  let sequence = 'M';
+  while (sequence.length < length) sequence += rng.pick([...AMINO]);
+  const nBatches = Math.max(2, Math.ceil(n / (o.perBatch ?? 20)));
+  const batches = Array.from({ length: nBatches }, (_, i) => `B${i + 1}`);
+  const variants: ScenarioVariant[] = [];
+  for (let i = 0; i < n; i++) {
+    const residue = 2 + (i % (length - 1));
+    const ref = sequence[residue - 1];
+    const alts = [...AMINO].filter((a) => a !== ref);
+    const alt = alts[Math.floor(i / (length - 1)) % alts.length];
+    const r = rng.uniform();
+    const effects: Partial<AssayTruth> =
+      r < 0.15 ? { kcat: 1.4, velocity: 1.3, pCa50: 0.15 } : r < 0.3 ? { kcat: 0.65, fmax: 0.7 } : r < 0.4 ? { slowFraction: -0.12 } : {};
+    const control =
+      i % 25 === 0 ? { class: 'pathogenic' as const, source: 'invented for the benchmark' } : i % 25 === 1 ? { class: 'benign' as const, source: 'invented for the benchmark' } : undefined;
+    if (control?.class === 'benign') for (const k of Object.keys(effects)) delete effects[k as keyof AssayTruth];
+    const b = Math.floor(i / (o.perBatch ?? 20)) % nBatches;
+    variants.push({
+      hgvs: `p.${ref}${residue}${alt}`,
+      ...(control ? { control } : {}),
+      effects,
+      batches: [batches[b], batches[(b + 1) % nBatches]],
+      atpase: i % 5 === 4 ? 'nadh' : 'rates',
+      motility: i % 5 === 3 ? 'tracks' : 'velocities',
+      force: true,
+      turnover: true,
+    });
+  }
+  return {
+    seed,
+    title: `ZZBENCH1 scale benchmark, ${n} variants (synthetic)`,
+    lab: 'Benchmark Lab (invented)',
+    dates: ['2025-03-01'],
+    description: 'Invented study made by src/bench/synthetic.ts for the scale benchmark. No value in it was measured.',
+    gene: { symbol: 'ZZBENCH1', sequence, domains: [{ name: 'motor domain', start: 1, end: Math.floor(length * 0.6) }, { name: 'tail', start: Math.floor(length * 0.6) + 1, end: length }] },
+    direction: 'hypercontractile',
+    caveats: ['Synthetic benchmark data: the lab, the gene, the variants and every value are invented.'],
+    batches,
+    wt: WT,
+    wtUnitsPerBatch: 3,
+    unitsPerVariant: 3,
+    variants,
+    unitSd: 0.06,
+    batchSd: 0.05,
+  };
+}
+
+function fx(x: number, digits: number): string {
+  const s = x.toFixed(digits);
+  return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
+}
+
+const PCA10 = [9, 6.8, 6.6, 6.2, 6.0, 5.8, 5.6, 5.4, 5.0, 4.5];
+const BANNER = '# Synthetic benchmark data: invented lab, gene and variants; not measurements.';
+
+/** Units (label, unit, batch) present in a simulator CSV, in file order. */
+function unitsOf(csv: string): Array<[string, string, string]> {
+  const seen = new Set<string>();
+  const out: Array<[string, string, string]> = [];
+  for (const line of csv.split('\n')) {
+    if (!line || line.startsWith('#') || line.startsWith('variant,')) continue;
+    const [label, unit, batch] = line.split(',', 3);
+    const key = `${label}|${unit}|${batch}`;
+    if (!seen.has(key)) {
+      seen.add(key);
+      out.push([label, unit, batch]);
+    }
+  }
+  return out;
+}
+
+/** Manifest and files of a synthetic study at benchmark density. */
+export function syntheticStudy(o: SyntheticOptions): { manifest: Record<string, unknown>; files: Record<string, string> } {
+  const sim = simulateStudy(benchScenario(o));
+  const rng = createRng((o.seed ?? 9001) ^ 0xbe7c);
+  const filaments = o.filaments ?? 300;
+  const points = o.turnoverPoints ?? 400;
+  const truthOf = (l: string, u: string, b: string) => sim.truth[`${l}|${u}|${b}`];
+  const files = { ...sim.files };
+  if (files['motility-velocities.csv']) {
+    const lines = [BANNER, 'variant,unit,batch,movie,filament,velocity (nm/s)'];
+    for (const [l, u, b] of unitsOf(files['motility-velocities.csv'])) {
+      const t = truthOf(l, u, b);
+      for (let f = 1; f <= filaments; f++) {
+        const immobile = rng.uniform() < t.fractionImmobile;
+        const v = immobile ? Math.abs(rng.normal(0, 0.015)) : Math.max(0.06, rng.normal(t.velocity, 0.1 * t.velocity));
+        lines.push(`${l},${u},${b},m${1 + Math.floor((f - 1) / 30)},f${f},${fx(v * 1000, 1)}`);
+      }
+    }
+    files['motility-velocities.csv'] = lines.join('\n') + '\n';
+  }
+  if (files['force-pca.csv']) {
+    const lines = [BANNER, 'variant,unit,batch,pCa,force (uN),area (um2)'];
+    for (const [l, u, b] of unitsOf(files['force-pca.csv'])) {
+      const t = truthOf(l, u, b);
+      const area = Math.round(Math.max(150, rng.normal(400, 60)));
+      for (const pCa of PCA10) {
+        const tension = t.passive + t.fmax / (1 + 10 ** (t.nH * (pCa - t.pCa50))) + rng.normal(0, 0.5);
+        lines.push(`${l},${u},${b},${pCa},${fx(tension * area * 1e-3, 3)},${area}`);
+      }
+    }
+    files['force-pca.csv'] = lines.join('\n') + '\n';
+  }
+  if (files['turnover.csv']) {
+    const lines = [BANNER, 'variant,unit,batch,trace,time (s),fluorescence'];
+    for (const [l, u, b] of unitsOf(files['turnover.csv'])) {
+      const t = truthOf(l, u, b);
+      const amplitude = 100 * Math.exp(rng.normal(0, 0.1));
+      const offset = 20 + rng.normal(0, 2);
+      const dt = 1800 / (points - 1);
+      for (let k = 0; k < points; k++) {
+        const s = k * dt;
+        const f = offset + amplitude * ((1 - t.slowFraction) * Math.exp(-t.kFast * s) + t.slowFraction * Math.exp(-t.kSlow * s));
+        lines.push(`${l},${u},${b},tr1,${fx(s, 2)},${fx(f + rng.normal(0, 0.6), 3)}`);
+      }
+    }
+    files['turnover.csv'] = lines.join('\n') + '\n';
+  }
+  return splitFiles(sim.manifest, files, o.maxRowsPerFile ?? 30_000);
+}
+
+/**
+ * Split every CSV into parts of at most `maxRows` data rows, at unit boundaries, each part a
+ * manifest entry of the same kind (labs often keep one file per run). Also keeps each file
+ * under the size where loadStudy's `push(...rows)` overflows the call stack (>~100k rows).
+ */
+function splitFiles(manifest: Record<string, unknown>, files: Record<string, string>, maxRows: number) {
+  const entries = manifest.files as Array<Record<string, unknown>>;
+  const outFiles: Record<string, string> = {};
+  const outEntries: Array<Record<string, unknown>> = [];
+  for (const entry of entries) {
+    const p = entry.path as string;
+    const lines = files[p].split('\n').filter((l) => l !== '');
+    const head = lines.filter((l) => l.startsWith('#') || l.startsWith('variant,'));
+    const body = lines.filter((l) => !(l.startsWith('#') || l.startsWith('variant,')));
+    if (body.length <= maxRows) {
+      outFiles[p] = files[p];
+      outEntries.push(entry);
+      continue;
+    }
+    let part = 1;
+    let start = 0;
+    while (start < body.length) {
+      let end = Math.min(body.length, start + maxRows);
+      // Move the cut back to a unit boundary (first three cells change).
+      const unitOf = (l: string) => l.split(',', 3).join(',');
+      while (end < body.length && end > start + 1 && unitOf(body[end]) === unitOf(body[end - 1])) end--;
+      const name = p.replace(/\.csv$/, `-part${part}.csv`);
+      outFiles[name] = [...head, ...body.slice(start, end)].join('\n') + '\n';
+      outEntries.push({ ...entry, path: name });
+      part++;
+      start = end;
+    }
+  }
+  return { manifest: { ...manifest, files: outEntries }, files: outFiles };
+}
+
+/** Write a study folder (replacing it). */
+export function writeStudy(dir: string, study: { manifest: Record<string, unknown>; files: Record<string, string> }): void {
+  rmSync(dir, { recursive: true, force: true });
+  mkdirSync(dir, { recursive: true });
+  writeFileSync(join(dir, MANIFEST_NAME), JSON.stringify(study.manifest, null, 2) + '\n');
+  for (const [p, text] of Object.entries(study.files)) writeFileSync(join(dir, p), text);
+}
+
+/**
+ * Change one variant's data: scale the velocities of the units labelled `label` by 1.1
+ * (one file changes; every other variant's rows stay byte-identical).
+ */
+export function changeOneVariant(files: Record<string, string>, label: string): Record<string, string> {
+  const path = Object.keys(files).find((p) => p.startsWith('motility-velocities') && files[p].includes(`\n${label},`));
+  if (!path) throw new Error(`no velocity rows for ${label}`);
+  const out = files[path]
+    .split('\n')
+    .map((line) => {
+      if (!line.startsWith(`${label},`)) return line;
+      const cells = line.split(',');
+      cells[5] = fx(Number(cells[5]) * 1.1, 1);
+      return cells.join(',');
+    })
+    .join('\n');
+  return { ...files, [path]: out };
+}

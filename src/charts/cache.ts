@@ -1,0 +1,71 @@
+/**
+ * Content-addressed SVG cache on disk.
+ *
+ *   (renderer id, chartKey(spec), id key, title, description) ──SHA-256──▶ <dir>/<ab>/<hash>.svg
+ *
+ * The entry name is a hash of everything renderSvg's output depends on, so an entry never
+ * goes stale: a changed spec, title or renderer version simply gives a new name. Entries are
+ * written to a temporary name and renamed, so concurrent builds never read half a file.
+ * Never point the cache inside a study folder or an output folder that gets swapped.
+ */
+import { createHash } from 'node:crypto';
+import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import type { ChartSpec } from '../assays/types.js';
+import { RENDERER_ID, chartKey, type RenderOptions } from './render.js';
+
+/** Default cache folder, relative to the current working directory. */
+export const DEFAULT_CHART_CACHE = join('.cache', 'myofolio', 'charts');
+
+/**
+ * Cache entry name for one render: SHA-256 (hex) over the renderer id, the spec's content key
+ * and the render options that reach the SVG (id key, title, description).
+ */
+export function cacheEntryKey(spec: ChartSpec, options: RenderOptions = {}, specKey = chartKey(spec)): string {
+  return createHash('sha256')
+    .update(JSON.stringify([RENDERER_ID, specKey, options.key ?? null, options.title ?? null, options.description ?? null]))
+    .digest('hex');
+}
+
+export class ChartCache {
+  readonly dir: string;
+  hits = 0;
+  misses = 0;
+  private made = new Set<string>();
+
+  constructor(dir: string = DEFAULT_CHART_CACHE) {
+    this.dir = resolve(dir);
+  }
+
+  private file(key: string): string {
+    return join(this.dir, key.slice(0, 2), `${key}.svg`);
+  }
+
+  /** The cached SVG, or undefined (a missing or unreadable entry counts as a miss). */
+  get(key: string): string | undefined {
+    try {
+      const svg = readFileSync(this.file(key), 'utf8');
+      this.hits++;
+      return svg;
+    } catch {
+      this.misses++;
+      return undefined;
+    }
+  }
+
+  /** Store an SVG (best effort: a cache that cannot be written only costs time). */
+  set(key: string, svg: string): void {
+    const sub = join(this.dir, key.slice(0, 2));
+    try {
+      if (!this.made.has(sub)) {
+        mkdirSync(sub, { recursive: true });
+        this.made.add(sub);
+      }
+      const tmp = `${this.file(key)}.${process.pid}.tmp`;
+      writeFileSync(tmp, svg);
+      renameSync(tmp, this.file(key));
+    } catch {
+      // read-only or full disk: carry on without caching
+    }
+  }
+}

@@ -1,0 +1,184 @@
+/**
+ * A small worker_threads pool, and the chart renderer built on it.
+ *
+ *   createChartRenderer({ workers, cacheDir })
+ *     render(spec, options) ──cache hit?──▶ SVG from <cacheDir>
+ *                           ──miss──▶ queue ──▶ render-worker.ts (renderSvg) ──▶ cache ──▶ SVG
+ *
+ * Workers run the TypeScript sources through tsx (worker-boot.mjs calls tsx's register(), as
+ * src/cli/myofolio.js does), so they work from any working directory, under
+ * `node src/cli/myofolio.js`, `node --import tsx` and vitest.
+ * The SVG of a chart does not depend on which worker drew it: renderSvg renumbers every id
+ * from the chart key, so pooled, cached and in-thread output are byte-identical.
+ */
+import { availableParallelism } from 'node:os';
+import { Worker } from 'node:worker_threads';
+import type { ChartSpec } from '../assays/types.js';
+import { ChartCache, DEFAULT_CHART_CACHE, cacheEntryKey } from './cache.js';
+import { chartKey, renderSvg, type RenderOptions } from './render.js';
+
+/** Default pool size: the cores this process may use, at least 1. */
+export function defaultWorkers(): number {
+  return Math.max(1, availableParallelism());
+}
+
+/**
+ * Start a worker thread on a TypeScript (or JavaScript) module: worker-boot.mjs registers tsx
+ * in the worker and imports `script`. Works from any working directory.
+ */
+export function startWorker(script: URL): Worker {
+  return new Worker(new URL('./worker-boot.mjs', import.meta.url), { workerData: { script: script.href } });
+}
+
+interface Job<I, O> {
+  input: I;
+  resolve: (o: O) => void;
+  reject: (e: Error) => void;
+}
+
+/** Message protocol of pool workers: in {id, input}; out {id, output} or {id, error}. */
+export interface WorkerReply<O> {
+  id: number;
+  output?: O;
+  error?: string;
+}
+
+/**
+ * Fixed-size pool of workers running `script`; one job in flight per worker, FIFO queue.
+ * Workers start on first use and are unref'd while idle, so a pool never holds the process open.
+ */
+export class WorkerPool<I, O> {
+  private idle: Worker[] = [];
+  private all: Worker[] = [];
+  private queue: Job<I, O>[] = [];
+  private running = new Map<Worker, { id: number; job: Job<I, O> }>();
+  private nextId = 1;
+  private closed = false;
+
+  constructor(
+    private readonly script: URL,
+    readonly size: number = defaultWorkers(),
+  ) {}
+
+  run(input: I): Promise<O> {
+    if (this.closed) return Promise.reject(new Error('worker pool is closed'));
+    return new Promise<O>((resolve, reject) => {
+      this.queue.push({ input, resolve, reject });
+      this.pump();
+    });
+  }
+
+  private spawn(): Worker {
+    const w = startWorker(this.script);
+    w.on('message', (msg: WorkerReply<O>) => {
+      const cur = this.running.get(w);
+      if (!cur || cur.id !== msg.id) return;
+      this.running.delete(w);
+      if (msg.error !== undefined) cur.job.reject(new Error(msg.error));
+      else cur.job.resolve(msg.output as O);
+      this.idle.push(w);
+      this.pump();
+    });
+    w.on('error', (err) => this.fail(w, err));
+    w.on('exit', (code) => {
+      if (!this.closed) this.fail(w, new Error(`render worker exited with code ${code}`));
+    });
+    this.all.push(w);
+    return w;
+  }
+
+  private fail(w: Worker, err: Error): void {
+    const cur = this.running.get(w);
+    this.running.delete(w);
+    this.all = this.all.filter((x) => x !== w);
+    this.idle = this.idle.filter((x) => x !== w);
+    cur?.job.reject(err);
+    this.pump();
+  }
+
+  private pump(): void {
+    while (this.queue.length > 0) {
+      let w = this.idle.pop();
+      if (!w && this.all.length < this.size) w = this.spawn();
+      if (!w) break;
+      const job = this.queue.shift() as Job<I, O>;
+      const id = this.nextId++;
+      this.running.set(w, { id, job });
+      w.ref();
+      w.postMessage({ id, input: job.input });
+    }
+    for (const w of this.idle) w.unref();
+  }
+
+  async close(): Promise<void> {
+    this.closed = true;
+    for (const j of this.queue.splice(0)) j.reject(new Error('worker pool closed'));
+    await Promise.all(this.all.map((w) => w.terminate()));
+    this.all = [];
+    this.idle = [];
+  }
+}
+
+export interface ChartRendererOptions {
+  /** Worker threads; 0 renders in this thread. Default: defaultWorkers(). */
+  workers?: number;
+  /** Cache folder, or false for no cache. Default: DEFAULT_CHART_CACHE under the working directory. */
+  cacheDir?: string | false;
+}
+
+export interface ChartRenderer {
+  render(spec: ChartSpec, options?: RenderOptions): Promise<string>;
+  /** Charts rendered and charts served from the cache. (process.cpuUsage() already counts worker threads.) */
+  stats(): { rendered: number; cached: number };
+  close(): Promise<void>;
+}
+
+interface RenderJob {
+  spec: ChartSpec;
+  options: RenderOptions;
+}
+
+/** A renderer with an optional worker pool and an optional content-addressed cache. */
+export function createChartRenderer(options: ChartRendererOptions = {}): ChartRenderer {
+  const workers = options.workers ?? defaultWorkers();
+  const cache = options.cacheDir === false ? undefined : new ChartCache(options.cacheDir ?? DEFAULT_CHART_CACHE);
+  const pool = workers > 0 ? new WorkerPool<RenderJob, string>(new URL('./render-worker.ts', import.meta.url), workers) : undefined;
+  const pending = new Map<string, Promise<string>>();
+  let rendered = 0;
+  let cached = 0;
+  const draw = (spec: ChartSpec, opts: RenderOptions) => (pool ? pool.run({ spec, options: opts }) : renderSvg(spec, opts));
+  return {
+    async render(spec, opts = {}) {
+      // The id prefix comes from opts.key, or else from the content key: fix it here once.
+      const specKey = chartKey(spec);
+      const full: RenderOptions = { ...opts, key: opts.key ?? specKey };
+      if (!cache) {
+        rendered++;
+        return draw(spec, full);
+      }
+      const entry = cacheEntryKey(spec, full, specKey);
+      const inFlight = pending.get(entry);
+      if (inFlight) return inFlight;
+      const hit = cache.get(entry);
+      if (hit !== undefined) {
+        cached++;
+        return hit;
+      }
+      const p = draw(spec, full).then((svg) => {
+        cache.set(entry, svg);
+        rendered++;
+        return svg;
+      });
+      pending.set(entry, p);
+      try {
+        return await p;
+      } finally {
+        pending.delete(entry);
+      }
+    },
+    stats: () => ({ rendered, cached }),
+    close: async () => {
+      await pool?.close();
+    },
+  };
+}

@@ -1,0 +1,112 @@
+/**
+ * Pooled and cached chart rendering gives the same site, byte for byte, as rendering in this
+ * thread without a cache; a rebuild after one variant's data changes re-renders only charts
+ * whose spec changed. Data: a small invented study from the benchmark generator (synthetic).
+ */
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { analyseStudy } from '../../src/analysis/analyse-study.js';
+import { ASSAYS } from '../../src/assays/registry.js';
+import { changeOneVariant, syntheticStudy } from '../../src/bench/synthetic.js';
+import { chartsFromModules } from '../../src/charts/assay-charts.js';
+import { createChartRenderer } from '../../src/charts/pool.js';
+import { canonical, canonicalSlow, chartKey } from '../../src/charts/render.js';
+import type { StudyResults } from '../../src/results/types.js';
+import { buildSite } from '../../src/site/build-site.js';
+import { loadStudy } from '../../src/study/load.js';
+import { listFiles } from '../site/helpers.js';
+
+const tmp: string[] = [];
+async function fresh(tag: string): Promise<string> {
+  const d = await mkdtemp(join(tmpdir(), `myofolio-scale-${tag}-`));
+  tmp.push(d);
+  return d;
+}
+afterAll(async () => {
+  await Promise.all(tmp.map((d) => rm(d, { recursive: true, force: true })));
+});
+
+function analyse(study: { manifest: Record<string, unknown>; files: Record<string, string> }): StudyResults {
+  const loaded = loadStudy({ manifest: JSON.stringify(study.manifest), files: study.files });
+  expect(loaded.issues.filter((i) => i.severity === 'error')).toEqual([]);
+  return analyseStudy(loaded.study!, { toolVersion: 'test', builtAt: '2025-01-01T00:00:00Z' });
+}
+
+async function snapshot(dir: string): Promise<Map<string, string>> {
+  const files = await listFiles(dir);
+  return new Map(await Promise.all(files.map(async (f) => [f, await readFile(join(dir, f), 'utf8')] as [string, string])));
+}
+
+const small = { variants: 5, filaments: 30, turnoverPoints: 60 };
+let base: StudyResults;
+let changed: StudyResults;
+let serial: Map<string, string>;
+
+beforeAll(async () => {
+  const study = syntheticStudy(small);
+  base = analyse(study);
+  const label = (study.manifest.variants as Array<{ hgvs?: string }>)[2].hgvs as string;
+  // Simulator labels are the short form of the HGVS (p.X12Y → X12Y).
+  changed = analyse({ manifest: study.manifest, files: changeOneVariant(study.files, label.replace(/^p\./, '')) });
+  const out = await fresh('serial');
+  await buildSite(base, out, { chartsFor: chartsFromModules(base, ASSAYS), sourceDateEpoch: 1_700_000_000, workers: 0, chartCache: false });
+  serial = await snapshot(out);
+}, 240_000);
+
+describe('chart pool and cache', () => {
+  it('canonical JSON matches the reference form, also with index-like keys', () => {
+    const specs = [{}, { b: 1, a: [1, { d: null, c: 'x' }], z: { y: undefined } }, { '10': 1, '9': 2, b: { '1': [3] } }, [1, undefined, 'a']];
+    for (const s of specs) expect(canonical(s)).toBe(canonicalSlow(s));
+    // From the doc comment of chartKey (value computed by this implementation, kept stable).
+    expect(chartKey({})).toBe('44136fa355b3678a');
+  });
+
+  it('pooled, cold-cache and warm-cache builds are byte-identical to the in-thread build', async () => {
+    const cacheDir = await fresh('cache');
+    const renderer = createChartRenderer({ workers: 2, cacheDir });
+    try {
+      const cold = await fresh('cold');
+      await buildSite(base, cold, { chartsFor: chartsFromModules(base, ASSAYS), sourceDateEpoch: 1_700_000_000, renderer });
+      const first = renderer.stats();
+      expect(first.rendered).toBeGreaterThan(10);
+      expect(await snapshot(cold)).toEqual(serial);
+
+      const warm = await fresh('warm');
+      await buildSite(base, warm, { chartsFor: chartsFromModules(base, ASSAYS), sourceDateEpoch: 1_700_000_000, renderer });
+      const second = renderer.stats();
+      expect(second.rendered).toBe(first.rendered); // nothing new drawn
+      expect(second.cached).toBeGreaterThanOrEqual(first.rendered);
+      expect(await snapshot(warm)).toEqual(serial);
+
+      // One variant's velocities change: only charts whose spec changed are drawn again.
+      const again = await fresh('again');
+      await buildSite(changed, again, { chartsFor: chartsFromModules(changed, ASSAYS), sourceDateEpoch: 1_700_000_000, renderer });
+      const third = renderer.stats();
+      const redrawn = third.rendered - second.rendered;
+      expect(redrawn).toBeGreaterThan(0);
+      expect(redrawn).toBeLessThan(first.rendered / 2);
+      const ref = await fresh('ref');
+      await buildSite(changed, ref, { chartsFor: chartsFromModules(changed, ASSAYS), sourceDateEpoch: 1_700_000_000, workers: 0, chartCache: false });
+      expect(await snapshot(again)).toEqual(await snapshot(ref));
+    } finally {
+      await renderer.close();
+    }
+  }, 240_000);
+
+  it('buildSite defaults (workers auto, cache folder given) give the same bytes', async () => {
+    const out = await fresh('defaults');
+    await buildSite(base, out, { chartsFor: chartsFromModules(base, ASSAYS), sourceDateEpoch: 1_700_000_000, chartCache: await fresh('cache2') });
+    expect(await snapshot(out)).toEqual(serial);
+  }, 240_000);
+
+  it('a failing render rejects instead of hanging', async () => {
+    const renderer = createChartRenderer({ workers: 1, cacheDir: false });
+    try {
+      await expect(renderer.render({ mark: 'not-a-mark', data: { values: [] } })).rejects.toThrow();
+    } finally {
+      await renderer.close();
+    }
+  });
+});
