@@ -62,6 +62,10 @@ export function scaledNorm(v: Float64Array, from: number, to: number): number {
   return big * Math.sqrt(s);
 }
 
+/** A plain sum of squares strictly inside (1e-290, 1e300) lost nothing to overflow and nothing that matters to underflow; outside it the scaled norm is used. */
+const SAFE_SQUARES_LOW = 1e-290;
+const SAFE_SQUARES_HIGH = 1e300;
+
 /**
  * In-place Householder QR of an m×k matrix stored column by column in `a`
  * (a[c·m + i] = A[i][c]), applied at the same time to `b` (length m). Afterwards the upper
@@ -70,8 +74,9 @@ export function scaledNorm(v: Float64Array, from: number, to: number): number {
  * skipped (its R_jj is then 0: rank-deficient).
  *
  * Method: Householder reflections column by column (Golub & Van Loan, Matrix Computations,
- * 4th ed., Algorithm 5.2.1), no pivoting; the same arithmetic as `householderQr`, on a flat
- * Float64Array with no allocation, for the solver's inner loop.
+ * 4th ed., Algorithm 5.2.1), no pivoting, each reflector scaled by the column norm so that
+ * any finite column factors without overflow; on a flat Float64Array with no allocation,
+ * for the solver's inner loop (`householderQr` is the wrapper for arrays of rows).
  * @example
  * const a = Float64Array.of(3, 4); const b = Float64Array.of(1, 2);
  * householderQrInPlace(a, 2, 1, b) // → a[0] = −5 (R), b[0] = −2.2 (Qᵀb)
@@ -79,27 +84,32 @@ export function scaledNorm(v: Float64Array, from: number, to: number): number {
 export function householderQrInPlace(a: Float64Array, m: number, k: number, b: Float64Array): void {
   for (let j = 0; j < k; j++) {
     const xo = j * m;
-    const norm = scaledNorm(a, xo + j, xo + m);
+    // ‖x‖ by a plain sum of squares; the scaled two-pass norm only when that over- or underflows.
+    let squares = 0;
+    for (let i = j; i < m; i++) squares += a[xo + i] * a[xo + i];
+    const norm = squares > SAFE_SQUARES_LOW && squares < SAFE_SQUARES_HIGH ? Math.sqrt(squares) : scaledNorm(a, xo + j, xo + m);
     if (norm === 0) continue;
     const xj = a[xo + j];
     const alpha = xj > 0 ? -norm : norm;
-    // v = x − alpha·e1 (entries j..m−1), held in place of x below the diagonal; v_j separately.
-    const vj = xj - alpha;
-    let vv = vj * vj;
-    for (let i = j + 1; i < m; i++) vv += a[xo + i] * a[xo + i];
-    if (vv === 0) continue;
+    // Reflector u = (x − alpha·e1)/norm (entries j..m−1), held in place of x below the
+    // diagonal, u_j separately; dividing by the norm keeps every product finite for any
+    // finite column. ‖u‖² = 2·(1 + |x_j|/norm), as alpha = −sign(x_j)·norm.
+    const inv = 1 / norm;
+    const uj = xj * inv - alpha * inv;
+    const halfUu = 1 + Math.abs(xj) * inv;
+    for (let i = j + 1; i < m; i++) a[xo + i] *= inv;
     for (let c = j + 1; c < k; c++) {
       const co = c * m;
-      let dot = vj * a[co + j];
+      let dot = uj * a[co + j];
       for (let i = j + 1; i < m; i++) dot += a[xo + i] * a[co + i];
-      const s = (2 * dot) / vv;
-      a[co + j] -= s * vj;
+      const s = dot / halfUu;
+      a[co + j] -= s * uj;
       for (let i = j + 1; i < m; i++) a[co + i] -= s * a[xo + i];
     }
-    let dotB = vj * b[j];
+    let dotB = uj * b[j];
     for (let i = j + 1; i < m; i++) dotB += a[xo + i] * b[i];
-    const sB = (2 * dotB) / vv;
-    b[j] -= sB * vj;
+    const sB = dotB / halfUu;
+    b[j] -= sB * uj;
     for (let i = j + 1; i < m; i++) b[i] -= sB * a[xo + i];
     // The column itself becomes alpha·e1.
     a[xo + j] = alpha;

@@ -17,8 +17,10 @@
  *  - bounds by projection onto the box, with parameters held at a bound while the
  *    gradient pushes them outward (a simple active set; Kelley 1999, "Iterative
  *    methods for optimization", §5.5);
- *  - analytic Jacobian when model.gradient exists, central finite differences
- *    otherwise (step ∛ε·|p_j|; one-sided at a bound).
+ *  - analytic Jacobian when model.gradient exists (computed in the same pass as the
+ *    residuals of each trial point when the model has the `evaluate` fast path, so an
+ *    accepted step needs no second pass), central finite differences otherwise (step
+ *    ∛ε·|p_j|; one-sided at a bound).
  * Stopping: scaled gradient (MINPACK's gtol: max_j |J_jᵀr| / (‖J_j‖·‖r‖)), relative RSS
  * change (actual and predicted), or relative step, with the tolerances of FIT in
  * src/defaults.ts. A stop is reported as converged only if the Jacobian at the end is
@@ -61,10 +63,33 @@ interface Data {
   yList: number[];
 }
 
-/** Weighted residuals f − y at p written into `out`; returns their sum of squares, or NaN when any value is not finite. */
-function residuals(model: CurveModel, data: Data, p: readonly number[], out: Float64Array): number {
+/**
+ * Weighted residuals f − y at p written into `out`; returns their sum of squares, or NaN
+ * when any value is not finite. With `jac` and a model that has `evaluate`, the weighted
+ * Jacobian at p is written into `jac` in the same pass (column by column) and
+ * `state.jacobianFinite` says whether all of it is finite.
+ */
+function residuals(
+  model: CurveModel,
+  data: Data,
+  p: readonly number[],
+  out: Float64Array,
+  jac?: Float64Array,
+  state?: { jacobianFinite: boolean },
+): number {
   const n = data.x.length;
   let rss = 0;
+  if (model.evaluate) {
+    model.evaluate(data.x, p, out, jac);
+    for (let i = 0; i < n; i++) {
+      const v = data.sqrtW[i] * (out[i] - data.y[i]);
+      if (!Number.isFinite(v)) return NaN;
+      out[i] = v;
+      rss += v * v;
+    }
+    if (jac && state) state.jacobianFinite = weighJacobian(data, jac, p.length);
+    return Number.isFinite(rss) ? rss : NaN;
+  }
   for (let i = 0; i < n; i++) {
     const v = data.sqrtW[i] * (model.f(data.x[i], p) - data.y[i]);
     if (!Number.isFinite(v)) return NaN;
@@ -72,6 +97,21 @@ function residuals(model: CurveModel, data: Data, p: readonly number[], out: Flo
     rss += v * v;
   }
   return Number.isFinite(rss) ? rss : NaN;
+}
+
+/** Multiply row i of a column-stored Jacobian by √w_i in place; false when a value is not finite. */
+function weighJacobian(data: Data, jac: Float64Array, k: number): boolean {
+  const n = data.x.length;
+  let finite = true;
+  for (let j = 0; j < k; j++) {
+    const o = j * n;
+    for (let i = 0; i < n; i++) {
+      const v = data.sqrtW[i] * jac[o + i];
+      if (!Number.isFinite(v)) finite = false;
+      jac[o + i] = v;
+    }
+  }
+  return finite;
 }
 
 /**
@@ -88,6 +128,10 @@ function jacobian(
 ): boolean {
   const k = p.length;
   const n = data.x.length;
+  if (model.evaluate) {
+    model.evaluate(data.x, p, new Float64Array(n), out);
+    return weighJacobian(data, out, k);
+  }
   if (model.gradient) {
     for (let i = 0; i < n; i++) {
       const g = model.gradient(data.x[i], p);
@@ -188,7 +232,12 @@ export function fitCurve(
   // Work buffers, allocated once per fit.
   let r = new Float64Array(n);
   let rTrial = new Float64Array(n);
-  const jac = new Float64Array(n * k);
+  let jac: Float64Array = new Float64Array(n * k);
+  // With model.evaluate, each trial point's Jacobian comes with its residuals; an accepted
+  // trial's Jacobian is then ready for the next iteration.
+  let jacTrial: Float64Array | undefined = model.evaluate ? new Float64Array(n * k) : undefined;
+  const trialState = { jacobianFinite: false };
+  let jacobianReady = false;
   const qr = new Float64Array(n * k);
   const qtr = new Float64Array(n);
   const gradient = new Float64Array(k);
@@ -200,8 +249,9 @@ export function fitCurve(
   const freeIdx: number[] = [];
 
   // 3. Levenberg–Marquardt iterations.
-  let rss = residuals(model, data, p, r);
+  let rss = residuals(model, data, p, r, jacTrial ? jac : undefined, trialState);
   if (Number.isNaN(rss)) return finish('non-finite', false, 0);
+  jacobianReady = jacTrial !== undefined;
   let lambda = INITIAL_DAMPING;
   let nu = 2;
   const diag = new Float64Array(k);
@@ -211,7 +261,9 @@ export function fitCurve(
   outer: while (iterations < maxIterations) {
     iterations++;
     if (iterations === Math.ceil(maxIterations / 2)) halfway = p;
-    if (!jacobian(model, data, p, lower, upper, jac)) {
+    const jacobianOk = jacobianReady ? trialState.jacobianFinite : jacobian(model, data, p, lower, upper, jac);
+    jacobianReady = false;
+    if (!jacobianOk) {
       stop = 'non-finite';
       break;
     }
@@ -275,7 +327,7 @@ export function fitCurve(
         predictedRss += v * v;
       }
       const predicted = rss - predictedRss;
-      const trialRss = residuals(model, data, next, rTrial);
+      const trialRss = residuals(model, data, next, rTrial, jacTrial, trialState);
       const finite = !Number.isNaN(trialRss);
       const actual = finite ? rss - trialRss : -Infinity;
       const rho = predicted > 0 ? actual / predicted : -1;
@@ -285,6 +337,12 @@ export function fitCurve(
         const swap = r;
         r = rTrial;
         rTrial = swap;
+        if (jacTrial) {
+          const swapJ = jac;
+          jac = jacTrial;
+          jacTrial = swapJ;
+          jacobianReady = true;
+        }
         lambda *= Math.max(1 / 3, 1 - Math.pow(2 * rho - 1, 3));
         nu = 2;
         if (p.some((v, j) => Math.abs(v) > divergenceLimit[j])) {

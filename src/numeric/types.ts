@@ -17,6 +17,14 @@ export interface CurveModel {
   f(x: number, p: readonly number[]): number;
   /** Optional analytic partial derivatives ∂f/∂p_j at x (same order as params). */
   gradient?(x: number, p: readonly number[]): number[];
+  /**
+   * Optional fast path for the solver: the model value at every x written into `values`
+   * and, when `jacobian` is given, the partial derivatives ∂f/∂p_j stored column by column
+   * (jacobian[j·n + i] at x[i], n = x.length). Must give the same numbers as `f` and
+   * `gradient`; it lets a model share work between them (e.g. each exponential computed
+   * once per point) and saves one allocation per point.
+   */
+  evaluate?(x: Float64Array, p: readonly number[], values: Float64Array, jacobian?: Float64Array): void;
   /** Starting values computed from the data, so no user has to guess. */
   start(x: readonly number[], y: readonly number[]): number[];
   /** Optional bounds per parameter (inclusive); undefined means unbounded. */

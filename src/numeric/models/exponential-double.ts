@@ -45,6 +45,22 @@ export const exponentialDouble: CurveModel = {
     const eSlow = Math.exp(-p[3] * t);
     return [eFast, -p[0] * t * eFast, eSlow, -p[2] * t * eSlow, 1];
   },
+  evaluate(x, p, values, jacobian) {
+    const n = x.length;
+    for (let i = 0; i < n; i++) {
+      const t = x[i];
+      const eFast = Math.exp(-p[1] * t);
+      const eSlow = Math.exp(-p[3] * t);
+      values[i] = p[0] * eFast + p[2] * eSlow + p[4];
+      if (jacobian) {
+        jacobian[i] = eFast;
+        jacobian[n + i] = -p[0] * t * eFast;
+        jacobian[2 * n + i] = eSlow;
+        jacobian[3 * n + i] = -p[2] * t * eSlow;
+        jacobian[4 * n + i] = 1;
+      }
+    }
+  },
   start(x, y) {
     const n = x.length;
     const rates = rateCandidates(x, RATE_GRID_POINTS);

@@ -54,6 +54,19 @@ export const exponentialSingle: CurveModel = {
     const e = Math.exp(-p[1] * t);
     return [e, -p[0] * t * e, 1];
   },
+  evaluate(x, p, values, jacobian) {
+    const n = x.length;
+    for (let i = 0; i < n; i++) {
+      const t = x[i];
+      const e = Math.exp(-p[1] * t);
+      values[i] = p[0] * e + p[2];
+      if (jacobian) {
+        jacobian[i] = e;
+        jacobian[n + i] = -p[0] * t * e;
+        jacobian[2 * n + i] = 1;
+      }
+    }
+  },
   start(x, y) {
     let best: number[] = [range(y)[1] - range(y)[0], 1, range(y)[0]];
     let bestRss = Infinity;

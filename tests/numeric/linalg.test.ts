@@ -1,0 +1,142 @@
+/**
+ * Linear algebra of the solver's inner loop: the in-place QR, the damped solve that
+ * rotates damping rows into R (MINPACK qrsolv, Moré 1978), the scaled norm, and the
+ * column-stored inverse of the normal matrix. Each fast routine is checked against the
+ * plain augmented-QR routine it replaces on the same inputs ("computed from the same
+ * inputs", common practice, no source) and against exact identities.
+ */
+import { describe, expect, it } from 'vitest';
+import {
+  dampedLeastSquares,
+  dampedSolveFromQr,
+  householderQr,
+  householderQrInPlace,
+  inverseNormalMatrix,
+  inverseNormalMatrixColumns,
+  scaledNorm,
+} from '../../src/numeric/linalg.js';
+import { createRandom } from '../../src/stats/random.js';
+
+const relative = (got: number, want: number) => Math.abs(got - want) / Math.max(Math.abs(want), 1e-300);
+
+function randomMatrix(seed: number, m: number, k: number): number[][] {
+  const random = createRandom(seed);
+  return Array.from({ length: m }, () => Array.from({ length: k }, () => random.normal(0, 1)));
+}
+
+function columns(a: number[][]): Float64Array {
+  const m = a.length;
+  const k = a[0].length;
+  const out = new Float64Array(m * k);
+  for (let c = 0; c < k; c++) for (let i = 0; i < m; i++) out[c * m + i] = a[i][c];
+  return out;
+}
+
+/** QR once, then the damped solve for the given d; null when singular. */
+function viaQr(a: number[][], b: number[], d: number[]): number[] | null {
+  const m = a.length;
+  const k = d.length;
+  const qr = columns(a);
+  const rhs = Float64Array.from(b);
+  householderQrInPlace(qr, m, k, rhs);
+  const out = new Float64Array(k);
+  return dampedSolveFromQr(qr, m, k, rhs, Float64Array.from(d), out, new Float64Array(k * k + 2 * k)) ? Array.from(out) : null;
+}
+
+describe('scaledNorm (exact identities)', () => {
+  it('3-4-5 at ordinary, huge and tiny scales, without overflow or underflow', () => {
+    expect(scaledNorm(Float64Array.of(3, 4), 0, 2)).toBe(5);
+    expect(relative(scaledNorm(Float64Array.of(3e200, 4e200), 0, 2), 5e200)).toBeLessThan(1e-15);
+    expect(relative(scaledNorm(Float64Array.of(3e-200, 4e-200), 0, 2), 5e-200)).toBeLessThan(1e-15);
+    expect(scaledNorm(Float64Array.of(0, 0), 0, 2)).toBe(0);
+    expect(scaledNorm(Float64Array.of(9, 3, 4), 1, 3)).toBe(5);
+  });
+});
+
+describe('householderQrInPlace', () => {
+  it('doc example: [3; 4] → R = −5, Qᵀb = −2.2 (hand computation)', () => {
+    const a = Float64Array.of(3, 4);
+    const b = Float64Array.of(1, 2);
+    householderQrInPlace(a, 2, 1, b);
+    expect(a[0]).toBeCloseTo(-5, 14);
+    expect(b[0]).toBeCloseTo(-2.2, 14);
+  });
+
+  it('RᵀR = AᵀA and the wrapper householderQr agrees (computed from the same inputs)', () => {
+    const a = randomMatrix(11, 40, 5);
+    const qr = columns(a);
+    householderQrInPlace(qr, 40, 5, new Float64Array(40));
+    const { r } = householderQr(a, new Array(40).fill(0));
+    for (let i = 0; i < 5; i++) {
+      for (let j = 0; j < 5; j++) {
+        let ata = 0;
+        let rtr = 0;
+        for (let l = 0; l < 40; l++) ata += a[l][i] * a[l][j];
+        for (let l = 0; l <= Math.min(i, j); l++) rtr += qr[i * 40 + l] * qr[j * 40 + l];
+        expect(Math.abs(rtr - ata)).toBeLessThan(1e-12 * 40);
+        if (j >= i) expect(r[i][j]).toBe(qr[j * 40 + i]);
+      }
+    }
+  });
+
+  it('columns near 1e200 and 1e-200 factor without overflow (|R₀₀| = column norm)', () => {
+    const big = Float64Array.of(3e200, 4e200);
+    householderQrInPlace(big, 2, 1, new Float64Array(2));
+    expect(relative(Math.abs(big[0]), 5e200)).toBeLessThan(1e-15);
+    const tiny = Float64Array.of(3e-200, 4e-200);
+    householderQrInPlace(tiny, 2, 1, new Float64Array(2));
+    expect(relative(Math.abs(tiny[0]), 5e-200)).toBeLessThan(1e-15);
+  });
+});
+
+describe('dampedSolveFromQr equals the augmented QR of [A; diag(d)]', () => {
+  it('doc example: A = [1; 1], b = [1, 3], d = 0 → x = 2', () => {
+    expect(viaQr([[1], [1]], [1, 3], [0])![0]).toBeCloseTo(2, 14);
+  });
+
+  it.each([
+    { seed: 1, m: 12, k: 3, d: [0, 0, 0] },
+    { seed: 2, m: 400, k: 5, d: [0.1, 2, 0, 1e-4, 30] },
+    { seed: 3, m: 9, k: 4, d: [1e-8, 1e-8, 1e-8, 1e-8] },
+    { seed: 4, m: 24, k: 3, d: [1e3, 1e3, 1e3] },
+  ])('seed $seed, $m × $k', ({ seed, m, k, d }) => {
+    const a = randomMatrix(seed, m, k);
+    const b = randomMatrix(seed + 100, m, 1).map((row) => row[0]);
+    const want = dampedLeastSquares(a, b, d)!;
+    const got = viaQr(a, b, d)!;
+    got.forEach((v, j) => expect(Math.abs(v - want[j])).toBeLessThan(1e-11 * Math.max(1, Math.abs(want[j]))));
+  });
+
+  it('a zero column is solvable with damping and singular without', () => {
+    const a = [
+      [1, 0],
+      [2, 0],
+      [3, 0],
+    ];
+    const b = [1, 2, 3];
+    expect(viaQr(a, b, [0, 0])).toBeNull();
+    const damped = viaQr(a, b, [0, 1])!;
+    const want = dampedLeastSquares(a, b, [0, 1])!;
+    expect(damped[0]).toBeCloseTo(want[0], 14);
+    expect(damped[1]).toBe(0);
+  });
+});
+
+describe('inverseNormalMatrixColumns', () => {
+  it('doc example and agreement with the row version (computed from the same inputs)', () => {
+    const doc = inverseNormalMatrixColumns(Float64Array.of(1, 0, 0, 0, 2, 0), 3, 2)!;
+    expect(doc.inverse[0][0]).toBeCloseTo(1, 14);
+    expect(doc.inverse[1][1]).toBeCloseTo(0.25, 14);
+    expect(doc.inverse[0][1]).toBeCloseTo(0, 14);
+    expect(doc.condition).toBeCloseTo(1, 14);
+    const a = randomMatrix(7, 30, 4);
+    const rows = inverseNormalMatrix(a)!;
+    const cols = inverseNormalMatrixColumns(columns(a), 30, 4)!;
+    expect(cols.condition).toBe(rows.condition);
+    cols.inverse.forEach((row, i) => row.forEach((v, j) => expect(v).toBe(rows.inverse[i][j])));
+  });
+
+  it('is null for a zero column', () => {
+    expect(inverseNormalMatrixColumns(Float64Array.of(1, 2, 0, 0), 2, 2)).toBeNull();
+  });
+});

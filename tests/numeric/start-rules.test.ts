@@ -1,0 +1,152 @@
+/**
+ * Start-value helpers and the coarse-to-fine start rules, and the models' `evaluate` fast
+ * path. Expected numbers are exact identities, analytic minima, or "computed from the same
+ * inputs" by the plain routine a fast one replaces; tolerances on start values are common
+ * practice, no source (a start need only lie in the optimum's basin).
+ */
+import { describe, expect, it } from 'vitest';
+import { fitCurve } from '../../src/numeric/nls.js';
+import {
+  brentMinimise,
+  lineOnBasis,
+  linearLeastSquares,
+  solve3,
+  solveSymmetric3,
+} from '../../src/numeric/models/start-helpers.js';
+import { exponentialSingle } from '../../src/numeric/models/exponential-single.js';
+import { exponentialDouble } from '../../src/numeric/models/exponential-double.js';
+import { hillForcePca } from '../../src/numeric/models/hill-force-pca.js';
+import { michaelisMenten, michaelisMentenBasal } from '../../src/numeric/models/michaelis-menten-basal.js';
+import type { CurveModel } from '../../src/numeric/types.js';
+import { createRandom } from '../../src/stats/random.js';
+
+const relative = (got: number, want: number) => Math.abs(got - want) / Math.abs(want);
+
+describe('lineOnBasis equals linearLeastSquares (computed from the same inputs)', () => {
+  it('doc example: y = 1 + 2g exactly', () => {
+    const fit = lineOnBasis([0, 1, 2], [1, 3, 5], true)!;
+    expect(fit.a).toBeCloseTo(1, 14);
+    expect(fit.b).toBeCloseTo(2, 14);
+    expect(fit.rss).toBeCloseTo(0, 20);
+  });
+
+  it.each([true, false])('random data, intercept %s', (intercept) => {
+    const random = createRandom(intercept ? 1 : 2);
+    const g = Array.from({ length: 24 }, () => random.uniform());
+    const y = g.map((v) => 0.3 + 4 * v + random.normal(0, 0.2));
+    const fast = lineOnBasis(g, y, intercept)!;
+    const plain = linearLeastSquares(intercept ? [g.map(() => 1), g] : [g], y)!;
+    const [a, b] = intercept ? plain.coefficients : [0, plain.coefficients[0]];
+    expect(Math.abs(fast.a - a)).toBeLessThan(1e-12);
+    expect(relative(fast.b, b)).toBeLessThan(1e-12);
+    expect(relative(fast.rss, plain.rss)).toBeLessThan(1e-10);
+  });
+
+  it('is null for a basis with no spread', () => {
+    expect(lineOnBasis([2, 2, 2], [1, 2, 3], true)).toBeNull();
+    expect(lineOnBasis([0, 0, 0], [1, 2, 3], false)).toBeNull();
+  });
+});
+
+describe('brentMinimise (analytic minima)', () => {
+  it('(u − 2)² on [0, 5] → 2', () => {
+    expect(brentMinimise((u) => (u - 2) ** 2, 0, 5, 1e-8).at).toBeCloseTo(2, 7);
+  });
+  it('cosh(u − 1.3) + 0.1u → 1.3 − asinh(0.1) = 1.200167', () => {
+    let evaluations = 0;
+    const r = brentMinimise((u) => (evaluations++, Math.cosh(u - 1.3) + 0.1 * u), -3, 7, 1e-9);
+    expect(r.at).toBeCloseTo(1.3 - Math.asinh(0.1), 7);
+    expect(evaluations).toBeLessThanOrEqual(100);
+  });
+  it('treats non-finite values as worse than any finite one', () => {
+    expect(brentMinimise((u) => (u < 1 ? NaN : (u - 3) ** 2), 0, 10, 1e-8).at).toBeCloseTo(3, 6);
+    expect(brentMinimise((u) => (u > 4 ? Infinity : (u - 3) ** 2), 0, 10, 1e-8).at).toBeCloseTo(3, 6);
+  });
+});
+
+describe('solveSymmetric3 equals solve3 (computed from the same inputs)', () => {
+  it('random symmetric systems and a singular one', () => {
+    const random = createRandom(9);
+    const out = new Float64Array(3);
+    for (let trial = 0; trial < 50; trial++) {
+      const [a00, a01, a02, a11, a12, a22, b0, b1, b2] = Array.from({ length: 9 }, () => random.normal(0, 1));
+      const want = solve3([[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]], [b0, b1, b2])!;
+      expect(solveSymmetric3(a00, a01, a02, a11, a12, a22, b0, b1, b2, out)).toBe(true);
+      want.forEach((v, j) => expect(Math.abs(out[j] - v)).toBeLessThan(1e-12 * Math.max(1, Math.abs(v))));
+    }
+    expect(solveSymmetric3(1, 2, 3, 4, 6, 9, 1, 1, 1, out)).toBe(false);
+  });
+});
+
+describe('start rules', () => {
+  const t = Array.from({ length: 400 }, (_, i) => i * 4.5);
+
+  it('single exponential: the start is the least-squares optimum (variable projection, Golub & Pereyra 1973)', () => {
+    // Large-residual case: a two-phase trace fitted with one phase.
+    const random = createRandom(21);
+    const y = t.map((v) => exponentialDouble.f(v, [0.7, 0.03, 0.3, 0.0034, 0.05]) + random.normal(0, 0.01));
+    const start = exponentialSingle.start(t, y);
+    const fit = fitCurve(exponentialSingle, t, y);
+    expect(fit.converged).toBe(true);
+    const startRss = y.reduce((s, v, i) => s + (exponentialSingle.f(t[i], start) - v) ** 2, 0);
+    expect(relative(startRss, fit.rss)).toBeLessThan(1e-9);
+    expect(relative(start[1], fit.parameters[1].estimate)).toBeLessThan(1e-5);
+  });
+
+  it('double exponential: noise-free rates found to within 20% before any iteration', () => {
+    const y = t.map((v) => exponentialDouble.f(v, [0.7, 0.03, 0.3, 0.0034, 0.05]));
+    const start = exponentialDouble.start(t, y);
+    expect(relative(start[1], 0.03)).toBeLessThan(0.2);
+    expect(relative(start[3], 0.0034)).toBeLessThan(0.2);
+  });
+
+  it('Hill: noise-free pCa50 within half a fine step (0.025) and nH = 3 from the candidate list', () => {
+    const pCa = [9, 6.4, 6.2, 6.0, 5.9, 5.8, 5.7, 5.6, 5.4, 4.5];
+    const y = pCa.map((v) => hillForcePca.f(v, [2, 30, 5.83, 3]));
+    const start = hillForcePca.start(pCa, y);
+    expect(Math.abs(start[2] - 5.83)).toBeLessThanOrEqual(0.025 + 1e-12);
+    expect(start[3]).toBe(3);
+  });
+});
+
+/** evaluate gives the same values and derivatives as f and gradient (bit for bit up to 1e-15 relative); common practice, no source. */
+function checkEvaluate(model: CurveModel, p: number[], xs: number[]): void {
+  const x = Float64Array.from(xs);
+  const n = xs.length;
+  const values = new Float64Array(n);
+  const jac = new Float64Array(n * p.length);
+  model.evaluate!(x, p, values, jac);
+  xs.forEach((xi, i) => {
+    expect(Math.abs(values[i] - model.f(xi, p))).toBeLessThanOrEqual(1e-15 * Math.max(1, Math.abs(values[i])));
+    model.gradient!(xi, p).forEach((g, j) => expect(Math.abs(jac[j * n + i] - g)).toBeLessThanOrEqual(1e-15 * Math.max(1, Math.abs(g))));
+  });
+}
+
+describe('evaluate fast path', () => {
+  it.each([
+    ['exponential-single', exponentialSingle, [1, 0.03, 0.1], [0, 10, 100, 1000]],
+    ['exponential-double', exponentialDouble, [0.7, 0.03, 0.3, 0.0034, 0.05], [0, 60, 300, 900]],
+  ] as const)('%s agrees with f and gradient', (_id, model, p, xs) => checkEvaluate(model, [...p], [...xs]));
+
+  it('fitCurve gives the same fit with and without it (computed from the same inputs)', () => {
+    const t = Array.from({ length: 200 }, (_, i) => i * 9);
+    const random = createRandom(33);
+    const y = t.map((v) => exponentialDouble.f(v, [0.7, 0.03, 0.3, 0.0034, 0.05]) + random.normal(0, 0.01));
+    const fast = fitCurve(exponentialDouble, t, y);
+    const plain = fitCurve({ ...exponentialDouble, evaluate: undefined }, t, y);
+    expect(fast.converged).toBe(true);
+    expect(plain.converged).toBe(true);
+    expect(relative(fast.rss, plain.rss)).toBeLessThan(1e-12);
+    fast.parameters.forEach((q, j) => {
+      expect(relative(q.estimate, plain.parameters[j].estimate)).toBeLessThan(1e-8);
+      expect(relative(q.se, plain.parameters[j].se)).toBeLessThan(1e-6);
+    });
+  });
+
+  it('Michaelis–Menten models still start near the optimum on Puromycin treated (REFERENCES.md §2 inputs)', () => {
+    const conc = [0.02, 0.02, 0.06, 0.06, 0.11, 0.11, 0.22, 0.22, 0.56, 0.56, 1.1, 1.1];
+    const treated = [76, 47, 97, 107, 123, 139, 159, 152, 191, 201, 207, 200];
+    expect(relative(michaelisMenten.start(conc, treated)[1], 0.06412)).toBeLessThan(0.2);
+    expect(relative(michaelisMentenBasal.start(conc, treated)[2], 0.1047)).toBeLessThan(0.2);
+  });
+});
