@@ -172,7 +172,11 @@ export function parseCsv(input: string, file: string): CsvTable {
       // cursor is the offset just after the row (past its line break).
       const end = Math.max(0, Math.min(result.meta.cursor, text.length) - 1);
       const endLine = lineAt(starts, end);
-      const inner = cells.reduce((n, c) => n + (c.match(/\r\n|\n|\r/g)?.length ?? 0), 0);
+      // Line breaks inside the row's cells; a break at the very end of the last cell (a stray CR
+      // before the row's own line ending) is on the row's last line and does not count.
+      const breaks = (c: string) => c.match(/\r\n|\n|\r/g)?.length ?? 0;
+      const lastCell = cells[cells.length - 1] ?? '';
+      const inner = cells.reduce((n, c) => n + breaks(c), 0) - (/(\r\n|\n|\r)$/.test(lastCell) ? 1 : 0);
       let line = Math.max(1, endLine - inner);
       // One issue per broken row: papaparse often reports the same quote twice.
       for (const err of result.errors.slice(0, 1)) {
