@@ -412,13 +412,16 @@ function summarise(
   let converged = convergedIn;
   const df = n - k;
   const resid = new Float64Array(n);
-  const rss = p.every(Number.isFinite) ? residuals(model, data, p, resid) : NaN;
+  const jac = new Float64Array(n * k);
+  // With model.evaluate the Jacobian comes in the same pass as the residuals.
+  const state = { jacobianFinite: false };
+  const rss = p.every(Number.isFinite) ? residuals(model, data, p, resid, model.evaluate ? jac : undefined, state) : NaN;
   const res = !Number.isNaN(rss);
   let covariance: number[][] | null = null;
   let condition = NaN;
   if (res && n >= k) {
-    const jac = new Float64Array(n * k);
-    const inv = jacobian(model, data, p, lower, upper, jac) ? inverseNormalMatrixColumns(jac, n, k) : null;
+    const jacobianOk = model.evaluate ? state.jacobianFinite : jacobian(model, data, p, lower, upper, jac);
+    const inv = jacobianOk ? inverseNormalMatrixColumns(jac, n, k) : null;
     if (inv) {
       condition = inv.condition;
       if (df > 0) {
@@ -450,7 +453,8 @@ function summarise(
     let sse = 0;
     for (let i = 0; i < n; i++) {
       tss += (data.y[i] - mean) ** 2;
-      sse += (data.y[i] - model.f(data.x[i], p)) ** 2;
+      // f − y from the weighted residual √w·(f − y).
+      sse += (resid[i] / data.sqrtW[i]) ** 2;
     }
     r2 = tss > 0 ? 1 - sse / tss : NaN;
   }

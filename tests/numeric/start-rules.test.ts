@@ -8,6 +8,8 @@ import { describe, expect, it } from 'vitest';
 import { fitCurve } from '../../src/numeric/nls.js';
 import {
   brentMinimise,
+  decayInto,
+  evenStep,
   lineOnBasis,
   linearLeastSquares,
   solve3,
@@ -148,5 +150,27 @@ describe('evaluate fast path', () => {
     const treated = [76, 47, 97, 107, 123, 139, 159, 152, 191, 201, 207, 200];
     expect(relative(michaelisMenten.start(conc, treated)[1], 0.06412)).toBeLessThan(0.2);
     expect(relative(michaelisMentenBasal.start(conc, treated)[2], 0.1047)).toBeLessThan(0.2);
+  });
+});
+
+describe('evenStep and decayInto (exact identities)', () => {
+  it('detects even, increasing spacing only', () => {
+    expect(evenStep([0, 4.5, 9, 13.5])).toBe(4.5);
+    expect(evenStep([0, 1, 3])).toBeNull();
+    expect(evenStep([3, 2, 1])).toBeNull();
+    expect(evenStep([0, 1])).toBeNull();
+  });
+  it('the recurrence matches Math.exp to 1e-13 relative over 400 points', () => {
+    const t = Array.from({ length: 400 }, (_, i) => 2 + i * 4.5);
+    const step = evenStep(t);
+    expect(step).not.toBeNull();
+    const fast = new Float64Array(400);
+    for (const k of [1e-5, 0.0034, 0.03, 0.2]) {
+      decayInto(t, k, step, fast);
+      t.forEach((v, i) => {
+        const want = Math.exp(-k * v);
+        expect(Math.abs(fast[i] - want)).toBeLessThanOrEqual(1e-13 * want + 1e-300);
+      });
+    }
   });
 });

@@ -15,11 +15,12 @@
  * (normal equations from Gram sums); then ln kfast refined by Brent's method between
  * the neighbours of the best grid rate with kslow fixed, and ln kslow likewise with the
  * refined kfast fixed (to 2%, ratio kept ≥ 1.5); the lowest RSS seen is the start.
+ * Evenly spaced times build exp(−k·t) by recurrence (decayInto).
  * @example exponentialDouble.f(60, [0.7, 0.03, 0.3, 0.0034, 0]) // → 0.36035 (REFERENCES.md §6 [C])
  */
 import type { CurveModel, FitResult } from '../types.js';
 import { rateCandidates } from './exponential-single.js';
-import { brentMinimise, range, solveSymmetric3 } from './start-helpers.js';
+import { brentMinimise, decayInto, evenStep, range, solveSymmetric3 } from './start-helpers.js';
 
 const RATE_GRID_POINTS = 16;
 /** Tolerance in ln k of each one-dimensional refinement of a start rate (about ±2%). */
@@ -73,15 +74,16 @@ export const exponentialDouble: CurveModel = {
     const cross = new Float64Array(count * count);
     let sumY = 0;
     for (let i = 0; i < n; i++) sumY += y[i];
+    const step = evenStep(x);
     for (let a = 0; a < count; a++) {
       const o = a * n;
-      const k = rates[a];
+      const ea = exps.subarray(o, o + n);
+      decayInto(x, rates[a], step, ea);
       let s1 = 0;
       let sy = 0;
       let ss = 0;
       for (let i = 0; i < n; i++) {
-        const e = Math.exp(-k * x[i]);
-        exps[o + i] = e;
+        const e = ea[i];
         s1 += e;
         sy += e * y[i];
         ss += e * e;
@@ -144,7 +146,7 @@ export const exponentialDouble: CurveModel = {
     const other = new Float64Array(n);
     /** Gram sums of the phase with rate k against the fixed phase `other` (rate kOther). */
     const refine = (moving: 'fast' | 'slow', kOther: number, lowK: number, highK: number): number => {
-      for (let i = 0; i < n; i++) other[i] = Math.exp(-kOther * x[i]);
+      decayInto(x, kOther, step, other);
       let oo = 0;
       let o1 = 0;
       let oy = 0;
@@ -157,13 +159,13 @@ export const exponentialDouble: CurveModel = {
       let valueBest = Infinity;
       const at = (u: number): number => {
         const k = Math.exp(u);
+        decayInto(x, k, step, e);
         let ee = 0;
         let e1 = 0;
         let ey = 0;
         let eo = 0;
         for (let i = 0; i < n; i++) {
-          const v = Math.exp(-k * x[i]);
-          e[i] = v;
+          const v = e[i];
           ee += v * v;
           e1 += v;
           ey += v * y[i];

@@ -11,11 +11,12 @@
  * log-spaced values from 0.1/(time span) to max(100/(time span), 1/(smallest time step));
  * at each, A and c by linear least squares in closed form (lineOnBasis); then ln k refined
  * by Brent's method (brentMinimise) between the neighbours of the best grid value, to 1e-7;
- * the lowest RSS seen is the start.
+ * the lowest RSS seen is the start. Evenly spaced times build exp(−k·t) by recurrence
+ * (decayInto).
  * @example exponentialSingle.f(10, [2, 0.1, 1]) // → 1.735759 (2·e⁻¹ + 1)
  */
 import type { CurveModel } from '../types.js';
-import { brentMinimise, lineOnBasis, logGrid, range } from './start-helpers.js';
+import { brentMinimise, decayInto, evenStep, lineOnBasis, logGrid, range } from './start-helpers.js';
 
 const RATE_GRID_POINTS = 15;
 /**
@@ -71,9 +72,10 @@ export const exponentialSingle: CurveModel = {
     let best: number[] = [range(y)[1] - range(y)[0], 1, range(y)[0]];
     let bestRss = Infinity;
     const e = new Float64Array(x.length);
+    const step = evenStep(x);
     /** Projected RSS at rate k (A and c by closed-form least squares); keeps the best. */
     const rssAt = (k: number): number => {
-      for (let i = 0; i < x.length; i++) e[i] = Math.exp(-k * x[i]);
+      decayInto(x, k, step, e);
       const fit = lineOnBasis(e, y, true);
       if (!fit) return Infinity;
       if (fit.rss < bestRss) {
