@@ -67,19 +67,19 @@ export function normaliseAssay(
             .join(', ')}) and were left out of the comparison.`,
         });
       }
-      const effect = pairedEffect({
-        confidenceLevel: options.confidenceLevel,
-        batches: batches.map((b) => ({
-          batch: b,
-          variant: vUnits.filter((u) => u.batch === b).map((u) => toScale(u.metrics[def.id])),
-          wt: wtByBatch.get(b) ?? [],
-        })),
-      });
-      if (effect && effect.batchesUnpaired.length > 0) {
+      const perBatch = batches.map((b) => ({
+        batch: b,
+        variant: vUnits.filter((u) => u.batch === b).map((u) => toScale(u.metrics[def.id])),
+        wt: wtByBatch.get(b) ?? [],
+      }));
+      const effect = pairedEffect({ confidenceLevel: options.confidenceLevel, batches: perBatch });
+      // Batches where the variant has a value but WT has none: named, never dropped silently.
+      const unpaired = perBatch.filter((b) => b.variant.some(Number.isFinite) && !b.wt.some(Number.isFinite)).map((b) => b.batch);
+      if (unpaired.length > 0) {
         flags.push({
           code: 'batch-without-wt',
           severity: 'warning',
-          message: `Batch ${effect.batchesUnpaired.join(', ')} had no WT ${def.label} value, so the variant's units there were not compared.`,
+          message: `Batch ${unpaired.join(', ')} had no WT ${def.label} value, so the variant's units there were not compared.`,
         });
       }
       if (effect && effect.se === null) {

@@ -171,11 +171,8 @@ describe('normaliser properties', () => {
     );
   });
 
-  // KNOWN BUG in src/analysis/normalise.ts (not owned here; reported): when no batch of a variant
-  // has a finite WT value, pairedEffect returns null, nVariantUnits is 0 and no 'batch-without-wt'
-  // flag is written, so the variant's usable units vanish silently. Counterexample: one variant unit
-  // (A, B1, kcat 0.01) and no WT unit. `it.fails` turns red once the bug is fixed: then make it `it`.
-  it.fails('every variant unit is counted in n or named in a flag (KNOWN BUG, see comment)', () => {
+  // Regression: a variant whose batches all lack a finite WT value used to vanish silently (n = 0, no flag).
+  it('every variant unit is counted in n or named in a flag', () => {
     fc.assert(
       fc.property(fc.array(unit, { maxLength: 14 }), (specs) => {
         const units: UnitResult[] = specs.map((s, i) => ({
