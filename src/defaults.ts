@@ -4,6 +4,16 @@
  * the README read these values; tests/defaults.test.ts checks the docs agree.
  */
 
+/** Reading a study folder (src/study/read-folder.ts). */
+export const INPUT = {
+  /**
+   * Largest input file read, in bytes (64 MiB): larger files are refused before reading, with the fix
+   * to split them into several files of the same kind. A 64 MiB CSV is ~1.5 million rows, beyond one
+   * lab study; keeping whole files in memory stays well under the 1.5 GB budget on a 2-core machine.
+   */
+  maxFileBytes: 64 * 1024 * 1024,
+} as const;
+
 /** Nonlinear least squares (src/numeric/nls.ts). */
 export const FIT = {
   /** Maximum Levenberg–Marquardt iterations before stopping with 'max-iterations'. */

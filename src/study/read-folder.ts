@@ -12,13 +12,14 @@
  */
 import { closeSync, constants, fstatSync, openSync, readFileSync, realpathSync } from 'node:fs';
 import { join, relative, sep, isAbsolute } from 'node:path';
+import { INPUT } from '../defaults.js';
 import { isInsideFolder, sha256Hex, type StudyFiles } from './load.js';
 import { MSG, issue } from './messages.js';
 import { MANIFEST_NAME } from './schemas.js';
 import type { Issue } from './types.js';
 
-/** Largest file myofolio reads, in bytes (64 MiB). See the size policy above. */
-export const MAX_INPUT_FILE_BYTES = 64 * 1024 * 1024;
+/** Largest file myofolio reads, in bytes (INPUT.maxFileBytes in src/defaults.ts). See the size policy above. */
+export const MAX_INPUT_FILE_BYTES = INPUT.maxFileBytes;
 
 type ReadResult = { ok: true; bytes: Uint8Array } | { ok: false; why: 'not-a-file' } | { ok: false; why: 'too-large'; size: number } | { ok: false; why: 'unreadable'; reason: string };
 
