@@ -18,12 +18,17 @@ import { RENDERER_ID, chartKey, type RenderOptions } from './render.js';
 export const DEFAULT_CHART_CACHE = join('.cache', 'myofolio', 'charts');
 
 /**
- * Cache entry name for one render: SHA-256 (hex) over the renderer id, the spec's content key
- * and the render options that reach the SVG (id key, title, description).
+ * Cache entry name for one render: SHA-256 (hex) over the renderer id, the render options that
+ * reach the SVG (id key, title, description) and the spec's JSON. The spec is hashed as
+ * JSON.stringify writes it (key order as built), not in chartKey's sorted form: specs come from
+ * deterministic code, so equal charts give equal text, and an unequal text can only cost a
+ * re-render, never a wrong SVG. Sorting keys cost ~3× more than the hash on large specs.
  */
-export function cacheEntryKey(spec: ChartSpec, options: RenderOptions = {}, specKey = chartKey(spec)): string {
+export function cacheEntryKey(spec: ChartSpec, options: RenderOptions = {}): string {
   return createHash('sha256')
-    .update(JSON.stringify([RENDERER_ID, specKey, options.key ?? null, options.title ?? null, options.description ?? null]))
+    .update(JSON.stringify([RENDERER_ID, options.key ?? chartKey(spec), options.title ?? null, options.description ?? null]))
+    .update('\n')
+    .update(JSON.stringify(spec))
     .digest('hex');
 }
 

@@ -150,13 +150,12 @@ export function createChartRenderer(options: ChartRendererOptions = {}): ChartRe
   return {
     async render(spec, opts = {}) {
       // The id prefix comes from opts.key, or else from the content key: fix it here once.
-      const specKey = chartKey(spec);
-      const full: RenderOptions = { ...opts, key: opts.key ?? specKey };
+      const full: RenderOptions = { ...opts, key: opts.key ?? chartKey(spec) };
       if (!cache) {
         rendered++;
         return draw(spec, full);
       }
-      const entry = cacheEntryKey(spec, full, specKey);
+      const entry = cacheEntryKey(spec, full);
       const inFlight = pending.get(entry);
       if (inFlight) return inFlight;
       const hit = cache.get(entry);

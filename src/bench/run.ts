@@ -1,0 +1,243 @@
+/**
+ * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--baseline] [--keep]`.
+ *
+ * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
+ * (src/bench/synthetic.ts) to os.tmpdir(), then builds it
+ *   cold  — empty chart cache,
+ *   warm  — after one variant's velocities changed, with the cache of the cold build,
+ *   serial — (with --baseline) one thread, no cache: the path before the pool existed,
+ * each in its own child process, so every peak-memory figure belongs to one build. Phases follow
+ * src/build/build-study.ts: load (read + loadStudy), analyse (analyseUnitsParallel + analyseStudy),
+ * charts (siteData: every SVG), pages (Eleventy), write (results.json/csv + swap).
+ * Printed per phase: wall time, CPU time (process.cpuUsage(): user + system of the whole process,
+ * worker threads included) and peak RSS (the OS high-water mark, process.resourceUsage().maxRSS,
+ * cumulative over the build, so a phase shows the peak up to its end). Then a bare Eleventy build
+ * of as many trivial pages, the floor for the pages phase. Figures only; nothing is asserted.
+ */
+import { execFileSync, spawn } from 'node:child_process';
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { availableParallelism, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import Eleventy from '@11ty/eleventy';
+import { analyseStudy } from '../analysis/analyse-study.js';
+import { activeModules, analyseUnitsParallel } from '../analysis/parallel.js';
+import { ASSAYS } from '../assays/registry.js';
+import { chartsFromModules } from '../charts/assay-charts.js';
+import { createChartRenderer } from '../charts/pool.js';
+import { makeStaging, planOutput, swapIn } from '../cli/output.js';
+import { resultsCsv } from '../results/csv.js';
+import { buildSite } from '../site/build-site.js';
+import { loadStudy } from '../study/load.js';
+import { readStudyFolder } from '../study/read-folder.js';
+import { TOOL_VERSION } from '../version.js';
+import { changeOneVariant, syntheticStudy, writeStudy } from './synthetic.js';
+
+interface PhaseFigure {
+  phase: string;
+  wallS: number;
+  cpuS: number;
+  peakMB: number;
+}
+
+interface BuildFigures {
+  size: number;
+  mode: string;
+  phases: PhaseFigure[];
+  pages: number;
+  charts: { rendered: number; cached: number };
+  outMB: number;
+}
+
+const args = process.argv.slice(2);
+const flag = (name: string) => args.includes(name);
+const value = (name: string) => {
+  const i = args.indexOf(name);
+  return i >= 0 ? args[i + 1] : undefined;
+};
+
+function peakMB(): number {
+  return process.resourceUsage().maxRSS / 1024; // maxRSS is in KiB
+}
+
+function meter() {
+  const phases: PhaseFigure[] = [];
+  let t = performance.now();
+  let c = process.cpuUsage();
+  return {
+    phases,
+    lap(phase: string) {
+      const now = performance.now();
+      const cpu = process.cpuUsage(c);
+      phases.push({ phase, wallS: (now - t) / 1000, cpuS: (cpu.user + cpu.system) / 1e6, peakMB: peakMB() });
+      t = now;
+      c = process.cpuUsage();
+    },
+  };
+}
+
+function duMB(dir: string): number {
+  try {
+    return Number(execFileSync('du', ['-sk', dir], { encoding: 'utf8' }).split(/\s/)[0]) / 1024;
+  } catch {
+    return NaN;
+  }
+}
+
+/** One build of a study folder, phase by phase as build-study.ts does it (child process). */
+async function buildOnce(studyDir: string, outDir: string, cacheDir: string, mode: string, size: number): Promise<BuildFigures> {
+  const serial = mode === 'serial';
+  const m = meter();
+  const folder = readStudyFolder(studyDir);
+  const loaded = loadStudy(folder);
+  if (!loaded.study || loaded.issues.some((i) => i.severity === 'error')) throw new Error(`study has errors: ${JSON.stringify(loaded.issues.slice(0, 3))}`);
+  const study = loaded.study;
+  m.lap('load');
+  const builtAt = '2025-03-01T00:00:00.000Z';
+  let results;
+  if (serial) {
+    results = analyseStudy(study, { toolVersion: TOOL_VERSION, builtAt });
+  } else {
+    const units = await analyseUnitsParallel(study, ASSAYS, { workers: 'auto' });
+    const byAssay = new Map<string, typeof units>();
+    for (const u of units) (byAssay.get(u.assay) ?? byAssay.set(u.assay, []).get(u.assay)!).push(u);
+    // Precomputed units enter analyseStudy through modules whose analyse() returns them
+    // (until analyseStudy takes `units` itself; see the report of issue 9).
+    const pre = activeModules(study, ASSAYS).map((mod) => ({ ...mod, analyse: () => byAssay.get(mod.id) ?? [] }));
+    results = analyseStudy(study, { toolVersion: TOOL_VERSION, builtAt, assays: pre });
+  }
+  results.issues = loaded.issues;
+  m.lap('analyse');
+  const plan = planOutput(studyDir, outDir, true);
+  const staging = makeStaging(plan.out, String(process.pid));
+  const renderer = createChartRenderer(serial ? { workers: 0, cacheDir: false } : { workers: availableParallelism(), cacheDir });
+  let pages = 0;
+  try {
+    let chartsDone = false;
+    const site = await buildSite(results, staging, {
+      chartsFor: chartsFromModules(results, ASSAYS),
+      sourceDateEpoch: 1_740_787_200,
+      renderer,
+      onProgress: (phase) => {
+        if (phase === 'pages' && !chartsDone) {
+          chartsDone = true;
+          m.lap('charts');
+        }
+      },
+    });
+    pages = site.pages;
+  } finally {
+    await renderer.close();
+  }
+  m.lap('pages');
+  const downloads = join(staging, 'downloads');
+  mkdirSync(downloads, { recursive: true });
+  writeFileSync(join(downloads, 'results.json'), JSON.stringify(results, null, 1) + '\n');
+  writeFileSync(join(downloads, 'results.csv'), resultsCsv(results));
+  swapIn(staging, plan.out, plan.replaceForeign, String(process.pid));
+  m.lap('write');
+  return { size, mode, phases: m.phases, pages, charts: renderer.stats(), outMB: duMB(plan.out) };
+}
+
+/** Bare Eleventy: `n` trivial pages from one paginated template (the floor for the pages phase). */
+async function eleventyFloor(n: number): Promise<PhaseFigure> {
+  const dir = mkdtempSync(join(tmpdir(), 'myofolio-bench-11ty-'));
+  try {
+    mkdirSync(join(dir, 'in'));
+    writeFileSync(join(dir, 'in', 'p.njk'), '---\npagination:\n  data: items\n  size: 1\npermalink: "p/{{ pagination.pageNumber }}.html"\n---\n<!doctype html><title>{{ pagination.items[0] }}</title><p>{{ pagination.items[0] }}</p>\n');
+    const items = Array.from({ length: n }, (_, i) => `page ${i + 1}`);
+    const m = meter();
+    const elev = new Eleventy(join(dir, 'in'), join(dir, 'out'), {
+      quietMode: true,
+      config(cfg) {
+        cfg.addGlobalData('items', items);
+      },
+    });
+    elev.disableLogger();
+    await elev.write();
+    m.lap('eleventy');
+    return m.phases[0];
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+const here = fileURLToPath(import.meta.url);
+
+/** Run one measured build in a fresh process (so its peak memory is its own). */
+function child(childArgs: string[]): Promise<BuildFigures | PhaseFigure> {
+  return new Promise((resolve, reject) => {
+    const p = spawn(process.execPath, ['--import', 'tsx', here, ...childArgs], { stdio: ['ignore', 'pipe', 'inherit'] });
+    let out = '';
+    p.stdout.on('data', (d: Buffer) => (out += d.toString()));
+    p.on('exit', (code, signal) => {
+      const line = out.trim().split('\n').pop() ?? '';
+      if (code === 0 && line.startsWith('{')) resolve(JSON.parse(line));
+      else reject(new Error(`bench child ${childArgs.join(' ')} failed (code ${code}, signal ${signal})`));
+    });
+  });
+}
+
+const f1 = (x: number) => (Number.isFinite(x) ? x.toFixed(1) : '—');
+const f2 = (x: number) => (Number.isFinite(x) ? x.toFixed(2) : '—');
+
+function printBuild(b: BuildFigures): void {
+  const total = b.phases.reduce((s, p) => s + p.wallS, 0);
+  const cpu = b.phases.reduce((s, p) => s + p.cpuS, 0);
+  const peak = Math.max(...b.phases.map((p) => p.peakMB));
+  process.stdout.write(`\n${b.size} variants, ${b.mode}: ${f1(total)} s wall, ${f1(cpu)} s CPU, peak RSS ${Math.round(peak)} MB, ${b.pages} pages, charts drawn ${b.charts.rendered} / from cache ${b.charts.cached}, output ${Math.round(b.outMB)} MB\n`);
+  process.stdout.write('  phase      wall s    CPU s   peak MB   ms/variant\n');
+  for (const p of b.phases) {
+    process.stdout.write(`  ${p.phase.padEnd(9)} ${f2(p.wallS).padStart(7)} ${f2(p.cpuS).padStart(8)} ${String(Math.round(p.peakMB)).padStart(9)} ${f1((p.wallS * 1000) / b.size).padStart(12)}\n`);
+  }
+}
+
+async function main(): Promise<void> {
+  if (flag('--child')) {
+    const kind = value('--child');
+    const size = Number(value('--size'));
+    const fig =
+      kind === 'floor'
+        ? await eleventyFloor(size)
+        : await buildOnce(value('--study') as string, value('--out') as string, value('--cache') as string, kind as string, size);
+    process.stdout.write(JSON.stringify(fig) + '\n');
+    return;
+  }
+  const sizes = (value('--sizes') ?? (flag('--full') ? '100,1000,10000' : '100,1000')).split(',').map(Number).filter((n) => n > 0);
+  const root = join(tmpdir(), 'myofolio-bench');
+  process.stdout.write(`myofolio scale benchmark: sizes ${sizes.join(', ')}; ${availableParallelism()} cores; Node ${process.version}; work folder ${root}\n`);
+  process.stdout.write('Study per size: 3 units per variant over 2 batches of ~20 variants, 3 WT units per batch; ATPase 8 [actin] × 3 wells (1 in 5 variants as NADH traces), 300 filament velocities (1 in 5 as 30 tracks × 25 frames), 10 pCa points, 400-point turnover traces.\n');
+  for (const size of sizes) {
+    const base = join(root, String(size));
+    const studyDir = join(base, 'study');
+    const cacheDir = join(base, 'cache');
+    const outDir = join(base, 'site');
+    rmSync(base, { recursive: true, force: true });
+    mkdirSync(base, { recursive: true });
+    let t = performance.now();
+    const study = syntheticStudy({ variants: size });
+    writeStudy(studyDir, study);
+    const inputMB = Object.values(study.files).reduce((s, x) => s + x.length, 0) / 1e6;
+    process.stdout.write(`\n== ${size} variants: study written in ${f1((performance.now() - t) / 1000)} s (${f1(inputMB)} MB of CSV in ${Object.keys(study.files).length} files)\n`);
+    const runs: string[] = flag('--baseline') ? ['serial', 'cold', 'warm'] : ['cold', 'warm'];
+    for (const mode of runs) {
+      if (mode === 'warm') {
+        const label = (study.manifest.variants as Array<{ hgvs?: string }>)[Math.floor(size / 2)].hgvs!.replace(/^p\./, '');
+        writeStudy(studyDir, { manifest: study.manifest, files: changeOneVariant(study.files, label) });
+      }
+      t = performance.now();
+      try {
+        const fig = (await child(['--child', mode === 'serial' ? 'serial' : mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir])) as BuildFigures;
+        printBuild(fig);
+      } catch (err) {
+        process.stdout.write(`\n${size} variants, ${mode}: ${(err as Error).message} after ${f1((performance.now() - t) / 1000)} s\n`);
+      }
+    }
+    const pages = size + 10;
+    const floor = (await child(['--child', 'floor', '--size', String(pages)])) as PhaseFigure;
+    process.stdout.write(`\nbare Eleventy, ${pages} trivial pages: ${f2(floor.wallS)} s wall, ${f2(floor.cpuS)} s CPU, peak RSS ${Math.round(floor.peakMB)} MB\n`);
+    if (!flag('--keep')) rmSync(base, { recursive: true, force: true });
+  }
+}
+
+await main();
