@@ -229,11 +229,15 @@ export function analyseTurnoverUnit(
     results.push(result);
     flags.push(...result.flags);
     const norm = normaliser(result, t, y);
+    const trace = sorted[0].trace;
     for (let i = 0; i < t.length; i++) {
       const value = norm(y[i]);
-      const point: Record<string, number | string> = { trace: sorted[0].trace, time: t[i], fluorescence: y[i] };
-      if (Number.isFinite(value)) point.normFluorescence = roundForPlot(value);
-      points.push(point);
+      // One object literal per shape (no property added later), same keys in the same order.
+      points.push(
+        Number.isFinite(value)
+          ? { trace, time: t[i], fluorescence: y[i], normFluorescence: roundForPlot(value) }
+          : { trace, time: t[i], fluorescence: y[i] },
+      );
     }
     if (result.fit) {
       const p = result.fit.parameters.map((q) => q.estimate);

@@ -3,7 +3,8 @@
  * study's units: Michaelis–Menten with basal term (9 points, and 8 [actin] × 3 wells),
  * Hill force–pCa (10 pCa points), double exponential (361 and 400 points) and a whole
  * single-turnover trace (single + double fit and F test, 400 points); each the best of three
- * timed runs after a warm-up. Prints numbers only;
+ * timed runs after a warm-up; then a study-scale pass (3,000 units per assay, as in a
+ * 1,000-variant study) through the force and turnover unit analyses. Prints numbers only;
  * no assertions (targets live in the benchmark, not in tests). Run: `npx tsx src/bench/fits.ts`.
  */
 import { fitCurve } from '../numeric/nls.js';
@@ -12,7 +13,8 @@ import { exponentialDouble } from '../numeric/models/exponential-double.js';
 import { hillForcePca } from '../numeric/models/hill-force-pca.js';
 import type { CurveModel } from '../numeric/types.js';
 import { createRandom } from '../stats/random.js';
-import { fitTurnoverTrace, turnoverSettings } from '../assays/turnover.js';
+import { analyseTurnoverUnit, fitTurnoverTrace, turnoverSettings } from '../assays/turnover.js';
+import { analyseForceUnit } from '../assays/force.js';
 
 function datasets(model: CurveModel, x: number[], truth: number[], sd: number, count: number, seed: number): number[][] {
   const random = createRandom(seed);
@@ -70,3 +72,32 @@ timed('turnover trace (single + double + F test)', traces, time400.length, (y) =
   const trace = fitTurnoverTrace(time400, y, settings);
   return { converged: trace.model === 'double', iterations: trace.double.iterations + trace.single.iterations };
 });
+
+// Study scale: a 1,000-variant study has ~3,000 units per assay (3 per variant). The
+// per-unit analysis functions run once over seeded synthetic units, plot data included.
+function studyScale(label: string, units: number, run: (unit: number) => void): void {
+  const started = performance.now();
+  for (let u = 0; u < units; u++) run(u);
+  const seconds = (performance.now() - started) / 1000;
+  console.log(`${label}: ${units} units in ${seconds.toFixed(2)} s (${(units / seconds).toFixed(0)} units/s)`);
+}
+const UNITS = 3000;
+const at = { file: 'synthetic.csv', line: 1 };
+const atpaseYs = datasets(michaelisMentenBasal, actinWells, [0.03, 5, 20], 0.2, UNITS, 6);
+studyScale('study scale, ATPase fits (8 × 3 wells)', UNITS, (u) => fitCurve(michaelisMentenBasal, actinWells, atpaseYs[u]));
+const forceYs = datasets(hillForcePca, pCa, [2, 30, 5.8, 3], 0.8, UNITS, 7);
+studyScale('study scale, force–pCa units (10 points)', UNITS, (u) =>
+  analyseForceUnit(
+    pCa.map((p, i) => ({ variant: 'v', unit: `u${u}`, batch: 'b', at, pCa: p, tensionKPa: forceYs[u][i] })),
+    6,
+  ),
+);
+const traceYs = datasets(exponentialDouble, time400, [0.7, 0.03, 0.3, 0.0034, 0.05], 0.01, 3 * UNITS, 8);
+studyScale('study scale, turnover units (3 traces × 400 points)', UNITS, (u) =>
+  analyseTurnoverUnit(
+    [0, 1, 2].flatMap((trace) =>
+      time400.map((timeS, i) => ({ variant: 'v', unit: `u${u}`, batch: 'b', at, trace: `t${trace}`, timeS, fluorescence: traceYs[3 * u + trace][i] })),
+    ),
+    settings,
+  ),
+);

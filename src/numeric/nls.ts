@@ -240,6 +240,7 @@ export function fitCurve(
   let jacobianReady = false;
   const qr = new Float64Array(n * k);
   const qtr = new Float64Array(n);
+  const linear = new Float64Array(n);
   const gradient = new Float64Array(k);
   const colNorm = new Float64Array(k);
   const damping = new Float64Array(k);
@@ -319,13 +320,16 @@ export function fitCurve(
         step[j] = next[j] - p[j];
         if (!(Math.abs(step[j]) <= FIT.stepTolerance * (Math.abs(p[j]) + FIT.stepTolerance))) smallStep = false;
       }
-      // Predicted RSS from the linear model: ‖r + J·step‖².
-      let predictedRss = 0;
-      for (let i = 0; i < n; i++) {
-        let v = r[i];
-        for (let j = 0; j < k; j++) v += jac[j * n + i] * step[j];
-        predictedRss += v * v;
+      // Predicted RSS from the linear model: ‖r + J·step‖², accumulated column by column.
+      linear.set(r);
+      for (let j = 0; j < k; j++) {
+        const sj = step[j];
+        if (sj === 0) continue;
+        const o = j * n;
+        for (let i = 0; i < n; i++) linear[i] += jac[o + i] * sj;
       }
+      let predictedRss = 0;
+      for (let i = 0; i < n; i++) predictedRss += linear[i] * linear[i];
       const predicted = rss - predictedRss;
       const trialRss = residuals(model, data, next, rTrial, jacTrial, trialState);
       const finite = !Number.isNaN(trialRss);

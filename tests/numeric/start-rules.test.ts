@@ -10,6 +10,7 @@ import {
   brentMinimise,
   decayInto,
   evenStep,
+  geometricDecaySum,
   lineOnBasis,
   linearLeastSquares,
   solve3,
@@ -172,5 +173,38 @@ describe('evenStep and decayInto (exact identities)', () => {
         expect(Math.abs(fast[i] - want)).toBeLessThanOrEqual(1e-13 * want + 1e-300);
       });
     }
+  });
+});
+
+describe('geometricDecaySum equals the direct sum (computed from the same inputs)', () => {
+  it.each([
+    [0.5, 0, 1, 3],
+    [1e-7, 2, 4.5, 400],
+    [0.0034 + 0.03, 0, 4.5, 400],
+    [0.4, 10, 4.5, 400],
+    [0, 3, 1, 7],
+  ])('s = %d, t0 = %d, Δ = %d, n = %d', (s, t0, step, n) => {
+    let direct = 0;
+    for (let i = 0; i < n; i++) direct += Math.exp(-s * (t0 + i * step));
+    expect(relative(geometricDecaySum(s, t0, step, n), direct)).toBeLessThan(1e-12);
+  });
+  it('doc example: 1 + e^−0.5 + e^−1 = 1.974410', () => {
+    expect(geometricDecaySum(0.5, 0, 1, 3)).toBeCloseTo(1.97441, 5);
+  });
+});
+
+describe('double-exponential start: closed-form sums (even times) and data passes (uneven) agree', () => {
+  it('same start rates to 1e-3 on the same trace (computed from the same inputs)', () => {
+    const t = Array.from({ length: 400 }, (_, i) => i * 4.5);
+    const random = createRandom(44);
+    const y = t.map((v) => exponentialDouble.f(v, [0.7, 0.03, 0.3, 0.0034, 0.05]) + random.normal(0, 0.01));
+    const uneven = t.slice();
+    uneven[200] += 1e-3; // beyond evenStep's slack (1e-9 of the 1795.5 s span), far below the 4.5 s step
+    expect(evenStep(t)).not.toBeNull();
+    expect(evenStep(uneven)).toBeNull();
+    const a = exponentialDouble.start(t, y);
+    const b = exponentialDouble.start(uneven, y);
+    expect(relative(a[1], b[1])).toBeLessThan(1e-3);
+    expect(relative(a[3], b[3])).toBeLessThan(1e-3);
   });
 });

@@ -15,12 +15,13 @@
  * (normal equations from Gram sums); then ln kfast refined by Brent's method between
  * the neighbours of the best grid rate with kslow fixed, and ln kslow likewise with the
  * refined kfast fixed (to 2%, ratio kept ≥ 1.5); the lowest RSS seen is the start.
- * Evenly spaced times build exp(−k·t) by recurrence (decayInto).
+ * Evenly spaced times build exp(−k·t) by recurrence (decayInto) and the sums of
+ * exponentials and their products in closed form (geometricDecaySum).
  * @example exponentialDouble.f(60, [0.7, 0.03, 0.3, 0.0034, 0]) // → 0.36035 (REFERENCES.md §6 [C])
  */
 import type { CurveModel, FitResult } from '../types.js';
 import { rateCandidates } from './exponential-single.js';
-import { brentMinimise, decayInto, evenStep, range, solveSymmetric3 } from './start-helpers.js';
+import { brentMinimise, decayInto, evenStep, geometricDecaySum, range, solveSymmetric3 } from './start-helpers.js';
 
 const RATE_GRID_POINTS = 16;
 /** Tolerance in ln k of each one-dimensional refinement of a start rate (about ±2%). */
@@ -66,35 +67,41 @@ export const exponentialDouble: CurveModel = {
     const n = x.length;
     const rates = rateCandidates(x, RATE_GRID_POINTS);
     const count = rates.length;
-    // exp(−k·t) per grid rate, and the Gram sums, so each (kfast, kslow) pair costs one 3×3
-    // solve (normal equations are accurate enough for a starting value).
-    const exps = new Float64Array(count * n);
+    // Gram sums per grid rate, so each (kfast, kslow) pair costs one 3×3 solve (normal
+    // equations are accurate enough for a starting value). Evenly spaced times give the sums
+    // of exponentials in closed form (geometricDecaySum); only Σe·y needs a pass.
     const sums = new Float64Array(count);
     const withY = new Float64Array(count);
     const cross = new Float64Array(count * count);
     let sumY = 0;
     for (let i = 0; i < n; i++) sumY += y[i];
     const step = evenStep(x);
+    const sumOf = (s: number) => geometricDecaySum(s, x[0], step!, n);
+    const exps = new Float64Array((step === null ? count : 1) * n);
     for (let a = 0; a < count; a++) {
-      const o = a * n;
+      const o = step === null ? a * n : 0;
       const ea = exps.subarray(o, o + n);
       decayInto(x, rates[a], step, ea);
-      let s1 = 0;
       let sy = 0;
+      for (let i = 0; i < n; i++) sy += ea[i] * y[i];
+      withY[a] = sy;
+      if (step !== null) {
+        sums[a] = sumOf(rates[a]);
+        for (let b = 0; b <= a; b++) cross[a * count + b] = cross[b * count + a] = sumOf(rates[a] + rates[b]);
+        continue;
+      }
+      let s1 = 0;
       let ss = 0;
       for (let i = 0; i < n; i++) {
-        const e = ea[i];
-        s1 += e;
-        sy += e * y[i];
-        ss += e * e;
+        s1 += ea[i];
+        ss += ea[i] * ea[i];
       }
       sums[a] = s1;
-      withY[a] = sy;
       cross[a * count + a] = ss;
       for (let b = 0; b < a; b++) {
         const ob = b * n;
         let sab = 0;
-        for (let i = 0; i < n; i++) sab += exps[o + i] * exps[ob + i];
+        for (let i = 0; i < n; i++) sab += ea[i] * exps[ob + i];
         cross[a * count + b] = sab;
         cross[b * count + a] = sab;
       }
@@ -147,29 +154,45 @@ export const exponentialDouble: CurveModel = {
     /** Gram sums of the phase with rate k against the fixed phase `other` (rate kOther). */
     const refine = (moving: 'fast' | 'slow', kOther: number, lowK: number, highK: number): number => {
       decayInto(x, kOther, step, other);
-      let oo = 0;
-      let o1 = 0;
       let oy = 0;
-      for (let i = 0; i < n; i++) {
-        oo += other[i] * other[i];
-        o1 += other[i];
-        oy += other[i] * y[i];
+      for (let i = 0; i < n; i++) oy += other[i] * y[i];
+      let oo: number;
+      let o1: number;
+      if (step !== null) {
+        oo = sumOf(2 * kOther);
+        o1 = sumOf(kOther);
+      } else {
+        oo = 0;
+        o1 = 0;
+        for (let i = 0; i < n; i++) {
+          oo += other[i] * other[i];
+          o1 += other[i];
+        }
       }
       let kBest = NaN;
       let valueBest = Infinity;
       const at = (u: number): number => {
         const k = Math.exp(u);
         decayInto(x, k, step, e);
-        let ee = 0;
-        let e1 = 0;
         let ey = 0;
-        let eo = 0;
-        for (let i = 0; i < n; i++) {
-          const v = e[i];
-          ee += v * v;
-          e1 += v;
-          ey += v * y[i];
-          eo += v * other[i];
+        for (let i = 0; i < n; i++) ey += e[i] * y[i];
+        let ee: number;
+        let e1: number;
+        let eo: number;
+        if (step !== null) {
+          ee = sumOf(2 * k);
+          e1 = sumOf(k);
+          eo = sumOf(k + kOther);
+        } else {
+          ee = 0;
+          e1 = 0;
+          eo = 0;
+          for (let i = 0; i < n; i++) {
+            const v = e[i];
+            ee += v * v;
+            e1 += v;
+            eo += v * other[i];
+          }
         }
         const value = moving === 'fast' ? score(k, kOther, ee, eo, e1, ey, oo, o1, oy) : score(kOther, k, oo, eo, o1, oy, ee, e1, ey);
         if (value < valueBest) {

@@ -293,3 +293,15 @@ export function decayInto(t: readonly number[], k: number, step: number | null, 
     e *= q;
   }
 }
+
+/**
+ * Σ_i exp(−s·t_i) over n evenly spaced times t_i = t_0 + i·Δ in closed form: the geometric
+ * series exp(−s·t_0)·(1 − exp(−n·s·Δ))/(1 − exp(−s·Δ)), both differences by expm1 so that
+ * slow decays (s·Δ ≪ 1) keep their digits; n when s = 0. Lets a start scan form its Gram
+ * sums (Σe_a, Σe_a·e_b = Σexp(−(k_a + k_b)·t)) without a pass over the data.
+ * @example geometricDecaySum(0.5, 0, 1, 3) // → 1 + e^−0.5 + e^−1 = 1.974410
+ */
+export function geometricDecaySum(s: number, t0: number, step: number, n: number): number {
+  if (s === 0) return n;
+  return Math.exp(-s * t0) * (Math.expm1(-n * s * step) / Math.expm1(-s * step));
+}
