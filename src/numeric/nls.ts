@@ -58,6 +58,8 @@ interface Data {
   x: Float64Array;
   y: Float64Array;
   sqrtW: Float64Array;
+  /** True when every weight is 1, so √w need not be applied. */
+  unitWeights: boolean;
   /** The x values as a plain array, for model.start. */
   xList: number[];
   yList: number[];
@@ -82,7 +84,7 @@ function residuals(
   if (model.evaluate) {
     model.evaluate(data.x, p, out, jac);
     for (let i = 0; i < n; i++) {
-      const v = data.sqrtW[i] * (out[i] - data.y[i]);
+      const v = data.unitWeights ? out[i] - data.y[i] : data.sqrtW[i] * (out[i] - data.y[i]);
       if (!Number.isFinite(v)) return NaN;
       out[i] = v;
       rss += v * v;
@@ -103,6 +105,10 @@ function residuals(
 function weighJacobian(data: Data, jac: Float64Array, k: number): boolean {
   const n = data.x.length;
   let finite = true;
+  if (data.unitWeights) {
+    for (let i = 0; i < n * k; i++) if (!Number.isFinite(jac[i])) finite = false;
+    return finite;
+  }
   for (let j = 0; j < k; j++) {
     const o = j * n;
     for (let i = 0; i < n; i++) {
@@ -205,7 +211,14 @@ export function fitCurve(
       wList.push(Math.sqrt(w));
     }
   }
-  const data: Data = { x: Float64Array.from(xList), y: Float64Array.from(yList), sqrtW: Float64Array.from(wList), xList, yList };
+  const data: Data = {
+    x: Float64Array.from(xList),
+    y: Float64Array.from(yList),
+    sqrtW: Float64Array.from(wList),
+    unitWeights: wList.every((w) => w === 1),
+    xList,
+    yList,
+  };
   const k = model.params.length;
   const n = xList.length;
   const lower = model.params.map((_, j) => options.lower?.[j] ?? model.lower?.[j] ?? -Infinity);
