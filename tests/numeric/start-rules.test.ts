@@ -103,7 +103,7 @@ describe('start rules', () => {
     expect(relative(start[3], 0.0034)).toBeLessThan(0.2);
   });
 
-  it('Hill: noise-free pCa50 within half a fine step (0.025) and nH = 3 from the candidate list', () => {
+  it('Hill: noise-free pCa50 within half a grid step (0.025) and nH = 3 from the candidate list', () => {
     const pCa = [9, 6.4, 6.2, 6.0, 5.9, 5.8, 5.7, 5.6, 5.4, 4.5];
     const y = pCa.map((v) => hillForcePca.f(v, [2, 30, 5.83, 3]));
     const start = hillForcePca.start(pCa, y);
@@ -172,6 +172,36 @@ describe('evenStep and decayInto (exact identities)', () => {
         const want = Math.exp(-k * v);
         expect(Math.abs(fast[i] - want)).toBeLessThanOrEqual(1e-13 * want + 1e-300);
       });
+    }
+  });
+});
+
+describe('Hill start equals the documented rule evaluated plainly (computed from the same inputs)', () => {
+  it('dense grid with Math.pow and QR least squares gives the same start on noisy data', () => {
+    const pCa = [9, 6.4, 6.2, 6.0, 5.9, 5.8, 5.7, 5.6, 5.4, 4.5];
+    const random = createRandom(55);
+    for (let trial = 0; trial < 20; trial++) {
+      const y = pCa.map((v) => hillForcePca.f(v, [2, 30, 5.5 + random.uniform(), 1 + 4 * random.uniform()]) + random.normal(0, 1));
+      const [low, high] = [4.5, 9];
+      const steps = Math.round((high - low + 1) / 0.05) + 1;
+      let want: number[] = [];
+      let wantRss = Infinity;
+      for (let s = 0; s < steps; s++) {
+        const pCa50 = low - 0.5 + ((high - low + 1) * s) / (steps - 1);
+        for (const nH of [0.5, 1, 1.5, 2, 3, 4, 6]) {
+          const g = pCa.map((v) => 1 / (1 + Math.pow(10, nH * (v - pCa50))));
+          const fit = linearLeastSquares([pCa.map(() => 1), g], y)!;
+          if (fit.rss < wantRss) {
+            wantRss = fit.rss;
+            want = [fit.coefficients[0], fit.coefficients[1], pCa50, nH];
+          }
+        }
+      }
+      const got = hillForcePca.start(pCa, y);
+      expect(got[2]).toBeCloseTo(want[2], 12);
+      expect(got[3]).toBe(want[3]);
+      expect(relative(got[0], want[0])).toBeLessThan(1e-9);
+      expect(relative(got[1], want[1])).toBeLessThan(1e-9);
     }
   });
 });

@@ -10,7 +10,7 @@
  * `canonical` hook swaps them so that kFast ≥ kSlow, before SEs are computed.
  * Source: Hooijman, Stewart & Cooke 2011, Biophys J 100:1969; Anderson et al. 2018, PNAS 115:E8143.
  * Bounds: both rates ≥ 0. Start rule (variable projection, coarse to fine): the
- * (kfast, kslow) pair scanned over a 16-point log grid (see rateCandidates) with
+ * (kfast, kslow) pair scanned over a 30-point log grid (see rateCandidates) with
  * kfast ≥ 1.5·kslow; at each pair the two amplitudes and the offset by linear least squares
  * (normal equations from Gram sums); then ln kfast refined by Brent's method between
  * the neighbours of the best grid rate with kslow fixed, and ln kslow likewise with the
@@ -23,7 +23,7 @@ import type { CurveModel, FitResult } from '../types.js';
 import { rateCandidates } from './exponential-single.js';
 import { brentMinimise, decayInto, evenStep, geometricDecaySum, range, solveSymmetric3 } from './start-helpers.js';
 
-const RATE_GRID_POINTS = 16;
+const RATE_GRID_POINTS = 30;
 /** Tolerance in ln k of each one-dimensional refinement of a start rate (about ±2%). */
 const RATE_REFINE_TOLERANCE = 0.02;
 /** Smallest ratio kfast/kslow in the start scan. */
