@@ -1,5 +1,6 @@
 /**
- * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--baseline] [--keep]`.
+ * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--baseline] [--keep]
+ * [--filaments 300] [--turnover-points 400]`.
  *
  * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
  * (src/bench/synthetic.ts) to os.tmpdir(), then builds it
@@ -69,7 +70,10 @@ function meter() {
     lap(phase: string) {
       const now = performance.now();
       const cpu = process.cpuUsage(c);
-      phases.push({ phase, wallS: (now - t) / 1000, cpuS: (cpu.user + cpu.system) / 1e6, peakMB: peakMB() });
+      const fig = { phase, wallS: (now - t) / 1000, cpuS: (cpu.user + cpu.system) / 1e6, peakMB: peakMB() };
+      phases.push(fig);
+      // Also at once on stderr, so a build that runs out of memory still leaves its finished phases.
+      process.stderr.write(`  [${phase} done: ${fig.wallS.toFixed(2)} s wall, ${fig.cpuS.toFixed(2)} s CPU, peak ${Math.round(fig.peakMB)} MB]\n`);
       t = now;
       c = process.cpuUsage();
     },
@@ -206,7 +210,7 @@ async function main(): Promise<void> {
   const sizes = (value('--sizes') ?? (flag('--full') ? '100,1000,10000' : '100,1000')).split(',').map(Number).filter((n) => n > 0);
   const root = join(tmpdir(), 'myofolio-bench');
   process.stdout.write(`myofolio scale benchmark: sizes ${sizes.join(', ')}; ${availableParallelism()} cores; Node ${process.version}; work folder ${root}\n`);
-  process.stdout.write('Study per size: 3 units per variant over 2 batches of ~20 variants, 3 WT units per batch; ATPase 8 [actin] × 3 wells (1 in 5 variants as NADH traces), 300 filament velocities (1 in 5 as 30 tracks × 25 frames), 10 pCa points, 400-point turnover traces.\n');
+  process.stdout.write(`Study per size: 3 units per variant over 2 batches of ~20 variants, 3 WT units per batch; ATPase 8 [actin] × 3 wells (1 in 5 variants as NADH traces), ${value('--filaments') ?? 300} filament velocities per unit (1 in 5 variants as 30 tracks × 25 frames), 10 pCa points, ${value('--turnover-points') ?? 400}-point turnover traces.\n`);
   for (const size of sizes) {
     const base = join(root, String(size));
     const studyDir = join(base, 'study');
@@ -215,7 +219,7 @@ async function main(): Promise<void> {
     rmSync(base, { recursive: true, force: true });
     mkdirSync(base, { recursive: true });
     let t = performance.now();
-    const study = syntheticStudy({ variants: size });
+    const study = syntheticStudy({ variants: size, filaments: Number(value('--filaments') ?? 300), turnoverPoints: Number(value('--turnover-points') ?? 400) });
     writeStudy(studyDir, study);
     const inputMB = Object.values(study.files).reduce((s, x) => s + x.length, 0) / 1e6;
     process.stdout.write(`\n== ${size} variants: study written in ${f1((performance.now() - t) / 1000)} s (${f1(inputMB)} MB of CSV in ${Object.keys(study.files).length} files)\n`);
