@@ -6,11 +6,11 @@
  * in some parameters once the nonlinear ones are fixed, scan the nonlinear ones over a
  * grid, solve the linear ones by least squares at each grid point, and keep the grid
  * point with the lowest residual sum of squares. No user guess is needed and the scan
- * cannot diverge. For speed the scans go coarse to fine: a coarse grid, then a finer grid
- * or a one-dimensional Brent minimisation (brentMinimise) around the coarse grid's best
- * point, each linear solve in closed form (lineOnBasis, solveSymmetric3) with no
- * allocation per grid point; the lowest RSS seen wins, so refining never makes a start
- * worse than its coarse grid.
+ * cannot diverge. Each linear solve is in closed form (lineOnBasis, solveSymmetric3) with
+ * no allocation per grid point. The exponential models refine their grid's best rate(s)
+ * by one-dimensional Brent minimisation (brentMinimise); the lowest RSS seen wins, so the
+ * refinement never makes a start worse than its grid. Grids are kept dense where a
+ * coarser one was seen to find worse local optima (Hill, double exponential).
  */
 import { dampedLeastSquares } from '../linalg.js';
 
