@@ -71,8 +71,13 @@ export const ASSAY = {
   nadhWindowS: 300,
   /** NADH extinction coefficient at 340 nm, M⁻¹cm⁻¹ (Horecker & Kornberg 1948). */
   nadhEpsilon340: 6220,
-  /** Motility: a filament slower than this (µm/s) is immobile. */
+  /** Motility: a filament slower than this (µm/s) is immobile (from tracks: its net displacement rate). */
   motilityImmobileUmS: 0.05,
+  /**
+   * Motility tracks: the path is sampled about every this many seconds, so that each step is long
+   * compared with centroid localisation noise (common practice, no source); 0 samples every frame.
+   */
+  motilityStrideS: 1,
   /** Motility tracks: minimum frames for a track to give a velocity. */
   motilityMinFrames: 5,
   /**

@@ -3,7 +3,7 @@
  *
  * Input: per-filament velocities measured elsewhere (motility-velocities) or per-frame
  * centroid tracks (motility-tracks), turned into one velocity per filament by
- * src/assays/motility-tracks.ts (path length over elapsed time).
+ * src/assays/motility-tracks.ts (net rate classifies immobile filaments; stride path length gives the velocity).
  *
  *   rows ──group by (variant, unit, batch)──▶ filaments ──classify──▶ moving / immobile
  *        ──summarise moving filaments──▶ mean, median, 95th percentile; fraction immobile
@@ -65,6 +65,7 @@ export const MOTILITY_METRICS: MetricDef[] = [
 /** Thresholds in force for one analysis, read from settings with defaults. */
 export interface MotilitySettings {
   immobileUmS: number;
+  strideS: number;
   minFrames: number;
   minFilaments: number;
   maxImmobileFraction: number;
@@ -74,6 +75,7 @@ export interface MotilitySettings {
 export function motilitySettings(...bags: SettingsBag[]): MotilitySettings {
   return {
     immobileUmS: assaySetting('motilityImmobileUmS', ...bags),
+    strideS: assaySetting('motilityStrideS', ...bags),
     minFrames: assaySetting('motilityMinFrames', ...bags),
     minFilaments: assaySetting('motilityMinFilaments', ...bags),
     maxImmobileFraction: assaySetting('motilityMaxImmobileFraction', ...bags),
@@ -171,7 +173,7 @@ export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings
   const first = (input.tracks[0] ?? input.velocities[0]).at;
   let filaments: FilamentVelocity[];
   if (input.tracks.length > 0) {
-    const fromTracks = tracksToFilaments(input.tracks, settings.minFrames);
+    const fromTracks = tracksToFilaments(input.tracks, settings.minFrames, { strideS: settings.strideS, immobileUmS: settings.immobileUmS });
     filaments = fromTracks.filaments;
     if (fromTracks.shortTracks > 0) {
       flags.push({
@@ -343,7 +345,7 @@ export const motility: AssayModule = {
   analyse: analyseMotility,
   chart: motilityChart,
   methods: [
-    `Filament velocity from centroid tracks is the total path length of the frame-to-frame centroid steps divided by the elapsed time, v = Σ√(Δx² + Δy²)/(t_last − t_first); path length is used rather than net displacement because gliding filaments follow curved paths. Localisation noise adds path length, so very slow filaments read slightly fast: a stuck filament with localisation error σ per coordinate reads about σ·√π/Δt, which the immobile threshold should exceed.`,
+    `From centroid tracks, a filament is immobile when its net displacement over the whole track, divided by the elapsed time, is below ${ASSAY.motilityImmobileUmS} µm/s (setting motilityImmobileUmS); this net rate carries centroid localisation noise only once, whereas summed frame-to-frame steps make a stuck filament look as if it moves at about σ·√π/Δt. A moving filament's velocity is the path length along its centroids sampled about every ${ASSAY.motilityStrideS} s (setting motilityStrideS), divided by the time between the first and last sampled frame: path length follows curved gliding paths, and steps of about a second are long compared with the noise.`,
     `A track needs at least ${ASSAY.motilityMinFrames} frames (setting motilityMinFrames) to give a velocity; shorter tracks are left out and counted in a flag.`,
     `A filament slower than ${ASSAY.motilityImmobileUmS} µm/s (setting motilityImmobileUmS) is immobile. Per protein preparation, the mean, median and 95th percentile (type 7 quantile, as R) are taken over the moving filaments, and the fraction immobile over all analysed filaments.`,
     `Filaments are technical replicates: they are summarised within their protein preparation, and the preparation is the unit counted in the comparison with WT. The mean velocity of moving filaments is the primary metric (ratio scale, an increase counts as hypercontractile); median and 95th percentile are reported only.`,
