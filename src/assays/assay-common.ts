@@ -1,8 +1,11 @@
 /**
- * Small helpers shared by the motility, force, turnover and NADH modules: reading
- * assay settings with their defaults, grouping, and plain summary statistics
- * (grouping into units and source ranges live in ./common.ts). Pure: no I/O, no clock, no randomness.
+ * Helpers shared by the assay modules: reading assay settings with their defaults, grouping rows
+ * into biological units with their source line ranges, flags every fitted assay uses, and plain
+ * summary statistics. Pure: no I/O, no clock, no randomness.
  */
+import type { FitResult } from '../numeric/types.js';
+import type { Flag } from '../results/types.js';
+import type { RowBase, SourceRef } from '../study/types.js';
 import { ASSAY } from '../defaults.js';
 import { mean } from '../stats/descriptive.js';
 
@@ -103,4 +106,66 @@ export function roundForPlot(value: number): number {
   if (Math.abs(scaled - Math.floor(scaled) - 0.5) < TIE_BAND || n < 1e11 || n >= 1e12) return Number(value.toPrecision(12));
   const rounded = s >= 0 ? n / POWERS_OF_TEN[s] : n * POWERS_OF_TEN[-s];
   return value < 0 ? -rounded : rounded;
+}
+
+export interface UnitGroup<T extends RowBase> {
+  variant: string;
+  unit: string;
+  batch: string;
+  rows: T[];
+  /** One entry per input file: the first and last line that fed the unit. */
+  source: SourceRef[];
+}
+
+/**
+ * Group rows by (variant, unit, batch), in order of first appearance, so that output order
+ * follows the input files and is deterministic.
+ */
+export function groupUnits<T extends RowBase>(rows: readonly T[]): UnitGroup<T>[] {
+  const groups = new Map<string, UnitGroup<T>>();
+  for (const row of rows) {
+    const key = JSON.stringify([row.variant, row.unit, row.batch]);
+    let g = groups.get(key);
+    if (!g) {
+      g = { variant: row.variant, unit: row.unit, batch: row.batch, rows: [], source: [] };
+      groups.set(key, g);
+    }
+    g.rows.push(row);
+  }
+  for (const g of groups.values()) g.source = sourceRanges(g.rows);
+  return [...groups.values()];
+}
+
+/** Summarise row locations as one line range per file. */
+export function sourceRanges(rows: readonly { at: SourceRef }[]): SourceRef[] {
+  const byFile = new Map<string, { min: number; max: number }>();
+  for (const { at } of rows) {
+    const line = at.line ?? 0;
+    const r = byFile.get(at.file);
+    if (!r) byFile.set(at.file, { min: line, max: line });
+    else {
+      r.min = Math.min(r.min, line);
+      r.max = Math.max(r.max, line);
+    }
+  }
+  return [...byFile.entries()].map(([file, r]) => (r.min === r.max ? { file, line: r.min } : { file, line: r.min, lineEnd: r.max }));
+}
+
+/** Flag parameters whose standard error exceeds `limit` × |estimate|. */
+export function relativeSeFlags(fit: FitResult, limit: number, labels: Record<string, string>, which: string[]): Flag[] {
+  const flags: Flag[] = [];
+  for (const p of fit.parameters) {
+    if (!which.includes(p.name)) continue;
+    const rel = Math.abs(p.se / p.estimate);
+    if (!Number.isFinite(rel) || rel > limit) {
+      flags.push({
+        code: 'poorly-determined',
+        severity: 'warning',
+        message: Number.isFinite(rel)
+          ? `${labels[p.name] ?? p.name} is poorly determined (standard error ${(rel * 100).toFixed(0)}% of the value; limit ${(limit * 100).toFixed(0)}%).`
+          : `${labels[p.name] ?? p.name} has no standard error (the fit's Jacobian is singular at the optimum).`,
+      });
+    }
+  }
+  return flags;
 }

@@ -16,7 +16,7 @@ import { michaelisMentenBasal } from '../numeric/models/michaelis-menten-basal.j
 import type { FitResult } from '../numeric/types.js';
 import type { Flag, MetricDef, UnitResult } from '../results/types.js';
 import type { AtpaseRateRow, Study } from '../study/types.js';
-import { groupUnits, numberSetting, relativeSeFlags } from './common.js';
+import { assaySetting, groupUnits, relativeSeFlags } from './assay-common.js';
 import { groupEncoding, unitChart } from './chart-common.js';
 import { nadhToRates } from './nadh.js';
 import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
@@ -103,7 +103,7 @@ export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omi
 }
 
 function analyse(study: Study): UnitResult[] {
-  const minPoints = numberSetting(study, 'atpaseMinPoints', ASSAY.atpaseMinPoints);
+  const minPoints = assaySetting('atpaseMinPoints', study.settings);
   const direct = study.rows['atpase-rates'] ?? [];
   const fromTraces = study.rows['atpase-nadh']?.length ? nadhToRates(study.rows['atpase-nadh'], study.settings) : null;
   const rows = [...direct, ...(fromTraces?.rates ?? [])];

@@ -18,7 +18,7 @@ import type { ForceRow, Study } from '../study/types.js';
 import { assaySetting, roundForPlot } from './assay-common.js';
 import type { SettingsBag } from './assay-common.js';
 import { groupEncoding, unitChart } from './chart-common.js';
-import { groupUnits, relativeSeFlags } from './common.js';
+import { groupUnits, relativeSeFlags } from './assay-common.js';
 import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
 
 export const FORCE_METRICS: MetricDef[] = [

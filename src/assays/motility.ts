@@ -16,7 +16,7 @@ import type { Flag, MetricDef, UnitResult } from '../results/types.js';
 import type { SourceRef, Study, TrackRow, VelocityRow } from '../study/types.js';
 import { mean, quantile } from '../stats/descriptive.js';
 import { assaySetting, roundForPlot } from './assay-common.js';
-import { groupUnits, sourceRanges } from './common.js';
+import { groupUnits, sourceRanges } from './assay-common.js';
 import type { SettingsBag } from './assay-common.js';
 import { tracksToFilaments } from './motility-tracks.js';
 import type { FilamentVelocity } from './motility-tracks.js';

@@ -20,7 +20,7 @@ import { mean, se } from '../stats/descriptive.js';
 import { assaySetting, groupBy, roundForPlot } from './assay-common.js';
 import type { SettingsBag } from './assay-common.js';
 import { GROUP_COLOURS } from './chart-common.js';
-import { groupUnits, relativeSeFlags } from './common.js';
+import { groupUnits, relativeSeFlags } from './assay-common.js';
 import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
 
 export const TURNOVER_METRICS: MetricDef[] = [
