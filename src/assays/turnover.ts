@@ -181,6 +181,12 @@ export function fitTurnoverTrace(
   return { ...base, model: 'single', fit: single, reason, slowFraction: null, slowFractionSe: null, kFast: null, kSlow: null, kSingle: k, flags };
 }
 
+/**
+ * Readings plotted per trace at most: longer traces show every k-th reading (all readings are
+ * fitted). Keeps results.json and the charts small for 400-point traces in large studies.
+ */
+export const MAX_PLOTTED_READINGS = 100;
+
 /** Points of the fitted-curve grid per trace. */
 const CURVE_POINTS = 101;
 
@@ -230,7 +236,8 @@ export function analyseTurnoverUnit(
     flags.push(...result.flags);
     const norm = normaliser(result, t, y);
     const trace = sorted[0].trace;
-    for (let i = 0; i < t.length; i++) {
+    const every = Math.max(1, Math.ceil(t.length / MAX_PLOTTED_READINGS));
+    for (let i = 0; i < t.length; i += every) {
       const value = norm(y[i]);
       // One object literal per shape (no property added later), same keys in the same order.
       points.push(
@@ -323,7 +330,7 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
     title: `Single turnover: ${input.variantLabel} beside WT of the same batches`,
     description:
       `Fluorescence of each chase trace of ${input.variantLabel} and of WT in the same batches, normalised so that each trace's fit falls from 1 at the first reading to 0 at its plateau, ` +
-      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise). A slower overall decay means a larger slow-phase fraction.`,
+      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise). A slower overall decay means a larger slow-phase fraction. Traces longer than ${MAX_PLOTTED_READINGS} readings show every k-th reading; all readings were fitted.`,
     width: 420,
     height: 260,
     layer: [
