@@ -18,7 +18,7 @@ export const INPUT = {
 export const FIT = {
   /** Maximum Levenberg–Marquardt iterations before stopping with 'max-iterations'. */
   maxIterations: 500,
-  /** Stop when the relative decrease in RSS is below this (and the step is small). */
+  /** Stop when both the actual and the predicted relative decrease of the RSS in a step are below this (MINPACK ftol). */
   rssTolerance: 1e-14,
   /** Stop when every relative parameter step is below this. */
   stepTolerance: 1e-12,
@@ -105,4 +105,18 @@ export const ASSAY = {
 export const CALIBRATION = {
   /** With this many classified controls or fewer, evidence is capped at supporting. */
   maxControlsForSupportingOnly: 10,
+  /**
+   * When the pseudo-count pair (one pathogenic control reading normal, one benign reading abnormal)
+   * is added: 'always', so that moving a control to the correct readout never lowers the evidence
+   * (see src/calibrate/oddspath.ts), or 'when-any-cell-zero'.
+   */
+  pseudoCountRule: 'always' as 'always' | 'when-any-cell-zero',
+  /**
+   * Fewest benign controls with an effect from which a WT-like band is derived (manifest:
+   * thresholds.bandsFromBenignControls). Three give a sample SD with two degrees of freedom.
+   * Common practice, no source.
+   */
+  minBenignControlsForBand: 3,
+  /** Coverage of the prediction interval used as a band derived from benign controls. Common practice, no source. */
+  benignBandLevel: 0.95,
 } as const;

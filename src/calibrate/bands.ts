@@ -2,19 +2,19 @@
  * WT-like band of a metric derived from the benign controls' effects (DESIGN.md §6: "or derived
  * from the benign controls when the lab asks").
  */
+import { CALIBRATION } from '../defaults.js';
 import { mean, sd } from '../stats/descriptive.js';
 import { tQuantile } from '../stats/distributions.js';
 
 /**
- * Fewest benign controls with an effect from which a band is derived. Defined here because
- * src/defaults.ts is not part of this module's files; it belongs in CALIBRATION there.
+ * Fewest benign controls with an effect from which a band is derived (CALIBRATION in src/defaults.ts).
  * Three is the fewest that give a sample SD with two degrees of freedom (with two, the
- * t quantile is 12.7 and the band is uselessly wide). Common practice, no source.
+ * t quantile is 12.7 and the band is uselessly wide).
  */
-export const MIN_BENIGN_CONTROLS_FOR_BAND = 3;
+export const MIN_BENIGN_CONTROLS_FOR_BAND = CALIBRATION.minBenignControlsForBand;
 
-/** Coverage of the prediction interval used as the band (common practice, no source). */
-export const BENIGN_BAND_LEVEL = 0.95;
+/** Coverage of the prediction interval used as the band (CALIBRATION in src/defaults.ts). */
+export const BENIGN_BAND_LEVEL = CALIBRATION.benignBandLevel;
 
 export type DerivedBand =
   | {

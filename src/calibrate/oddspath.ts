@@ -30,11 +30,8 @@ export type Strength = 'supporting' | 'moderate' | 'strong' | 'very strong';
  */
 export type PseudoCountRule = 'always' | 'when-any-cell-zero';
 
-/**
- * Default pseudo-count rule. Defined here because src/defaults.ts is not part of this
- * module's files; it belongs in CALIBRATION there (reported to the lead).
- */
-export const DEFAULT_PSEUDO_COUNT_RULE: PseudoCountRule = 'always';
+/** Default pseudo-count rule (CALIBRATION.pseudoCountRule in src/defaults.ts). */
+export const DEFAULT_PSEUDO_COUNT_RULE: PseudoCountRule = CALIBRATION.pseudoCountRule;
 
 /** One control variant's known class and its readout in one scope (an assay, or overall). */
 export interface CalibrationControl {
