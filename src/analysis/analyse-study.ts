@@ -37,6 +37,8 @@ export interface AnalyseOptions {
   builtAt: string;
   /** Restrict to these assay modules (default: the registry). */
   assays?: readonly AssayModule[];
+  /** Per-unit results computed elsewhere (e.g. src/analysis/parallel.ts); default: each module's analyse(). */
+  units?: readonly UnitResult[];
 }
 
 export const COMPARISON_METHOD =
@@ -74,8 +76,8 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   const qThreshold = study.thresholds.qThreshold ?? STATS.qThreshold;
 
   // 1. Per-unit analysis, then manifest exclusions (kept for display, out of the statistics).
-  const units: UnitResult[] = [];
-  for (const m of modules) units.push(...m.analyse(study));
+  const units: UnitResult[] = options.units ? options.units.map((u) => ({ ...u })) : [];
+  if (!options.units) for (const m of modules) for (const u of m.analyse(study)) units.push(u);
   for (const u of units) {
     const e = study.exclusions.find((x) => matchesExclusion(u, x, variants));
     if (e) u.excluded = e.reason;

@@ -116,7 +116,7 @@ export function normaliseAssay(
       r.call = metricCall(r.effect, r.ciLow, r.ciHigh, r.q, band, options.qThreshold);
       r.sentence = metricSentence(r, def, options.qThreshold);
     });
-    out.push(...metricRows);
+    for (const r of metricRows) out.push(r);
   }
   return out;
 }

@@ -155,8 +155,8 @@ function collectUnits(study: Study): UnitInput[] {
     }
     return u;
   };
-  for (const g of groupUnits(study.rows['motility-tracks'] ?? [])) get(g).tracks.push(...g.rows);
-  for (const g of groupUnits(study.rows['motility-velocities'] ?? [])) get(g).velocities.push(...g.rows);
+  for (const g of groupUnits(study.rows['motility-tracks'] ?? [])) { const list = get(g).tracks; for (const r of g.rows) list.push(r); }
+  for (const g of groupUnits(study.rows['motility-velocities'] ?? [])) { const list = get(g).velocities; for (const r of g.rows) list.push(r); }
   return [...units.values()];
 }
 

@@ -13,6 +13,7 @@
 import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
+import { analyseUnitsParallel } from '../analysis/parallel.js';
 import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
 import { planOutput, makeStaging, swapIn } from '../cli/output.js';
@@ -30,7 +31,14 @@ export interface BuildOptions {
   sourceDateEpoch?: number;
   /** Progress callback (phase name); the CLI prints it. */
   onPhase?: (phase: string) => void;
+  /** Finer progress within a phase: (phase, done, total). */
+  onProgress?: (phase: string, done: number, total: number) => void;
+  /** Chart SVG cache folder, or false for none (default: the user's cache folder, see src/charts/cache.ts). */
+  chartCache?: string | false;
 }
+
+/** Studies with more data rows than this are analysed in worker threads (below it, starting workers costs more than it saves). */
+export const PARALLEL_ANALYSIS_MIN_ROWS = 100_000;
 
 export interface BuildOutcome {
   ok: boolean;
@@ -53,13 +61,23 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   phase('analyse');
   const epoch = options.sourceDateEpoch;
   const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
-  const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt });
+  const totalRows = Object.values(loaded.study.rows).reduce((n, rows) => n + (rows?.length ?? 0), 0);
+  const units =
+    totalRows >= PARALLEL_ANALYSIS_MIN_ROWS
+      ? await analyseUnitsParallel(loaded.study, ASSAYS, { workers: 'auto', onProgress: (d, t) => options.onProgress?.('analyse', d, t) })
+      : undefined;
+  const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units });
   results.issues = issues;
   const tag = String(process.pid);
   const staging = makeStaging(plan.out, tag);
   try {
     phase('pages');
-    const site = await buildSite(results, staging, { chartsFor: chartsFromModules(results, ASSAYS), sourceDateEpoch: epoch });
+    const site = await buildSite(results, staging, {
+      chartsFor: chartsFromModules(results, ASSAYS),
+      sourceDateEpoch: epoch,
+      ...(options.chartCache !== undefined ? { chartCache: options.chartCache } : {}),
+      ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+    });
     phase('write');
     const downloads = path.join(staging, 'downloads');
     mkdirSync(downloads, { recursive: true });

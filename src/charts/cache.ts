@@ -10,12 +10,17 @@
  */
 import { createHash } from 'node:crypto';
 import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { homedir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { ChartSpec } from '../assays/types.js';
 import { RENDERER_ID, chartKey, type RenderOptions } from './render.js';
 
-/** Default cache folder, relative to the current working directory. */
-export const DEFAULT_CHART_CACHE = join('.cache', 'myofolio', 'charts');
+/**
+ * Default cache folder: the user's cache directory ($XDG_CACHE_HOME, else ~/.cache) under
+ * myofolio/charts, so that a build never writes into the folder it is run from (which may be a
+ * study folder). Entries are never stale (content-addressed); delete the folder to reclaim space.
+ */
+export const DEFAULT_CHART_CACHE = join(process.env.XDG_CACHE_HOME || join(homedir(), '.cache'), 'myofolio', 'charts');
 
 /**
  * Cache entry name for one render: SHA-256 (hex) over the renderer id, the render options that

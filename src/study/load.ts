@@ -66,7 +66,7 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
   }
   const manifestText = decodedManifest.text;
   const { manifest, issues: manifestIssues } = readManifest(manifestText, manifestPath);
-  issues.push(...manifestIssues);
+  for (const i of manifestIssues) issues.push(i);
   if (!manifest) return { issues };
 
   const rows: Partial<Record<InputKind, unknown[]>> = {};
@@ -95,9 +95,10 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
     }
     const text = decoded.text;
     const table = parseCsv(text, path);
-    issues.push(...table.issues);
+    for (const i of table.issues) issues.push(i);
     const got = readRows(spec.entry.kind, table, spec, path, manifest.byLabel, issues);
-    (rows[spec.entry.kind] ??= []).push(...(got.rows as unknown[]));
+    const target = (rows[spec.entry.kind] ??= []);
+    for (const r of got.rows as unknown[]) target.push(r);
     got.variantsSeen.forEach((id) => variantsSeen.add(id));
     got.batches.forEach((b) => batches.add(b));
     got.units.forEach((u) => units.add(u));

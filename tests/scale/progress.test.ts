@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { createProgress, progressLine } from '../../src/bench/progress.js';
+import { createProgress, progressLine } from '../../src/cli/progress.js';
 
 function sink(isTTY: boolean) {
   const out: string[] = [];

@@ -6,6 +6,7 @@ import { MANIFEST_NAME } from '../../study/schemas.js';
 import type { Command, Io } from '../main.js';
 import { CLI } from '../messages.js';
 import { OutputError } from '../output.js';
+import { createProgress, type ProgressStream } from '../progress.js';
 import { formatIssue, sortIssues } from './check.js';
 
 /** Default output folder, relative to the working directory. */
@@ -64,14 +65,15 @@ export const command: Command = {
       return 1;
     }
     const started = Date.now();
-    const tty = Boolean((io.stderr as { isTTY?: boolean }).isTTY);
+    const progress = createProgress(io.stderr as ProgressStream);
     try {
       const outcome = await buildStudy(dir, out, {
         force: parsed.force,
         sourceDateEpoch: sourceDateEpoch(process.env),
-        onPhase: tty ? (p) => io.stderr.write(`\r\x1b[K${p}…`) : undefined,
+        onPhase: (p) => progress.onProgress(p, 0, 1),
+        onProgress: progress.onProgress,
       });
-      if (tty) io.stderr.write('\r\x1b[K');
+      progress.done();
       for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i)}\n`);
       if (!outcome.ok) {
         const errors = outcome.issues.filter((i) => i.severity === 'error').length;
@@ -87,7 +89,7 @@ export const command: Command = {
       if (outcome.movedAside) io.stdout.write(`The folder that was there before was moved to ${relative(io.cwd, outcome.movedAside)}.\n`);
       return 0;
     } catch (err) {
-      if (tty) io.stderr.write('\r\x1b[K');
+      progress.done();
       if (err instanceof OutputError) {
         io.stderr.write(`myofolio build: ${err.message}\n  fix: ${err.fix}\n`);
         return 1;

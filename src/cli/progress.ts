@@ -1,5 +1,5 @@
 /**
- * Progress display for long builds: on a TTY one line redrawn in place
+ * Progress display for long builds (src/cli/commands/build.ts): on a TTY one line redrawn in place
  * ("charts  [#######.....]  412/1000"), throttled to ~10 redraws a second; elsewhere nothing per
  * step (a log stays clean), only the phase names as they start when `phases` is set.
  *
