@@ -106,6 +106,14 @@ export function demoScenario(): Scenario {
       ],
     },
     direction: 'hypercontractile',
+    exclusions: [
+      {
+        kind: 'unit',
+        assay: 'force',
+        unit: 'E333V-p2',
+        reason: 'The fibre tore during the first activation at pCa 4.5 (invented for the demo).',
+      },
+    ],
     caveats: [
       'Synthetic demo data: the lab, the gene, the variants and every value are invented.',
       'Research data, not a clinical test. Functional evidence is one line of evidence; classification belongs to qualified clinical laboratories.',

@@ -58,6 +58,8 @@ export interface Scenario {
   gene: { symbol: string; sequence: string; domains: { name: string; start: number; end: number }[] };
   direction: 'hypercontractile' | 'hypocontractile' | 'either';
   caveats: string[];
+  /** Manifest exclusions, passed through as written. */
+  exclusions?: Array<Record<string, string>>;
   batches: string[];
   wt: AssayTruth;
   wtUnitsPerBatch: number;
@@ -335,6 +337,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
     ],
     direction: s.direction,
     files: fileEntries,
+    ...(s.exclusions ? { exclusions: s.exclusions } : {}),
     caveats: s.caveats,
   };
   return { manifest, files, truth };
