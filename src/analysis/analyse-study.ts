@@ -167,6 +167,12 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
         scope: 'overall',
         sentence: `Calibration control (known class: ${v.control.class}; source: ${v.control.source}). Its readout calibrates the assays; it is not scored as evidence for itself.`,
       };
+    else if (overall.readout === null && (overall.call === 'hypercontractile' || overall.call === 'hypocontractile'))
+      evidence = {
+        level: 'none',
+        scope: 'overall',
+        sentence: `No evidence level: the readout is ${overall.call}, the opposite of the disease mechanism this study calibrates (${study.direction}), so the calibration of abnormal readouts does not apply to it. The calibration suggests a strength of functional evidence and never classifies the variant.`,
+      };
     else evidence = { scope: 'overall', ...evidenceForReadout(overallCal, overall.readout) };
     const gene = study.genes.find((g) => g.symbol === v.gene);
     const domain = v.residue === undefined ? undefined : gene?.domains.find((d) => v.residue! >= d.start && v.residue! <= d.end)?.name;
