@@ -93,10 +93,11 @@ export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omi
   const curve: Array<Record<string, number>> = [];
   if (fit.converged) {
     const p = fit.parameters.map((q) => q.estimate);
-    const steps = 60;
+    // 40 points: a hyperbola is smooth at this spacing; values to 6 significant digits (plot only).
+    const steps = 39;
     for (let i = 0; i <= steps; i++) {
-      const a = (maxActin * i) / steps;
-      curve.push({ actin: a, rate: michaelisMentenBasal.f(a, p) });
+      const a = Number(((maxActin * i) / steps).toPrecision(6));
+      curve.push({ actin: a, rate: Number(michaelisMentenBasal.f(a, p).toPrecision(6)) });
     }
   }
   return { metrics, metricSe, fit, flags, nTechnical: rows.length, plot: { points, curve } };

@@ -60,8 +60,8 @@ export const FORCE_METRICS: MetricDef[] = [
   },
 ];
 
-/** Points of the fitted-curve grid per preparation. */
-const CURVE_POINTS = 81;
+/** Points of the fitted-curve grid per preparation (0.083 pCa apart over the usual 9.25–4.25 span: about 8 points across a steep transition). */
+const CURVE_POINTS = 61;
 /** The curve grid extends this far (pCa units) beyond the measured range on each side. */
 const CURVE_MARGIN_PCA = 0.25;
 

@@ -239,12 +239,7 @@ export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings
       at: first,
     });
   }
-  const points = filaments.map((f) => ({
-    movie: f.movie,
-    filament: f.filament,
-    velocity: roundForPlot(f.velocityUmS),
-    state: f.velocityUmS >= settings.immobileUmS ? 'moving' : 'immobile',
-  }));
+  const points = motilityPlotPoints(filaments, settings.immobileUmS);
   return {
     assay: 'motility',
     variant: input.variant,
@@ -261,6 +256,48 @@ export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings
     plot: { points },
     source: sourceRanges([...input.tracks, ...input.velocities]),
   };
+}
+
+/** Width of the velocity bins of the motility chart and of the stored histogram (µm/s). */
+export const MOTILITY_BIN_UMS = 0.05;
+
+/** Units with more filaments than this store a histogram in plot.points instead of one row per filament. */
+export const MOTILITY_PLOT_FILAMENTS_MAX = 60;
+
+/**
+ * Bin index of a velocity: floor(v / width), nudged by 1e-9 so that values on an edge
+ * (0.05 / 0.05 = 0.9999999999999999 in floating point) fall in the bin they start.
+ * @example velocityBin(0.05, 0.05) // → 1; velocityBin(0.0499, 0.05) // → 0
+ */
+export function velocityBin(velocity: number, width: number): number {
+  return Math.floor(velocity / width + 1e-9);
+}
+
+/**
+ * Plot data of one unit: one row per filament ({movie, filament, velocity, state}) when the unit
+ * has at most MOTILITY_PLOT_FILAMENTS_MAX filaments; otherwise a histogram, one row per
+ * 0.05 µm/s bin and state with its filament count ({binStart, binEnd, state, count}), so that
+ * results.json and the chart stay small for 300-filament units. Bins start at 0; with the default
+ * immobile threshold (0.05 µm/s, a bin edge) no bin holds both states.
+ * @example motilityPlotPoints(filamentsAt([0.01, 0.81, 0.83]), 0.05) // 3 filaments → 3 rows, one per filament
+ */
+export function motilityPlotPoints(filaments: readonly FilamentVelocity[], immobileUmS: number): Array<Record<string, number | string>> {
+  const state = (v: number) => (v >= immobileUmS ? 'moving' : 'immobile');
+  if (filaments.length <= MOTILITY_PLOT_FILAMENTS_MAX) {
+    return filaments.map((f) => ({ movie: f.movie, filament: f.filament, velocity: roundForPlot(f.velocityUmS), state: state(f.velocityUmS) }));
+  }
+  const counts = new Map<string, { bin: number; state: string; count: number }>();
+  for (const f of filaments) {
+    const bin = velocityBin(f.velocityUmS, MOTILITY_BIN_UMS);
+    const st = state(f.velocityUmS);
+    const key = `${bin}|${st}`;
+    const c = counts.get(key);
+    if (c) c.count++;
+    else counts.set(key, { bin, state: st, count: 1 });
+  }
+  return [...counts.values()]
+    .sort((a, b) => a.bin - b.bin || (a.state < b.state ? -1 : a.state > b.state ? 1 : 0))
+    .map((c) => ({ binStart: roundForPlot(c.bin * MOTILITY_BIN_UMS), binEnd: roundForPlot((c.bin + 1) * MOTILITY_BIN_UMS), state: c.state, count: c.count }));
 }
 
 /** Per-unit analysis of the motility inputs of a study. */
@@ -283,57 +320,141 @@ function unitRows(input: AssayChartInput) {
   return all.map(({ u, group }) => ({ u, group, label: `${group} · ${u.unit} (batch ${u.batch})` }));
 }
 
+interface UnitHistogram {
+  label: string;
+  bins: Array<{ binStart: number; binEnd: number; state: string; count: number }>;
+  n: number;
+}
+
+/** A unit's plot points as 0.05 µm/s bins per state (per-filament rows are binned here). */
+function unitHistogram(points: UnitResult['plot']['points']): Omit<UnitHistogram, 'label'> {
+  const counts = new Map<string, { binStart: number; binEnd: number; state: string; count: number }>();
+  let n = 0;
+  for (const p of points) {
+    let binStart: number;
+    let binEnd: number;
+    let count: number;
+    if (typeof p.count === 'number') {
+      binStart = p.binStart as number;
+      binEnd = p.binEnd as number;
+      count = p.count;
+    } else {
+      const b = velocityBin(p.velocity as number, MOTILITY_BIN_UMS);
+      binStart = roundForPlot(b * MOTILITY_BIN_UMS);
+      binEnd = roundForPlot((b + 1) * MOTILITY_BIN_UMS);
+      count = 1;
+    }
+    if (!Number.isFinite(binStart)) continue;
+    n += count;
+    const key = `${binStart}|${p.state}`;
+    const c = counts.get(key);
+    if (c) c.count += count;
+    else counts.set(key, { binStart, binEnd, state: String(p.state), count });
+  }
+  return { bins: [...counts.values()].sort((a, b) => a.binStart - b.binStart || (a.state < b.state ? -1 : 1)), n };
+}
+
+const pct = (x: number | null | undefined) => (typeof x === 'number' && Number.isFinite(x) ? `${(x * 100).toFixed(1)}%` : '—');
+const num = (x: number | null | undefined) => (typeof x === 'number' && Number.isFinite(x) ? String(Number(x.toPrecision(3))) : '—');
+
 /**
- * Variant-report chart: one row per protein preparation (the variant's and the WT
- * preparations of the same batches), a tick per filament velocity coloured by moving /
- * immobile (also told apart by position: immobile filaments sit below the threshold),
- * and a black diamond at the mean of moving filaments.
+ * Variant-report chart: one small histogram per protein preparation (the variant's and the WT
+ * preparations of the same batches, batch by batch), the share of the preparation's filaments
+ * in each 0.05 µm/s velocity bin, bars coloured moving / immobile (immobile bars also sit left of
+ * the threshold), a black rule at the mean of the moving filaments, and the preparation's
+ * filament count and immobile fraction written beside it. About 40 bars per preparation instead
+ * of one tick per filament (300 per preparation in large studies). The numbers table (usermeta)
+ * lists every preparation's summary values; bin counts are in results.json.
  */
 export function motilityChart(input: AssayChartInput): ChartSpec {
   const units = unitRows(input);
-  const filaments = units.flatMap(({ u, group, label }) =>
-    u.plot.points.map((p) => ({ unitLabel: label, group, velocity: p.velocity, state: p.state })),
-  );
-  const means = units
-    .filter(({ u }) => typeof u.metrics.velocity === 'number')
-    .map(({ u, group, label }) => ({ unitLabel: label, group, meanVelocity: roundForPlot(u.metrics.velocity as number) }));
+  const rows: Array<Record<string, unknown>> = [];
+  const tableRows: string[][] = [];
+  let maxShare = 0;
+  let maxVelocity = 0;
+  for (const { u, group, label } of units) {
+    const h = unitHistogram(u.plot.points);
+    // Bins are sorted by start, then state: a bin holding both states (a threshold that is not a bin edge) stacks them.
+    let stackBin = NaN;
+    let stackTop = 0;
+    for (const b of h.bins) {
+      if (b.binStart !== stackBin) {
+        stackBin = b.binStart;
+        stackTop = 0;
+      }
+      const share = h.n > 0 ? b.count / h.n : 0;
+      const low = stackTop;
+      stackTop += share;
+      maxShare = Math.max(maxShare, stackTop);
+      maxVelocity = Math.max(maxVelocity, b.binEnd);
+      rows.push({ kind: 'bin', unitLabel: label, state: b.state, binStart: b.binStart, binEnd: b.binEnd, shareLow: Number(low.toFixed(4)), share: Number(stackTop.toFixed(4)) });
+    }
+    const mean = u.metrics.velocity;
+    if (typeof mean === 'number' && Number.isFinite(mean)) rows.push({ kind: 'mean', unitLabel: label, meanVelocity: Number(mean.toPrecision(4)) });
+    rows.push({ kind: group === 'WT' ? 'noteWT' : 'noteVariant', unitLabel: label, note: `${label}: n ${h.n}, ${pct(u.metrics.fractionImmobile)} immobile` });
+    tableRows.push([group, u.unit, u.batch, String(h.n), pct(u.metrics.fractionImmobile), num(u.metrics.velocity), num(u.metrics.medianVelocity), num(u.metrics.p95Velocity)]);
+  }
+  const yTop = Math.max(0.1, Math.ceil(maxShare * 10) / 10);
+  const xTop = Math.max(0.5, Math.ceil(maxVelocity * 4) / 4);
   const order = units.map((x) => x.label);
-  const y = { field: 'unitLabel', type: 'nominal', title: null, sort: order, axis: { labelLimit: 260 } };
+  const kind = (k: string) => [{ filter: { field: 'kind', equal: k } }];
   return {
     title: `In vitro motility: ${input.variantLabel} beside WT of the same batches`,
     description:
-      `Velocity of every analysed actin filament (one tick each) for each protein preparation of ${input.variantLabel} ` +
-      `and of WT measured in the same batches; ticks are coloured moving or immobile, and a black diamond marks the mean velocity of the moving filaments of each preparation.`,
-    width: 440,
-    height: { step: 28 },
-    layer: [
-      {
-        data: { values: filaments },
-        mark: { type: 'tick', thickness: 1.5, opacity: 0.7 },
-        encoding: {
-          x: { field: 'velocity', type: 'quantitative', title: 'Filament velocity (µm/s)', scale: { zero: true } },
-          y,
-          color: {
-            field: 'state',
-            type: 'nominal',
-            title: 'Filament',
-            scale: { domain: ['moving', 'immobile'], range: [STATE_COLOURS.moving, STATE_COLOURS.immobile] },
+      `Distribution of filament velocities for each protein preparation of ${input.variantLabel} and of WT measured in the same batches: ` +
+      `bars give the share of the preparation's filaments in each ${MOTILITY_BIN_UMS} µm/s velocity bin, coloured moving or immobile; ` +
+      `a black vertical line marks the mean velocity of the moving filaments, and each row is labelled at its right with the preparation (the variant's in bold), its filament count and its immobile fraction. The full height of a row is ${Math.round(yTop * 100)}% of the preparation's filaments.`,
+    usermeta: {
+      table: {
+        columns: ['Group', 'Preparation', 'Batch', 'Filaments', 'Immobile', 'Mean of moving (µm/s)', 'Median of moving (µm/s)', '95th percentile (µm/s)'],
+        rows: tableRows,
+        note: `The chart bins filament velocities in ${MOTILITY_BIN_UMS} µm/s bins; the bin counts are in results.json (plot.points of each preparation).`,
+      },
+    },
+    data: { values: rows },
+    facet: {
+      row: {
+        field: 'unitLabel',
+        type: 'nominal',
+        sort: order,
+        title: null,
+        header: { labels: false },
+      },
+    },
+    spacing: 3,
+    spec: {
+      width: 380,
+      height: 30,
+      layer: [
+        {
+          transform: kind('bin'),
+          mark: { type: 'rect' },
+          encoding: {
+            x: { field: 'binStart', type: 'quantitative', title: ['Filament velocity (µm/s)', `Bar height: share of the row's filaments per ${MOTILITY_BIN_UMS} µm/s bin (full row = ${Math.round(yTop * 100)}%)`, 'Black line: mean velocity of the moving filaments'], axis: { titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal' }, scale: { domain: [0, xTop], nice: false } },
+            x2: { field: 'binEnd' },
+            y: { field: 'share', type: 'quantitative', title: null, scale: { domain: [0, yTop], nice: false }, axis: null },
+            y2: { field: 'shareLow' },
+            color: {
+              field: 'state',
+              type: 'nominal',
+              title: 'Filament',
+              scale: { domain: ['moving', 'immobile'], range: [STATE_COLOURS.moving, STATE_COLOURS.immobile] },
+            },
           },
         },
-      },
-      {
-        data: { values: means },
-        mark: { type: 'point', shape: 'diamond', filled: true, size: 90, color: '#111111' },
-        encoding: {
-          x: { field: 'meanVelocity', type: 'quantitative' },
-          y,
-          tooltip: [
-            { field: 'unitLabel', type: 'nominal', title: 'Preparation' },
-            { field: 'meanVelocity', type: 'quantitative', title: 'Mean of moving (µm/s)', format: '.3f' },
-          ],
+        {
+          transform: kind('mean'),
+          mark: { type: 'rule', color: '#111111', strokeWidth: 2 },
+          encoding: { x: { field: 'meanVelocity', type: 'quantitative' } },
         },
-      },
-    ],
+        ...(['noteWT', 'noteVariant'] as const).map((k) => ({
+          transform: kind(k),
+          mark: { type: 'text', align: 'left', baseline: 'middle', fontSize: 11, color: '#222222', fontWeight: k === 'noteVariant' ? 'bold' : 'normal' },
+          encoding: { text: { field: 'note', type: 'nominal' }, x: { value: 386 }, y: { value: 15 } },
+        })),
+      ],
+    },
+    resolve: { axis: { x: 'shared' } },
   };
 }
 

@@ -17,7 +17,7 @@ import type { FitResult } from '../numeric/types.js';
 import type { Flag, MetricDef, UnitResult } from '../results/types.js';
 import type { SourceRef, Study, TurnoverRow } from '../study/types.js';
 import { mean, se } from '../stats/descriptive.js';
-import { assaySetting, groupBy, roundForPlot } from './assay-common.js';
+import { assaySetting, groupBy } from './assay-common.js';
 import type { SettingsBag } from './assay-common.js';
 import { GROUP_COLOURS } from './chart-common.js';
 import { groupUnits, relativeSeFlags } from './assay-common.js';
@@ -187,8 +187,28 @@ export function fitTurnoverTrace(
  */
 export const MAX_PLOTTED_READINGS = 100;
 
-/** Points of the fitted-curve grid per trace. */
-const CURVE_POINTS = 101;
+/** Points of the fitted-curve grid per trace (spaced quadratically in time, see curveTime). */
+const CURVE_POINTS = 40;
+
+/** Readings drawn per trace at most on the variant-report chart (every k-th of the stored ones). */
+export const MAX_CHART_READINGS = 40;
+
+/**
+ * Time of curve point i of n on [t0, t1], spaced quadratically: t0 + (t1 − t0)·(i/(n − 1))².
+ * Dense early, where the fast phase falls, sparse on the slow tail: with 40 points over 1,800 s
+ * the first step is 1.2 s and the last 91 s (a linear grid would step 46 s throughout and cut
+ * the corner of a 0.03 s⁻¹ fast phase).
+ * @example curveTime(0, 1800, 1, 40) // → 1.18 (1800/39²)
+ */
+export function curveTime(t0: number, t1: number, i: number, n: number): number {
+  const f = i / (n - 1);
+  return t0 + (t1 - t0) * f * f;
+}
+
+/** Plot values to 7 significant digits (chart and results.json only; fits use full precision). @example plotValue(0.3603512345) // → 0.3603512 */
+function plotValue(x: number): number {
+  return Number.isFinite(x) ? Number(x.toPrecision(7)) : x;
+}
 
 /**
  * Normalised fluorescence of a trace: (F − c)/(F̂(t_first) − c) from the chosen fit
@@ -240,11 +260,8 @@ export function analyseTurnoverUnit(
     for (let i = 0; i < t.length; i += every) {
       const value = norm(y[i]);
       // One object literal per shape (no property added later), same keys in the same order.
-      points.push(
-        Number.isFinite(value)
-          ? { trace, time: t[i], fluorescence: y[i], normFluorescence: roundForPlot(value) }
-          : { trace, time: t[i], fluorescence: y[i] },
-      );
+      // Raw fluorescence only when the reading cannot be normalised (it is in the input file).
+      points.push(Number.isFinite(value) ? { trace, time: t[i], normFluorescence: plotValue(value) } : { trace, time: t[i], fluorescence: y[i] });
     }
     if (result.fit) {
       const p = result.fit.parameters.map((q) => q.estimate);
@@ -252,8 +269,8 @@ export function analyseTurnoverUnit(
       const t0 = t[0];
       const t1 = t[t.length - 1];
       for (let i = 0; i < CURVE_POINTS; i++) {
-        const time = t0 + ((t1 - t0) * i) / (CURVE_POINTS - 1);
-        curve.push({ trace: sorted[0].trace, model: result.model, time: roundForPlot(time), normFluorescence: roundForPlot(norm(model.f(time, p))) });
+        const time = plotValue(curveTime(t0, t1, i, CURVE_POINTS));
+        curve.push({ trace, model: result.model, time, normFluorescence: plotValue(norm(model.f(time, p))) });
       }
     }
   }
@@ -306,16 +323,62 @@ export function analyseTurnover(study: Study): UnitResult[] {
   });
 }
 
+const num3 = (x: number | null | undefined) => (typeof x === 'number' && Number.isFinite(x) ? String(Number(x.toPrecision(3))) : '—');
+
+/** Numbers table of the turnover chart: one row per preparation (its metrics and fitted model), not the drawn points. */
+function turnoverTable(input: AssayChartInput) {
+  const rows = [
+    ...input.wtUnits.map((u) => ({ u, group: 'WT' })),
+    ...input.variantUnits.map((u) => ({ u, group: input.variantLabel })),
+  ].map(({ u, group }) => [
+    group,
+    u.unit,
+    u.batch,
+    String(u.nTechnical),
+    num3(u.metrics.slowFraction),
+    num3(u.metrics.kFast),
+    num3(u.metrics.kSlow),
+    u.modelNote ?? 'double exponential in every trace',
+  ]);
+  return {
+    columns: ['Group', 'Preparation', 'Batch', 'Traces', 'Slow fraction', 'kFast (s⁻¹)', 'kSlow (s⁻¹)', 'Model'],
+    rows,
+    note: `The chart draws at most ${MAX_CHART_READINGS} readings per trace and each trace's fitted curve at ${CURVE_POINTS} times; the plotted readings and curves are in results.json (plot of each preparation).`,
+  };
+}
+
+/**
+ * Every k-th row of each trace so that no trace keeps more than `max` rows (k = ⌈n/max⌉, first row kept).
+ * @example thinPerTrace(rowsOfOneTraceWith100Readings, 40) // → 34 rows (k = 3)
+ */
+export function thinPerTrace<T extends Record<string, unknown>>(rows: readonly T[], max: number): T[] {
+  const byTrace = new Map<unknown, T[]>();
+  for (const r of rows) (byTrace.get(r.trace) ?? byTrace.set(r.trace, []).get(r.trace)!).push(r);
+  const out: T[] = [];
+  for (const list of byTrace.values()) {
+    const every = Math.max(1, Math.ceil(list.length / max));
+    for (let i = 0; i < list.length; i += every) out.push(list[i]);
+  }
+  return out;
+}
+
 /**
  * Variant-report chart: normalised fluorescence against time, readings as points and each
  * trace's chosen fit as a line; WT and variant told apart by colour, point shape and
  * line dash.
  */
 export function turnoverChart(input: AssayChartInput): ChartSpec {
+  // Readings: at most MAX_CHART_READINGS per trace (every k-th stored reading); curves as stored.
   const flatten = (units: AssayChartInput['wtUnits'], group: 'WT' | 'Variant', part: 'points' | 'curve') =>
-    units.flatMap((u) =>
-      (u.plot[part] ?? []).map((r) => ({ ...r, group, unit: `${u.unit} (${u.batch})`, traceKey: `${group} ${u.unit} (${u.batch}) ${r.trace}` })),
-    );
+    units.flatMap((u) => {
+      const rows = (u.plot[part] ?? []).filter((r) => part === 'curve' || typeof r.normFluorescence === 'number');
+      const shown = part === 'curve' ? rows : thinPerTrace(rows, MAX_CHART_READINGS);
+      return shown.map((r) =>
+        part === 'curve'
+          ? { group, unit: `${u.unit} (${u.batch})`, trace: r.trace, traceKey: `${group} ${u.unit} (${u.batch}) ${r.trace}`, time: r.time, normFluorescence: r.normFluorescence }
+          : { group, unit: `${u.unit} (${u.batch})`, trace: r.trace, time: r.time, normFluorescence: r.normFluorescence },
+      );
+    });
   const points = [...flatten(input.wtUnits, 'WT', 'points'), ...flatten(input.variantUnits, 'Variant', 'points')];
   const curve = [...flatten(input.wtUnits, 'WT', 'curve'), ...flatten(input.variantUnits, 'Variant', 'curve')];
   const x = { field: 'time', type: 'quantitative', title: 'Time after chase (s)' };
@@ -330,7 +393,10 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
     title: `Single turnover: ${input.variantLabel} beside WT of the same batches`,
     description:
       `Fluorescence of each chase trace of ${input.variantLabel} and of WT in the same batches, normalised so that each trace's fit falls from 1 at the first reading to 0 at its plateau, ` +
-      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise). A slower overall decay means a larger slow-phase fraction. Traces longer than ${MAX_PLOTTED_READINGS} readings show every k-th reading; all readings were fitted.`,
+      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise). A slower overall decay means a larger slow-phase fraction. Each trace shows at most ${MAX_CHART_READINGS} readings (every k-th reading of longer traces); all readings were fitted.`,
+    usermeta: {
+      table: turnoverTable(input),
+    },
     width: 420,
     height: 260,
     layer: [
@@ -343,11 +409,6 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
           color,
           detail: { field: 'traceKey', type: 'nominal' },
           strokeDash: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: [[4, 3], [1, 0]] } },
-          tooltip: [
-            { field: 'unit', type: 'nominal', title: 'Preparation' },
-            { field: 'trace', type: 'nominal', title: 'Trace' },
-            { field: 'model', type: 'nominal', title: 'Model' },
-          ],
         },
       },
       {

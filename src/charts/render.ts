@@ -30,7 +30,7 @@ export interface RenderOptions {
  * Version of the SVG post-processing in this file. Bump it when renderSvg's output changes for
  * the same spec (the chart cache keys on it together with the vega and vega-lite versions).
  */
-export const RENDER_VERSION = 1;
+export const RENDER_VERSION = 2;
 
 /** Renderer identity for cache keys: post-processing version and library versions. */
 export const RENDERER_ID = `myofolio-render-${RENDER_VERSION}/vega-${vega.version}/vega-lite-${vegaLiteVersion}`;
@@ -124,6 +124,43 @@ function withFont(spec: ChartSpec): ChartSpec {
   return { ...spec, config: merged };
 }
 
+/** Geometry attributes whose numbers are rounded by roundSvgGeometry. */
+const GEOMETRY_ATTRS = /\s(d|transform|x|y|x1|x2|y1|y2|width|height|points|cx|cy|r|dx|dy)="([^"]*)"/g;
+const DECIMAL = /-?(?:\d+\.\d*|\.\d+)(?:e[-+]?\d+)?/gi;
+
+/**
+ * Round every decimal number in SVG geometry attributes (path data, transforms, positions and
+ * sizes) to one decimal place: 0.1 px is below what a screen or printer at 100% can show, and
+ * vega writes up to 15 digits. Text, colours and opacities are left alone. Trailing '.0' is
+ * dropped and '-0' becomes '0'. Deterministic: the same input always gives the same output.
+ * @example roundSvgGeometry('<path d="M12.3456,7.0001L-0.04,3"/>') // → '<path d="M12.3,7L0,3"/>'
+ */
+export function roundSvgGeometry(svg: string): string {
+  return svg.replace(GEOMETRY_ATTRS, (_m, name: string, value: string) => {
+    const rounded = value.replace(DECIMAL, (n) => {
+      const r = Math.round(Number(n) * 10) / 10;
+      return Number.isFinite(r) ? (Object.is(r, -0) ? '0' : String(r)) : n;
+    });
+    return ` ${name}="${rounded}"`;
+  });
+}
+
+/**
+ * Drop what a static, non-interactive SVG does not need: vega's empty axis foreground paths and
+ * zero-size background paths, pointer-events="none", opacity="1" (the default), and the class
+ * names vega gives every group (nothing on the site styles or queries them). The root <svg>
+ * keeps its attributes.
+ * @example stripRedundant('<g class="mark-rule" pointer-events="none"><line opacity="1"/><path d="" display="none"/></g>') // → '<g><line/></g>'
+ */
+export function stripRedundant(svg: string): string {
+  return svg
+    .replace(/ pointer-events="none"/g, '')
+    .replace(/ opacity="1"(?=[ />])/g, '')
+    .replace(/(<(?!svg\b)[a-z]+)\s+class="[^"]*"/g, '$1')
+    .replace(/<path d="" display="none"\/>/g, '')
+    .replace(/<path d="M0,0h0v0h0Z"\/>/g, '');
+}
+
 /** Render a Vega-Lite spec to an SVG string with role="img", <title> and <desc>, and stable ids. */
 export async function renderSvg(spec: ChartSpec, options: RenderOptions = {}): Promise<string> {
   const key = options.key ?? chartKey(spec);
@@ -139,7 +176,7 @@ export async function renderSvg(spec: ChartSpec, options: RenderOptions = {}): P
   }
   const prefix = idPrefix(key);
   // Inner ARIA roles from vega (graphics-symbol, …) would each need their own name; the root role="img" speaks for the chart.
-  let svg = renumberIds(raw.replace(/\s(?:role|aria-[a-z]+)="[^"]*"/g, ''), prefix);
+  let svg = renumberIds(stripRedundant(roundSvgGeometry(raw.replace(/\s(?:role|aria-[a-z]+)="[^"]*"/g, ''))), prefix);
   const titleId = `${prefix}-title`;
   const descId = `${prefix}-desc`;
   svg = svg.replace(

@@ -3,8 +3,14 @@
  *
  *   StudyResults ──view builders (slugs, relative paths, numbers as text)──▶ site data
  *                ──chart specs ──renderSvg──▶ SVG strings inside the site data
- *   site data ──Eleventy (templates/, .eleventy.js, Nunjucks autoescape)──▶ HTML in outDir
+ *   variant pages, in batches of VARIANT_BATCH: charts ──▶ Eleventy on templates/variant.njk alone
+ *                 ──▶ HTML in outDir (the next batch's charts render in the pool meanwhile)
+ *   study pages: site data without variants ──Eleventy (templates/, .eleventy.js)──▶ HTML in outDir
  *   templates/assets ──copy──▶ outDir/assets
+ *
+ * Only one or two batches of variant pages (their SVGs and HTML) are in memory at a time, so
+ * memory stays bounded however many variants a study has. Both Eleventy runs use the same
+ * templates and configuration, so a variant page is the same as from one run over everything.
  *
  * Writes into the given (empty) folder; the caller swaps folders and writes downloads/.
  */
@@ -18,10 +24,10 @@ import { type ChartRenderer, createChartRenderer, defaultWorkers } from '../char
 import type { StudyResults } from '../results/types.js';
 import { PATHS, uniqueSlugs } from './paths.js';
 import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
-import type { FunctionCall } from '../results/types.js';
+import type { FunctionCall, VariantResult } from '../results/types.js';
 import { type RenderFn, STANDARD_CAVEATS, functionCall } from './view-common.js';
 import { assayPages, compareCharts, methodsData, provenanceData, residueCharts } from './view-study.js';
-import { indexRows, variantPages } from './view-variant.js';
+import { type VariantPage, indexRows, variantPageBuilder, variantPages } from './view-variant.js';
 
 export interface BuildSiteOptions {
   /** Per-variant assay charts (data and fits beside WT); see chartsFromModules(). */
@@ -47,24 +53,35 @@ export interface BuildSiteOptions {
 
 const templatesDir = fileURLToPath(new URL('../../templates/', import.meta.url));
 const configPath = fileURLToPath(new URL('../../.eleventy.js', import.meta.url));
+const variantTemplate = join(templatesDir, 'variant.njk');
 
-/** Everything the templates read, computed from the results alone. */
-export async function siteData(results: StudyResults, options: BuildSiteOptions = {}) {
+/** Variant pages built and written per Eleventy run. */
+export const VARIANT_BATCH = 100;
+
+interface Prepared {
+  slugs: Map<string, string>;
+  render: RenderFn | undefined;
+  close: () => Promise<void>;
+}
+
+function prepare(results: StudyResults, options: BuildSiteOptions): Prepared {
   const slugs = uniqueSlugs(results.variants.map((v) => v.id));
-  const builtAt =
-    options.sourceDateEpoch !== undefined && Number.isFinite(options.sourceDateEpoch)
-      ? new Date(options.sourceDateEpoch * 1000).toISOString().replace('.000Z', 'Z')
-      : results.provenance.builtAt;
-  const rows = indexRows(results, slugs);
   const workers = options.workers === undefined || options.workers === 'auto' ? defaultWorkers() : options.workers;
   const cacheDir = options.chartCache ?? DEFAULT_CHART_CACHE;
   const ownRenderer = options.renderer || (workers === 0 && cacheDir === false) ? undefined : createChartRenderer({ workers, cacheDir });
   const renderer = options.renderer ?? ownRenderer;
   const render: RenderFn | undefined = renderer ? (spec, o) => renderer.render(spec, o) : undefined;
-  try {
-  const progress = options.onProgress;
-  const total = results.variants.length;
-  progress?.('charts', 0, total);
+  return { slugs, render, close: async () => ownRenderer?.close() };
+}
+
+/** Everything the templates read except the variant pages (variants: []). */
+async function studyData(results: StudyResults, options: BuildSiteOptions, prepared: Prepared) {
+  const { slugs, render } = prepared;
+  const builtAt =
+    options.sourceDateEpoch !== undefined && Number.isFinite(options.sourceDateEpoch)
+      ? new Date(options.sourceDateEpoch * 1000).toISOString().replace('.000Z', 'Z')
+      : results.provenance.builtAt;
+  const rows = indexRows(results, slugs);
   const assays = await assayPages(results, render);
   const nav = [
     { key: 'index', label: 'Variants', href: PATHS.index },
@@ -92,23 +109,32 @@ export async function siteData(results: StudyResults, options: BuildSiteOptions 
       flags: uniq(rows.flatMap((r) => r.flags)),
       search: Object.fromEntries(rows.map((r) => [r.id, r.search])),
     },
-    variants: await variantPages(results, slugs, options.chartsFor, { render, onVariant: progress ? (d) => progress('charts', d, total) : undefined }),
+    variants: [] as VariantPage[],
     assays,
     residues: await residueCharts(results, render),
     compare: await compareCharts(results, render),
     methods: methodsData(results),
     provenance: provenanceData(results),
   };
+}
+
+/** Everything the templates read, computed from the results alone (all variant pages in memory: for small studies and tests). */
+export async function siteData(results: StudyResults, options: BuildSiteOptions = {}) {
+  const prepared = prepare(results, options);
+  try {
+    const site = await studyData(results, options, prepared);
+    const total = results.variants.length;
+    const progress = options.onProgress;
+    site.variants = await variantPages(results, prepared.slugs, options.chartsFor, { render: prepared.render, onVariant: progress ? (d) => progress('charts', d, total) : undefined });
+    return site;
   } finally {
-    await ownRenderer?.close();
+    await prepared.close();
   }
 }
 
-/** Build the site into outDir (which should be empty). Returns the number of HTML pages written. */
-export async function buildSite(results: StudyResults, outDir: string, options: BuildSiteOptions = {}): Promise<{ pages: number }> {
-  const site = await siteData(results, options);
-  options.onProgress?.('pages', 0, 1);
-  const elev = new Eleventy(templatesDir, outDir, {
+/** One Eleventy run: `input` is the templates folder or one template in it; returns the HTML pages written. */
+async function runEleventy(input: string, outDir: string, site: unknown): Promise<number> {
+  const elev = new Eleventy(input, outDir, {
     configPath,
     quietMode: true,
     config(cfg) {
@@ -118,8 +144,41 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
   elev.disableLogger();
   // write() resolves to [passthroughCopies, templates] for the file system.
   const written = (await elev.write()) as unknown[];
-  await cp(join(templatesDir, 'assets'), join(outDir, 'assets'), { recursive: true });
-  options.onProgress?.('pages', 1, 1);
   const templates = (Array.isArray(written[1]) ? written[1] : []) as Array<{ outputPath?: unknown }>;
-  return { pages: templates.filter((r) => typeof r.outputPath === 'string' && r.outputPath.endsWith('.html')).length };
+  return templates.filter((r) => typeof r.outputPath === 'string' && r.outputPath.endsWith('.html')).length;
+}
+
+/**
+ * Build the site into outDir (which should be empty). Returns the number of HTML pages written.
+ * Progress: ('charts', variant pages done, total) while variant pages are drawn and written,
+ * then ('pages', 0, 1) and ('pages', 1, 1) around the study-level pages.
+ */
+export async function buildSite(results: StudyResults, outDir: string, options: BuildSiteOptions = {}): Promise<{ pages: number }> {
+  const prepared = prepare(results, options);
+  let pages = 0;
+  try {
+    const progress = options.onProgress;
+    const total = results.variants.length;
+    progress?.('charts', 0, total);
+    const site = await studyData(results, options, prepared);
+    const build = variantPageBuilder(results, prepared.slugs, options.chartsFor, { render: prepared.render, onVariant: progress ? (d) => progress('charts', d, total) : undefined });
+    const batches: VariantResult[][] = [];
+    for (let i = 0; i < results.variants.length; i += VARIANT_BATCH) batches.push(results.variants.slice(i, i + VARIANT_BATCH));
+    // Pipeline: the pool draws batch k + 1 while Eleventy writes batch k.
+    let next = batches.length > 0 ? build(batches[0]) : undefined;
+    for (let k = 0; k < batches.length; k++) {
+      const variants = await (next as Promise<VariantPage[]>);
+      next = k + 1 < batches.length ? build(batches[k + 1]) : undefined;
+      // Awaited in the next round; the no-op handler keeps a failure meanwhile from counting as unhandled.
+      next?.catch(() => undefined);
+      pages += await runEleventy(variantTemplate, outDir, { ...site, variants });
+    }
+    progress?.('pages', 0, 1);
+    pages += await runEleventy(templatesDir, outDir, site);
+    await cp(join(templatesDir, 'assets'), join(outDir, 'assets'), { recursive: true });
+    progress?.('pages', 1, 1);
+  } finally {
+    await prepared.close();
+  }
+  return { pages };
 }

@@ -1,5 +1,5 @@
 /** Data for the index table and the per-variant reports. */
-import { type ChartsFor, specTable } from '../charts/assay-charts.js';
+import { type ChartsFor, drawnSpec, specTable } from '../charts/assay-charts.js';
 import { fmt, fmtCi, fmtP, variantNames } from '../charts/chart-def.js';
 import { forestChart } from '../charts/forest.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
@@ -115,12 +115,23 @@ export interface VariantPagesOptions {
 
 /** Build every variant page (rendering its forest plot and assay charts). */
 export async function variantPages(results: StudyResults, slugs: Map<string, string>, chartsFor?: ChartsFor, options: VariantPagesOptions = {}): Promise<VariantPage[]> {
+  return variantPageBuilder(results, slugs, chartsFor, options)(results.variants);
+}
+
+/**
+ * A builder of variant pages for any subset of the study's variants (e.g. batches of 100, so
+ * that only one batch's SVGs are in memory at a time). Indexes are built once; prev/next links
+ * follow results.variants whatever the subset; `onVariant` counts across all calls.
+ */
+export function variantPageBuilder(results: StudyResults, slugs: Map<string, string>, chartsFor?: ChartsFor, options: VariantPagesOptions = {}): (subset: readonly VariantResult[]) => Promise<VariantPage[]> {
   const names = variantNames(results);
   const assaySlugs = new Map(results.assays.map((a) => [a.id, a.id]));
   const idx = byVariant(results);
   const render = options.render;
+  const position = new Map(results.variants.map((v, i) => [v.id, i]));
+  const link = (q: VariantResult | undefined) => (q ? { name: names.get(q.id) ?? q.short, href: PATHS.variant(slugs.get(q.id) as string) } : null);
   let done = 0;
-  const pages = await mapLimit(results.variants, options.concurrency ?? 8, async (v): Promise<VariantPage> => {
+  return (subset) => mapLimit(subset, options.concurrency ?? 8, async (v): Promise<VariantPage> => {
     const name = names.get(v.id) ?? v.short;
     const extra = chartsFor ? await chartsFor(v.id) : [];
     const myComps = idx.comps(v.id);
@@ -134,7 +145,7 @@ export async function variantPages(results: StudyResults, slugs: Map<string, str
       const charts = await renderBlocks(
         extra
           .filter((c) => c.assay === a.id)
-          .map((c, i) => ({ key: `assay:${v.id}:${a.id}:${i}`, title: c.title, description: c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`, spec: c.spec, table: specTable(c.spec) })),
+          .map((c, i) => ({ key: `assay:${v.id}:${a.id}:${i}`, title: c.title, description: c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`, spec: drawnSpec(c.spec), table: specTable(c.spec) })),
         render,
       );
       assays.push({
@@ -202,14 +213,8 @@ export async function variantPages(results: StudyResults, slugs: Map<string, str
       exclusions,
       sources: [...lines.keys()].sort().map((file) => ({ file, lines: lineRanges(lines.get(file) as number[]) || 'whole file' })),
       evidence: { level: v.evidence.level, scope: v.evidence.scope, sentence: v.evidence.sentence, calibration: cal ? fmtCalibration(cal) : null },
-      prev: null,
-      next: null,
+      prev: link(results.variants[(position.get(v.id) as number) - 1]),
+      next: link(results.variants[(position.get(v.id) as number) + 1]),
     };
   });
-  pages.forEach((p, i) => {
-    const link = (q: VariantPage | undefined) => (q ? { name: q.name, href: q.path } : null);
-    p.prev = link(pages[i - 1]);
-    p.next = link(pages[i + 1]);
-  });
-  return pages;
 }
