@@ -10,7 +10,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { analyseStudy } from '../../src/analysis/analyse-study.js';
 import { ASSAYS } from '../../src/assays/registry.js';
 import { changeOneVariant, syntheticStudy } from '../../src/bench/synthetic.js';
-import { chartsFromModules } from '../../src/charts/assay-charts.js';
+import { type AssayChart, chartsFromModules } from '../../src/charts/assay-charts.js';
+import { cacheEntryKey } from '../../src/charts/cache.js';
+import { variantNames } from '../../src/charts/chart-def.js';
+import { forestChart } from '../../src/charts/forest.js';
 import { createChartRenderer } from '../../src/charts/pool.js';
 import { canonical, canonicalSlow, chartKey } from '../../src/charts/render.js';
 import type { StudyResults } from '../../src/results/types.js';
@@ -43,11 +46,13 @@ const small = { variants: 5, filaments: 30, turnoverPoints: 60 };
 let base: StudyResults;
 let changed: StudyResults;
 let serial: Map<string, string>;
+let changedHgvs: string;
 
 beforeAll(async () => {
   const study = syntheticStudy(small);
   base = analyse(study);
   const label = (study.manifest.variants as Array<{ hgvs?: string }>)[2].hgvs as string;
+  changedHgvs = label;
   // Simulator labels are the short form of the HGVS (p.X12Y → X12Y).
   changed = analyse({ manifest: study.manifest, files: changeOneVariant(study.files, label.replace(/^p\./, '')) });
   const out = await fresh('serial');
@@ -100,6 +105,28 @@ describe('chart pool and cache', () => {
     await buildSite(base, out, { chartsFor: chartsFromModules(base, ASSAYS), sourceDateEpoch: 1_700_000_000, chartCache: await fresh('cache2') });
     expect(await snapshot(out)).toEqual(serial);
   }, 240_000);
+
+  it('a change to one variant changes the per-variant charts of that variant only', () => {
+    // Per-variant charts must not depend on other variants' data (q values, shared scales, …),
+    // or a warm rebuild redraws every report. Study-level charts may change.
+    const keys = (r: StudyResults) => {
+      const out = new Map<string, string>();
+      const names = variantNames(r);
+      const charts = chartsFromModules(r, ASSAYS);
+      for (const v of r.variants) {
+        const f = forestChart(r, v, names.get(v.id) ?? v.short);
+        if (f) out.set(`forest ${v.id}`, cacheEntryKey(f.spec, { key: f.key, title: f.title, description: f.description }));
+        (charts(v.id) as AssayChart[]).forEach((c, i) => out.set(`${c.assay} ${v.id} ${i}`, cacheEntryKey(c.spec, { title: c.title })));
+      }
+      return out;
+    };
+    const before = keys(base);
+    const after = keys(changed);
+    const changedId = changed.variants.find((v) => v.label === changedHgvs.replace(/^p\./, '') || v.short === changedHgvs.replace(/^p\./, ''))!.id;
+    const differing = [...before.keys()].filter((k) => before.get(k) !== after.get(k));
+    expect(differing.length).toBeGreaterThan(0);
+    expect(differing.filter((k) => !k.includes(` ${changedId}`))).toEqual([]);
+  });
 
   it('a failing render rejects instead of hanging', async () => {
     const renderer = createChartRenderer({ workers: 1, cacheDir: false });

@@ -3,7 +3,9 @@ import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
 import { effectsChart } from '../../src/charts/effects.js';
 import { forestChart } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
-import { chartKey, renderSvg, renumberIds } from '../../src/charts/render.js';
+import { chartKey, renderSvg, renumberIds, roundSvgGeometry, stripRedundant } from '../../src/charts/render.js';
+import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
+import { motilityChart, motilityPlotPoints } from '../../src/assays/motility.js';
 import { residueMapChart } from '../../src/charts/residue-map.js';
 import { scatterCharts } from '../../src/charts/scatter.js';
 import { lineRanges } from '../../src/site/view-common.js';
@@ -126,5 +128,42 @@ describe('formatting and paths (common practice, no source)', () => {
     expect(rootPrefix('index.html')).toBe('./');
     expect(relLink('variants/a.html', 'index.html')).toBe('../index.html');
     expect(lineRanges([9, 2, 3, 4, 4])).toBe('2–4, 9');
+  });
+});
+
+describe('lighter charts', () => {
+  it('rounds SVG geometry to 0.1 and leaves text alone', () => {
+    // Expected strings worked by hand from the rule (common practice, no source).
+    expect(roundSvgGeometry('<path d="M12.3456,7.0001L-0.04,3"/>')).toBe('<path d="M12.3,7L0,3"/>');
+    expect(roundSvgGeometry('<g transform="translate(10.25,3.449)"><text x="1.26">0.125</text></g>')).toBe('<g transform="translate(10.3,3.4)"><text x="1.3">0.125</text></g>');
+    expect(stripRedundant('<g class="mark-rule" pointer-events="none"><line opacity="1"/><path d="" display="none"/></g>')).toBe('<g><line/></g>');
+  });
+
+  it('bins large motility units and keeps small ones per filament', () => {
+    const fil = (v: number, i: number) => ({ movie: 'm1', filament: `f${i}`, velocityUmS: v, at: { file: 'v.csv', line: i + 2 } });
+    const small = motilityPlotPoints([0.01, 0.8].map(fil), 0.05);
+    expect(small).toEqual([
+      { movie: 'm1', filament: 'f0', velocity: 0.01, state: 'immobile' },
+      { movie: 'm1', filament: 'f1', velocity: 0.8, state: 'moving' },
+    ]);
+    // 61 filaments: 1 immobile at 0.02, 30 at 0.05 (edge: bin [0.05, 0.1)), 30 at 0.81 (bin [0.8, 0.85)); counts by hand.
+    const velocities = [0.02, ...Array(30).fill(0.05), ...Array(30).fill(0.81)];
+    const large = motilityPlotPoints(velocities.map(fil), 0.05);
+    expect(large).toEqual([
+      { binStart: 0, binEnd: 0.05, state: 'immobile', count: 1 },
+      { binStart: 0.05, binEnd: 0.1, state: 'moving', count: 30 },
+      { binStart: 0.8, binEnd: 0.85, state: 'moving', count: 30 },
+    ]);
+    const unit = (variant: string, points: typeof large) => ({
+      assay: 'motility', variant, unit: `${variant}-1`, batch: 'B1', metrics: { velocity: 0.43, fractionImmobile: 1 / 61 }, flags: [], nTechnical: 61, plot: { points }, source: [],
+    });
+    const spec = motilityChart({ variantLabel: 'X1Y', variantUnits: [unit('v', large)], wtUnits: [unit('wt', small)] });
+    const table = specTable(spec);
+    expect(table.rows).toHaveLength(2);
+    expect(table.note).toContain('0.05 µm/s bins');
+    expect(String(spec.description)).toContain('0.05 µm/s');
+    const rows = (spec.data as { values: Array<Record<string, unknown>> }).values.filter((r) => r.kind === 'bin');
+    expect(rows).toHaveLength(5); // 3 bins of the large unit + 2 of the small one
+    expect(drawnSpec(spec)).not.toHaveProperty('usermeta');
   });
 });
