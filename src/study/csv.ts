@@ -118,7 +118,13 @@ export function decodeText(data: Uint8Array | string): DecodeResult {
 
 /** Count ',' and ';' outside double quotes in the first non-comment, non-blank line. */
 export function sniffDelimiter(text: string): ',' | ';' {
-  for (const line of text.split(/\r\n|\n|\r/)) {
+  // Lines end at CRLF, LF or CR; only the lines up to the first counted one are cut out.
+  let pos = 0;
+  while (pos <= text.length) {
+    let end = pos;
+    while (end < text.length && text.charCodeAt(end) !== 10 && text.charCodeAt(end) !== 13) end++;
+    const line = text.slice(pos, end);
+    pos = end + (text.charCodeAt(end) === 13 && text.charCodeAt(end + 1) === 10 ? 2 : 1);
     if (line.trim() === '' || line.startsWith('#')) continue;
     let commas = 0;
     let semis = 0;
@@ -133,18 +139,28 @@ export function sniffDelimiter(text: string): ',' | ';' {
   return ',';
 }
 
+/** The delimiter `scanCsv` and `parseCsv` use for this text (BOM skipped, then `sniffDelimiter`). */
+export function csvDelimiter(input: string): ',' | ';' {
+  return sniffDelimiter(input.charCodeAt(0) === 0xfeff ? input.slice(1) : input);
+}
+
 /** Offsets at which each line starts, for offset → line lookups. */
-function lineStarts(text: string): number[] {
-  const starts = [0];
+function lineStarts(text: string): Uint32Array {
+  let n = 1;
+  for (let i = text.indexOf('\n'); i >= 0; i = text.indexOf('\n', i + 1)) n++;
+  for (let i = text.indexOf('\r'); i >= 0; i = text.indexOf('\r', i + 1)) if (text.charCodeAt(i + 1) !== 10) n++;
+  const starts = new Uint32Array(n);
+  let k = 1;
   for (let i = 0; i < text.length; i++) {
     const c = text.charCodeAt(i);
-    if (c === 10) starts.push(i + 1);
-    else if (c === 13 && text.charCodeAt(i + 1) !== 10) starts.push(i + 1);
+    if (c === 10) starts[k++] = i + 1;
+    else if (c === 13 && text.charCodeAt(i + 1) !== 10) starts[k++] = i + 1;
   }
   return starts;
 }
 
-function lineAt(starts: number[], offset: number): number {
+/** 1-based line holding `offset` (binary search over the line starts). */
+function lineAt(starts: Uint32Array, offset: number): number {
   let lo = 0;
   let hi = starts.length - 1;
   while (lo < hi) {
@@ -155,13 +171,99 @@ function lineAt(starts: number[], offset: number): number {
   return lo + 1;
 }
 
-/** Parse decoded CSV text into a header and rows with line numbers. */
-export function parseCsv(input: string, file: string): CsvTable {
+/** Number of line breaks (CRLF, LF or CR, CRLF counted once) in a cell. */
+function countBreaks(c: string): number {
+  if (c.indexOf('\n') < 0 && c.indexOf('\r') < 0) return 0;
+  let n = 0;
+  for (let i = 0; i < c.length; i++) {
+    const ch = c.charCodeAt(i);
+    if (ch === 10) n++;
+    else if (ch === 13) {
+      n++;
+      if (c.charCodeAt(i + 1) === 10) i++;
+    }
+  }
+  return n;
+}
+
+/** papaparse's line-ending guess (5.7.1, ParserHandle.guessLineEndings) for text without quotes. */
+function guessNewline(text: string): '\n' | '\r\n' | '\r' {
+  const input = text.substring(0, 1024 * 1024);
+  const firstR = input.indexOf('\r');
+  if (firstR < 0) return '\n';
+  const firstN = input.indexOf('\n');
+  // n.length > 1 && n[0].length < r[0].length
+  if (firstN >= 0 && firstN < firstR) return '\n';
+  let pieces = 1;
+  let withN = 0;
+  for (let i = firstR; i >= 0; i = input.indexOf('\r', i + 1)) {
+    pieces++;
+    if (input.charCodeAt(i + 1) === 10) withN++;
+  }
+  return withN >= pieces / 2 ? '\r\n' : '\r';
+}
+
+/** Are all cells empty or whitespace (papaparse's skipEmptyLines: 'greedy')? */
+function blankRow(cells: string[]): boolean {
+  for (let i = 0; i < cells.length; i++) if (cells[i].length > 0 && cells[i].trim() !== '') return false;
+  return true;
+}
+
+/**
+ * Called once per CSV row in file order (the header is the first row): the row's cells and the
+ * 1-based file line where it starts. The cells array is the caller's to keep.
+ */
+export type CsvRowSink = (cells: string[], line: number) => void;
+
+/**
+ * Parse decoded CSV text row by row without keeping the rows: the streaming core of `parseCsv`.
+ * Quoting problems are returned as issues (one per broken row), in file order.
+ *
+ * Method: text without any double quote is split exactly as papaparse 5.7.1 does in its own
+ * "fast mode" (line-ending guess, split on that line ending and the delimiter, '#' comments,
+ * greedy blank-line skipping), without papaparse's per-row result objects; any other text goes
+ * through papaparse. Either way, a row's line is the line of its last character minus the line
+ * breaks inside its cells, found by binary search in one precomputed table of line starts.
+ */
+export function scanCsv(input: string, file: string, onRow: CsvRowSink): { delimiter: ',' | ';'; issues: Issue[] } {
   const text = input.charCodeAt(0) === 0xfeff ? input.slice(1) : input;
   const delimiter = sniffDelimiter(text);
   const starts = lineStarts(text);
-  const rows: CsvRow[] = [];
   const issues: Issue[] = [];
+  /** Line where a row starts, from papaparse's cursor (offset just past the row and its line break). */
+  const rowLine = (cells: string[], cursor: number): number => {
+    const end = Math.max(0, Math.min(cursor, text.length) - 1);
+    const endLine = lineAt(starts, end);
+    // Line breaks inside the row's cells; a break at the very end of the last cell (a stray CR
+    // before the row's own line ending) is on the row's last line and does not count.
+    let inner = 0;
+    for (let i = 0; i < cells.length; i++) inner += countBreaks(cells[i]);
+    const lastCell = cells[cells.length - 1] ?? '';
+    const lastCode = lastCell.charCodeAt(lastCell.length - 1);
+    if (lastCode === 10 || lastCode === 13) inner--;
+    return Math.max(1, endLine - inner);
+  };
+  if (text.length === 0) return { delimiter, issues };
+
+  if (text.indexOf('"') < 0) {
+    const newline = guessNewline(text);
+    const nl = newline.length;
+    let pos = 0;
+    for (;;) {
+      const at = text.indexOf(newline, pos);
+      const last = at < 0;
+      const lineText = last ? text.slice(pos) : text.slice(pos, at);
+      const cursor = last ? text.length : at + nl;
+      pos = cursor;
+      if (lineText.charCodeAt(0) !== 35) {
+        const cells = lineText.split(delimiter);
+        if (!blankRow(cells)) onRow(cells, rowLine(cells, cursor));
+      }
+      if (last) break;
+    }
+    return { delimiter, issues };
+  }
+
   Papa.parse<string[]>(text, {
     delimiter,
     header: false,
@@ -169,15 +271,7 @@ export function parseCsv(input: string, file: string): CsvTable {
     skipEmptyLines: 'greedy',
     step(result) {
       const cells = result.data;
-      // cursor is the offset just after the row (past its line break).
-      const end = Math.max(0, Math.min(result.meta.cursor, text.length) - 1);
-      const endLine = lineAt(starts, end);
-      // Line breaks inside the row's cells; a break at the very end of the last cell (a stray CR
-      // before the row's own line ending) is on the row's last line and does not count.
-      const breaks = (c: string) => c.match(/\r\n|\n|\r/g)?.length ?? 0;
-      const lastCell = cells[cells.length - 1] ?? '';
-      const inner = cells.reduce((n, c) => n + breaks(c), 0) - (/(\r\n|\n|\r)$/.test(lastCell) ? 1 : 0);
-      let line = Math.max(1, endLine - inner);
+      let line = rowLine(cells, result.meta.cursor);
       // One issue per broken row: papaparse often reports the same quote twice.
       for (const err of result.errors.slice(0, 1)) {
         if (typeof err.index === 'number') {
@@ -189,8 +283,17 @@ export function parseCsv(input: string, file: string): CsvTable {
           issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at, col: offset - starts[at - 1] + 1 }));
         } else issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line }));
       }
-      rows.push({ cells, line });
+      onRow(cells, line);
     },
+  });
+  return { delimiter, issues };
+}
+
+/** Parse decoded CSV text into a header and rows with line numbers (all rows kept; see `scanCsv`). */
+export function parseCsv(input: string, file: string): CsvTable {
+  const rows: CsvRow[] = [];
+  const { delimiter, issues } = scanCsv(input, file, (cells, line) => {
+    rows.push({ cells, line });
   });
   const [header, ...data] = rows;
   return { delimiter, header, rows: data, issues };
@@ -212,6 +315,8 @@ const PLAIN_NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
  * @example parseNumberCell('1,5', '.') // { ok: false, reason: 'decimal-comma' }
  */
 export function parseNumberCell(text: string, decimal: '.' | ',', integer = false): NumberParse {
+  const fast = numberCellValue(text, decimal, integer);
+  if (fast === fast) return { ok: true, value: fast };
   let t = text;
   if (decimal === ',') {
     if (t.includes('.')) return { ok: false, reason: PLAIN_NUMBER.test(t) ? 'decimal-point' : 'not-a-number' };
@@ -224,4 +329,61 @@ export function parseNumberCell(text: string, decimal: '.' | ',', integer = fals
   if (!Number.isFinite(value)) return { ok: false, reason: 'not-a-number' };
   if (integer && !Number.isInteger(value)) return { ok: false, reason: 'not-an-integer' };
   return { ok: true, value };
+}
+
+/**
+ * Does `t` match PLAIN_NUMBER with `sep` (46 '.', 44 ',') as the decimal separator?
+ * A hand-written scan of `[+-]?(\d+(SEP\d*)?|SEP\d+)([eE][+-]?\d+)?`, digits ASCII 0–9 only.
+ */
+function isPlainNumber(t: string, sep: number): boolean {
+  const n = t.length;
+  let i = 0;
+  let c = t.charCodeAt(0);
+  if (c === 43 || c === 45) c = t.charCodeAt(++i);
+  let intDigits = 0;
+  while (c >= 48 && c <= 57) {
+    intDigits++;
+    c = t.charCodeAt(++i);
+  }
+  if (c === sep) {
+    c = t.charCodeAt(++i);
+    let fracDigits = 0;
+    while (c >= 48 && c <= 57) {
+      fracDigits++;
+      c = t.charCodeAt(++i);
+    }
+    if (intDigits === 0 && fracDigits === 0) return false;
+  } else if (intDigits === 0) return false;
+  if (c === 101 || c === 69) {
+    c = t.charCodeAt(++i);
+    if (c === 43 || c === 45) c = t.charCodeAt(++i);
+    let expDigits = 0;
+    while (c >= 48 && c <= 57) {
+      expDigits++;
+      c = t.charCodeAt(++i);
+    }
+    if (expDigits === 0) return false;
+  }
+  return i === n;
+}
+
+/**
+ * The value of a number cell when `parseNumberCell` would accept it, else NaN (then
+ * `parseNumberCell` gives the reason). Same rules, without a result object per cell: a scan of
+ * the plain-number pattern, then Number() of the text (decimal ',' first replaced by '.').
+ * @example numberCellValue('1,5', ',') // 1.5
+ * @example numberCellValue('1,5', '.') // NaN (decimal comma)
+ */
+export function numberCellValue(text: string, decimal: '.' | ',', integer = false): number {
+  let value: number;
+  if (decimal === ',') {
+    if (!isPlainNumber(text, 44)) return NaN;
+    value = Number(text.replace(',', '.'));
+  } else {
+    if (!isPlainNumber(text, 46)) return NaN;
+    value = Number(text);
+  }
+  if (value - value !== 0) return NaN; // not finite (overflow such as 1e999)
+  if (integer && !Number.isInteger(value)) return NaN;
+  return value;
 }

@@ -3,7 +3,8 @@
  * (no fs; SHA-256 via node:crypto, a pure computation).
  *
  *   manifest text ──readManifest──▶ genes, variants, file entries
- *        │ per file: decode UTF-8 ─▶ parseCsv ─▶ readRows (header, units, cells, row schema)
+ *        │ per file: decode UTF-8 ─▶ scanCsv ─▶ row reader (header, units, cells, row schema),
+ *        │           row by row as the file is parsed (no table of cells kept)
  *        ▼
  *   cross checks (WT in every batch, unused variants, exclusions) ─▶ LoadOutcome
  *
@@ -11,10 +12,10 @@
  */
 import { createHash } from 'node:crypto';
 import { checkExclusionsMatch, checkUnusedVariants, checkWildTypePerBatch } from './checks.js';
-import { decodeText, parseCsv } from './csv.js';
+import { csvDelimiter, decodeText, scanCsv } from './csv.js';
 import { readManifest } from './manifest.js';
 import { MSG, issue } from './messages.js';
-import { readRows } from './rows.js';
+import { createRowReader, type StringPool } from './rows.js';
 import { MANIFEST_NAME } from './schemas.js';
 import type { InputFile, InputKind, Issue, LoadOutcome, RowsByKind, Study } from './types.js';
 
@@ -74,6 +75,7 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
   const variantsSeen = new Set<string>();
   const batches = new Set<string>();
   const units = new Set<string>();
+  const pool: StringPool = new Map();
   const readerFlagged = new Set((input.readIssues ?? []).map((i) => i.at.jsonPath));
 
   for (const spec of manifest.files) {
@@ -93,10 +95,19 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
       issues.push(issue(decoded.problem, { file: path, line: decoded.line, col: decoded.col }));
       continue;
     }
+    // Rows are read while the file is parsed; the issues keep the order of parse, then read.
     const text = decoded.text;
-    const table = parseCsv(text, path);
-    for (const i of table.issues) issues.push(i);
-    const got = readRows(spec.entry.kind, table, spec, path, manifest.byLabel, issues);
+    const rowIssues: Issue[] = [];
+    const reader = createRowReader(spec.entry.kind, csvDelimiter(text), spec, path, manifest.byLabel, rowIssues, pool);
+    let header = true;
+    const scanned = scanCsv(text, path, (cells, line) => {
+      if (header) reader.header(cells, line);
+      else reader.row(cells, line);
+      header = false;
+    });
+    const got = reader.finish();
+    for (const i of scanned.issues) issues.push(i);
+    for (const i of rowIssues) issues.push(i);
     const target = (rows[spec.entry.kind] ??= []);
     for (const r of got.rows as unknown[]) target.push(r);
     got.variantsSeen.forEach((id) => variantsSeen.add(id));

@@ -8,10 +8,11 @@
  */
 import type { ErrorObject } from 'ajv';
 import type { CsvTable } from './csv.js';
-import { parseNumberCell } from './csv.js';
+import { numberCellValue, parseNumberCell } from './csv.js';
 import type { FileSpec } from './manifest.js';
 import { MSG, issue } from './messages.js';
-import { CATALOGUE, validators, type ColumnDef } from './schemas.js';
+import { compileRowCheck } from './row-check.js';
+import { CATALOGUE, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
 import type { InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
 import { conversionFactor, lookupUnit, normaliseUnitText, UNITS, unitChoices } from './units.js';
 
@@ -71,6 +72,64 @@ function ruleText(err: ErrorObject): string {
   return `${p.comparison} ${p.limit}`;
 }
 
+/** Flat copy of a string, so a kept cell does not hold on to the text of its whole file. */
+function detach(s: string): string {
+  // Strings of 13+ characters cut from a larger string keep a reference to it (V8 sliced strings);
+  // slicing a fresh concatenation makes a new flat string.
+  return s.length < 13 ? s : (s + ' ').slice(0, s.length);
+}
+
+/**
+ * Strings kept in typed rows (batch, unit, well, …) repeat on thousands of rows: one shared
+ * instance per distinct text. Pass the same pool to every file of a study.
+ */
+export type StringPool = Map<string, string>;
+
+function pooled(pool: StringPool, s: string): string {
+  const got = pool.get(s);
+  if (got !== undefined) return got;
+  const kept = detach(s);
+  pool.set(kept, kept);
+  return kept;
+}
+
+/**
+ * Key of a list of cell values for duplicate detection: equal keys exactly when the lists are
+ * equal (as JSON.stringify would compare them, given one type per column). Cells are joined with
+ * NUL, which decoded files cannot contain; lists that do contain NUL use JSON, which writes NUL
+ * as an escape, so the two forms never meet.
+ */
+function joinKey(parts: Array<string | number>): string {
+  if (parts.length === 1) return String(parts[0]);
+  const joined = parts.join('\0');
+  let nuls = 0;
+  for (let i = joined.indexOf('\0'); i >= 0; i = joined.indexOf('\0', i + 1)) nuls++;
+  return nuls === parts.length - 1 ? joined : JSON.stringify(parts);
+}
+
+type RowFactory = (variant: string, unit: string, batch: string, file: string, line: number, vals: ReadonlyArray<unknown>) => Record<string, unknown>;
+
+/**
+ * A function that builds a typed row with every field at once (one object literal, so every row
+ * of a file has one shape and its fields live in the object), for rows where every field has a
+ * value. Field names come from the row schemas (x-field); undefined if one is not a plain name.
+ */
+function rowFactory(fields: readonly string[], slots: readonly number[]): RowFactory | undefined {
+  if (!fields.every((f) => /^[A-Za-z_$][A-Za-z0-9_$]*$/.test(f) && !['variant', 'unit', 'batch', 'at'].includes(f))) return undefined;
+  const body = fields.map((f, k) => `, ${f}: vals[${slots[k]}]`).join('');
+  return new Function('variant', 'unit', 'batch', 'file', 'line', 'vals', `return { variant, unit, batch, at: { file, line }${body} };`) as RowFactory;
+}
+
+/** Feeds one file's CSV rows, header first, and collects the typed rows. */
+export interface RowReader<K extends InputKind = InputKind> {
+  /** The first CSV row. */
+  header(cells: string[], line: number): void;
+  /** Every later CSV row, in file order. */
+  row(cells: string[], line: number): void;
+  /** After the last row: end-of-file checks, then the rows read. */
+  finish(): FileRows<K>;
+}
+
 /** Read the rows of one file. Issues are appended to `issues`. */
 export function readRows<K extends InputKind>(
   kind: K,
@@ -80,258 +139,360 @@ export function readRows<K extends InputKind>(
   byLabel: Map<string, Variant>,
   issues: Issue[],
 ): FileRows<K> {
-  const cat = CATALOGUE[kind];
-  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), batches: new Set(), units: new Set(), rowCount: table.rows.length };
-  if (!table.header) {
-    issues.push(issue(MSG.noHeader(), { file }));
-    return out;
-  }
-  const headerLine = table.header.line;
-  if (spec.decimal === ',' && table.delimiter === ',') {
-    issues.push(issue(MSG.decimalWithCommaDelimiter(), { file, line: headerLine }));
-    return out;
-  }
+  const reader = createRowReader(kind, table.delimiter, spec, file, byLabel, issues);
+  if (table.header) reader.header(table.header.cells, table.header.line);
+  for (const row of table.rows) reader.row(row.cells, row.line);
+  return reader.finish();
+}
 
-  // 1. Header.
-  let headerOk = true;
-  const columns: ResolvedColumn[] = [];
-  const seen = new Map<string, number>();
-  table.header.cells.forEach((cell, index) => {
-    const at: SourceRef = { file, line: headerLine, column: cell.trim(), col: index + 1 };
-    const split = splitHeader(cell, cat.columns);
-    const key = (split.def?.name ?? split.name).toLowerCase();
-    if (seen.has(key)) {
-      issues.push(issue(MSG.duplicateHeader(split.def?.name ?? split.name), at));
-      headerOk = false;
+/**
+ * Row by row form of `readRows`, for reading a file while it is parsed (no table of rows kept).
+ * Issues are appended to `issues` in the same order as `readRows` gives them. Strings kept in the
+ * typed rows are shared through `pool` (one per study).
+ */
+export function createRowReader<K extends InputKind>(
+  kind: K,
+  delimiter: ',' | ';',
+  spec: FileSpec,
+  file: string,
+  byLabel: Map<string, Variant>,
+  issues: Issue[],
+  pool: StringPool = new Map(),
+): RowReader<K> {
+  const cat = CATALOGUE[kind];
+  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), batches: new Set(), units: new Set(), rowCount: 0 };
+  let state: 'no-header' | 'skip' | 'read' = 'no-header';
+  let headerLine = 0;
+  let width = 0;
+  let readRow: (cells: string[], line: number) => void = () => {};
+
+  function header(headerCells: string[], line: number): void {
+    headerLine = line;
+    state = 'skip';
+    if (spec.decimal === ',' && delimiter === ',') {
+      issues.push(issue(MSG.decimalWithCommaDelimiter(), { file, line: headerLine }));
       return;
     }
-    seen.set(key, index);
-    if (!split.def) {
-      if (split.name !== '') issues.push(issue(MSG.unknownColumn(split.name, kind), at));
-      return;
-    }
-    const def = split.def;
-    let factor = 1;
-    let unit: string | undefined;
-    if (!def.quantity) {
-      if (split.unit !== undefined) {
-        issues.push(issue(MSG.unitNotExpected(def.name, split.unit), at));
-        headerOk = false;
-      }
-    } else {
-      const manifestUnit = spec.units[def.name];
-      const choices = [...unitChoices(def.quantity), ...(def.pixels ? ['px'] : [])];
-      const resolve = (text: string) => (def.pixels && normaliseUnitText(text) === 'px' ? 'px' : lookupUnit(def.quantity!, text)?.symbol);
-      const fromHeader = split.unit !== undefined ? resolve(split.unit) : undefined;
-      if (split.unit !== undefined && !fromHeader) {
-        issues.push(issue(MSG.unitUnknown(split.unit, UNITS[def.quantity].label, choices), at));
+    // 1. Header.
+    let headerOk = true;
+    const columns: ResolvedColumn[] = [];
+    const seen = new Map<string, number>();
+    headerCells.forEach((cell, index) => {
+      const at: SourceRef = { file, line: headerLine, column: cell.trim(), col: index + 1 };
+      const split = splitHeader(cell, cat.columns);
+      const key = (split.def?.name ?? split.name).toLowerCase();
+      if (seen.has(key)) {
+        issues.push(issue(MSG.duplicateHeader(split.def?.name ?? split.name), at));
         headerOk = false;
         return;
       }
-      const fromManifest = manifestUnit !== undefined ? resolve(manifestUnit) : undefined;
-      if (fromHeader && fromManifest && fromHeader !== fromManifest) {
-        issues.push(issue(MSG.unitConflict(def.name, fromHeader, fromManifest), at));
-        headerOk = false;
+      seen.set(key, index);
+      if (!split.def) {
+        if (split.name !== '') issues.push(issue(MSG.unknownColumn(split.name, kind), at));
         return;
       }
-      unit = fromHeader ?? fromManifest;
-      if (!unit) {
-        issues.push(issue(MSG.noUnit(def.name, choices), at));
-        headerOk = false;
-        return;
-      }
-      if (unit === 'px') {
-        if (spec.pixelSizeUm === undefined) {
-          issues.push(issue(MSG.needsPixelSize(def.name), at));
+      const def = split.def;
+      let factor = 1;
+      let unit: string | undefined;
+      if (!def.quantity) {
+        if (split.unit !== undefined) {
+          issues.push(issue(MSG.unitNotExpected(def.name, split.unit), at));
+          headerOk = false;
+        }
+      } else {
+        const manifestUnit = spec.units[def.name];
+        const choices = [...unitChoices(def.quantity), ...(def.pixels ? ['px'] : [])];
+        const resolve = (text: string) => (def.pixels && normaliseUnitText(text) === 'px' ? 'px' : lookupUnit(def.quantity!, text)?.symbol);
+        const fromHeader = split.unit !== undefined ? resolve(split.unit) : undefined;
+        if (split.unit !== undefined && !fromHeader) {
+          issues.push(issue(MSG.unitUnknown(split.unit, UNITS[def.quantity].label, choices), at));
           headerOk = false;
           return;
         }
-        factor = spec.pixelSizeUm;
-      } else {
-        factor = conversionFactor(def.quantity, unit)!;
-      }
-    }
-    columns.push({ index, header: cell.trim(), def, factor, unit });
-  });
-  const has = (name: string) => columns.some((c) => c.def.name === name);
-  const headerAt: SourceRef = { file, line: headerLine };
-  for (const def of cat.columns) {
-    if (def.required && !seen.has(def.name.toLowerCase())) {
-      issues.push(issue(MSG.missingColumn(def.name, kind), headerAt));
-      headerOk = false;
-    }
-  }
-  for (const group of cat.alternatives) {
-    if (!group.some((name) => seen.has(name.toLowerCase()))) {
-      issues.push(issue(MSG.missingAlternative(group, kind), headerAt));
-      headerOk = false;
-    }
-  }
-  if (kind === 'motility-tracks' && has('frame') && !has('time') && spec.frameIntervalS === undefined) {
-    issues.push(issue(MSG.needsFrameInterval(), headerAt));
-    headerOk = false;
-  }
-  if (kind === 'atpase-nadh' && !has('path') && spec.pathLengthCm === undefined) {
-    issues.push(issue(MSG.needsPathLength(), headerAt));
-    headerOk = false;
-  }
-  if (!headerOk) return out;
-  if (table.rows.length === 0) {
-    issues.push(issue(MSG.noRows(), headerAt));
-    return out;
-  }
-
-  // 2. Rows.
-  const validate = validators().rows[kind];
-  const byName = new Map(columns.map((c) => [c.def.name, c]));
-  const keyColumns = cat.rowKey.filter((k) => byName.has(k));
-  const keyComplete = cat.rowKey.every((k) => byName.has(k) || (k === 'frame' && byName.has('time')) || (k === 'time' && byName.has('frame')));
-  const firstByKey = new Map<string, number>();
-  const firstByRow = new Map<string, number>();
-  const crossSectionWarned = new Set<string>();
-  const width = table.header.cells.length;
-  const rows = out.rows as unknown as Record<string, unknown>[];
-
-  for (const row of table.rows) {
-    const line = row.line;
-    const cellAt = (c: ResolvedColumn): SourceRef => ({ file, line, column: c.def.name, col: c.index + 1 });
-    if (row.cells.length !== width) {
-      // Column: the first extra field, or the first missing one.
-      issues.push(issue(MSG.fieldCount(width, row.cells.length), { file, line, col: Math.min(width, row.cells.length) + 1 }));
-      continue;
-    }
-    const obj: Record<string, string | number> = {};
-    let bad = false;
-    let skipped = false;
-    const failed = new Set<string>();
-    for (const c of columns) {
-      const text = row.cells[c.index].trim();
-      const token = spec.missing.find((m) => m === text);
-      if (token !== undefined) {
-        if (c.def.required || cat.alternatives.some((g) => g.includes(c.def.name))) {
-          if (!skipped) issues.push(issue(MSG.missingSkipped(c.def.name, token), cellAt(c)));
-          skipped = true;
+        const fromManifest = manifestUnit !== undefined ? resolve(manifestUnit) : undefined;
+        if (fromHeader && fromManifest && fromHeader !== fromManifest) {
+          issues.push(issue(MSG.unitConflict(def.name, fromHeader, fromManifest), at));
+          headerOk = false;
+          return;
         }
-        continue;
-      }
-      if (text === '') continue;
-      if (c.def.type === 'string') {
-        obj[c.def.name] = text;
-        continue;
-      }
-      const parsed = parseNumberCell(text, spec.decimal, c.def.type === 'integer');
-      if (!parsed.ok) {
-        const msg =
-          parsed.reason === 'decimal-comma' ? MSG.decimalCommaUndeclared(c.def.name, text)
-          : parsed.reason === 'decimal-point' ? MSG.decimalPointWithComma(c.def.name, text)
-          : parsed.reason === 'not-an-integer' ? MSG.notAnInteger(c.def.name, text)
-          : MSG.notANumber(c.def.name, text);
-        issues.push(issue(msg, cellAt(c)));
-        failed.add(c.def.name);
-        bad = true;
-        continue;
-      }
-      obj[c.def.name] = parsed.value * c.factor;
-    }
-    if (skipped) continue;
-    if (!validate(obj)) {
-      for (const err of validate.errors ?? []) {
-        if (err.keyword === 'if') continue;
-        const name = err.keyword === 'required' ? (err.params as { missingProperty: string }).missingProperty : err.instancePath.slice(1);
-        if (failed.has(name)) continue; // already reported as a bad number
-        const c = byName.get(name);
-        const at = c ? cellAt(c) : { file, line, column: name };
-        if (err.keyword === 'required') {
-          const group = cat.alternatives.find((g) => g.includes(name));
-          if (group) issues.push(issue(MSG.neitherAlternative(group), { file, line }));
-          else if (kind === 'atpase-nadh' && (name === 'variant' || name === 'unit')) issues.push(issue(MSG.needsVariantUnit(name), at));
-          else issues.push(issue(MSG.emptyCell(name), at));
-        } else if (['minimum', 'maximum', 'exclusiveMinimum', 'exclusiveMaximum'].includes(err.keyword)) {
-          const shown = c ? Number((Number(obj[name]) / c.factor).toPrecision(12)) : Number(obj[name]);
-          issues.push(issue(MSG.belowMinimum(name, shown, ruleText(err)), at));
-        } else if (err.keyword === 'enum') {
-          issues.push(issue(MSG.notAllowed(name, String(obj[name]), (err.params as { allowedValues: unknown[] }).allowedValues), at));
+        unit = fromHeader ?? fromManifest;
+        if (!unit) {
+          issues.push(issue(MSG.noUnit(def.name, choices), at));
+          headerOk = false;
+          return;
+        }
+        if (unit === 'px') {
+          if (spec.pixelSizeUm === undefined) {
+            issues.push(issue(MSG.needsPixelSize(def.name), at));
+            headerOk = false;
+            return;
+          }
+          factor = spec.pixelSizeUm;
         } else {
-          issues.push(issue(MSG.schemaOtherCell(name, err.message ?? err.keyword), at));
+          factor = conversionFactor(def.quantity, unit)!;
         }
       }
-      bad = true;
-    }
-    if (bad) continue;
-
-    // Variant lookup (actin-only NADH wells have none).
-    const label = obj.variant as string | undefined;
-    let variantId = '';
-    if (label !== undefined) {
-      const variant = byLabel.get(label);
-      if (!variant) {
-        issues.push(issue(MSG.unknownVariant(label), cellAt(byName.get('variant')!)));
-        continue;
-      }
-      out.variantsSeen.add(variant.id);
-      variantId = variant.id;
-    }
-
-    // Typed row.
-    const typed: Record<string, unknown> = { variant: variantId, unit: (obj.unit as string | undefined) ?? '', batch: obj.batch, at: { file, line } };
-    for (const c of columns) {
-      if (c.def.name === 'variant' || c.def.name === 'unit' || c.def.name === 'batch') continue;
-      if (obj[c.def.name] !== undefined) typed[c.def.field] = obj[c.def.name];
-    }
-    if (kind === 'motility-tracks') {
-      if (typed.timeS === undefined) typed.timeS = (typed.frame as number) * spec.frameIntervalS!;
-      delete typed.frame;
-    }
-    if (kind === 'atpase-nadh' && typed.pathCm === undefined) typed.pathCm = spec.pathLengthCm;
-    if (kind === 'force-pca' && typed.tensionKPa === undefined) {
-      const area = (typed.areaMm2 as number | undefined) ?? spec.crossSectionByUnitMm2?.[typed.unit as string] ?? spec.crossSectionMm2;
-      if (area === undefined) {
-        if (!crossSectionWarned.has(typed.unit as string)) issues.push(issue(MSG.needsCrossSection(typed.unit as string), cellAt(byName.get('force')!)));
-        crossSectionWarned.add(typed.unit as string);
-        continue;
-      }
-      typed.tensionKPa = (typed.forceMN as number) / area;
-    }
-    delete typed.forceMN;
-    delete typed.areaMm2;
-
-    // Plausibility (canonical units).
-    for (const c of columns) {
-      const p = c.def.plausible;
-      const v = obj[c.def.name];
-      if (!p || typeof v !== 'number') continue;
-      if ((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min)) {
-        const unit = c.def.quantity ? UNITS[c.def.quantity].canonical : '';
-        issues.push(issue(MSG.implausible(c.def.name, Number(v.toPrecision(6)), unit, p.reason), cellAt(c)));
+      columns.push({ index, header: cell.trim(), def, factor, unit });
+    });
+    const has = (name: string) => columns.some((c) => c.def.name === name);
+    const headerAt: SourceRef = { file, line: headerLine };
+    for (const def of cat.columns) {
+      if (def.required && !seen.has(def.name.toLowerCase())) {
+        issues.push(issue(MSG.missingColumn(def.name, kind), headerAt));
+        headerOk = false;
       }
     }
-    if (kind === 'force-pca' && !byName.has('tension')) {
-      const p = CATALOGUE['force-pca'].columns.find((c) => c.name === 'tension')!.plausible!;
-      const v = typed.tensionKPa as number;
-      if ((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min)) {
-        issues.push(issue(MSG.implausible('tension', Number(v.toPrecision(6)), 'kPa', `${p.reason} (computed from force and area)`), cellAt(byName.get('force')!)));
+    for (const group of cat.alternatives) {
+      if (!group.some((name) => seen.has(name.toLowerCase()))) {
+        issues.push(issue(MSG.missingAlternative(group, kind), headerAt));
+        headerOk = false;
       }
     }
-
-    // Duplicates.
-    if (keyComplete) {
-      const key = JSON.stringify(keyColumns.map((k) => obj[k] ?? ''));
-      const first = firstByKey.get(key);
-      if (first !== undefined) {
-        issues.push(issue(MSG.duplicateKey(first, keyColumns.map((k) => `${k} ${obj[k] ?? ''}`).join(', ')), { file, line }));
-        continue;
-      }
-      firstByKey.set(key, line);
-    } else {
-      const key = JSON.stringify(row.cells.map((c) => c.trim()));
-      const first = firstByRow.get(key);
-      if (first !== undefined) issues.push(issue(MSG.duplicateRow(first), { file, line }));
-      else firstByRow.set(key, line);
+    if (kind === 'motility-tracks' && has('frame') && !has('time') && spec.frameIntervalS === undefined) {
+      issues.push(issue(MSG.needsFrameInterval(), headerAt));
+      headerOk = false;
     }
-
-    out.batches.add(typed.batch as string);
-    if (typed.unit) out.units.add(typed.unit as string);
-    rows.push(typed);
+    if (kind === 'atpase-nadh' && !has('path') && spec.pathLengthCm === undefined) {
+      issues.push(issue(MSG.needsPathLength(), headerAt));
+      headerOk = false;
+    }
+    if (!headerOk) return;
+    state = 'read';
+    width = headerCells.length;
+    readRow = rowReader(columns, headerAt);
   }
-  return out;
+
+  /** Compile the per-row work for the resolved columns: everything looked up once here. */
+  function rowReader(columns: ResolvedColumn[], headerAt: SourceRef): (cells: string[], line: number) => void {
+    const validate = validators().rows[kind];
+    const n = columns.length;
+    const byName = new Map(columns.map((c) => [c.def.name, c]));
+    const slotByName = new Map(columns.map((c, j) => [c.def.name, j]));
+    const slotOf = (name: string) => slotByName.get(name);
+    const fastValid = compileRowCheck(ROW_SCHEMAS[kind], slotOf);
+    const keyColumns = cat.rowKey.filter((k) => byName.has(k));
+    const keySlots = keyColumns.map((k) => slotOf(k)!);
+    const keyComplete = cat.rowKey.every((k) => byName.has(k) || (k === 'frame' && byName.has('time')) || (k === 'time' && byName.has('frame')));
+    const firstByKey = new Map<string, number>();
+    const firstByRow = new Map<string, number>();
+    const crossSectionWarned = new Set<string>();
+    const rows = out.rows as unknown as Record<string, unknown>[];
+
+    // Per column, by slot.
+    const cellIndex = columns.map((c) => c.index);
+    const kindOf = columns.map((c) => (c.def.type === 'string' ? 0 : c.def.type === 'integer' ? 2 : 1));
+    const factor = columns.map((c) => c.factor);
+    const skipsRow = columns.map((c) => c.def.required || cat.alternatives.some((g) => g.includes(c.def.name)));
+    const missing = new Set(spec.missing);
+    const anyMissing = spec.missing.length > 0;
+    const decimal = spec.decimal;
+    // Typed-row fields (variant, unit and batch come first; force and area only feed tension;
+    // tracks keep time, not frame), in column order.
+    const dropped = new Set(['variant', 'unit', 'batch', 'forceMN', 'areaMm2', ...(kind === 'motility-tracks' ? ['frame'] : [])]);
+    const fieldSlots: number[] = [];
+    const fieldNames: string[] = [];
+    columns.forEach((c, j) => {
+      if (!dropped.has(c.def.name) && !dropped.has(c.def.field)) {
+        fieldSlots.push(j);
+        fieldNames.push(c.def.field);
+      }
+    });
+    const plausibleSlots = columns.flatMap((c, j) => (c.def.plausible ? [j] : []));
+    const variantSlot = slotOf('variant');
+    const unitSlot = slotOf('unit');
+    const batchSlot = slotOf('batch');
+    const frameSlot = slotOf('frame');
+    const tensionSlot = slotOf('tension');
+    const forceSlot = slotOf('force');
+    const areaSlot = slotOf('area');
+    const computedTension = kind === 'force-pca' && !byName.has('tension') ? CATALOGUE['force-pca'].columns.find((c) => c.name === 'tension')!.plausible! : undefined;
+    const cellAt = (c: ResolvedColumn, line: number): SourceRef => ({ file, line, column: c.def.name, col: c.index + 1 });
+    const makeRow = rowFactory(fieldNames, fieldSlots);
+    const vals: Array<string | number | undefined> = new Array(n).fill(undefined);
+    const keyParts: Array<string | number> = new Array(keySlots.length).fill('');
+    let lastBatch: string | undefined;
+    let lastUnit: string | undefined;
+    let lastVariant: string | undefined;
+
+    return (cells: string[], line: number): void => {
+      if (cells.length !== width) {
+        // Column: the first extra field, or the first missing one.
+        issues.push(issue(MSG.fieldCount(width, cells.length), { file, line, col: Math.min(width, cells.length) + 1 }));
+        return;
+      }
+      let bad = false;
+      let skipped = false;
+      let failed: Set<string> | undefined;
+      for (let j = 0; j < n; j++) {
+        vals[j] = undefined;
+        const text = cells[cellIndex[j]].trim();
+        if (anyMissing && missing.has(text)) {
+          if (skipsRow[j]) {
+            if (!skipped) issues.push(issue(MSG.missingSkipped(columns[j].def.name, text), cellAt(columns[j], line)));
+            skipped = true;
+          }
+          continue;
+        }
+        if (text === '') continue;
+        const type = kindOf[j];
+        if (type === 0) {
+          vals[j] = text;
+          continue;
+        }
+        let value = numberCellValue(text, decimal, type === 2);
+        if (value !== value) {
+          // Rejected by the fast scan: the full rules say why (or accept, should they differ).
+          const parsed = parseNumberCell(text, decimal, type === 2);
+          if (parsed.ok) value = parsed.value;
+          else {
+            const c = columns[j];
+            const msg =
+              parsed.reason === 'decimal-comma' ? MSG.decimalCommaUndeclared(c.def.name, text)
+              : parsed.reason === 'decimal-point' ? MSG.decimalPointWithComma(c.def.name, text)
+              : parsed.reason === 'not-an-integer' ? MSG.notAnInteger(c.def.name, text)
+              : MSG.notANumber(c.def.name, text);
+            issues.push(issue(msg, cellAt(c, line)));
+            (failed ??= new Set()).add(c.def.name);
+            bad = true;
+            continue;
+          }
+        }
+        vals[j] = value * factor[j];
+      }
+      if (skipped) return;
+      if (bad || !fastValid || !fastValid(vals)) {
+        // The row object as the row schema sees it (column order), validated by ajv for the errors.
+        const obj: Record<string, string | number> = {};
+        for (let j = 0; j < n; j++) if (vals[j] !== undefined) obj[columns[j].def.name] = vals[j]!;
+        if (!validate(obj)) {
+          for (const err of validate.errors ?? []) {
+            if (err.keyword === 'if') continue;
+            const name = err.keyword === 'required' ? (err.params as { missingProperty: string }).missingProperty : err.instancePath.slice(1);
+            if (failed?.has(name)) continue; // already reported as a bad number
+            const c = byName.get(name);
+            const at = c ? cellAt(c, line) : { file, line, column: name };
+            if (err.keyword === 'required') {
+              const group = cat.alternatives.find((g) => g.includes(name));
+              if (group) issues.push(issue(MSG.neitherAlternative(group), { file, line }));
+              else if (kind === 'atpase-nadh' && (name === 'variant' || name === 'unit')) issues.push(issue(MSG.needsVariantUnit(name), at));
+              else issues.push(issue(MSG.emptyCell(name), at));
+            } else if (['minimum', 'maximum', 'exclusiveMinimum', 'exclusiveMaximum'].includes(err.keyword)) {
+              const shown = c ? Number((Number(obj[name]) / c.factor).toPrecision(12)) : Number(obj[name]);
+              issues.push(issue(MSG.belowMinimum(name, shown, ruleText(err)), at));
+            } else if (err.keyword === 'enum') {
+              issues.push(issue(MSG.notAllowed(name, String(obj[name]), (err.params as { allowedValues: unknown[] }).allowedValues), at));
+            } else {
+              issues.push(issue(MSG.schemaOtherCell(name, err.message ?? err.keyword), at));
+            }
+          }
+          bad = true;
+        }
+      }
+      if (bad) return;
+
+      // Variant lookup (actin-only NADH wells have none).
+      const label = variantSlot === undefined ? undefined : (vals[variantSlot] as string | undefined);
+      let variantId = '';
+      if (label !== undefined) {
+        const variant = byLabel.get(label);
+        if (!variant) {
+          issues.push(issue(MSG.unknownVariant(label), cellAt(byName.get('variant')!, line)));
+          return;
+        }
+        if (variant.id !== lastVariant) out.variantsSeen.add((lastVariant = variant.id));
+        variantId = variant.id;
+      }
+
+      // Typed row: fields in column order, each set once (no deletes, so rows keep one shape).
+      const unitText = unitSlot === undefined ? undefined : (vals[unitSlot] as string | undefined);
+      const unit = unitText === undefined ? '' : pooled(pool, unitText);
+      const batchText = vals[batchSlot!] as string;
+      const batch = batchText === undefined ? batchText : pooled(pool, batchText);
+      let complete = true;
+      for (let k = 0; k < fieldSlots.length; k++) {
+        const v = vals[fieldSlots[k]];
+        if (v === undefined) complete = false;
+        else if (typeof v === 'string') vals[fieldSlots[k]] = pooled(pool, v);
+      }
+      let typed: Record<string, unknown>;
+      if (complete && makeRow) typed = makeRow(variantId, unit, batch, file, line, vals);
+      else {
+        typed = { variant: variantId, unit, batch, at: { file, line } };
+        for (let k = 0; k < fieldSlots.length; k++) {
+          const v = vals[fieldSlots[k]];
+          if (v !== undefined) typed[fieldNames[k]] = v;
+        }
+      }
+      if (kind === 'motility-tracks') {
+        if (typed.timeS === undefined) typed.timeS = (vals[frameSlot!] as number) * spec.frameIntervalS!;
+      } else if (kind === 'atpase-nadh') {
+        if (typed.pathCm === undefined) typed.pathCm = spec.pathLengthCm;
+      } else if (kind === 'force-pca' && (tensionSlot === undefined || vals[tensionSlot] === undefined)) {
+        const area = (areaSlot === undefined ? undefined : (vals[areaSlot] as number | undefined)) ?? spec.crossSectionByUnitMm2?.[unit] ?? spec.crossSectionMm2;
+        if (area === undefined) {
+          if (!crossSectionWarned.has(unit)) issues.push(issue(MSG.needsCrossSection(unit), cellAt(byName.get('force')!, line)));
+          crossSectionWarned.add(unit);
+          return;
+        }
+        typed.tensionKPa = (forceSlot === undefined ? undefined : (vals[forceSlot] as number))! / area;
+      }
+
+      // Plausibility (canonical units).
+      for (let k = 0; k < plausibleSlots.length; k++) {
+        const j = plausibleSlots[k];
+        const c = columns[j];
+        const p = c.def.plausible!;
+        const v = vals[j];
+        if (typeof v !== 'number') continue;
+        if ((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min)) {
+          const u = c.def.quantity ? UNITS[c.def.quantity].canonical : '';
+          issues.push(issue(MSG.implausible(c.def.name, Number(v.toPrecision(6)), u, p.reason), cellAt(c, line)));
+        }
+      }
+      if (computedTension) {
+        const p = computedTension;
+        const v = typed.tensionKPa as number;
+        if ((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min)) {
+          issues.push(issue(MSG.implausible('tension', Number(v.toPrecision(6)), 'kPa', `${p.reason} (computed from force and area)`), cellAt(byName.get('force')!, line)));
+        }
+      }
+
+      // Duplicates.
+      if (keyComplete) {
+        for (let k = 0; k < keySlots.length; k++) keyParts[k] = vals[keySlots[k]] ?? '';
+        const key = joinKey(keyParts);
+        const first = firstByKey.get(key);
+        if (first !== undefined) {
+          issues.push(issue(MSG.duplicateKey(first, keyColumns.map((k, i) => `${k} ${keyParts[i]}`).join(', ')), { file, line }));
+          return;
+        }
+        firstByKey.set(key, line);
+      } else {
+        const key = joinKey(cells.map((c) => c.trim()));
+        const first = firstByRow.get(key);
+        if (first !== undefined) issues.push(issue(MSG.duplicateRow(first), { file, line }));
+        else firstByRow.set(key, line);
+      }
+
+      if (batch !== lastBatch) out.batches.add((lastBatch = batch));
+      if (unit && unit !== lastUnit) out.units.add((lastUnit = unit));
+      rows.push(typed);
+    };
+  }
+
+  return {
+    header(cells, line) {
+      if (state !== 'no-header') throw new Error('createRowReader: header given twice');
+      header(cells, line);
+    },
+    row(cells, line) {
+      out.rowCount++;
+      if (state === 'read') readRow(cells, line);
+    },
+    finish() {
+      if (state === 'no-header') issues.push(issue(MSG.noHeader(), { file }));
+      else if (state === 'read' && out.rowCount === 0) issues.push(issue(MSG.noRows(), { file, line: headerLine }));
+      return out;
+    },
+  };
 }
