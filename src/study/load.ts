@@ -15,7 +15,7 @@ import { checkExclusionsMatch, checkUnusedVariants, checkWildTypePerBatch } from
 import { csvDelimiter, decodeText, scanCsv } from './csv.js';
 import { readManifest } from './manifest.js';
 import { MSG, issue } from './messages.js';
-import { createRowReader, type StringPool } from './rows.js';
+import { createRowReader, StringPool } from './rows.js';
 import { MANIFEST_NAME } from './schemas.js';
 import type { InputFile, InputKind, Issue, LoadOutcome, RowsByKind, Study } from './types.js';
 
@@ -75,7 +75,7 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
   const variantsSeen = new Set<string>();
   const batches = new Set<string>();
   const units = new Set<string>();
-  const pool: StringPool = new Map();
+  const pool = new StringPool();
   const readerFlagged = new Set((input.readIssues ?? []).map((i) => i.at.jsonPath));
 
   for (const spec of manifest.files) {

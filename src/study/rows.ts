@@ -81,16 +81,122 @@ function detach(s: string): string {
 
 /**
  * Strings kept in typed rows (batch, unit, well, …) repeat on thousands of rows: one shared
- * instance per distinct text. Pass the same pool to every file of a study.
+ * instance per distinct text, with a small-integer id (used for duplicate keys). Pass the same
+ * pool to every file of a study.
  */
-export type StringPool = Map<string, string>;
+export class StringPool {
+  private readonly ids = new Map<string, number>();
+  readonly strings: string[] = [];
+  /** Duplicate-key index, reused by each file in turn (its arrays stay allocated). */
+  readonly keys = new KeyIndex();
+  /** Id of a text, adding it when new. */
+  id(s: string): number {
+    const got = this.ids.get(s);
+    if (got !== undefined) return got;
+    const kept = detach(s);
+    const id = this.strings.length;
+    this.strings.push(kept);
+    this.ids.set(kept, id);
+    return id;
+  }
+}
 
-function pooled(pool: StringPool, s: string): string {
-  const got = pool.get(s);
-  if (got !== undefined) return got;
-  const kept = detach(s);
-  pool.set(kept, kept);
-  return kept;
+const f64 = new Float64Array(1);
+const i32 = new Int32Array(f64.buffer);
+
+/**
+ * Index of observation keys for duplicate detection, without a key string per row. A key is a
+ * list of parts, each a string id, a number or missing; two keys are equal exactly when their
+ * JSON texts are (missing ≠ any value; all non-finite numbers alike, as JSON writes them null;
+ * 0 = −0). Method: open addressing (linear probing) on a hash of the parts (FNV-1a style
+ * multiply-xor over their 32-bit words), all in typed arrays that are reused from file to file,
+ * so a file of many rows allocates no key objects.
+ */
+class KeyIndex {
+  private width = 0;
+  private count = 0;
+  private values = new Float64Array(0);
+  /** 0 value, 1 missing, 2 non-finite number. */
+  private flags = new Uint8Array(0);
+  private lines = new Int32Array(0);
+  private hashes = new Int32Array(0);
+  /** Entry index + 1 per slot; 0 is empty. Size a power of two, at least twice the entries. */
+  private table = new Int32Array(0);
+
+  /** Start a new file whose keys have `width` parts. */
+  reset(width: number): void {
+    this.width = width;
+    this.count = 0;
+    if (this.table.length === 0) this.resize(1024);
+    else this.table.fill(0);
+  }
+
+  /** First line with the same key as `parts` (flags as above), or -1 after recording `line`. */
+  firstOrAdd(parts: Float64Array, flags: Uint8Array, line: number): number {
+    const w = this.width;
+    let h = 0x811c9dc5;
+    for (let k = 0; k < w; k++) {
+      const f = flags[k];
+      if (f === 0) {
+        f64[0] = parts[k] === 0 ? 0 : parts[k];
+        h = Math.imul(h ^ i32[0], 0x01000193);
+        h = Math.imul(h ^ i32[1], 0x01000193);
+      } else h = Math.imul(h ^ (f + 0x9e3779b9), 0x01000193);
+    }
+    h ^= h >>> 15;
+    const mask = this.table.length - 1;
+    let slot = h & mask;
+    for (let e = this.table[slot]; e !== 0; e = this.table[slot]) {
+      const i = e - 1;
+      if (this.hashes[i] === h) {
+        let same = true;
+        for (let k = 0, o = i * w; k < w; k++, o++) {
+          if (this.flags[o] !== flags[k] || (flags[k] === 0 && this.values[o] !== parts[k])) {
+            same = false;
+            break;
+          }
+        }
+        if (same) return this.lines[i];
+      }
+      slot = (slot + 1) & mask;
+    }
+    const i = this.count++;
+    if (i * w + w > this.values.length || i >= this.lines.length) this.growEntries(i + 1);
+    this.values.set(parts, i * w);
+    this.flags.set(flags, i * w);
+    this.lines[i] = line;
+    this.hashes[i] = h;
+    this.table[slot] = i + 1;
+    if (this.count * 2 > this.table.length) this.resize(this.table.length * 2);
+    return -1;
+  }
+
+  private growEntries(need: number): void {
+    const cap = Math.max(need * 2, 1024);
+    const values = new Float64Array(cap * Math.max(this.width, 1));
+    values.set(this.values.subarray(0, Math.min(this.values.length, values.length)));
+    const flags = new Uint8Array(values.length);
+    flags.set(this.flags.subarray(0, Math.min(this.flags.length, flags.length)));
+    const lines = new Int32Array(cap);
+    lines.set(this.lines.subarray(0, Math.min(this.lines.length, cap)));
+    const hashes = new Int32Array(cap);
+    hashes.set(this.hashes.subarray(0, Math.min(this.hashes.length, cap)));
+    this.values = values;
+    this.flags = flags;
+    this.lines = lines;
+    this.hashes = hashes;
+  }
+
+  private resize(size: number): void {
+    const table = new Int32Array(size);
+    const mask = size - 1;
+    for (let i = 0; i < this.count; i++) {
+      let slot = this.hashes[i] & mask;
+      while (table[slot] !== 0) slot = (slot + 1) & mask;
+      table[slot] = i + 1;
+    }
+    this.table = table;
+  }
 }
 
 /**
@@ -157,7 +263,7 @@ export function createRowReader<K extends InputKind>(
   file: string,
   byLabel: Map<string, Variant>,
   issues: Issue[],
-  pool: StringPool = new Map(),
+  pool: StringPool = new StringPool(),
 ): RowReader<K> {
   const cat = CATALOGUE[kind];
   const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), batches: new Set(), units: new Set(), rowCount: 0 };
@@ -273,7 +379,10 @@ export function createRowReader<K extends InputKind>(
     const keyColumns = cat.rowKey.filter((k) => byName.has(k));
     const keySlots = keyColumns.map((k) => slotOf(k)!);
     const keyComplete = cat.rowKey.every((k) => byName.has(k) || (k === 'frame' && byName.has('time')) || (k === 'time' && byName.has('frame')));
-    const firstByKey = new Map<string, number>();
+    const keyIndex = keyComplete ? pool.keys : undefined;
+    keyIndex?.reset(keySlots.length);
+    const keyValues = new Float64Array(keySlots.length);
+    const keyFlags = new Uint8Array(keySlots.length);
     const firstByRow = new Map<string, number>();
     const crossSectionWarned = new Set<string>();
     const rows = out.rows as unknown as Record<string, unknown>[];
@@ -309,7 +418,10 @@ export function createRowReader<K extends InputKind>(
     const cellAt = (c: ResolvedColumn, line: number): SourceRef => ({ file, line, column: c.def.name, col: c.index + 1 });
     const makeRow = rowFactory(fieldNames, fieldSlots);
     const vals: Array<string | number | undefined> = new Array(n).fill(undefined);
-    const keyParts: Array<string | number> = new Array(keySlots.length).fill('');
+    const ids = new Int32Array(n);
+    const lastText: Array<string | undefined> = new Array(n).fill(undefined);
+    const lastId = new Int32Array(n);
+    const strings = pool.strings;
     let lastBatch: string | undefined;
     let lastUnit: string | undefined;
     let lastVariant: string | undefined;
@@ -336,7 +448,13 @@ export function createRowReader<K extends InputKind>(
         if (text === '') continue;
         const type = kindOf[j];
         if (type === 0) {
-          vals[j] = text;
+          // Neighbouring rows mostly repeat a text (same unit, batch, trace): skip the lookup then.
+          if (text !== lastText[j]) {
+            lastText[j] = text;
+            lastId[j] = pool.id(text);
+          }
+          ids[j] = lastId[j];
+          vals[j] = strings[lastId[j]];
           continue;
         }
         let value = numberCellValue(text, decimal, type === 2);
@@ -404,16 +522,10 @@ export function createRowReader<K extends InputKind>(
       }
 
       // Typed row: fields in column order, each set once (no deletes, so rows keep one shape).
-      const unitText = unitSlot === undefined ? undefined : (vals[unitSlot] as string | undefined);
-      const unit = unitText === undefined ? '' : pooled(pool, unitText);
-      const batchText = vals[batchSlot!] as string;
-      const batch = batchText === undefined ? batchText : pooled(pool, batchText);
+      const unit = (unitSlot === undefined ? undefined : (vals[unitSlot] as string | undefined)) ?? '';
+      const batch = vals[batchSlot!] as string;
       let complete = true;
-      for (let k = 0; k < fieldSlots.length; k++) {
-        const v = vals[fieldSlots[k]];
-        if (v === undefined) complete = false;
-        else if (typeof v === 'string') vals[fieldSlots[k]] = pooled(pool, v);
-      }
+      for (let k = 0; k < fieldSlots.length; k++) if (vals[fieldSlots[k]] === undefined) complete = false;
       let typed: Record<string, unknown>;
       if (complete && makeRow) typed = makeRow(variantId, unit, batch, file, line, vals);
       else {
@@ -458,15 +570,24 @@ export function createRowReader<K extends InputKind>(
       }
 
       // Duplicates.
-      if (keyComplete) {
-        for (let k = 0; k < keySlots.length; k++) keyParts[k] = vals[keySlots[k]] ?? '';
-        const key = joinKey(keyParts);
-        const first = firstByKey.get(key);
-        if (first !== undefined) {
-          issues.push(issue(MSG.duplicateKey(first, keyColumns.map((k, i) => `${k} ${keyParts[i]}`).join(', ')), { file, line }));
+      if (keyIndex) {
+        for (let k = 0; k < keySlots.length; k++) {
+          const j = keySlots[k];
+          const v = vals[j];
+          if (v === undefined) keyFlags[k] = 1;
+          else if (kindOf[j] === 0) {
+            keyFlags[k] = 0;
+            keyValues[k] = ids[j];
+          } else if (Number.isFinite(v)) {
+            keyFlags[k] = 0;
+            keyValues[k] = v as number;
+          } else keyFlags[k] = 2;
+        }
+        const first = keyIndex.firstOrAdd(keyValues, keyFlags, line);
+        if (first >= 0) {
+          issues.push(issue(MSG.duplicateKey(first, keyColumns.map((k, i) => `${k} ${vals[keySlots[i]] ?? ''}`).join(', ')), { file, line }));
           return;
         }
-        firstByKey.set(key, line);
       } else {
         const key = joinKey(cells.map((c) => c.trim()));
         const first = firstByRow.get(key);
