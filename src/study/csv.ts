@@ -222,16 +222,18 @@ export type CsvRowSink = (cells: string[], line: number) => void;
  * Method: text without any double quote is split exactly as papaparse 5.7.1 does in its own
  * "fast mode" (line-ending guess, split on that line ending and the delimiter, '#' comments,
  * greedy blank-line skipping), without papaparse's per-row result objects; any other text goes
- * through papaparse. Either way, a row's line is the line of its last character minus the line
- * breaks inside its cells, found by binary search in one precomputed table of line starts.
+ * through papaparse. A row's line is the line of its last character minus the line breaks inside
+ * its cells (binary search in a table of line starts, built on first need); in the fast mode,
+ * rows without stray CR or LF are simply counted, one file line each.
  */
 export function scanCsv(input: string, file: string, onRow: CsvRowSink): { delimiter: ',' | ';'; issues: Issue[] } {
   const text = input.charCodeAt(0) === 0xfeff ? input.slice(1) : input;
   const delimiter = sniffDelimiter(text);
-  const starts = lineStarts(text);
   const issues: Issue[] = [];
+  let starts: Uint32Array | undefined; // built on first need
   /** Line where a row starts, from papaparse's cursor (offset just past the row and its line break). */
   const rowLine = (cells: string[], cursor: number): number => {
+    starts ??= lineStarts(text);
     const end = Math.max(0, Math.min(cursor, text.length) - 1);
     const endLine = lineAt(starts, end);
     // Line breaks inside the row's cells; a break at the very end of the last cell (a stray CR
@@ -248,22 +250,37 @@ export function scanCsv(input: string, file: string, onRow: CsvRowSink): { delim
   if (text.indexOf('"') < 0) {
     const newline = guessNewline(text);
     const nl = newline.length;
+    // CR and LF other than the line ending itself make a piece "unclean"; clean pieces are one
+    // file line each, counted as we go, and only unclean ones need the line-start table.
+    const crForeign = newline !== '\r';
+    const lfForeign = newline !== '\n';
+    let nextCr = crForeign ? text.indexOf('\r') : -1;
+    let nextLf = lfForeign ? text.indexOf('\n') : -1;
+    let physLine = 1;
     let pos = 0;
     for (;;) {
       const at = text.indexOf(newline, pos);
       const last = at < 0;
-      const lineText = last ? text.slice(pos) : text.slice(pos, at);
+      const stop = last ? text.length : at;
+      const lineText = text.slice(pos, stop);
       const cursor = last ? text.length : at + nl;
+      if (nextCr >= 0 && nextCr < pos) nextCr = text.indexOf('\r', pos);
+      if (nextLf >= 0 && nextLf < pos) nextLf = text.indexOf('\n', pos);
+      const clean = !((nextCr >= 0 && nextCr < stop) || (nextLf >= 0 && nextLf < stop));
       pos = cursor;
       if (lineText.charCodeAt(0) !== 35) {
         const cells = lineText.split(delimiter);
-        if (!blankRow(cells)) onRow(cells, rowLine(cells, cursor));
+        if (!blankRow(cells)) onRow(cells, clean ? physLine : rowLine(cells, cursor));
       }
       if (last) break;
+      if (clean) physLine++;
+      else physLine = lineAt((starts ??= lineStarts(text)), cursor);
     }
     return { delimiter, issues };
   }
 
+  starts = lineStarts(text);
+  const table = starts;
   Papa.parse<string[]>(text, {
     delimiter,
     header: false,
@@ -278,9 +295,9 @@ export function scanCsv(input: string, file: string, onRow: CsvRowSink): { delim
           let offset = Math.min(Math.max(0, err.index), text.length);
           // papaparse points just past an unclosed opening quote: point at the quote itself.
           if (err.code === 'MissingQuotes' && text[offset] !== '"' && text[offset - 1] === '"') offset--;
-          const at = lineAt(starts, offset);
+          const at = lineAt(table, offset);
           if (err.code === 'MissingQuotes') line = Math.min(line, at); // the row starts where its quote opens
-          issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at, col: offset - starts[at - 1] + 1 }));
+          issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at, col: offset - table[at - 1] + 1 }));
         } else issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line }));
       }
       onRow(cells, line);
