@@ -15,7 +15,7 @@ import { hillForcePca } from '../numeric/models/hill-force-pca.js';
 import type { FitResult } from '../numeric/types.js';
 import type { Flag, MetricDef, UnitResult } from '../results/types.js';
 import type { ForceRow, Study } from '../study/types.js';
-import { assaySetting, roundForPlot } from './assay-common.js';
+import { assaySetting } from './assay-common.js';
 import type { SettingsBag } from './assay-common.js';
 import { groupEncoding, unitChart } from './chart-common.js';
 import { groupUnits, relativeSeFlags } from './assay-common.js';
@@ -62,6 +62,11 @@ export const FORCE_METRICS: MetricDef[] = [
 
 /** Points of the fitted-curve grid per preparation (0.083 pCa apart over the usual 9.25–4.25 span: about 8 points across a steep transition). */
 const CURVE_POINTS = 61;
+/** Plot values to 7 significant digits (chart and results.json only; fits use full precision). @example plotValue(0.123456789) // → 0.1234568 */
+function plotValue(x: number): number {
+  return Number.isFinite(x) ? Number(x.toPrecision(7)) : x;
+}
+
 /** The curve grid extends this far (pCa units) beyond the measured range on each side. */
 const CURVE_MARGIN_PCA = 0.25;
 
@@ -163,7 +168,7 @@ export function analyseForceUnit(
   const points = rows.map((r) => {
     const point: Record<string, number | string> = { pCa: r.pCa, tension: r.tensionKPa };
     const norm = normalise(r.tensionKPa);
-    if (Number.isFinite(norm)) point.normForce = roundForPlot(norm);
+    if (Number.isFinite(norm)) point.normForce = plotValue(norm);
     return point;
   });
   const curve: Array<Record<string, number>> = [];
@@ -173,7 +178,7 @@ export function analyseForceUnit(
     for (let i = 0; i < CURVE_POINTS; i++) {
       const pCa = from + ((to - from) * i) / (CURVE_POINTS - 1);
       const tension = hillForcePca.f(pCa, estimates);
-      curve.push({ pCa: roundForPlot(pCa), tension: roundForPlot(tension), normForce: roundForPlot(normalise(tension)) });
+      curve.push({ pCa: plotValue(pCa), tension: plotValue(tension), normForce: plotValue(normalise(tension)) });
     }
   }
   return { metrics, metricSe, fit, flags, nTechnical: rows.length, plot: { points, curve } };

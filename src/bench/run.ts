@@ -9,7 +9,8 @@
  *   serial — (with --baseline) one thread, no cache: the path before the pool existed,
  * each in its own child process, so every peak-memory figure belongs to one build. Phases follow
  * src/build/build-study.ts: load (read + loadStudy), analyse (analyseUnitsParallel + analyseStudy),
- * charts (siteData: every SVG), pages (Eleventy), write (results.json/csv + swap).
+ * charts (every SVG; variant pages are written by Eleventy in batches as their charts are drawn),
+ * pages (the study-level pages by Eleventy), write (results.json/csv + swap).
  * Printed per phase: wall time, CPU time (process.cpuUsage(): user + system of the whole process,
  * worker threads included) and peak RSS (the OS high-water mark, process.resourceUsage().maxRSS,
  * cumulative over the build, so a phase shows the peak up to its end). Then a bare Eleventy build
@@ -48,6 +49,8 @@ interface BuildFigures {
   pages: number;
   charts: { rendered: number; cached: number };
   outMB: number;
+  /** Size of downloads/results.json. */
+  resultsMB?: number;
 }
 
 const args = process.argv.slice(2);
@@ -136,11 +139,13 @@ async function buildOnce(studyDir: string, outDir: string, cacheDir: string, mod
   m.lap('pages');
   const downloads = join(staging, 'downloads');
   mkdirSync(downloads, { recursive: true });
-  writeFileSync(join(downloads, 'results.json'), JSON.stringify(results, null, 1) + '\n');
+  const resultsJson = JSON.stringify(results, null, 1) + '\n';
+  writeFileSync(join(downloads, 'results.json'), resultsJson);
+  const resultsMB = Buffer.byteLength(resultsJson) / 1e6;
   writeFileSync(join(downloads, 'results.csv'), resultsCsv(results));
   swapIn(staging, plan.out, plan.replaceForeign, String(process.pid));
   m.lap('write');
-  return { size, mode, phases: m.phases, pages, charts: renderer.stats(), outMB: duMB(plan.out) };
+  return { size, mode, phases: m.phases, pages, charts: renderer.stats(), outMB: duMB(plan.out), resultsMB };
 }
 
 /** Bare Eleventy: `n` trivial pages from one paginated template (the floor for the pages phase). */
@@ -189,7 +194,7 @@ function printBuild(b: BuildFigures): void {
   const total = b.phases.reduce((s, p) => s + p.wallS, 0);
   const cpu = b.phases.reduce((s, p) => s + p.cpuS, 0);
   const peak = Math.max(...b.phases.map((p) => p.peakMB));
-  process.stdout.write(`\n${b.size} variants, ${b.mode}: ${f1(total)} s wall, ${f1(cpu)} s CPU, peak RSS ${Math.round(peak)} MB, ${b.pages} pages, charts drawn ${b.charts.rendered} / from cache ${b.charts.cached}, output ${Math.round(b.outMB)} MB\n`);
+  process.stdout.write(`\n${b.size} variants, ${b.mode}: ${f1(total)} s wall, ${f1(cpu)} s CPU, peak RSS ${Math.round(peak)} MB, ${b.pages} pages, charts drawn ${b.charts.rendered} / from cache ${b.charts.cached}, output ${Math.round(b.outMB)} MB (results.json ${b.resultsMB === undefined ? '—' : f1(b.resultsMB)} MB)\n`);
   process.stdout.write('  phase      wall s    CPU s   peak MB   ms/variant\n');
   for (const p of b.phases) {
     process.stdout.write(`  ${p.phase.padEnd(9)} ${f2(p.wallS).padStart(7)} ${f2(p.cpuS).padStart(8)} ${String(Math.round(p.peakMB)).padStart(9)} ${f1((p.wallS * 1000) / b.size).padStart(12)}\n`);
