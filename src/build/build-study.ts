@@ -81,7 +81,7 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
     phase('write');
     const downloads = path.join(staging, 'downloads');
     mkdirSync(downloads, { recursive: true });
-    writeFileSync(path.join(downloads, 'results.json'), JSON.stringify(results, null, 1) + '\n');
+    writeFileSync(path.join(downloads, 'results.json'), JSON.stringify(results) + '\n');
     writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
     const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag);
     return { ok: true, issues, out: plan.out, pages: site.pages, results, movedAside };
