@@ -108,8 +108,9 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
     const got = reader.finish();
     for (const i of scanned.issues) issues.push(i);
     for (const i of rowIssues) issues.push(i);
-    const target = (rows[spec.entry.kind] ??= []);
-    for (const r of got.rows as unknown[]) target.push(r);
+    const target = rows[spec.entry.kind];
+    if (!target) rows[spec.entry.kind] = got.rows as unknown[];
+    else for (const r of got.rows as unknown[]) target.push(r);
     got.variantsSeen.forEach((id) => variantsSeen.add(id));
     got.batches.forEach((b) => batches.add(b));
     got.units.forEach((u) => units.add(u));
