@@ -425,6 +425,8 @@ export function createRowReader<K extends InputKind>(
     let lastBatch: string | undefined;
     let lastUnit: string | undefined;
     let lastVariant: string | undefined;
+    let lastLabel: string | undefined;
+    let lastLabelVariant: Variant | undefined;
 
     return (cells: string[], line: number): void => {
       if (cells.length !== width) {
@@ -512,7 +514,9 @@ export function createRowReader<K extends InputKind>(
       const label = variantSlot === undefined ? undefined : (vals[variantSlot] as string | undefined);
       let variantId = '';
       if (label !== undefined) {
-        const variant = byLabel.get(label);
+        const variant = label === lastLabel ? lastLabelVariant : byLabel.get(label);
+        lastLabel = label;
+        lastLabelVariant = variant;
         if (!variant) {
           issues.push(issue(MSG.unknownVariant(label), cellAt(byName.get('variant')!, line)));
           return;

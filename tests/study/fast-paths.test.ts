@@ -76,6 +76,21 @@ describe('number cells', () => {
     );
   });
 
+  it('reads decimal text to the same double as Number() (exact fast path and its limits)', () => {
+    const digits = (max: number) => fc.array(fc.constantFrom('0', '1', '2', '3', '4', '5', '6', '7', '8', '9'), { maxLength: max }).map((d) => d.join(''));
+    const text = fc
+      .tuple(fc.constantFrom('', '-', '+'), digits(18), digits(18), fc.option(fc.integer({ min: -40, max: 40 }), { nil: undefined }))
+      .filter(([, i, f]) => i.length + f.length > 0)
+      .map(([sign, i, f, e]) => `${sign}${i}${f ? `.${f}` : ''}${e === undefined ? '' : `e${e}`}`);
+    fc.assert(
+      fc.property(text, (t) => {
+        expect(Object.is(numberCellValue(t, '.'), Number(t))).toBe(true);
+        expect(Object.is(numberCellValue(t.replace('.', ','), ','), Number(t))).toBe(true);
+      }),
+      { seed: SEED, numRuns: 20000 },
+    );
+  });
+
   it('reads the documented examples', () => {
     expect(numberCellValue('1,5', ',')).toBe(1.5);
     expect(numberCellValue('1,5', '.')).toBeNaN();
@@ -83,6 +98,8 @@ describe('number cells', () => {
     expect(numberCellValue('5.', '.')).toBe(5);
     expect(numberCellValue('00123', '.', true)).toBe(123);
     expect(numberCellValue('1e999', '.')).toBeNaN();
+    expect(numberCellValue('150.13', '.')).toBe(150.13);
+    expect(Object.is(numberCellValue('-0', '.'), -0)).toBe(true);
   });
 });
 
