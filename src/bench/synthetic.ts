@@ -14,22 +14,10 @@ import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createRng, simulateStudy, type AssayTruth, type Scenario, type ScenarioVariant } from '../demo/simulate.js';
 import { MANIFEST_NAME } from '../study/schemas.js';
+import { DEMO_WT } from '../demo/scenario.js';
 
 const AMINO = 'ACDEFGHIKLMNPQRSTVWY';
-const WT: AssayTruth = {
-  kcat: 5.0,
-  km: 45,
-  basal: 0.03,
-  velocity: 0.8,
-  fractionImmobile: 0.07,
-  pCa50: 5.8,
-  nH: 3.0,
-  fmax: 30,
-  passive: 1.5,
-  kFast: 0.03,
-  kSlow: 0.0034,
-  slowFraction: 0.3,
-};
+const WT: AssayTruth = DEMO_WT;
 
 export interface SyntheticOptions {
   variants: number;

@@ -6,6 +6,7 @@
  * then add one line to COMMANDS below.
  */
 import { readFileSync } from 'node:fs';
+import { isAbsolute, join } from 'node:path';
 import { CLI } from './messages.js';
 
 export interface Io {
@@ -21,6 +22,23 @@ export interface Command {
   summary: string;
   /** Run with the arguments after the command name; returns the exit code. */
   run(args: string[], io: Io): Promise<number>;
+}
+
+/**
+ * The one folder argument of a command that takes exactly one (init, check): resolved against
+ * io.cwd, or null after printing the usage error (the caller returns exit code 2).
+ */
+export function singleFolderArgument(args: string[], io: Io, usage: string): string | null {
+  const option = args.find((a) => a.startsWith('-'));
+  if (option) {
+    io.stderr.write(CLI.unknownOption(option, usage));
+    return null;
+  }
+  if (args.length !== 1) {
+    io.stderr.write(CLI.badArgs(usage));
+    return null;
+  }
+  return isAbsolute(args[0]) ? args[0] : join(io.cwd, args[0]);
 }
 
 /** The command table: name → module loader. One line per command. */

@@ -21,7 +21,8 @@ export function demoSequence(seed = SEED): string {
   return seq;
 }
 
-const WT: AssayTruth = {
+/** WT truth of the demo and of the benchmark's synthetic studies (typical magnitudes, REFERENCES.md §6 [M]). */
+export const DEMO_WT: AssayTruth = {
   kcat: 5.0,
   km: 45,
   basal: 0.03,
@@ -119,7 +120,7 @@ export function demoScenario(): Scenario {
       'Research data, not a clinical test. Functional evidence is one line of evidence; classification belongs to qualified clinical laboratories.',
     ],
     batches,
-    wt: WT,
+    wt: DEMO_WT,
     wtUnitsPerBatch: 3,
     unitsPerVariant: 4,
     variants,

@@ -1,12 +1,12 @@
 /** `myofolio check <study-dir>`: load and validate a study; print every problem. */
 import { existsSync, statSync } from 'node:fs';
-import { isAbsolute, join } from 'node:path';
+import { join } from 'node:path';
 import { loadStudy } from '../../study/load.js';
 import { MSG, issue } from '../../study/messages.js';
 import { readStudyFolder } from '../../study/read-folder.js';
 import { MANIFEST_NAME } from '../../study/schemas.js';
 import type { Issue } from '../../study/types.js';
-import type { Command, Io } from '../main.js';
+import { singleFolderArgument, type Command, type Io } from '../main.js';
 import { CLI } from '../messages.js';
 
 /** One issue as `file:line:col: severity: message — fix` (JSON path instead of line for the manifest). */
@@ -32,16 +32,8 @@ export const command: Command = {
   usage: 'check <study-dir>',
   summary: 'Validate a study folder and list every error and warning.',
   async run(args: string[], io: Io): Promise<number> {
-    const option = args.find((a) => a.startsWith('-'));
-    if (option) {
-      io.stderr.write(CLI.unknownOption(option, this.usage));
-      return 2;
-    }
-    if (args.length !== 1) {
-      io.stderr.write(CLI.badArgs(this.usage));
-      return 2;
-    }
-    const dir = isAbsolute(args[0]) ? args[0] : join(io.cwd, args[0]);
+    const dir = singleFolderArgument(args, io, this.usage);
+    if (dir === null) return 2;
     if (!existsSync(dir) || !statSync(dir).isDirectory()) {
       io.stderr.write(CLI.cannotRead(args[0], 'no such folder'));
       return 1;
