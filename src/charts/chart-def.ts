@@ -69,6 +69,14 @@ export function metricLabel(results: StudyResults, assay: string, metric: string
   return `${a?.label ?? assay}: ${m?.label ?? metric}`;
 }
 
+/**
+ * A shorter "assay: metric" label for chart axes, without parenthetical parts.
+ * Example: 'Single turnover (mant-nucleotide chase): Fast-phase rate' → 'Single turnover: Fast-phase rate'.
+ */
+export function shortMetricLabel(results: StudyResults, assay: string, metric: string): string {
+  return metricLabel(results, assay, metric).replace(/\s*\([^)]*\)/g, '');
+}
+
 /** Unit suffix for axis titles, e.g. ' (s⁻¹)' or ''. */
 export function unitSuffix(unit: string | undefined): string {
   return unit ? ` (${unit})` : '';

@@ -4,7 +4,7 @@
  * difference metrics (variant − WT) get their own linear panel with a reference line at 0.
  */
 import type { MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
-import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel } from './chart-def.js';
+import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel, shortMetricLabel } from './chart-def.js';
 import { BAND_FILL, CI_COLOUR, METRIC_CALL_STYLE, REFERENCE, callScale } from './palette.js';
 
 interface Row {
@@ -58,7 +58,7 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
   const estimable = comps.filter((c): c is MetricComparison & { effect: number } => c.effect !== null && Number.isFinite(c.effect));
   if (estimable.length === 0) return null;
   const toRow = (c: MetricComparison & { effect: number }): Row => ({
-    row: metricLabel(results, c.assay, c.metric),
+    row: shortMetricLabel(results, c.assay, c.metric),
     effect: c.effect,
     lo: c.ciLow,
     hi: c.ciHigh,
