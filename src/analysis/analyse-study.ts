@@ -114,7 +114,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   }
 
   // 3. WT control charts (Westgard); rejected batches flag the variants compared in them.
-  const controlCharts: ControlChart[] = modules.flatMap((m) => wtControlCharts(m, units, variants));
+  const controlCharts: ControlChart[] = modules.flatMap((m) => wtControlCharts(m, units, variants, study.thresholds.wtBaselines));
 
   // 4. Assay and variant calls.
   const labels: Record<string, string> = Object.fromEntries(modules.map((m) => [m.id, m.label]));

@@ -107,6 +107,11 @@ export function demoScenario(): Scenario {
       ],
     },
     direction: 'hypercontractile',
+    thresholds: {
+      wtBaselines: {
+        'atpase.kcat': { mean: 4.9, sd: 0.35, source: 'WT preparations of the previous year, 24 batches (invented for the demo)' },
+      },
+    },
     exclusions: [
       {
         kind: 'unit',

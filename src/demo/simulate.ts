@@ -58,6 +58,8 @@ export interface Scenario {
   gene: { symbol: string; sequence: string; domains: { name: string; start: number; end: number }[] };
   direction: 'hypercontractile' | 'hypocontractile' | 'either';
   caveats: string[];
+  /** Manifest thresholds, passed through as written. */
+  thresholds?: Record<string, unknown>;
   /** Manifest exclusions, passed through as written. */
   exclusions?: Array<Record<string, string>>;
   batches: string[];
@@ -337,6 +339,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
     ],
     direction: s.direction,
     files: fileEntries,
+    ...(s.thresholds ? { thresholds: s.thresholds } : {}),
     ...(s.exclusions ? { exclusions: s.exclusions } : {}),
     caveats: s.caveats,
   };

@@ -326,6 +326,9 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
     else if (band[0] >= band[1]) issues.push(issue(MSG.bandOrder(key), at(p)));
     else if (!DIFFERENCE_METRICS.has(key) && band[0] <= 0) issues.push(issue(MSG.ratioBandSign(key), at(p)));
   }
+  for (const key of Object.keys(json.thresholds?.wtBaselines ?? {})) {
+    if (!bandKeys.includes(key)) issues.push(issue(MSG.unknownBand(key, bandKeys), at(`/thresholds/wtBaselines/${key}`)));
+  }
 
   // Exclusions (data matches are checked after the rows are read).
   const exclusions: Exclusion[] = [];

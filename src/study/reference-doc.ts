@@ -4,7 +4,7 @@
  * docs cannot drift: tests/study/readme.test.ts compares README.md with this text.
  * Regenerate with: npx tsx src/study/reference-doc.ts --write
  */
-import { ASSAY } from '../defaults.js';
+import { ASSAY, BANDS, STATS } from '../defaults.js';
 import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME, MANIFEST_SCHEMA } from './schemas.js';
 import { UNITS, type Quantity } from './units.js';
 
@@ -48,6 +48,7 @@ export function inputReference(): string {
     '',
     'Files: `path` (relative, inside the folder), `kind` (one of the input kinds below), `units` per column when the header does not give them, `decimal` (`.` default, or `,` with `;` as delimiter), `missing` (cell texts meaning no value, e.g. `["NA"]`; a row whose required value is missing is skipped with a warning), and per kind: `pathLength` (atpase-nadh), `pixelSize` and `frameInterval` (motility-tracks), `crossSection` (force-pca; `value` for all preparations or `byUnit`), each `{"value": …, "unit": "…"}`.',
     '',
+    `Thresholds (\`thresholds\`): \`bands\` (WT-like band \`[low, high]\` per metric key such as \`atpase.kcat\`; ratio metrics as variant/WT, difference metrics as variant − WT; defaults in \`src/defaults.ts\` BANDS: ${Object.keys(BANDS).map((k) => `\`${k}\``).join(', ')}), \`bandsFromBenignControls\` (derive bands from the benign controls), \`qThreshold\` (default ${STATS.qThreshold}), \`evidenceCap\` (\`supporting\` … \`very strong\`, from gene-specific expert-panel rules) and \`wtBaselines\` (lab-declared long-term WT \`{"mean", "sd", "source"}\` per metric key, in canonical units, for the Westgard charts; otherwise mean and SD come from this study's WT values).`,
     `Settings (\`settings\`) override the assay defaults of \`src/defaults.ts\` by name: ${Object.keys(ASSAY).map((k) => `\`${k}\``).join(', ')}. Unknown names and values of the wrong type are errors.`,
     '',
   );

@@ -190,6 +190,8 @@ export interface ThresholdOverrides {
   qThreshold?: number;
   /** Cap on the functional evidence level (e.g. 'moderate'), set by expert-panel rules. */
   evidenceCap?: 'supporting' | 'moderate' | 'strong' | 'very strong';
+  /** Lab-declared long-term WT mean and SD per metric key `<assay>.<metric>` (canonical units), for the Westgard charts. */
+  wtBaselines?: Record<string, { mean: number; sd: number; source?: string }>;
 }
 
 export interface Study {

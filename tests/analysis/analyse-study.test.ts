@@ -95,3 +95,24 @@ describe('analyseStudy on constructed units', () => {
     expect(x.evidence.level).toBe('none');
   });
 });
+
+describe('lab-declared WT baseline (thresholds.wtBaselines)', () => {
+  it('judges the WT values against the declared mean and SD and says so', () => {
+    // Declared mean 4.0, SD 0.2; WT values near 5.0 sit ~5 SD above: 1-3s in every batch (constructed).
+    const units: UnitResult[] = [];
+    for (let b = 1; b <= 3; b++) units.push(unit('WT', `w${b}a`, `b${b}`, 5), unit('WT', `w${b}b`, `b${b}`, 5.05));
+    units.push(unit('A', 'a1', 'b2', 6), unit('A', 'a2', 'b2', 6.1));
+    const s = study([variant('WT'), variant('A')]);
+    s.thresholds = { wtBaselines: { 'atpase.kcat': { mean: 4, sd: 0.2, source: 'WT runs of the previous year' } } };
+    const r = analyseStudy(s, options(units));
+    const chart = r.controlCharts.find((c) => c.metric === 'kcat')!;
+    expect(chart.mean).toBe(4);
+    expect(chart.sd).toBe(0.2);
+    expect(chart.baseline).toContain('declared by the lab');
+    expect(chart.baseline).toContain('WT runs of the previous year');
+    expect(chart.rejectedBatches).toEqual(['b1', 'b2', 'b3']);
+    expect(r.variants.find((v) => v.id === 'A')!.flags.some((f) => f.code === 'wt-qc-rejected')).toBe(true);
+    // Metrics without a declared baseline still use the study's own WT values.
+    expect(r.controlCharts.find((c) => c.metric === 'km')!.baseline).not.toContain('declared by the lab');
+  });
+});

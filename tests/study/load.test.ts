@@ -58,6 +58,8 @@ const MANIFEST_CASES: Case[] = [
   ['unknown setting', () => m((x) => (x.settings = { motilityImobileUmS: 0.1 })), 'error', 'manifest.unknown-setting', "'motilityImobileUmS' is not an assay setting.", { jsonPath: '/settings/motilityImobileUmS' }],
   ['setting of the wrong type', () => m((x) => (x.settings = { atpaseMinPoints: 'five' })), 'error', 'manifest.setting-type', "The setting 'atpaseMinPoints' must be a number.", { jsonPath: '/settings/atpaseMinPoints' }],
   ['unknown band', () => m((x) => (x.thresholds = { bands: { 'atpase.vmax': [0.8, 1.2] } })), 'error', 'manifest.unknown-band', "'atpase.vmax' is not a metric", { jsonPath: '/thresholds/bands/atpase.vmax' }],
+  ['WT baseline for an unknown metric', () => m((x) => (x.thresholds = { wtBaselines: { 'atpase.vmax': { mean: 5, sd: 0.3 } } })), 'error', 'manifest.unknown-band', "'atpase.vmax' is not a metric", { jsonPath: '/thresholds/wtBaselines/atpase.vmax' }],
+  ['WT baseline with a zero SD', () => m((x) => (x.thresholds = { wtBaselines: { 'atpase.kcat': { mean: 5, sd: 0 } } })), 'error', 'manifest.range', 'must be > 0', { jsonPath: '/thresholds/wtBaselines/atpase.kcat/sd' }],
   ['band low ≥ high', () => m((x) => (x.thresholds = { bands: { 'atpase.kcat': [1.2, 0.8] } })), 'error', 'manifest.band-order', 'low ≥ high', { jsonPath: '/thresholds/bands/atpase.kcat' }],
   ['q threshold out of range', () => m((x) => (x.thresholds = { qThreshold: 5 })), 'error', 'manifest.range', 'must be < 1', { jsonPath: '/thresholds/qThreshold' }],
   ['exclusion without its target', () => m((x) => (x.exclusions = [{ kind: 'batch', reason: 'r' }])), 'error', 'manifest.required', "'batch' is missing", { jsonPath: '/exclusions/0/batch' }],
