@@ -102,7 +102,9 @@ function param(fit: FitResult, name: string): number {
  * (1) the extra-sum-of-squares F test of double against single gives p < turnoverFTestAlpha
  * (src/numeric/compare.ts; Motulsky & Christopoulos 2004, ch. 22), which also requires
  * the double fit to have converged; (2) kFast/kSlow ≥ turnoverMinRateRatio; (3) both
- * amplitudes are positive. Otherwise the single exponential is the trace's model and the
+ * amplitudes are positive; (4) both rates and both amplitudes are determined, relative SE at most
+ * FIT.maxRelativeSe (a spurious split of one phase into two fits the data but leaves them loose).
+ * Otherwise the single exponential is the trace's model and the
  * slow fraction, kFast and kSlow are not estimable for that trace (a single rate cannot be
  * assigned to either phase). Slow fraction = Aslow/(Afast + Aslow), SE by the delta method.
  * A trace shorter than turnoverMinSlowTimeConstants/kSlow is flagged (slow phase not
@@ -135,11 +137,14 @@ export function fitTurnoverTrace(
       problems.push(`the rates differ by a factor ${(kFast / kSlow).toPrecision(3)}, less than ${settings.minRateRatio}`);
     }
     if (!(aFast > 0) || !(aSlow > 0)) problems.push('an amplitude is not positive');
+    const loose = relativeSeFlags(double, FIT.maxRelativeSe, { kFast: 'kFast', kSlow: 'kSlow', aFast: 'the fast amplitude', aSlow: 'the slow amplitude' }, ['kFast', 'kSlow', 'aFast', 'aSlow']);
+    if (loose.length > 0) {
+      problems.push(`the two-phase fit is not determined (${loose.map((f) => f.message.replace(/\.$/, '')).join('; ')})`);
+    }
   }
   const base = { single, double, durationS };
   if (problems.length === 0) {
     const sf = slowFraction(double);
-    flags.push(...relativeSeFlags(double, FIT.maxRelativeSe, { kFast: `kFast of ${label}`, kSlow: `kSlow of ${label}`, aSlow: `slow amplitude of ${label}` }, ['kFast', 'kSlow', 'aSlow']).map((f) => ({ ...f, at })));
     if (durationS < settings.minSlowTimeConstants / kSlow) {
       flags.push({
         code: 'window-too-short',
@@ -434,7 +439,7 @@ export const turnover: AssayModule = {
   chart: turnoverChart,
   methods: [
     `Each chase trace is fitted with ${exponentialDouble.formula} and with ${exponentialSingle.formula} by Levenberg–Marquardt nonlinear least squares, time as recorded so that amplitudes refer to t = 0.`,
-    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${ASSAY.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${ASSAY.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), and both amplitudes are positive. Otherwise the phases are not separated: the single exponential is used, the trace is flagged, and its slow fraction, fast rate and slow rate are not estimable (one rate cannot be assigned to either phase).`,
+    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${ASSAY.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${ASSAY.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), both amplitudes are positive, and both rates and both amplitudes have a standard error of at most ${FIT.maxRelativeSe * 100}% of their value (a spurious split of one phase into two fits the data but leaves them loose). Otherwise the phases are not separated: the single exponential is used, the trace is flagged, and its slow fraction, fast rate and slow rate are not estimable (one rate cannot be assigned to either phase).`,
     'Slow-phase fraction = Aslow/(Afast + Aslow) (Sarkar et al., Sci Adv 2020), with its standard error by the delta method.',
     'Traces are technical replicates: each preparation’s metrics are the means of its traces’ estimable metrics, and the preparation is the unit counted in the comparison with WT. The slow fraction is primary (difference scale; a decrease, more heads available, counts as hypercontractile); fast and slow rates are reported only.',
     `Flags: phases not separated; a trace shorter than ${ASSAY.turnoverMinSlowTimeConstants} slow-phase time constant(s) 1/kSlow (setting turnoverMinSlowTimeConstants); a rate or slow amplitude whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value; no converged fit.`,

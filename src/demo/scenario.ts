@@ -52,11 +52,11 @@ const PLANS: Plan[] = [
   { residue: 35, control: { class: 'benign', source: SOURCE }, effects: { kcat: 1.03 }, atpase: 'rates', motility: 'velocities', force: true, turnover: true },
   { residue: 309, control: { class: 'benign', source: SOURCE }, effects: { velocity: 0.98 }, atpase: 'rates', motility: 'tracks', force: true, turnover: true },
   { residue: 352, control: { class: 'likely benign', source: SOURCE }, effects: {}, atpase: 'rates', motility: 'velocities', force: true, turnover: true },
-  { residue: 401, control: { class: 'benign', source: SOURCE }, effects: { pCa50: 0.01 }, atpase: 'rates', motility: 'velocities', force: true, turnover: false },
+  { residue: 401, control: { class: 'benign', source: SOURCE }, effects: { pCa50: 0.01 }, atpase: 'rates', motility: 'velocities', force: true, turnover: true },
   // Others: hypercontractile.
   { residue: 91, effects: { kcat: 1.5, velocity: 1.25 }, atpase: 'rates', motility: 'velocities', force: true, turnover: true },
   { residue: 147, effects: { pCa50: 0.18, fmax: 1.15 }, atpase: 'rates', motility: 'tracks', force: true, turnover: true },
-  { residue: 203, effects: { slowFraction: -0.14, kcat: 1.2 }, atpase: 'nadh', motility: 'velocities', force: false, turnover: true },
+  { residue: 203, effects: { slowFraction: -0.14, kcat: 1.2 }, atpase: 'nadh', motility: 'velocities', force: true, turnover: true },
   { residue: 236, effects: { velocity: 1.3, kcat: 1.3, pCa50: 0.1 }, atpase: 'rates', motility: 'velocities', force: true, turnover: true },
   // Hypocontractile.
   { residue: 166, effects: { kcat: 0.6, velocity: 0.7 }, atpase: 'rates', motility: 'velocities', force: true, turnover: true },
@@ -65,7 +65,7 @@ const PLANS: Plan[] = [
   // WT-like.
   { residue: 271, effects: { kcat: 0.97 }, atpase: 'rates', motility: 'velocities', force: true, turnover: true },
   { residue: 297, effects: {}, atpase: 'nadh', motility: 'tracks', force: true, turnover: true },
-  { residue: 377, effects: { velocity: 1.02 }, atpase: 'rates', motility: 'velocities', force: true, turnover: false },
+  { residue: 377, effects: { velocity: 1.02 }, atpase: 'rates', motility: 'velocities', force: true, turnover: true },
   // Mixed.
   { residue: 284, effects: { kcat: 1.4, velocity: 0.7 }, atpase: 'rates', motility: 'tracks', force: true, turnover: true },
   { residue: 318, effects: { pCa50: 0.2, fmax: 0.6 }, atpase: 'rates', motility: 'velocities', force: true, turnover: true },

@@ -37,6 +37,19 @@ describe('myofolio build data-demo', () => {
     expect(results.provenance.builtAt).toBe('2026-01-01T00:00:00.000Z');
   });
 
+  it('every variant is measured by all four assays, and the deliberate demo problems are flagged', () => {
+    const results = JSON.parse(readFileSync(path.join(out, 'downloads/results.json'), 'utf8')) as StudyResults;
+    expect(results.assays.map((a) => a.id)).toEqual(['atpase', 'motility', 'force', 'turnover']);
+    for (const v of results.variants.filter((x) => !x.isWT)) {
+      expect(v.assayCalls.map((a) => a.call).filter((c) => c === 'not measured'), v.short).toEqual([]);
+      const html = readFileSync(path.join(out, 'variants', `${v.id}.html`), 'utf8');
+      for (const a of results.assays) expect(html, `${v.short} ${a.id}`).toContain(a.label);
+    }
+    const flags = new Set(results.units.flatMap((u) => u.flags.map((f) => f.code)));
+    expect(flags.has('km-above-range')).toBe(true);
+    expect(flags.has('phases-not-separated')).toBe(true);
+  });
+
   it('results.json is valid against schemas/results.schema.json', () => {
     const schema = JSON.parse(readFileSync('schemas/results.schema.json', 'utf8'));
     const ajv = new Ajv2020({ allErrors: true, strict: false });
