@@ -145,19 +145,25 @@ describe('normaliser properties', () => {
     excluded: fc.constantFrom(undefined, undefined, undefined, 'manifest'),
   });
 
+  /** Unit results from generated specs, normalised against WT: the shared set-up of the two properties below. */
+  function normaliseSpecs(specs: Array<{ variant: string; batch: string; kcat: number | null; shift: number | null; excluded?: string }>) {
+    const units: UnitResult[] = specs.map((s, i) => ({
+      assay: 'atpase', variant: s.variant, unit: `u${i}`, batch: s.batch,
+      metrics: { kcat: s.kcat, shift: s.shift }, flags: [], nTechnical: 1, plot: { points: [] }, source: [],
+      ...(s.excluded ? { excluded: s.excluded } : {}),
+    }));
+    const out = normaliseAssay('atpase', metrics, units, {
+      confidenceLevel: 0.95, qThreshold: 0.05,
+      bands: { 'atpase.kcat': [0.8, 1.25], 'atpase.shift': [-0.1, 0.1] },
+      variants: [{ id: 'WT', isWT: true }, { id: 'A', isWT: false }, { id: 'B', isWT: false }],
+    });
+    return { units, out };
+  }
+
   it('never throws; every variant unit without a metric value is named in a flag', () => {
     fc.assert(
       fc.property(fc.array(unit, { maxLength: 14 }), (specs) => {
-        const units: UnitResult[] = specs.map((s, i) => ({
-          assay: 'atpase', variant: s.variant, unit: `u${i}`, batch: s.batch,
-          metrics: { kcat: s.kcat, shift: s.shift }, flags: [], nTechnical: 1, plot: { points: [] }, source: [],
-          ...(s.excluded ? { excluded: s.excluded } : {}),
-        }));
-        const out = normaliseAssay('atpase', metrics, units, {
-          confidenceLevel: 0.95, qThreshold: 0.05,
-          bands: { 'atpase.kcat': [0.8, 1.25], 'atpase.shift': [-0.1, 0.1] },
-          variants: [{ id: 'WT', isWT: true }, { id: 'A', isWT: false }, { id: 'B', isWT: false }],
-        });
+        const { units, out } = normaliseSpecs(specs);
         for (const row of out) {
           const mine = units.filter((u) => u.variant === row.variant && !u.excluded);
           const scaled = (x: number | null) => (x === null ? NaN : row.scale === 'ratio' ? (x > 0 ? Math.log(x) : NaN) : x);
@@ -175,16 +181,7 @@ describe('normaliser properties', () => {
   it('every variant unit is counted in n or named in a flag', () => {
     fc.assert(
       fc.property(fc.array(unit, { maxLength: 14 }), (specs) => {
-        const units: UnitResult[] = specs.map((s, i) => ({
-          assay: 'atpase', variant: s.variant, unit: `u${i}`, batch: s.batch,
-          metrics: { kcat: s.kcat, shift: s.shift }, flags: [], nTechnical: 1, plot: { points: [] }, source: [],
-          ...(s.excluded ? { excluded: s.excluded } : {}),
-        }));
-        const out = normaliseAssay('atpase', metrics, units, {
-          confidenceLevel: 0.95, qThreshold: 0.05,
-          bands: { 'atpase.kcat': [0.8, 1.25], 'atpase.shift': [-0.1, 0.1] },
-          variants: [{ id: 'WT', isWT: true }, { id: 'A', isWT: false }, { id: 'B', isWT: false }],
-        });
+        const { units, out } = normaliseSpecs(specs);
         for (const row of out) {
           const mine = units.filter((u) => u.variant === row.variant && !u.excluded);
           const scaled = (x: number | null) => (x === null ? NaN : row.scale === 'ratio' ? (x > 0 ? Math.log(x) : NaN) : x);
