@@ -30,6 +30,25 @@ function kmCandidates(x: readonly number[]): number[] {
   return logGrid(low / 10, high * 10, KM_GRID_POINTS);
 }
 
+/**
+ * The start rule shared by both Michaelis–Menten models: over the KM grid, the model is linear
+ * in (basal, kcat) or in Vm alone, solved exactly; the KM with the least RSS wins (first on ties).
+ */
+function bestKm(x: readonly number[], y: readonly number[], withBasal: boolean): { a: number; b: number; km: number } | null {
+  let best: { a: number; b: number; km: number } | null = null;
+  let bestRss = Infinity;
+  const g = new Float64Array(x.length);
+  for (const km of kmCandidates(x)) {
+    for (let i = 0; i < x.length; i++) g[i] = x[i] / (km + x[i]);
+    const fit = lineOnBasis(g, y, withBasal);
+    if (fit && fit.rss < bestRss) {
+      bestRss = fit.rss;
+      best = { a: fit.a, b: fit.b, km };
+    }
+  }
+  return best;
+}
+
 /** v = v0 + kcat·[A]/(KM + [A]); params ['basal', 'kcat', 'km']. */
 export const michaelisMentenBasal: CurveModel = {
   id: 'michaelis-menten-basal',
@@ -47,18 +66,8 @@ export const michaelisMentenBasal: CurveModel = {
     return [1, a / d, (-p[1] * a) / (d * d)];
   },
   start(x, y) {
-    let best: number[] = [0, Math.max(...y), range(x)[1] / 2];
-    let bestRss = Infinity;
-    const g = new Float64Array(x.length);
-    for (const km of kmCandidates(x)) {
-      for (let i = 0; i < x.length; i++) g[i] = x[i] / (km + x[i]);
-      const fit = lineOnBasis(g, y, true);
-      if (fit && fit.rss < bestRss) {
-        bestRss = fit.rss;
-        best = [fit.a, fit.b, km];
-      }
-    }
-    return best;
+    const best = bestKm(x, y, true);
+    return best ? [best.a, best.b, best.km] : [0, Math.max(...y), range(x)[1] / 2];
   },
   lower: [undefined, undefined, 0],
 };
@@ -76,18 +85,8 @@ export const michaelisMenten: CurveModel = {
     return [a / d, (-p[0] * a) / (d * d)];
   },
   start(x, y) {
-    let best: number[] = [Math.max(...y), range(x)[1] / 2];
-    let bestRss = Infinity;
-    const g = new Float64Array(x.length);
-    for (const km of kmCandidates(x)) {
-      for (let i = 0; i < x.length; i++) g[i] = x[i] / (km + x[i]);
-      const fit = lineOnBasis(g, y, false);
-      if (fit && fit.rss < bestRss) {
-        bestRss = fit.rss;
-        best = [fit.b, km];
-      }
-    }
-    return best;
+    const best = bestKm(x, y, false);
+    return best ? [best.b, best.km] : [Math.max(...y), range(x)[1] / 2];
   },
   lower: [undefined, 0],
 };
