@@ -1,6 +1,7 @@
 /**
- * Number formatting for generated sentences and tables: one place, so every page
- * and the CSV show the same digits. Pure; no locale dependence (always '.' decimal).
+ * Number formatting for the generated call sentences (src/analysis/score.ts). The pages' tables and
+ * chart descriptions use src/charts/chart-def.ts, which differs in small ways ('—' for no value,
+ * p below 0.0001); results.csv writes full-precision numbers. Pure; always '.' as decimal mark.
  */
 
 /** Format to `digits` significant figures, without exponent for everyday magnitudes. Example: fmt(1.23456) → '1.23'. */
