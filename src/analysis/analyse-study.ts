@@ -47,6 +47,18 @@ export const COMPARISON_METHOD =
   'residual variance from within-group and between-batch scatter on N − B − 1 degrees of freedom; t interval and two-sided t test; ' +
   'Benjamini–Hochberg q values across variants within each metric (Benjamini & Hochberg 1995). n is the number of biological units.';
 
+/** Group items by a key, keeping input order within each group (one pass; used to avoid per-variant scans). */
+function groupByKey<T>(items: readonly T[], key: (item: T) => string): Map<string, T[]> {
+  const out = new Map<string, T[]>();
+  for (const item of items) {
+    const k = key(item);
+    const list = out.get(k);
+    if (list) list.push(item);
+    else out.set(k, [item]);
+  }
+  return out;
+}
+
 function matchesExclusion(u: UnitResult, e: Exclusion, variants: Variant[]): boolean {
   if (e.assay && e.assay !== u.assay) return false;
   if (e.batch !== undefined && e.batch !== u.batch) return false;
@@ -119,15 +131,17 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   // 4. Assay and variant calls.
   const labels: Record<string, string> = Object.fromEntries(modules.map((m) => [m.id, m.label]));
   const assayCalls: AssayCall[] = [];
+  const comparisonsByVariant = groupByKey(comparisons, (c) => c.variant);
   for (const v of variants) {
     if (v.isWT) continue;
     for (const m of modules) {
-      const mine = comparisons.filter((c) => c.assay === m.id && c.variant === v.id);
+      const mine = (comparisonsByVariant.get(v.id) ?? []).filter((c) => c.assay === m.id);
       assayCalls.push(assayCall(m.id, v.id, mine, m.metrics, study.direction));
     }
   }
 
   // 5. Calibration per assay and overall, from the controls' readouts.
+  const callsByVariant = groupByKey(assayCalls, (a) => a.variant);
   const cap = study.thresholds.evidenceCap;
   const controls = variants.filter((v) => v.control && !v.isWT);
   const calibration: Calibration[] = modules.map((m) =>
@@ -136,7 +150,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
       controls.map((v) => ({
         id: v.id,
         knownClass: v.control!.class,
-        readout: assayCalls.find((a) => a.assay === m.id && a.variant === v.id)?.readout ?? null,
+        readout: callsByVariant.get(v.id)?.find((a) => a.assay === m.id)?.readout ?? null,
       })),
       { cap },
     ),
@@ -144,7 +158,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   const overallByVariant = new Map<string, ReturnType<typeof variantCall>>();
   for (const v of variants) {
     if (v.isWT) continue;
-    overallByVariant.set(v.id, variantCall(assayCalls.filter((a) => a.variant === v.id), labels, study.direction));
+    overallByVariant.set(v.id, variantCall(callsByVariant.get(v.id) ?? [], labels, study.direction));
   }
   const overallCal = calibrate(
     'overall',
@@ -154,11 +168,12 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   calibration.push(overallCal);
 
   // 6. Variant results.
+  const unitsByVariant = groupByKey(units, (u) => u.variant);
   const variantResults: VariantResult[] = variants.map((v) => {
     const overall = v.isWT
       ? { call: 'within WT range' as const, sentence: 'Wild-type reference: every comparison is made against it.', readout: null }
       : overallByVariant.get(v.id)!;
-    const flags = variantFlags(v, units, comparisons, controlCharts);
+    const flags = variantFlags(v, unitsByVariant.get(v.id) ?? [], comparisonsByVariant.get(v.id) ?? [], controlCharts);
     let evidence: VariantResult['evidence'];
     if (v.isWT) evidence = { level: 'none', scope: 'overall', sentence: 'Not applicable: wild-type reference.' };
     else if (v.control)
@@ -187,7 +202,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
       ...(domain ? { domain } : {}),
       ...(v.control ? { control: v.control } : {}),
       ...(v.note ? { note: v.note } : {}),
-      assayCalls: assayCalls.filter((a) => a.variant === v.id),
+      assayCalls: callsByVariant.get(v.id) ?? [],
       overall,
       evidence,
       flags,
@@ -234,15 +249,16 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
 /**
  * Flags about the variant as a whole: excluded units and comparisons made in batches whose WT control
  * values broke a Westgard rejection rule. Fit and comparison flags stay on their unit and comparison records.
+ * `units` and `comparisons` are the variant's own (indexed once by the caller, not scanned per variant).
  */
 function variantFlags(v: Variant, units: UnitResult[], comparisons: MetricComparison[], charts: ControlChart[]): Flag[] {
   const flags: Flag[] = [];
-  for (const u of units.filter((x) => x.variant === v.id && x.excluded)) {
+  for (const u of units.filter((x) => x.excluded)) {
     flags.push({ code: 'excluded', severity: 'info', message: `${u.assay}, unit ${u.unit} (batch ${u.batch}) excluded: ${u.excluded}` });
   }
   if (v.isWT) return flags;
   for (const chart of charts) {
-    const batches = new Set(comparisons.filter((c) => c.variant === v.id && c.assay === chart.assay).flatMap((c) => c.batches));
+    const batches = new Set(comparisons.filter((c) => c.assay === chart.assay).flatMap((c) => c.batches));
     for (const b of chart.rejectedBatches) {
       if (!batches.has(b)) continue;
       const rules = [...new Set(chart.points.filter((p) => p.batch === b).flatMap((p) => p.rules).filter((r) => r !== '1-2s'))];
