@@ -58,8 +58,9 @@ function processAlive(pid: number): boolean {
 
 /**
  * Remove staging and previous-output folders left next to `out` by builds that were killed:
- * only folders named `<out>.building-<pid>-*` or `<out>.previous-<pid>-*` that carry our marker
- * and whose process is gone. Anything else is left alone. Returns the folders removed.
+ * only folders named `<out>.building-<pid>-*`, `<out>.previous-<pid>-*` or `<out>.preparing-<pid>-*`
+ * that carry our marker (a `.preparing-` folder also when empty) and whose process is gone.
+ * Anything else is left alone. Returns the folders removed.
  */
 export function cleanStale(out: string): string[] {
   const parent = path.dirname(out);
@@ -72,12 +73,13 @@ export function cleanStale(out: string): string[] {
     return removed;
   }
   for (const name of names) {
-    const m = /^\.(building|previous)-(\d+)-[^/]+$/.exec(name.slice(base.length));
+    const m = /^\.(building|previous|preparing)-(\d+)-[^/]+$/.exec(name.slice(base.length));
     if (!name.startsWith(base) || !m) continue;
     const full = path.join(parent, name);
     const pid = Number(m[2]);
     if (pid === process.pid || processAlive(pid)) continue;
-    if (!lstatSync(full).isDirectory() || !hasMarker(full)) continue;
+    if (!lstatSync(full).isDirectory()) continue;
+    if (!hasMarker(full) && !(m[1] === 'preparing' && readdirSync(full).length === 0)) continue;
     rmSync(full, { recursive: true, force: true });
     removed.push(full);
   }
@@ -111,9 +113,13 @@ export function planOutput(studyDir: string, outDir: string, force: boolean): { 
 export function makeStaging(out: string, tag: string): string {
   cleanStale(out);
   mkdirSync(path.dirname(out), { recursive: true });
-  // A new, uniquely named folder: never reuses (or deletes) anything already there.
-  const staging = mkdtempSync(`${out}.building-${tag}-`);
-  writeFileSync(path.join(staging, OUTPUT_MARKER), 'This folder was written by myofolio build and is replaced by the next build.\n');
+  // A new, uniquely named folder: never reuses (or deletes) anything already there. It is prepared
+  // under another name and renamed once it carries the marker, so a staging folder never exists
+  // without it (a build killed in between leaves an empty or marked `.preparing-` folder, cleaned below).
+  const preparing = mkdtempSync(`${out}.preparing-${tag}-`);
+  writeFileSync(path.join(preparing, OUTPUT_MARKER), 'This folder was written by myofolio build and is replaced by the next build.\n');
+  const staging = `${out}.building-${tag}-${path.basename(preparing).slice(`${path.basename(out)}.preparing-${tag}-`.length)}`;
+  renameSync(preparing, staging);
   return staging;
 }
 
