@@ -372,7 +372,7 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
   const tableRows: string[][] = [];
   let maxShare = 0;
   let maxVelocity = 0;
-  for (const { u, group, label } of units) {
+  for (const [rowOrder, { u, group, label }] of units.entries()) {
     const h = unitHistogram(u.plot.points);
     // Bins are sorted by start, then state: a bin holding both states (a threshold that is not a bin edge) stacks them.
     let stackBin = NaN;
@@ -387,16 +387,15 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
       stackTop += share;
       maxShare = Math.max(maxShare, stackTop);
       maxVelocity = Math.max(maxVelocity, b.binEnd);
-      rows.push({ kind: 'bin', unitLabel: label, state: b.state, binStart: b.binStart, binEnd: b.binEnd, shareLow: Number(low.toFixed(4)), share: Number(stackTop.toFixed(4)) });
+      rows.push({ kind: 'bin', unitLabel: label, rowOrder, state: b.state, binStart: b.binStart, binEnd: b.binEnd, shareLow: Number(low.toFixed(4)), share: Number(stackTop.toFixed(4)) });
     }
     const mean = u.metrics.velocity;
-    if (typeof mean === 'number' && Number.isFinite(mean)) rows.push({ kind: 'mean', unitLabel: label, meanVelocity: Number(mean.toPrecision(4)) });
-    rows.push({ kind: group === 'WT' ? 'noteWT' : 'noteVariant', unitLabel: label, note: `${label}: n ${h.n}, ${pct(u.metrics.fractionImmobile)} immobile` });
+    if (typeof mean === 'number' && Number.isFinite(mean)) rows.push({ kind: 'mean', unitLabel: label, rowOrder, meanVelocity: Number(mean.toPrecision(4)) });
+    rows.push({ kind: group === 'WT' ? 'noteWT' : 'noteVariant', unitLabel: label, rowOrder, note: `${label}: n ${h.n}, ${pct(u.metrics.fractionImmobile)} immobile` });
     tableRows.push([group, u.unit, u.batch, String(h.n), pct(u.metrics.fractionImmobile), num(u.metrics.velocity), num(u.metrics.medianVelocity), num(u.metrics.p95Velocity)]);
   }
   const yTop = Math.max(0.1, Math.ceil(maxShare * 10) / 10);
   const xTop = Math.max(0.5, Math.ceil(maxVelocity * 4) / 4);
-  const order = units.map((x) => x.label);
   const kind = (k: string) => [{ filter: { field: 'kind', equal: k } }];
   return {
     title: `In vitro motility: ${input.variantLabel} beside WT of the same batches`,
@@ -411,12 +410,20 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
         note: `The chart bins filament velocities in ${MOTILITY_BIN_UMS} µm/s bins; the bin counts are in results.json (plot.points of each preparation).`,
       },
     },
+    // Axis ranges and the axis title depend on the data: parameters, so that every motility chart
+    // has the same shape and is compiled once (src/charts/render.ts).
+    params: [
+      { name: 'xTop', value: xTop },
+      { name: 'yTop', value: yTop },
+      { name: 'xTitle', value: ['Filament velocity (µm/s)', `Bar height: share of the row's filaments per ${MOTILITY_BIN_UMS} µm/s bin (full row = ${Math.round(yTop * 100)}%)`, 'Black line: mean velocity of the moving filaments'] },
+    ],
     data: { values: rows },
     facet: {
       row: {
         field: 'unitLabel',
         type: 'nominal',
-        sort: order,
+        // Rows in unitRows() order (by batch, WT first), carried by each row's rowOrder.
+        sort: { field: 'rowOrder', op: 'min' },
         title: null,
         header: { labels: false },
       },
@@ -430,9 +437,9 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
           transform: kind('bin'),
           mark: { type: 'rect' },
           encoding: {
-            x: { field: 'binStart', type: 'quantitative', title: ['Filament velocity (µm/s)', `Bar height: share of the row's filaments per ${MOTILITY_BIN_UMS} µm/s bin (full row = ${Math.round(yTop * 100)}%)`, 'Black line: mean velocity of the moving filaments'], axis: { titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal' }, scale: { domain: [0, xTop], nice: false } },
+            x: { field: 'binStart', type: 'quantitative', axis: { title: { signal: 'xTitle' }, titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal' }, scale: { domain: [0, { expr: 'xTop' }], nice: false } },
             x2: { field: 'binEnd' },
-            y: { field: 'share', type: 'quantitative', title: null, scale: { domain: [0, yTop], nice: false }, axis: null },
+            y: { field: 'share', type: 'quantitative', title: null, scale: { domain: [0, { expr: 'yTop' }], nice: false }, axis: null },
             y2: { field: 'shareLow' },
             color: {
               field: 'state',

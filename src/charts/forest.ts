@@ -17,9 +17,27 @@ interface Row {
   call: string;
 }
 
-function panel(rows: Row[], scale: MetricScale, calls: string[]) {
+/** A chart constant computed from the data: a top-level parameter, referenced as { expr: name }. */
+interface Param {
+  name: string;
+  value: unknown;
+}
+
+/**
+ * One panel. Its axis range and tick values depend on the variant's numbers, so they are
+ * parameters (pushed onto `params`) rather than literals: every forest plot with the same rows
+ * and calls then has the same shape and is compiled once (src/charts/render.ts).
+ */
+function panel(rows: Row[], scale: MetricScale, calls: string[], params: Param[]) {
   const log = scale === 'ratio';
-  const { scale: xScale, axis } = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
+  const fitted = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
+  const xScale: Record<string, unknown> = { ...fitted.scale, domain: { expr: `${scale}Domain` } };
+  params.push({ name: `${scale}Domain`, value: fitted.scale.domain });
+  const axis: Record<string, unknown> = { ...fitted.axis };
+  if (Array.isArray(fitted.axis.values)) {
+    axis.values = { expr: `${scale}Ticks` };
+    params.push({ name: `${scale}Ticks`, value: fitted.axis.values });
+  }
   const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 440 } };
   const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
   const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, axis, title: xTitle });
@@ -69,11 +87,13 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
   const ratio = estimable.filter((c) => c.scale === 'ratio').map(toRow);
   const diff = estimable.filter((c) => c.scale === 'difference').map(toRow);
   const calls = [...new Set(estimable.map((c) => c.call))];
-  const panels = [...(ratio.length ? [panel(ratio, 'ratio', calls)] : []), ...(diff.length ? [panel(diff, 'difference', calls)] : [])];
+  const params: Param[] = [];
+  const panels = [...(ratio.length ? [panel(ratio, 'ratio', calls, params)] : []), ...(diff.length ? [panel(diff, 'difference', calls, params)] : [])];
   const title = `Normalised metrics of ${name} against paired WT`;
   const spec = {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     title,
+    params,
     vconcat: panels,
     spacing: 18,
     resolve: { scale: { color: 'shared', shape: 'shared' }, legend: { color: 'shared', shape: 'shared' } },

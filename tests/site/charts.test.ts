@@ -3,7 +3,7 @@ import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
 import { effectsChart } from '../../src/charts/effects.js';
 import { forestChart } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
-import { chartKey, renderSvg, renumberIds, roundSvgGeometry, stripRedundant } from '../../src/charts/render.js';
+import { chartKey, drawRawDirect, drawRawShared, renderSvg, renumberIds, roundSvgGeometry, shapeStats, splitSpec, stripRedundant } from '../../src/charts/render.js';
 import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
 import { motilityChart, motilityPlotPoints } from '../../src/assays/motility.js';
 import { residueMapChart } from '../../src/charts/residue-map.js';
@@ -49,6 +49,42 @@ describe('renderSvg', () => {
   });
 });
 
+describe('chart shapes (compiled once, data swapped)', () => {
+  it('splits a spec into shape, datasets, title and parameter values', () => {
+    expect(splitSpec({ title: 'A', description: 'D', params: [{ name: 'top', value: 3 }, { name: 'sel', select: 'point' }], layer: [{ data: { values: [{ x: 1 }] }, mark: 'point' }, { data: { values: [] }, mark: 'rule' }] })).toEqual({
+      shape: { layer: [{ data: { name: 'myofolio_data_0' }, mark: 'point' }, { data: { name: 'myofolio_data_1' }, mark: 'rule' }], params: [{ name: 'top', value: null }, { name: 'sel', select: 'point' }] },
+      datasets: [[{ x: 1 }], []],
+      title: 'A',
+      signals: [['top', 3]],
+    });
+  });
+
+  // Vega numbers clip paths from a global counter: compare with ids renumbered the same way.
+  const same = (svg: string) => renumberIds(svg, 'z');
+
+  it('draws every chart of a shape exactly as compiling that chart on its own would', async () => {
+    const r = makeFixture();
+    const motility = (velocity: number, n: number) =>
+      motilityChart({
+        variantLabel: `V${n}`,
+        variantUnits: [{ assay: 'motility', variant: 'v', unit: 'v-1', batch: 'B1', metrics: { velocity, fractionImmobile: 0.1 }, flags: [], nTechnical: n, plot: { points: Array.from({ length: n }, (_, i) => ({ velocity: (velocity * (i + 1)) / n, state: i === 0 ? 'immobile' : 'moving' })) }, source: [] }],
+        wtUnits: [{ assay: 'motility', variant: 'wt', unit: 'wt-1', batch: 'B1', metrics: { velocity: 0.5, fractionImmobile: 0 }, flags: [], nTechnical: 5, plot: { points: [0.3, 0.4, 0.5, 0.6, 0.7].map((v) => ({ velocity: v, state: 'moving' })) }, source: [] }],
+      } as never);
+    const specs = [
+      { ...simple, title: 'First' },
+      { ...simple, title: { text: ['Second', 'two lines'], subtitle: 'sub' }, data: { values: [{ a: 5, b: 1 }, { a: 9, b: 30 }] } },
+      simple,
+      ...r.variants.filter((v) => !v.isWT).map((v) => forestChart(r, v, v.short)?.spec).filter((s) => s !== undefined),
+      drawnSpec(motility(0.4, 30)),
+      drawnSpec(motility(1.3, 12)),
+    ];
+    const before = shapeStats.compiled;
+    for (const spec of specs) expect(same(await drawRawShared(spec))).toBe(same(await drawRawDirect(spec)));
+    // The two motility charts (different axis ranges, titles and data) share one shape.
+    expect(shapeStats.compiled - before).toBeLessThan(specs.length);
+  });
+});
+
 describe('study chart specs', () => {
   const r = makeFixture();
   const all = () => [
@@ -60,12 +96,17 @@ describe('study chart specs', () => {
     ...r.controlCharts.map((c) => leveyJenningsChart(r, c)),
   ];
 
-  it('all render, carry data as values (no expressions) and tables with one row per datum', async () => {
+  it('all render, carry data as values (expressions only name constant parameters) and tables with one row per datum', async () => {
     for (const def of all()) {
       expect(def).not.toBeNull();
       const d = def!;
-      const text = JSON.stringify(d.spec);
-      expect(text).not.toMatch(/"(filter|calculate|expr|signal)"/);
+      // Data-dependent constants (axis ranges, ticks) are top-level { name, value } parameters,
+      // referenced as { expr: name }: nothing is computed in the chart that the table does not show.
+      const params = ((d.spec.params ?? []) as Array<{ name: string; value: unknown }>).map((p) => p.name);
+      const text = JSON.stringify(d.spec, (k, v) => (k === 'params' ? undefined : v));
+      const refs = [...text.matchAll(/"(?:expr|signal)":"([^"]*)"/g)].map((m) => m[1]);
+      for (const ref of refs) expect(params).toContain(ref);
+      expect(text).not.toMatch(/"(filter|calculate)"/);
       expect(d.table.rows.length).toBeGreaterThan(0);
       expect(d.table.rows.every((row) => row.length === d.table.columns.length)).toBe(true);
       expect(await renderSvg(d.spec, { key: d.key, title: d.title, description: d.description })).toMatch(/^<svg/);
