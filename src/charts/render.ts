@@ -244,6 +244,39 @@ function runtimeFor(shape: ChartSpec): ReturnType<typeof vega.parse> {
   return runtime;
 }
 
+/**
+ * Vega's expression code generator with its compiled functions kept per thread. Every new View
+ * compiles each expression and encoder of its runtime with `Function(...)`; charts of one shape
+ * compile the same code again and again. The compiled function depends on its code only (vega
+ * binds it to the View's own function table afterwards), so it is compiled once per code and
+ * bound per View. Generators called with a context without functions return unbound functions.
+ */
+const defaultCodegen = vega.runtimeContext(new vega.Dataflow(), {}, undefined as never, undefined as never).expr as Record<string, (...a: unknown[]) => unknown> & { codegen: unknown };
+const compiledCode = new Map<string, (...a: unknown[]) => unknown>();
+const MAX_COMPILED = 20_000;
+function memoised(kind: string, key: (e: never) => string) {
+  const generate = defaultCodegen[kind];
+  return (ctx: { functions?: object } | undefined, e: never) => {
+    const k = `${kind}\u0000${key(e)}`;
+    let fn = compiledCode.get(k);
+    if (!fn) {
+      fn = generate({}, e) as (...a: unknown[]) => unknown;
+      if (compiledCode.size >= MAX_COMPILED) compiledCode.clear();
+      compiledCode.set(k, fn);
+    }
+    return ctx && ctx.functions ? fn.bind(ctx.functions) : fn;
+  };
+}
+const exprCode = (e: { code: string }) => e.code;
+const sharedCodegen = {
+  operator: memoised('operator', exprCode),
+  parameter: memoised('parameter', exprCode),
+  event: memoised('event', exprCode),
+  handler: memoised('handler', exprCode),
+  encode: memoised('encode', (e: { marktype: string; channels: Record<string, { code: string }> }) => `${e.marktype}\u0000${Object.entries(e.channels).map(([n, c]) => `${n}\u0000${c.code}`).join('\u0000')}`),
+  codegen: defaultCodegen.codegen,
+};
+
 /** Vega's raw SVG for a spec: its shape's runtime (compiled once) with this chart's data and title. */
 async function drawRaw(spec: ChartSpec): Promise<string> {
   const { shape, datasets, title, signals } = splitSpec(spec);
@@ -252,7 +285,7 @@ async function drawRaw(spec: ChartSpec): Promise<string> {
   const titleText = params ? params.text : title;
   const hasTitle = titleText !== undefined && titleText !== null;
   const runtime = runtimeFor(hasTitle ? { ...shape, title: params ? { ...params, text: 'T' } : 'T' } : shape);
-  const view = new vega.View(runtime, { renderer: 'none' });
+  const view = new vega.View(runtime, { renderer: 'none', expr: sharedCodegen } as never);
   try {
     datasets.forEach((values, i) => view.data(`${DATA_PREFIX}${i}`, values as never));
     if (hasTitle) view.signal(TITLE_SIGNAL, titleText);
