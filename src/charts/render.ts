@@ -251,7 +251,9 @@ function runtimeFor(shape: ChartSpec): ReturnType<typeof vega.parse> {
  * binds it to the View's own function table afterwards), so it is compiled once per code and
  * bound per View. Generators called with a context without functions return unbound functions.
  */
-const defaultCodegen = vega.runtimeContext(new vega.Dataflow(), {}, undefined as never, undefined as never).expr as Record<string, (...a: unknown[]) => unknown> & { codegen: unknown };
+// runtimeContext and Dataflow are exported by vega but missing from its type declarations.
+const vegaRuntime = vega as unknown as { runtimeContext: (df: unknown, transforms: object, functions?: object, expr?: object) => { expr: unknown }; Dataflow: new () => unknown };
+const defaultCodegen = vegaRuntime.runtimeContext(new vegaRuntime.Dataflow(), {}).expr as Record<string, (...a: unknown[]) => unknown> & { codegen: unknown };
 const compiledCode = new Map<string, (...a: unknown[]) => unknown>();
 const MAX_COMPILED = 20_000;
 function memoised(kind: string, key: (e: never) => string) {
