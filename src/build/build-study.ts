@@ -18,6 +18,7 @@ import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
 import { planOutput, makeStaging, swapIn } from '../cli/output.js';
 import { resultsCsv } from '../results/csv.js';
+import { writeJsonStreamed } from '../results/json.js';
 import type { StudyResults } from '../results/types.js';
 import { buildSite } from '../site/build-site.js';
 import { loadStudy } from '../study/load.js';
@@ -35,6 +36,8 @@ export interface BuildOptions {
   onProgress?: (phase: string, done: number, total: number) => void;
   /** Chart SVG cache folder, or false for none (default: the user's cache folder, see src/charts/cache.ts). */
   chartCache?: string | false;
+  /** Worker threads for analysis and charts: 'auto' (default, one per core) or a number (0 = all in this thread). */
+  workers?: number | 'auto';
 }
 
 /** Studies with more data rows than this are analysed in worker threads (below it, starting workers costs more than it saves). */
@@ -45,29 +48,45 @@ export interface BuildOutcome {
   issues: Issue[];
   out?: string;
   pages?: number;
+  /** Charts drawn and charts served from the cache. */
+  charts?: { rendered: number; cached: number };
   results?: StudyResults;
   movedAside?: string;
+}
+
+/**
+ * Read, check and analyse. A function of its own so that the file bytes and the loaded rows
+ * (most of a large study's memory) can be collected once the results exist: only the results
+ * and the issues leave it.
+ */
+async function loadAndAnalyse(studyDir: string, options: BuildOptions): Promise<{ issues: Issue[]; results?: StudyResults }> {
+  const phase = options.onPhase ?? (() => {});
+  let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir);
+  phase('check');
+  const loaded = loadStudy(folder);
+  folder = undefined; // the file bytes are not needed after loading
+  const issues = loaded.issues;
+  if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues };
+  phase('analyse');
+  const epoch = options.sourceDateEpoch;
+  const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
+  const totalRows = Object.values(loaded.study.rows).reduce((n, rows) => n + (rows?.length ?? 0), 0);
+  const units =
+    totalRows >= PARALLEL_ANALYSIS_MIN_ROWS && options.workers !== 0
+      ? await analyseUnitsParallel(loaded.study, ASSAYS, { workers: options.workers ?? 'auto', onProgress: (d, t) => options.onProgress?.('analyse', d, t) })
+      : undefined;
+  const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units });
+  results.issues = issues;
+  return { issues, results };
 }
 
 export async function buildStudy(studyDir: string, outDir: string, options: BuildOptions = {}): Promise<BuildOutcome> {
   const phase = options.onPhase ?? (() => {});
   phase('read');
   const plan = planOutput(studyDir, outDir, options.force ?? false);
-  const folder = readStudyFolder(studyDir);
-  phase('check');
-  const loaded = loadStudy(folder);
-  const issues = loaded.issues;
-  if (!loaded.study || issues.some((i) => i.severity === 'error')) return { ok: false, issues };
-  phase('analyse');
+  const { issues, results } = await loadAndAnalyse(studyDir, options);
+  if (!results) return { ok: false, issues };
   const epoch = options.sourceDateEpoch;
-  const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
-  const totalRows = Object.values(loaded.study.rows).reduce((n, rows) => n + (rows?.length ?? 0), 0);
-  const units =
-    totalRows >= PARALLEL_ANALYSIS_MIN_ROWS
-      ? await analyseUnitsParallel(loaded.study, ASSAYS, { workers: 'auto', onProgress: (d, t) => options.onProgress?.('analyse', d, t) })
-      : undefined;
-  const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units });
-  results.issues = issues;
   const tag = String(process.pid);
   const staging = makeStaging(plan.out, tag);
   try {
@@ -75,16 +94,18 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
     const site = await buildSite(results, staging, {
       chartsFor: chartsFromModules(results, ASSAYS),
       sourceDateEpoch: epoch,
+      ...(options.workers !== undefined ? { workers: options.workers } : {}),
       ...(options.chartCache !== undefined ? { chartCache: options.chartCache } : {}),
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
     });
     phase('write');
     const downloads = path.join(staging, 'downloads');
     mkdirSync(downloads, { recursive: true });
-    writeFileSync(path.join(downloads, 'results.json'), JSON.stringify(results) + '\n');
+    // Streamed: the same bytes as JSON.stringify(results) + '\n', without one string of the whole file.
+    writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
     writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
     const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag);
-    return { ok: true, issues, out: plan.out, pages: site.pages, results, movedAside };
+    return { ok: true, issues, out: plan.out, pages: site.pages, charts: site.charts, results, movedAside };
   } catch (err) {
     rmSync(staging, { recursive: true, force: true });
     throw err;

@@ -1,0 +1,64 @@
+/**
+ * results.json written piece by piece: the same bytes as `JSON.stringify(results) + '\n'`, but
+ * never one string of the whole file. A 10,000-variant study's results run to about a gigabyte
+ * of JSON, past V8's largest string (about 512 MB: JSON.stringify throws "Invalid string
+ * length"), and a single string that size would double the build's peak memory.
+ *
+ * Top-level arrays are written element by element, everything else with JSON.stringify; the
+ * text goes out through a buffer in chunks of about CHUNK_BYTES.
+ */
+import { closeSync, openSync, writeSync } from 'node:fs';
+
+/** Bytes collected before a write to the file. */
+const CHUNK_BYTES = 1 << 20;
+
+/** A sink that collects text and writes it to `fd` in chunks. */
+function chunkedWriter(fd: number) {
+  let parts: string[] = [];
+  let size = 0;
+  const flush = () => {
+    if (parts.length === 0) return;
+    writeSync(fd, parts.join(''));
+    parts = [];
+    size = 0;
+  };
+  return {
+    write(text: string) {
+      parts.push(text);
+      size += text.length;
+      if (size >= CHUNK_BYTES) flush();
+    },
+    flush,
+  };
+}
+
+/**
+ * Write `value` as compact JSON followed by a newline, streaming the elements of its top-level
+ * arrays. Equal to writeFileSync(file, JSON.stringify(value) + '\n') for any plain JSON object
+ * (keys whose value JSON.stringify leaves out, such as undefined or functions, are left out here too).
+ * @example writeJsonStreamed('r.json', { a: [1, { b: 2 }], c: 'x' }) // file: {"a":[1,{"b":2}],"c":"x"}\n
+ */
+export function writeJsonStreamed(file: string, value: Record<string, unknown>): void {
+  const fd = openSync(file, 'w');
+  try {
+    const out = chunkedWriter(fd);
+    out.write('{');
+    let first = true;
+    for (const [key, v] of Object.entries(value)) {
+      if (Array.isArray(v)) {
+        out.write(`${first ? '' : ','}${JSON.stringify(key)}:[`);
+        v.forEach((item, i) => out.write((i > 0 ? ',' : '') + (JSON.stringify(item) ?? 'null')));
+        out.write(']');
+      } else {
+        const text = JSON.stringify(v);
+        if (text === undefined) continue; // as JSON.stringify drops the key
+        out.write(`${first ? '' : ','}${JSON.stringify(key)}:${text}`);
+      }
+      first = false;
+    }
+    out.write('}\n');
+    out.flush();
+  } finally {
+    closeSync(fd);
+  }
+}
