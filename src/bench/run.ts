@@ -17,22 +17,12 @@
  * of as many trivial pages, the floor for the pages phase. Figures only; nothing is asserted.
  */
 import { execFileSync, spawn } from 'node:child_process';
-import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
-import { analyseStudy } from '../analysis/analyse-study.js';
-import { activeModules, analyseUnitsParallel } from '../analysis/parallel.js';
-import { ASSAYS } from '../assays/registry.js';
-import { chartsFromModules } from '../charts/assay-charts.js';
-import { createChartRenderer } from '../charts/pool.js';
-import { makeStaging, planOutput, swapIn } from '../cli/output.js';
-import { resultsCsv } from '../results/csv.js';
-import { buildSite } from '../site/build-site.js';
-import { loadStudy } from '../study/load.js';
-import { readStudyFolder } from '../study/read-folder.js';
-import { TOOL_VERSION } from '../version.js';
+import { buildStudy } from '../build/build-study.js';
 import { changeOneVariant, syntheticStudy, writeStudy } from './synthetic.js';
 
 interface PhaseFigure {
@@ -91,61 +81,35 @@ function duMB(dir: string): number {
   }
 }
 
-/** One build of a study folder, phase by phase as build-study.ts does it (child process). */
+/**
+ * One build of a study folder by buildStudy (src/build/build-study.ts), the path the CLI takes,
+ * timed phase by phase from its progress callbacks (child process).
+ */
 async function buildOnce(studyDir: string, outDir: string, cacheDir: string, mode: string, size: number): Promise<BuildFigures> {
   const serial = mode === 'serial';
   const m = meter();
-  const folder = readStudyFolder(studyDir);
-  const loaded = loadStudy(folder);
-  if (!loaded.study || loaded.issues.some((i) => i.severity === 'error')) throw new Error(`study has errors: ${JSON.stringify(loaded.issues.slice(0, 3))}`);
-  const study = loaded.study;
-  m.lap('load');
-  const builtAt = '2025-03-01T00:00:00.000Z';
-  let results;
-  if (serial) {
-    results = analyseStudy(study, { toolVersion: TOOL_VERSION, builtAt });
-  } else {
-    const units = await analyseUnitsParallel(study, ASSAYS, { workers: 'auto' });
-    const byAssay = new Map<string, typeof units>();
-    for (const u of units) (byAssay.get(u.assay) ?? byAssay.set(u.assay, []).get(u.assay)!).push(u);
-    // Precomputed units enter analyseStudy through modules whose analyse() returns them
-    // (until analyseStudy takes `units` itself; see the report of issue 9).
-    const pre = activeModules(study, ASSAYS).map((mod) => ({ ...mod, analyse: () => byAssay.get(mod.id) ?? [] }));
-    results = analyseStudy(study, { toolVersion: TOOL_VERSION, builtAt, assays: pre });
-  }
-  results.issues = loaded.issues;
-  m.lap('analyse');
-  const plan = planOutput(studyDir, outDir, true);
-  const staging = makeStaging(plan.out, String(process.pid));
-  const renderer = createChartRenderer(serial ? { workers: 0, cacheDir: false } : { workers: availableParallelism(), cacheDir });
-  let pages = 0;
-  try {
-    let chartsDone = false;
-    const site = await buildSite(results, staging, {
-      chartsFor: chartsFromModules(results, ASSAYS),
-      sourceDateEpoch: 1_740_787_200,
-      renderer,
-      onProgress: (phase) => {
-        if (phase === 'pages' && !chartsDone) {
-          chartsDone = true;
-          m.lap('charts');
-        }
-      },
-    });
-    pages = site.pages;
-  } finally {
-    await renderer.close();
-  }
-  m.lap('pages');
-  const downloads = join(staging, 'downloads');
-  mkdirSync(downloads, { recursive: true });
-  const resultsJson = JSON.stringify(results, null, 1) + '\n';
-  writeFileSync(join(downloads, 'results.json'), resultsJson);
-  const resultsMB = Buffer.byteLength(resultsJson) / 1e6;
-  writeFileSync(join(downloads, 'results.csv'), resultsCsv(results));
-  swapIn(staging, plan.out, plan.replaceForeign, String(process.pid));
+  let chartsDone = false;
+  const outcome = await buildStudy(studyDir, outDir, {
+    force: true,
+    sourceDateEpoch: 1_740_787_200,
+    workers: serial ? 0 : 'auto',
+    chartCache: serial ? false : cacheDir,
+    onPhase: (phase) => {
+      if (phase === 'analyse') m.lap('load');
+      else if (phase === 'pages') m.lap('analyse');
+      else if (phase === 'write') m.lap('pages');
+    },
+    onProgress: (phase) => {
+      if (phase === 'pages' && !chartsDone) {
+        chartsDone = true;
+        m.lap('charts');
+      }
+    },
+  });
+  if (!outcome.ok) throw new Error(`study has errors: ${JSON.stringify(outcome.issues.slice(0, 3))}`);
   m.lap('write');
-  return { size, mode, phases: m.phases, pages, charts: renderer.stats(), outMB: duMB(plan.out), resultsMB };
+  const resultsMB = statSync(join(outcome.out as string, 'downloads', 'results.json')).size / 1e6;
+  return { size, mode, phases: m.phases, pages: outcome.pages ?? 0, charts: outcome.charts ?? { rendered: 0, cached: 0 }, outMB: duMB(outcome.out as string), resultsMB };
 }
 
 /** Bare Eleventy: `n` trivial pages from one paginated template (the floor for the pages phase). */

@@ -61,6 +61,8 @@ export const VARIANT_BATCH = 100;
 interface Prepared {
   slugs: Map<string, string>;
   render: RenderFn | undefined;
+  /** Charts drawn and charts served from the cache so far. */
+  stats: () => { rendered: number; cached: number };
   close: () => Promise<void>;
 }
 
@@ -71,7 +73,7 @@ function prepare(results: StudyResults, options: BuildSiteOptions): Prepared {
   const ownRenderer = options.renderer || (workers === 0 && cacheDir === false) ? undefined : createChartRenderer({ workers, cacheDir });
   const renderer = options.renderer ?? ownRenderer;
   const render: RenderFn | undefined = renderer ? (spec, o) => renderer.render(spec, o) : undefined;
-  return { slugs, render, close: async () => ownRenderer?.close() };
+  return { slugs, render, stats: () => renderer?.stats() ?? { rendered: 0, cached: 0 }, close: async () => ownRenderer?.close() };
 }
 
 /** Everything the templates read except the variant pages (variants: []). */
@@ -149,13 +151,15 @@ async function runEleventy(input: string, outDir: string, site: unknown): Promis
 }
 
 /**
- * Build the site into outDir (which should be empty). Returns the number of HTML pages written.
+ * Build the site into outDir (which should be empty). Returns the number of HTML pages written
+ * and how many charts were drawn and how many came from the cache.
  * Progress: ('charts', variant pages done, total) while variant pages are drawn and written,
  * then ('pages', 0, 1) and ('pages', 1, 1) around the study-level pages.
  */
-export async function buildSite(results: StudyResults, outDir: string, options: BuildSiteOptions = {}): Promise<{ pages: number }> {
+export async function buildSite(results: StudyResults, outDir: string, options: BuildSiteOptions = {}): Promise<{ pages: number; charts: { rendered: number; cached: number } }> {
   const prepared = prepare(results, options);
   let pages = 0;
+  let charts = { rendered: 0, cached: 0 };
   try {
     const progress = options.onProgress;
     const total = results.variants.length;
@@ -177,8 +181,9 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     pages += await runEleventy(templatesDir, outDir, site);
     await cp(join(templatesDir, 'assets'), join(outDir, 'assets'), { recursive: true });
     progress?.('pages', 1, 1);
+    charts = prepared.stats();
   } finally {
     await prepared.close();
   }
-  return { pages };
+  return { pages, charts };
 }
