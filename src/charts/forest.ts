@@ -70,9 +70,22 @@ function panel(rows: Row[], scale: MetricScale, calls: string[], params: Param[]
   };
 }
 
+/** Comparisons of each variant, indexed once per results object (a scan per variant is quadratic in study size). */
+const comparisonsByVariant = new WeakMap<StudyResults, Map<string, MetricComparison[]>>();
+function comparisonsOf(results: StudyResults, variantId: string): MetricComparison[] {
+  let index = comparisonsByVariant.get(results);
+  if (!index) {
+    const built = new Map<string, MetricComparison[]>();
+    for (const c of results.comparisons) (built.get(c.variant) ?? built.set(c.variant, []).get(c.variant)!).push(c);
+    comparisonsByVariant.set(results, built);
+    index = built;
+  }
+  return index.get(variantId) ?? [];
+}
+
 /** Forest plot of one variant, or null when it has no estimable comparison. */
 export function forestChart(results: StudyResults, variant: VariantResult, name: string): ChartDef | null {
-  const comps = results.comparisons.filter((c) => c.variant === variant.id);
+  const comps = comparisonsOf(results, variant.id);
   const estimable = comps.filter((c): c is MetricComparison & { effect: number } => c.effect !== null && Number.isFinite(c.effect));
   if (estimable.length === 0) return null;
   const toRow = (c: MetricComparison & { effect: number }): Row => ({
