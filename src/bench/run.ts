@@ -4,9 +4,9 @@
  *
  * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
  * (src/bench/synthetic.ts) to os.tmpdir(), then builds it
- *   cold  — empty chart cache,
- *   warm  — after one variant's velocities changed, with the cache of the cold build,
- *   serial — (with --baseline) one thread, no cache: the path before the pool existed,
+ *   cold  — empty chart and analysis caches,
+ *   warm  — after one variant's velocities changed, with the caches of the cold build,
+ *   serial — (with --baseline) one thread, no caches: the path before the pools existed,
  * each in its own child process, so every peak-memory figure belongs to one build. Phases follow
  * src/build/build-study.ts: load (read + loadStudy), analyse (analyseUnitsParallel + analyseStudy),
  * charts (every SVG; variant pages are written by Eleventy in batches as their charts are drawn),
@@ -93,7 +93,8 @@ async function buildOnce(studyDir: string, outDir: string, cacheDir: string, mod
     force: true,
     sourceDateEpoch: 1_740_787_200,
     workers: serial ? 0 : 'auto',
-    chartCache: serial ? false : cacheDir,
+    chartCache: serial ? false : join(cacheDir, 'charts'),
+    analysisCache: serial ? false : join(cacheDir, 'analysis'),
     onPhase: (phase) => {
       if (phase === 'analyse') m.lap('load');
       else if (phase === 'pages') m.lap('analyse');

@@ -3,6 +3,7 @@
  *
  *   study folder ──readStudyFolder──▶ files (bytes, SHA-256)      src/study/read-folder.ts
  *                ──loadStudy───────▶ Study | issues               src/study/load.ts (pure)
+ *                ──units per batch─▶ UnitResult[] (cached by batch) src/build/analysis-cache.ts
  *                ──analyseStudy────▶ StudyResults                 src/analysis/analyse-study.ts (pure)
  *                ──buildSite───────▶ pages + SVG charts            src/site/build-site.ts
  *                ──downloads───────▶ results.json, results.csv
@@ -13,7 +14,7 @@
 import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
-import { analyseUnitsParallel } from '../analysis/parallel.js';
+import { analyseUnitsCached } from './analysis-cache.js';
 import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
 import { planOutput, makeStaging, swapIn } from '../cli/output.js';
@@ -36,11 +37,16 @@ export interface BuildOptions {
   onProgress?: (phase: string, done: number, total: number) => void;
   /** Chart SVG cache folder, or false for none (default: the user's cache folder, see src/charts/cache.ts). */
   chartCache?: string | false;
+  /**
+   * Per-batch analysis cache folder, or false for none (default: beside the chart cache, see
+   * src/build/analysis-cache.ts): a rebuild re-fits only the batches whose rows changed.
+   */
+  analysisCache?: string | false;
   /** Worker threads for analysis and charts: 'auto' (default, one per core) or a number (0 = all in this thread). */
   workers?: number | 'auto';
 }
 
-/** Studies with more data rows than this are analysed in worker threads (below it, starting workers costs more than it saves). */
+/** Rows to analyse (those not served by the analysis cache) from which worker threads are used; below it, starting workers costs more than it saves. */
 export const PARALLEL_ANALYSIS_MIN_ROWS = 100_000;
 
 export interface BuildOutcome {
@@ -70,11 +76,12 @@ async function loadAndAnalyse(studyDir: string, options: BuildOptions): Promise<
   phase('analyse');
   const epoch = options.sourceDateEpoch;
   const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
-  const totalRows = Object.values(loaded.study.rows).reduce((n, rows) => n + (rows?.length ?? 0), 0);
-  const units =
-    totalRows >= PARALLEL_ANALYSIS_MIN_ROWS && options.workers !== 0
-      ? await analyseUnitsParallel(loaded.study, ASSAYS, { workers: options.workers ?? 'auto', onProgress: (d, t) => options.onProgress?.('analyse', d, t) })
-      : undefined;
+  const { units } = await analyseUnitsCached(loaded.study, ASSAYS, {
+    workers: options.workers ?? 'auto',
+    minRowsForWorkers: PARALLEL_ANALYSIS_MIN_ROWS,
+    ...(options.analysisCache !== undefined ? { cacheDir: options.analysisCache } : {}),
+    onProgress: (d, t) => options.onProgress?.('analyse', d, t),
+  });
   const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units });
   results.issues = issues;
   return { issues, results };

@@ -1,0 +1,141 @@
+/**
+ * Per-batch cache of unit analyses, so that a rebuild after one batch changed re-fits only that
+ * batch's units.
+ *
+ *   Study ──rows split by batch──▶ per batch: key = SHA-256 of (code fingerprint, module ids,
+ *         study settings, input files' kinds/paths/settings, the batch's rows in order)
+ *         ──hit──▶ UnitResult[] from <dir>/<ab>/<key>.bin (v8 serialisation: exact numbers, NaN kept)
+ *         ──miss──▶ analyseUnitsParallel on a study holding only the missed batches ──▶ stored
+ *         ──merge, in the serial path's order──▶ UnitResult[]
+ *
+ * Why per batch: units are independent given their batch (src/analysis/parallel.ts; NADH rates
+ * subtract the actin-only wells of their own batch), and the modules read nothing else of the
+ * study than its settings, its files' settings and its rows. The code fingerprint hashes every
+ * source file under src/, so a changed analysis can never be served from an older cache.
+ * The result equals analyseUnitsParallel(study) (tested); entries are never pruned.
+ */
+import { createHash } from 'node:crypto';
+import { mkdirSync, readFileSync, readdirSync, renameSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { deserialize, serialize } from 'node:v8';
+import { type ParallelOptions, activeModules, analyseUnitsParallel, serialOrder } from '../analysis/parallel.js';
+import { ASSAYS } from '../assays/registry.js';
+import type { AssayModule } from '../assays/types.js';
+import { DEFAULT_CHART_CACHE } from '../charts/cache.js';
+import type { UnitResult } from '../results/types.js';
+import type { InputKind, RowBase, Study } from '../study/types.js';
+
+/** Default folder: beside the chart cache, in the user's cache directory. */
+export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
+
+/** Version of the entry format; bump when what is stored changes. */
+const ENTRY_VERSION = 1;
+
+const srcDir = fileURLToPath(new URL('../', import.meta.url));
+let fingerprint: string | undefined;
+
+/** SHA-256 over every .ts/.js/.json file under src/ (paths and contents, sorted by path). */
+export function codeFingerprint(): string {
+  if (fingerprint) return fingerprint;
+  const hash = createHash('sha256');
+  const walk = (dir: string): string[] =>
+    readdirSync(dir, { withFileTypes: true })
+      .flatMap((e) => (e.isDirectory() ? walk(join(dir, e.name)) : /\.(ts|js|mjs|json)$/.test(e.name) ? [join(dir, e.name)] : []))
+      .sort();
+  for (const file of walk(srcDir)) hash.update(file.slice(srcDir.length)).update('\0').update(readFileSync(file)).update('\0');
+  fingerprint = hash.digest('hex');
+  return fingerprint;
+}
+
+export interface CachedAnalysisOptions extends ParallelOptions {
+  /** Cache folder, or false for none (then this is analyseUnitsParallel). */
+  cacheDir?: string | false;
+  /** Rows to analyse below which no worker threads are started (starting them costs more than they save). Default 0. */
+  minRowsForWorkers?: number;
+}
+
+export interface CachedAnalysis {
+  units: UnitResult[];
+  /** Batches analysed now and batches taken from the cache. */
+  batches: { analysed: number; cached: number };
+}
+
+/**
+ * Units of every active module, from the cache where a batch's inputs are unchanged.
+ * Same result, in the same order, as analyseUnitsParallel(study, modules).
+ */
+export async function analyseUnitsCached(study: Study, modules: readonly AssayModule[] = ASSAYS, options: CachedAnalysisOptions = {}): Promise<CachedAnalysis> {
+  const active = activeModules(study, modules);
+  // Only registry modules are cached (their code is under src/, in the fingerprint).
+  if (options.cacheDir === false || active.some((m) => !ASSAYS.includes(m))) {
+    const total = Object.values(study.rows).reduce((n, list) => n + (list?.length ?? 0), 0);
+    const units = await analyseUnitsParallel(study, modules, total >= (options.minRowsForWorkers ?? 0) ? options : { ...options, workers: 0 });
+    return { units, batches: { analysed: new Set(units.map((u) => u.batch)).size, cached: 0 } };
+  }
+  const dir = resolve(options.cacheDir ?? DEFAULT_ANALYSIS_CACHE);
+  const kinds = [...new Set(active.flatMap((m) => m.inputs))] as InputKind[];
+  const byBatch = new Map<string, Partial<Record<InputKind, RowBase[]>>>();
+  for (const kind of kinds) {
+    for (const r of (study.rows[kind] ?? []) as RowBase[]) {
+      let b = byBatch.get(r.batch);
+      if (!b) byBatch.set(r.batch, (b = {}));
+      (b[kind] ??= []).push(r);
+    }
+  }
+  const context = JSON.stringify([
+    ENTRY_VERSION,
+    codeFingerprint(),
+    active.map((m) => m.id),
+    study.settings,
+    study.files.map((f) => [f.kind, f.path, f.settings]),
+  ]);
+  const keyOf = (batch: string, rows: Partial<Record<InputKind, RowBase[]>>) => {
+    const hash = createHash('sha256').update(context).update('\0').update(JSON.stringify(batch));
+    for (const kind of kinds) hash.update('\0').update(kind).update('\0').update(JSON.stringify(rows[kind] ?? []));
+    return hash.digest('hex');
+  };
+  const file = (key: string) => join(dir, key.slice(0, 2), `${key}.bin`);
+
+  const found: UnitResult[] = [];
+  const missed = new Map<string, string>(); // batch → key
+  for (const [batch, rows] of byBatch) {
+    const key = keyOf(batch, rows);
+    try {
+      found.push(...(deserialize(readFileSync(file(key))) as UnitResult[]));
+    } catch {
+      missed.set(batch, key);
+    }
+  }
+  let fresh: UnitResult[] = [];
+  if (missed.size > 0) {
+    const rows: Partial<Record<InputKind, RowBase[]>> = {};
+    for (const kind of kinds) {
+      const list = ((study.rows[kind] ?? []) as RowBase[]).filter((r) => missed.has(r.batch));
+      if (list.length > 0) rows[kind] = list;
+    }
+    const count = Object.values(rows).reduce((n, list) => n + list.length, 0);
+    fresh = await analyseUnitsParallel({ ...study, rows: rows as Study['rows'] }, active, count >= (options.minRowsForWorkers ?? 0) ? options : { ...options, workers: 0 });
+    const perBatch = new Map<string, UnitResult[]>();
+    for (const u of fresh) (perBatch.get(u.batch) ?? perBatch.set(u.batch, []).get(u.batch)!).push(u);
+    for (const [batch, key] of missed) {
+      // A batch whose rows give no unit (e.g. only NADH actin-only wells) is stored empty.
+      store(file(key), perBatch.get(batch) ?? []);
+    }
+  }
+  const all = [...found, ...fresh];
+  const units = active.flatMap((m) => serialOrder(study, m, all.filter((u) => u.assay === m.id)));
+  return { units, batches: { analysed: missed.size, cached: byBatch.size - missed.size } };
+}
+
+/** Write an entry under a temporary name and rename it (best effort: a cache that cannot be written only costs time). */
+function store(path: string, units: UnitResult[]): void {
+  try {
+    mkdirSync(join(path, '..'), { recursive: true });
+    const tmp = `${path}.${process.pid}.tmp`;
+    writeFileSync(tmp, serialize(units));
+    renameSync(tmp, path);
+  } catch {
+    // read-only or full disk: carry on without caching
+  }
+}
