@@ -60,7 +60,6 @@ export function unitChart(input: AssayChartInput, o: UnitChartOptions): ChartSpe
           x,
           y,
           shape: { field: 'group', type: 'nominal', scale: { domain: ['WT', 'Variant'], range: ['circle', 'triangle-up'] }, title: null },
-          tooltip: [{ field: 'unit', type: 'nominal' }, { field: o.x.field, type: 'quantitative' }, { field: o.y.field, type: 'quantitative' }],
           ...o.encodingExtra,
         },
       },
