@@ -136,13 +136,25 @@ const DECIMAL = /-?(?:\d+\.\d*|\.\d+)(?:e[-+]?\d+)?/gi;
  * @example roundSvgGeometry('<path d="M12.3456,7.0001L-0.04,3"/>') // → '<path d="M12.3,7L0,3"/>'
  */
 export function roundSvgGeometry(svg: string): string {
-  return svg.replace(GEOMETRY_ATTRS, (_m, name: string, value: string) => {
-    const rounded = value.replace(DECIMAL, (n) => {
-      const r = Math.round(Number(n) * 10) / 10;
-      return Number.isFinite(r) ? (Object.is(r, -0) ? '0' : String(r)) : n;
-    });
-    return ` ${name}="${rounded}"`;
-  });
+  return svg.replace(GEOMETRY_ATTRS, (_m, name: string, value: string) => ` ${name}="${value.replace(DECIMAL, roundDecimal)}"`);
+}
+
+/**
+ * One decimal number to one decimal place: String(Math.round(x · 10) / 10), '-0' as '0', written
+ * from the integer k = Math.round(x · 10) as ⌊|k|/10⌋.(|k| mod 10) (integer formatting is much
+ * cheaper than the shortest-round-trip formatting of a double; for |k| < 10¹⁵ the one-decimal
+ * text is that shortest form). Non-finite results keep the original text.
+ * @example roundDecimal('-12.3456') // → '-12.3'
+ */
+export function roundDecimal(n: string): string {
+  const k = Math.round(Number(n) * 10);
+  if (!Number.isFinite(k)) return n;
+  if (k === 0) return '0';
+  const a = k < 0 ? -k : k;
+  if (a >= 1e15) return String(k / 10);
+  const whole = Math.floor(a / 10);
+  const tenth = a - whole * 10;
+  return `${k < 0 ? '-' : ''}${whole}${tenth === 0 ? '' : `.${tenth}`}`;
 }
 
 /**

@@ -3,7 +3,7 @@ import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
 import { effectsChart } from '../../src/charts/effects.js';
 import { forestChart } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
-import { chartKey, drawRawDirect, drawRawShared, renderSvg, renumberIds, roundSvgGeometry, shapeStats, splitSpec, stripRedundant } from '../../src/charts/render.js';
+import { chartKey, drawRawDirect, drawRawShared, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, shapeStats, splitSpec, stripRedundant } from '../../src/charts/render.js';
 import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
 import { motilityChart, motilityPlotPoints } from '../../src/assays/motility.js';
 import { residueMapChart } from '../../src/charts/residue-map.js';
@@ -176,6 +176,17 @@ describe('lighter charts', () => {
   it('rounds SVG geometry to 0.1 and leaves text alone', () => {
     // Expected strings worked by hand from the rule (common practice, no source).
     expect(roundSvgGeometry('<path d="M12.3456,7.0001L-0.04,3"/>')).toBe('<path d="M12.3,7L0,3"/>');
+    // The integer-formatting shortcut equals String(Math.round(x·10)/10) ('-0' as '0') on halves, signs,
+    // exponents and large values, and on 20,000 seeded random numbers of every magnitude.
+    const reference = (n: string) => {
+      const r = Math.round(Number(n) * 10) / 10;
+      return Number.isFinite(r) ? (Object.is(r, -0) ? '0' : String(r)) : n;
+    };
+    const cases = ['0.05', '-0.05', '0.25', '-0.25', '0.35', '2.45', '-2.45', '1.5e-7', '-3.25e2', '123456789.95', '9.99', '-9.96', '1e400.5', '.5', '-.04', '99999999999999.95', '5e14', '1.2e15'];
+    let seed = 1;
+    const next = () => ((seed = (seed * 16807) % 2147483647) / 2147483647);
+    for (let i = 0; i < 20_000; i++) cases.push(((next() - 0.5) * 10 ** Math.floor(next() * 18 - 3)).toString());
+    for (const c of cases) expect(roundDecimal(c), c).toBe(reference(c));
     expect(roundSvgGeometry('<g transform="translate(10.25,3.449)"><text x="1.26">0.125</text></g>')).toBe('<g transform="translate(10.3,3.4)"><text x="1.3">0.125</text></g>');
     expect(stripRedundant('<g class="mark-rule" pointer-events="none"><line opacity="1"/><path d="" display="none"/></g>')).toBe('<g><line/></g>');
   });
