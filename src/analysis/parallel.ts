@@ -9,13 +9,17 @@
  * Units are independent given their batch (ATPase from NADH traces subtracts the actin-only
  * background of the same batch, so a batch is never split). The result equals
  * `modules.flatMap((m) => m.analyse(study))` for the modules that have rows (tested).
- * Rows travel to workers by structured clone. This file does no I/O besides starting workers.
+ * Rows travel to workers in columns (analyse-worker-rows.ts): a structured clone of row objects
+ * copies every string of every row and took longer to decode in the worker than the analysis
+ * itself (47 s for the 3 million rows of a 1,000-variant benchmark study, and a copy of each
+ * string per row in worker memory). This file does no I/O besides starting workers.
  */
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { WorkerPool, defaultWorkers } from '../charts/pool.js';
 import type { UnitResult } from '../results/types.js';
 import type { InputKind, RowBase, Study } from '../study/types.js';
+import { encodeRows, type RowColumns } from './analyse-worker-rows.js';
 
 export interface ParallelOptions {
   /** Worker threads; 0 analyses in this thread; 'auto' (default) = os.availableParallelism(). */
@@ -31,9 +35,10 @@ export function activeModules(study: Pick<Study, 'rows'>, modules: readonly Assa
   return modules.filter((a) => a.inputs.some((k) => (study.rows[k]?.length ?? 0) > 0));
 }
 
-/** Message to the analysis worker: a study without rows, the chunk's rows, and module ids. */
+/** Message to the analysis worker: a study without rows, the chunk's rows in columns, and module ids. */
 export interface AnalyseJob {
-  study: Study;
+  study: Omit<Study, 'rows'>;
+  rows: Record<string, RowColumns>;
   moduleIds: string[];
 }
 
@@ -54,7 +59,7 @@ function batchGroups(study: Study, n: number): string[][] {
 }
 
 /** Order units as the serial path does: by first appearance of their key in the module's inputs. */
-function serialOrder(study: Study, m: AssayModule, units: UnitResult[]): UnitResult[] {
+export function serialOrder(study: Study, m: AssayModule, units: UnitResult[]): UnitResult[] {
   const rank = new Map<string, number>();
   for (const kind of m.inputs) {
     for (const r of (study.rows[kind] ?? []) as RowBase[]) {
@@ -97,7 +102,7 @@ export async function analyseUnitsParallel(study: Study, modules: readonly Assay
   try {
     const parts = await Promise.all(
       chunkRows.map((rows) =>
-        pool.run({ study: { ...meta, rows } as Study, moduleIds: pooled.map((m) => m.id) }).then((r) => {
+        pool.run({ study: meta, rows: Object.fromEntries(Object.entries(rows).map(([k, r]) => [k, encodeRows(r as RowBase[])])), moduleIds: pooled.map((m) => m.id) }).then((r) => {
           options.onProgress?.(++done, chunkRows.length);
           return r;
         }),
