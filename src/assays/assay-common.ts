@@ -122,18 +122,30 @@ export interface UnitGroup<T extends RowBase> {
  * follows the input files and is deterministic.
  */
 export function groupUnits<T extends RowBase>(rows: readonly T[]): UnitGroup<T>[] {
-  const groups = new Map<string, UnitGroup<T>>();
+  // Nested maps variant → unit → batch (no key string per row), and the previous row's group
+  // reused while the three fields repeat, as they do in files written unit by unit.
+  const byVariant = new Map<string, Map<string, Map<string, UnitGroup<T>>>>();
+  const groups: UnitGroup<T>[] = [];
+  let last: UnitGroup<T> | undefined;
   for (const row of rows) {
-    const key = JSON.stringify([row.variant, row.unit, row.batch]);
-    let g = groups.get(key);
-    if (!g) {
-      g = { variant: row.variant, unit: row.unit, batch: row.batch, rows: [], source: [] };
-      groups.set(key, g);
+    let g = last;
+    if (!g || g.variant !== row.variant || g.unit !== row.unit || g.batch !== row.batch) {
+      let byUnit = byVariant.get(row.variant);
+      if (!byUnit) byVariant.set(row.variant, (byUnit = new Map()));
+      let byBatch = byUnit.get(row.unit);
+      if (!byBatch) byUnit.set(row.unit, (byBatch = new Map()));
+      g = byBatch.get(row.batch);
+      if (!g) {
+        g = { variant: row.variant, unit: row.unit, batch: row.batch, rows: [], source: [] };
+        byBatch.set(row.batch, g);
+        groups.push(g);
+      }
+      last = g;
     }
     g.rows.push(row);
   }
-  for (const g of groups.values()) g.source = sourceRanges(g.rows);
-  return [...groups.values()];
+  for (const g of groups) g.source = sourceRanges(g.rows);
+  return groups;
 }
 
 /** Summarise row locations as one line range per file. */
