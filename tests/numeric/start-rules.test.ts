@@ -238,3 +238,15 @@ describe('double-exponential start: closed-form sums (even times) and data passe
     expect(relative(a[3], b[3])).toBeLessThan(1e-3);
   });
 });
+
+describe('double-exponential start on uneven times: Gram sums formed several per pass', () => {
+  it('gives exactly the start of one pass per sum', () => {
+    const random = createRandom(44);
+    const t = Array.from({ length: 137 }, (_, i) => i * 13 + 0.37 * Math.sin(i));
+    const y = t.map((v) => exponentialDouble.f(v, [0.7, 0.03, 0.3, 0.0034, 0.05]) + random.normal(0, 0.01));
+    expect(evenStep(t)).toBeNull();
+    // Regression pin: the output of the implementation with one pass over the data per Gram sum
+    // (commit 7e6da64), recorded; each sum still adds its terms in the same order, so no bit may change.
+    expect(exponentialDouble.start(t, y)).toEqual([0.7216110375559701, 0.02938396373006559, 0.28628401806000237, 0.003263115054747947, 0.05135797621851321]);
+  });
+});

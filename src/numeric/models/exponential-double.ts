@@ -82,23 +82,51 @@ export const exponentialDouble: CurveModel = {
       const o = step === null ? a * n : 0;
       const ea = exps.subarray(o, o + n);
       decayInto(x, rates[a], step, ea);
-      let sy = 0;
-      for (let i = 0; i < n; i++) sy += ea[i] * y[i];
-      withY[a] = sy;
       if (step !== null) {
+        let sy = 0;
+        for (let i = 0; i < n; i++) sy += ea[i] * y[i];
+        withY[a] = sy;
         sums[a] = sumOf(rates[a]);
         for (let b = 0; b <= a; b++) cross[a * count + b] = cross[b * count + a] = sumOf(rates[a] + rates[b]);
         continue;
       }
+      // Every sum runs over i in order, one accumulator each; several sums share a pass so that
+      // the additions of different sums overlap (the same values as one pass per sum).
+      let sy = 0;
       let s1 = 0;
       let ss = 0;
       for (let i = 0; i < n; i++) {
-        s1 += ea[i];
-        ss += ea[i] * ea[i];
+        const v = ea[i];
+        sy += v * y[i];
+        s1 += v;
+        ss += v * v;
       }
+      withY[a] = sy;
       sums[a] = s1;
       cross[a * count + a] = ss;
-      for (let b = 0; b < a; b++) {
+      let b = 0;
+      for (; b + 3 < a; b += 4) {
+        const o0 = b * n;
+        const o1 = o0 + n;
+        const o2 = o1 + n;
+        const o3 = o2 + n;
+        let s0 = 0;
+        let t1 = 0;
+        let t2 = 0;
+        let t3 = 0;
+        for (let i = 0; i < n; i++) {
+          const v = ea[i];
+          s0 += v * exps[o0 + i];
+          t1 += v * exps[o1 + i];
+          t2 += v * exps[o2 + i];
+          t3 += v * exps[o3 + i];
+        }
+        cross[a * count + b] = cross[b * count + a] = s0;
+        cross[a * count + b + 1] = cross[(b + 1) * count + a] = t1;
+        cross[a * count + b + 2] = cross[(b + 2) * count + a] = t2;
+        cross[a * count + b + 3] = cross[(b + 3) * count + a] = t3;
+      }
+      for (; b < a; b++) {
         const ob = b * n;
         let sab = 0;
         for (let i = 0; i < n; i++) sab += ea[i] * exps[ob + i];
