@@ -1,5 +1,5 @@
 /**
- * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--baseline] [--keep]
+ * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--baseline] [--modes cold,warm] [--keep]
  * [--filaments 300] [--turnover-points 400]`.
  *
  * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
@@ -193,7 +193,7 @@ async function main(): Promise<void> {
     writeStudy(studyDir, study);
     const inputMB = Object.values(study.files).reduce((s, x) => s + x.length, 0) / 1e6;
     process.stdout.write(`\n== ${size} variants: study written in ${f1((performance.now() - t) / 1000)} s (${f1(inputMB)} MB of CSV in ${Object.keys(study.files).length} files)\n`);
-    const runs: string[] = flag('--baseline') ? ['serial', 'cold', 'warm'] : ['cold', 'warm'];
+    const runs: string[] = value('--modes')?.split(',') ?? (flag('--baseline') ? ['serial', 'cold', 'warm'] : ['cold', 'warm']);
     for (const mode of runs) {
       if (mode === 'warm') {
         // A variant near the middle that is not a calibration control (controls are i % 25 = 0 or 1,
