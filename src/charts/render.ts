@@ -297,7 +297,8 @@ async function drawRaw(spec: ChartSpec): Promise<string> {
   // The title's text travels as a signal value; its other parameters (if any) stay in the shape.
   const params = title && typeof title === 'object' && !Array.isArray(title) ? (title as Record<string, unknown>) : undefined;
   const titleText = params ? params.text : title;
-  const hasTitle = titleText !== undefined && titleText !== null;
+  // An empty title draws nothing whichever way it is compiled: leave it out of the shape.
+  const hasTitle = titleText !== undefined && titleText !== null && titleText !== '';
   const runtime = runtimeFor(hasTitle ? { ...shape, title: params ? { ...params, text: 'T' } : 'T' } : shape);
   const view = new vega.View(runtime, { renderer: 'none', expr: sharedCodegen } as never);
   try {

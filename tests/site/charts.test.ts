@@ -72,6 +72,7 @@ describe('chart shapes (compiled once, data swapped)', () => {
       } as never);
     const specs = [
       { ...simple, title: 'First' },
+      { ...simple, title: '' },
       { ...simple, title: { text: ['Second', 'two lines'], subtitle: 'sub' }, data: { values: [{ a: 5, b: 1 }, { a: 9, b: 30 }] } },
       simple,
       ...r.variants.filter((v) => !v.isWT).map((v) => forestChart(r, v, v.short)?.spec).filter((s) => s !== undefined),
