@@ -124,6 +124,7 @@ function chart(input: AssayChartInput): ChartSpec {
     x: { field: 'actin', title: '[actin] (µM)' },
     y: { field: 'rate', title: 'ATPase rate per head (s⁻¹)' },
     encodingExtra: groupEncoding(),
+    metrics: METRICS,
   });
 }
 

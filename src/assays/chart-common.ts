@@ -2,7 +2,7 @@
  * Vega-Lite building blocks for the per-variant assay charts: the variant's units beside the
  * WT units of the same batches. User text (variant and unit labels) goes in as data values only.
  */
-import type { UnitResult } from '../results/types.js';
+import type { MetricDef, UnitResult } from '../results/types.js';
 import type { AssayChartInput, ChartSpec } from './types.js';
 
 /** Group colours and shapes: never colour alone (WT circles, variant triangles). */
@@ -34,24 +34,70 @@ interface UnitChartOptions {
   x: { field: string; title: string; reverse?: boolean; scaleType?: 'linear' | 'log' };
   y: { field: string; title: string };
   encodingExtra: Record<string, unknown>;
+  /** The assay's metrics, listed per preparation in the chart's numbers table. */
+  metrics: readonly MetricDef[];
 }
 
-/** Points per unit with a fitted curve per unit, variant and WT overlaid, shapes by group. */
+/** A number to 3 significant digits for tables, '—' when missing. @example sig3(0.123456) // → '0.123' */
+export function sig3(x: number | null | undefined): string {
+  return typeof x === 'number' && Number.isFinite(x) ? String(Number(x.toPrecision(3))) : '—';
+}
+
+/**
+ * Curve rows of many preparations as one path per group: rows in their given order, numbered
+ * by `seq` (the line's drawing order), with a row whose x and y are null between two
+ * preparations, where the line breaks. One line per group instead of one per preparation draws
+ * the same picture with far fewer vega operators (each `detail` line is a dataflow of its own).
+ */
+export function brokenPaths(rows: ReadonlyArray<Record<string, unknown>>, key: string, x: string, y: string): Array<Record<string, unknown>> {
+  const out: Array<Record<string, unknown>> = [];
+  let previous: unknown;
+  for (const r of rows) {
+    if (out.length > 0 && r[key] !== previous) out.push({ ...r, [x]: null, [y]: null, seq: out.length });
+    out.push({ ...r, seq: out.length });
+    previous = r[key];
+  }
+  return out;
+}
+
+/**
+ * Points per unit with a fitted curve per unit, variant and WT overlaid, shapes by group.
+ * The numbers table lists each preparation's metrics (the drawn readings and curves are in
+ * results.json), not the drawn points.
+ */
 export function unitChart(input: AssayChartInput, o: UnitChartOptions): ChartSpec {
   const points = [...flattenUnits(input.wtUnits, 'WT', 'points'), ...flattenUnits(input.variantUnits, 'Variant', 'points')];
-  const curve = [...flattenUnits(input.wtUnits, 'WT', 'curve'), ...flattenUnits(input.variantUnits, 'Variant', 'curve')];
+  // Curve keys are group + preparation, so WT and variant curves never join.
+  const curve = brokenPaths(
+    [...flattenUnits(input.wtUnits, 'WT', 'curve'), ...flattenUnits(input.variantUnits, 'Variant', 'curve')].map((r) => ({ ...r, curveKey: `${r.group} ${r.unit}` })),
+    'curveKey',
+    o.x.field,
+    o.y.field,
+  );
   const x = { field: o.x.field, type: 'quantitative', title: o.x.title, scale: { reverse: o.x.reverse ?? false, type: o.x.scaleType ?? 'linear', zero: false } };
   const y = { field: o.y.field, type: 'quantitative', title: o.y.title };
+  const table = {
+    columns: ['Group', 'Preparation', 'Batch', 'Readings', ...o.metrics.map((m) => (m.unit ? `${m.label} (${m.unit})` : m.label))],
+    rows: [...input.wtUnits.map((u) => ({ u, group: 'WT' })), ...input.variantUnits.map((u) => ({ u, group: input.variantLabel }))].map(({ u, group }) => [
+      group,
+      u.unit,
+      u.batch,
+      String(u.nTechnical),
+      ...o.metrics.map((m) => sig3(u.metrics[m.id])),
+    ]),
+    note: 'The chart draws every reading and each preparation’s fitted curve; both are in results.json (plot of each preparation).',
+  };
   return {
     title: o.title,
     description: o.description,
+    usermeta: { table },
     width: 420,
     height: 260,
     layer: [
       {
         data: { values: curve },
         mark: { type: 'line', strokeWidth: 1.5, opacity: 0.85 },
-        encoding: { x, y, detail: { field: 'unit', type: 'nominal' }, strokeDash: { field: 'group', type: 'nominal', scale: { domain: ['WT', 'Variant'], range: [[4, 3], [1, 0]] }, title: null }, ...o.encodingExtra },
+        encoding: { x, y, order: { field: 'seq', type: 'quantitative' }, strokeDash: { field: 'group', type: 'nominal', scale: { domain: ['WT', 'Variant'], range: [[4, 3], [1, 0]] }, title: null }, ...o.encodingExtra },
       },
       {
         data: { values: points },

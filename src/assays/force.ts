@@ -206,8 +206,9 @@ export function forceChart(input: AssayChartInput): ChartSpec {
       `Normalised force, (F − passive)/Fmax from each preparation's own Hill fit, against pCa for every preparation of ${input.variantLabel} ` +
       `and of WT in the same batches, with each preparation's fitted curve; pCa decreases to the right (calcium rises), as is usual in the field. A curve shifted to the right of WT means less calcium sensitivity, to the left more.`,
     x: { field: 'pCa', title: 'pCa (−log10 [Ca²⁺])', reverse: true },
-    y: { field: 'normForce', title: 'Normalised force (F − Fpassive)/Fmax' },
+    y: { field: 'normForce', title: 'Force (F − Fpassive)/Fmax' },
     encodingExtra: groupEncoding(),
+    metrics: FORCE_METRICS,
   });
 }
 

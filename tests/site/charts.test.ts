@@ -6,6 +6,8 @@ import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
 import { chartKey, drawRawDirect, drawRawShared, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, shapeStats, splitSpec, stripRedundant } from '../../src/charts/render.js';
 import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
 import { motilityChart, motilityPlotPoints } from '../../src/assays/motility.js';
+import { atpase } from '../../src/assays/atpase.js';
+import { brokenPaths, sig3 } from '../../src/assays/chart-common.js';
 import { residueMapChart } from '../../src/charts/residue-map.js';
 import { scatterCharts } from '../../src/charts/scatter.js';
 import { lineRanges } from '../../src/site/view-common.js';
@@ -83,6 +85,40 @@ describe('chart shapes (compiled once, data swapped)', () => {
     for (const spec of specs) expect(same(await drawRawShared(spec))).toBe(same(await drawRawDirect(spec)));
     // The two motility charts (different axis ranges, titles and data) share one shape.
     expect(shapeStats.compiled - before).toBeLessThan(specs.length);
+  });
+});
+
+describe('assay unit charts (ATPase, force)', () => {
+  it('break one path per group between preparations, in the given order', () => {
+    const rows = [{ k: 'a', x: 1, y: 2 }, { k: 'a', x: 2, y: 3 }, { k: 'b', x: 1, y: 5 }];
+    expect(brokenPaths(rows, 'k', 'x', 'y')).toEqual([
+      { k: 'a', x: 1, y: 2, seq: 0 },
+      { k: 'a', x: 2, y: 3, seq: 1 },
+      { k: 'b', x: null, y: null, seq: 2 },
+      { k: 'b', x: 1, y: 5, seq: 3 },
+    ]);
+    expect(brokenPaths([], 'k', 'x', 'y')).toEqual([]);
+  });
+
+  it('list each preparation and its metrics in the numbers table, and draw WT and variant curves apart', async () => {
+    const unit = (variant: string, unitId: string, kcat: number) => ({
+      assay: 'atpase', variant, unit: unitId, batch: 'B1', metrics: { kcat, km: 20.123, basal: 0.0456 }, flags: [], nTechnical: 24, source: [],
+      plot: { points: [{ actin: 10, rate: kcat / 3 }], curve: [0, 50, 100].map((actin) => ({ actin, rate: (kcat * actin) / (20 + actin) })) },
+    });
+    const spec = atpase.chart({ variantLabel: 'X9Y', variantUnits: [unit('v', 'v-1', 5.55555)], wtUnits: [unit('wt', 'wt-1', 4), unit('wt', 'wt-2', 4.2)] } as never);
+    const table = specTable(spec);
+    expect(table.columns.slice(0, 4)).toEqual(['Group', 'Preparation', 'Batch', 'Readings']);
+    expect(table.rows).toEqual([
+      ['WT', 'wt-1', 'B1', '24', '4', '20.1', '0.0456'],
+      ['WT', 'wt-2', 'B1', '24', '4.2', '20.1', '0.0456'],
+      ['X9Y', 'v-1', 'B1', '24', '5.56', '20.1', '0.0456'],
+    ]);
+    expect(sig3(null)).toBe('—');
+    // 3 curves of 3 points, 2 breaks (between WT preparations and before the variant's).
+    const curve = (spec.layer as Array<{ data: { values: Array<Record<string, unknown>> } }>)[0].data.values;
+    expect(curve).toHaveLength(11);
+    expect(curve.filter((r) => r.rate === null).map((r) => r.seq)).toEqual([3, 7]);
+    expect(await renderSvg(drawnSpec(spec), { key: 'atpase-test' })).toMatch(/^<svg/);
   });
 });
 
