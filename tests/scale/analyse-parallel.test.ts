@@ -46,6 +46,15 @@ describe('analyseUnitsParallel', () => {
     expect(analyseStudy(study, { ...opts, assays: pre })).toEqual(analyseStudy(study, opts));
   }, 120_000);
 
+  it('matches the serial path with one worker and many small tasks (this thread takes a share)', async () => {
+    const study = benchStudy();
+    let last = [0, 0];
+    const got = await analyseUnitsParallel(study, ASSAYS, { workers: 1, chunksPerWorker: 8, onProgress: (done, total) => (last = [done, total]) });
+    expect(got).toEqual(serial(study));
+    expect(last[0]).toBe(last[1]);
+    expect(last[1]).toBeGreaterThan(ASSAYS.length);
+  }, 120_000);
+
   it('workers: 0 is the serial path', async () => {
     const study = benchStudy();
     expect(await analyseUnitsParallel(study, ASSAYS, { workers: 0 })).toEqual(serial(study));
