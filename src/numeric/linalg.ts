@@ -98,7 +98,30 @@ export function householderQrInPlace(a: Float64Array, m: number, k: number, b: F
     const uj = xj * inv - alpha * inv;
     const halfUu = 1 + Math.abs(xj) * inv;
     for (let i = j + 1; i < m; i++) a[xo + i] *= inv;
-    for (let c = j + 1; c < k; c++) {
+    // Columns two at a time: one pass for both dot products and one for both updates (each
+    // dot still adds its terms in order, each entry gets the same update: identical results).
+    let c = j + 1;
+    for (; c + 1 < k; c += 2) {
+      const c0 = c * m;
+      const c1 = c0 + m;
+      let dot0 = uj * a[c0 + j];
+      let dot1 = uj * a[c1 + j];
+      for (let i = j + 1; i < m; i++) {
+        const u = a[xo + i];
+        dot0 += u * a[c0 + i];
+        dot1 += u * a[c1 + i];
+      }
+      const s0 = dot0 / halfUu;
+      const s1 = dot1 / halfUu;
+      a[c0 + j] -= s0 * uj;
+      a[c1 + j] -= s1 * uj;
+      for (let i = j + 1; i < m; i++) {
+        const u = a[xo + i];
+        a[c0 + i] -= s0 * u;
+        a[c1 + i] -= s1 * u;
+      }
+    }
+    for (; c < k; c++) {
       const co = c * m;
       let dot = uj * a[co + j];
       for (let i = j + 1; i < m; i++) dot += a[xo + i] * a[co + i];

@@ -140,3 +140,24 @@ describe('inverseNormalMatrixColumns', () => {
     expect(inverseNormalMatrixColumns(Float64Array.of(1, 2, 0, 0), 2, 2)).toBeNull();
   });
 });
+
+describe('householderQrInPlace: columns updated two at a time', () => {
+  it('gives exactly the R and Qᵀb of one column at a time (5 columns: a pair, a pair, a single)', () => {
+    const random = createRandom(7);
+    const m = 9;
+    const k = 5;
+    const a = Float64Array.from({ length: m * k }, () => random.normal(0, 1));
+    const b = Float64Array.from({ length: m }, () => random.normal(0, 1));
+    householderQrInPlace(a, m, k, b);
+    const r: number[] = [];
+    for (let c = 0; c < k; c++) for (let i = 0; i <= c; i++) r.push(a[c * m + i]);
+    // Regression pin: output of the one-column-at-a-time implementation (commit 7e6da64), recorded;
+    // each dot product still adds its terms in the same order, so no bit may change.
+    expect(r).toEqual([
+      -3.2117570378675735, -0.8526722431465099, -2.34035190007145, -0.482564000780632, 0.48165714813875193, -1.2550067252238661, -1.7919436265417965,
+      -0.03853280350165866, 0.3862540272487811, 2.055091921185911, 0.6046007032055265, 1.0154940897270843, -0.7608574255991958, -0.8593231980197524,
+      -1.7938826258414484,
+    ]);
+    expect(Array.from(b.subarray(0, k))).toEqual([-1.0739512300118188, -0.11274745440966738, 0.678946622671385, -0.6562811088064702, 0.1161746434856663]);
+  });
+});
