@@ -2,8 +2,11 @@
  * Per-batch cache of unit analyses, so that a rebuild after one batch changed re-fits only that
  * batch's units.
  *
- *   Study ──rows split by batch──▶ per batch: key = SHA-256 of (code fingerprint, module ids,
- *         study settings, input files' kinds/paths/settings, the batch's rows in order)
+ *   Study ──rows split by batch──▶ per batch: context = (code fingerprint, module ids, study
+ *         settings, input files' kinds/paths/settings), then two keys (SHA-256):
+ *           file key    — context, the variant labels, and the path, SHA-256 and row count of each
+ *                         file holding the batch's rows (cheap: unchanged files give unchanged rows)
+ *           content key — context and the batch's rows in order (exact; tried when the file key misses)
  *         ──hit──▶ UnitResult[] from <dir>/<ab>/<key>.bin (v8 serialisation: exact numbers, NaN kept)
  *         ──miss──▶ analyseUnitsParallel on a study holding only the missed batches ──▶ stored
  *         ──merge, in the serial path's order──▶ UnitResult[]
@@ -63,7 +66,8 @@ export interface CachedAnalysis {
 
 /**
  * Units of every active module, from the cache where a batch's inputs are unchanged.
- * Same result, in the same order, as analyseUnitsParallel(study, modules).
+ * Same result, in the same order, as analyseUnitsParallel(study, modules), for a study as
+ * loadStudy gives it: the file key trusts that rows with an unchanged file SHA-256 are unchanged.
  */
 export async function analyseUnitsCached(study: Study, modules: readonly AssayModule[] = ASSAYS, options: CachedAnalysisOptions = {}): Promise<CachedAnalysis> {
   const active = activeModules(study, modules);
@@ -90,22 +94,51 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     study.settings,
     study.files.map((f) => [f.kind, f.path, f.settings]),
   ]);
-  const keyOf = (batch: string, rows: Partial<Record<InputKind, RowBase[]>>) => {
+  // Content key: the batch's rows themselves (exact, but serialising every row costs seconds in a large study).
+  const contentKey = (batch: string, rows: Partial<Record<InputKind, RowBase[]>>) => {
     const hash = createHash('sha256').update(context).update('\0').update(JSON.stringify(batch));
     for (const kind of kinds) hash.update('\0').update(kind).update('\0').update(JSON.stringify(rows[kind] ?? []));
-    return hash.digest('hex');
+    return `c${hash.digest('hex')}`;
   };
-  const file = (key: string) => join(dir, key.slice(0, 2), `${key}.bin`);
+  // File key: the files the batch's rows come from (path, SHA-256 of the bytes, rows of the batch in each)
+  // and the variant labels the loader resolved them with. Unchanged files give unchanged rows, so this
+  // cheap key is tried first; when a file changed, the content key decides per batch.
+  const sha = new Map(study.files.map((f) => [f.path, f.sha256]));
+  const labels = JSON.stringify(study.variants.map((v) => [v.id, v.label]));
+  const fileKey = (batch: string, rows: Partial<Record<InputKind, RowBase[]>>) => {
+    const perFile = new Map<string, number>();
+    for (const kind of kinds) for (const r of rows[kind] ?? []) perFile.set(r.at.file, (perFile.get(r.at.file) ?? 0) + 1);
+    const files = [...perFile].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([path, n]) => [path, sha.get(path) ?? null, n]);
+    if (files.some((f) => f[1] === null)) return undefined;
+    return `f${createHash('sha256').update(context).update('\0').update(labels).update('\0').update(JSON.stringify([batch, files])).digest('hex')}`;
+  };
+  const file = (key: string) => join(dir, key.slice(1, 3), `${key}.bin`);
+  const read = (key: string | undefined) => {
+    if (key === undefined) return undefined;
+    try {
+      return deserialize(readFileSync(file(key))) as UnitResult[];
+    } catch {
+      return undefined;
+    }
+  };
 
   const found: UnitResult[] = [];
-  const missed = new Map<string, string>(); // batch → key
+  const missed = new Map<string, string[]>(); // batch → keys to store its units under
   for (const [batch, rows] of byBatch) {
-    const key = keyOf(batch, rows);
-    try {
-      found.push(...(deserialize(readFileSync(file(key))) as UnitResult[]));
-    } catch {
-      missed.set(batch, key);
+    const byFiles = fileKey(batch, rows);
+    const hit = read(byFiles);
+    if (hit) {
+      found.push(...hit);
+      continue;
     }
+    const byContent = contentKey(batch, rows);
+    const contentHit = read(byContent);
+    if (contentHit) {
+      found.push(...contentHit);
+      if (byFiles) store(file(byFiles), contentHit);
+      continue;
+    }
+    missed.set(batch, byFiles ? [byContent, byFiles] : [byContent]);
   }
   let fresh: UnitResult[] = [];
   if (missed.size > 0) {
@@ -118,9 +151,9 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     fresh = await analyseUnitsParallel({ ...study, rows: rows as Study['rows'] }, active, count >= (options.minRowsForWorkers ?? 0) ? options : { ...options, workers: 0 });
     const perBatch = new Map<string, UnitResult[]>();
     for (const u of fresh) (perBatch.get(u.batch) ?? perBatch.set(u.batch, []).get(u.batch)!).push(u);
-    for (const [batch, key] of missed) {
+    for (const [batch, keys] of missed) {
       // A batch whose rows give no unit (e.g. only NADH actin-only wells) is stored empty.
-      store(file(key), perBatch.get(batch) ?? []);
+      for (const key of keys) store(file(key), perBatch.get(batch) ?? []);
     }
   }
   const all = [...found, ...fresh];

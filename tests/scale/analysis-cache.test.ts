@@ -41,7 +41,14 @@ describe('analyseUnitsCached', () => {
   it('after one reading of one batch changed, re-analyses that batch only and matches a fresh analysis', async () => {
     const rows = study.rows.turnover as TurnoverRow[];
     const target = rows.find((r) => r.variant !== study.variants.find((v) => v.isWT)?.id && r.batch === rows[rows.length - 1].batch) as TurnoverRow;
-    const changed: Study = { ...study, rows: { ...study.rows, turnover: rows.map((r) => (r === target ? { ...r, fluorescence: r.fluorescence * 1.5 } : r)) } };
+    // As loadStudy gives it after the file was edited: one reading differs, and so does the file's SHA-256.
+    const changed: Study = {
+      ...study,
+      files: study.files.map((f) => (f.path === target.at.file ? { ...f, sha256: 'edited' } : f)),
+      rows: { ...study.rows, turnover: rows.map((r) => (r === target ? { ...r, fluorescence: r.fluorescence * 1.5 } : r)) },
+    };
+    // Other batches have rows in the same file: they are found by their content, not re-fitted.
+    expect(new Set(rows.filter((r) => r.at.file === target.at.file).map((r) => r.batch)).size).toBeGreaterThan(1);
     const fresh = serial(changed);
     expect(fresh).not.toEqual(expected);
     const got = await analyseUnitsCached(changed, ASSAYS, { cacheDir: dir, workers: 0 });
