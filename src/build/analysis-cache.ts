@@ -18,9 +18,8 @@
  * The result equals analyseUnitsParallel(study) (tested); entries are never pruned.
  */
 import { createHash } from 'node:crypto';
-import { mkdirSync, readFileSync, readdirSync, renameSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { deserialize, serialize } from 'node:v8';
 import { type ParallelOptions, activeModules, analyseUnitsParallel, serialOrder } from '../analysis/parallel.js';
 import { ASSAYS } from '../assays/registry.js';
@@ -28,28 +27,13 @@ import type { AssayModule } from '../assays/types.js';
 import { DEFAULT_CHART_CACHE } from '../charts/cache.js';
 import type { UnitResult } from '../results/types.js';
 import type { InputKind, RowBase, Study } from '../study/types.js';
+import { codeFingerprint } from '../fingerprint.js';
 
 /** Default folder: beside the chart cache, in the user's cache directory. */
 export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
 
 /** Version of the entry format; bump when what is stored changes. */
 const ENTRY_VERSION = 1;
-
-const srcDir = fileURLToPath(new URL('../', import.meta.url));
-let fingerprint: string | undefined;
-
-/** SHA-256 over every .ts/.js/.json file under src/ (paths and contents, sorted by path). */
-export function codeFingerprint(): string {
-  if (fingerprint) return fingerprint;
-  const hash = createHash('sha256');
-  const walk = (dir: string): string[] =>
-    readdirSync(dir, { withFileTypes: true })
-      .flatMap((e) => (e.isDirectory() ? walk(join(dir, e.name)) : /\.(ts|js|mjs|json)$/.test(e.name) ? [join(dir, e.name)] : []))
-      .sort();
-  for (const file of walk(srcDir)) hash.update(file.slice(srcDir.length)).update('\0').update(readFileSync(file)).update('\0');
-  fingerprint = hash.digest('hex');
-  return fingerprint;
-}
 
 export interface CachedAnalysisOptions extends ParallelOptions {
   /** Cache folder, or false for none (then this is analyseUnitsParallel). */

@@ -3,6 +3,7 @@
  * This file adapts modules to the site's `chartsFor` callback and turns any spec's inline data
  * into a table, so the numbers behind an assay chart are readable without the picture.
  */
+import { createHash } from 'node:crypto';
 import type { AssayModule, ChartSpec } from '../assays/types.js';
 import type { StudyResults, UnitResult } from '../results/types.js';
 import { type DataTable, fmt } from './chart-def.js';
@@ -13,6 +14,22 @@ export interface AssayChart {
   title: string;
   spec: ChartSpec;
   description?: string;
+  /**
+   * Content key of everything the chart is drawn from (module, variant label, every unit result
+   * it shows): equal keys give equal specs for the same code. Lets a cache skip building the spec.
+   */
+  inputKey?: string;
+}
+
+/** SHA-256 of a unit result's JSON, computed once per unit object (WT units appear in many charts). */
+const unitHashes = new WeakMap<UnitResult, string>();
+function unitHash(u: UnitResult): string {
+  let h = unitHashes.get(u);
+  if (h === undefined) {
+    h = createHash('sha256').update(JSON.stringify(u)).digest('hex');
+    unitHashes.set(u, h);
+  }
+  return h;
 }
 
 export type ChartsFor = (variantId: string) => AssayChart[] | Promise<AssayChart[]>;
@@ -47,9 +64,25 @@ export function chartsFromModules(results: StudyResults, modules: ReadonlyArray<
       const batches = [...new Set(variantUnits.map((u) => u.batch))];
       // WT units in results order (as the former scan gave them), whatever the order of the batches.
       const wtUnits = batches.length === 1 ? (wtByBatch.get(JSON.stringify([m.id, batches[0]])) ?? []) : resultsOrder(results, batches.flatMap((b) => wtByBatch.get(JSON.stringify([m.id, b])) ?? []));
-      const spec = m.chart({ variantLabel: v.short, variantUnits, wtUnits });
-      const description = typeof spec.description === 'string' ? spec.description : undefined;
-      return [{ assay: m.id, title: `${m.label}: ${v.short} beside paired WT`, spec, ...(description ? { description } : {}) }];
+      // The spec is built when first read: a cache that knows inputKey may never need it.
+      let spec: ChartSpec | undefined;
+      const build = () => (spec ??= m.chart({ variantLabel: v.short, variantUnits, wtUnits }));
+      const inputKey = createHash('sha256')
+        .update(JSON.stringify([m.id, v.short, variantUnits.map(unitHash), wtUnits.map(unitHash)]))
+        .digest('hex');
+      const chart: AssayChart = {
+        assay: m.id,
+        title: `${m.label}: ${v.short} beside paired WT`,
+        inputKey,
+        get spec() {
+          return build();
+        },
+        get description() {
+          const d = build().description;
+          return typeof d === 'string' ? d : undefined;
+        },
+      };
+      return [chart];
     });
   };
 }

@@ -13,6 +13,7 @@ import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { homedir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { ChartSpec } from '../assays/types.js';
+import { codeFingerprint } from '../fingerprint.js';
 import { RENDERER_ID, chartKey, type RenderOptions } from './render.js';
 
 /**
@@ -47,35 +48,45 @@ export class ChartCache {
     this.dir = resolve(dir);
   }
 
-  private file(key: string): string {
-    return join(this.dir, key.slice(0, 2), `${key}.svg`);
+  private file(key: string, ext = 'svg'): string {
+    return join(this.dir, key.slice(0, 2), `${key}.${ext}`);
   }
 
-  /** The cached SVG, or undefined (a missing or unreadable entry counts as a miss). */
-  get(key: string): string | undefined {
+  /** The cached SVG (or other text by extension), or undefined (a missing or unreadable entry counts as a miss). */
+  get(key: string, ext = 'svg'): string | undefined {
     try {
-      const svg = readFileSync(this.file(key), 'utf8');
+      const text = readFileSync(this.file(key, ext), 'utf8');
       this.hits++;
-      return svg;
+      return text;
     } catch {
       this.misses++;
       return undefined;
     }
   }
 
-  /** Store an SVG (best effort: a cache that cannot be written only costs time). */
-  set(key: string, svg: string): void {
+  /** Store an SVG (or other text by extension; best effort: a cache that cannot be written only costs time). */
+  set(key: string, text: string, ext = 'svg'): void {
     const sub = join(this.dir, key.slice(0, 2));
     try {
       if (!this.made.has(sub)) {
         mkdirSync(sub, { recursive: true });
         this.made.add(sub);
       }
-      const tmp = `${this.file(key)}.${process.pid}.tmp`;
-      writeFileSync(tmp, svg);
-      renameSync(tmp, this.file(key));
+      const tmp = `${this.file(key, ext)}.${process.pid}.tmp`;
+      writeFileSync(tmp, text);
+      renameSync(tmp, this.file(key, ext));
     } catch {
       // read-only or full disk: carry on without caching
     }
   }
+}
+
+/**
+ * Entry name of a chart block (SVG, description and numbers table of one assay chart) found by
+ * the chart's input key instead of its spec: SHA-256 over the renderer id, the code fingerprint
+ * (the spec is made by code, so other code must not be served this entry) and the caller's key
+ * parts (input key, id key, title).
+ */
+export function blockEntryKey(parts: readonly string[]): string {
+  return createHash('sha256').update(JSON.stringify([RENDERER_ID, codeFingerprint(), ...parts])).digest('hex');
 }

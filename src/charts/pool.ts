@@ -14,7 +14,7 @@
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import type { ChartSpec } from '../assays/types.js';
-import { ChartCache, DEFAULT_CHART_CACHE, cacheEntryKey } from './cache.js';
+import { ChartCache, DEFAULT_CHART_CACHE, blockEntryKey, cacheEntryKey } from './cache.js';
 import { chartKey, renderSvg, type RenderOptions } from './render.js';
 
 /** Default pool size: the cores this process may use, at least 1. */
@@ -126,8 +126,20 @@ export interface ChartRendererOptions {
   cacheDir?: string | false;
 }
 
+/** What a page shows of one chart besides its title: the SVG, its description and its numbers table. */
+export interface CachedBlock {
+  svg: string;
+  description: string;
+  table: { columns: string[]; rows: string[][]; note?: string };
+}
+
 export interface ChartRenderer {
   render(spec: ChartSpec, options?: RenderOptions): Promise<string>;
+  /**
+   * A chart block from the cache by its key parts (see blockEntryKey), or made by `make` (which
+   * renders through this renderer) and stored. Without a cache, `make` every time.
+   */
+  block(keyParts: readonly string[], make: () => Promise<CachedBlock>): Promise<CachedBlock>;
   /** Charts rendered and charts served from the cache. (process.cpuUsage() already counts worker threads.) */
   stats(): { rendered: number; cached: number };
   close(): Promise<void>;
@@ -174,6 +186,23 @@ export function createChartRenderer(options: ChartRendererOptions = {}): ChartRe
       } finally {
         pending.delete(entry);
       }
+    },
+    async block(keyParts, make) {
+      if (!cache) return make();
+      const entry = blockEntryKey(keyParts);
+      const hit = cache.get(entry, 'json');
+      if (hit !== undefined) {
+        try {
+          const block = JSON.parse(hit) as CachedBlock;
+          cached++;
+          return block;
+        } catch {
+          // unreadable entry: make it again
+        }
+      }
+      const block = await make();
+      cache.set(entry, JSON.stringify(block), 'json');
+      return block;
     },
     stats: () => ({ rendered, cached }),
     close: async () => {

@@ -61,6 +61,8 @@ export const VARIANT_BATCH = 100;
 interface Prepared {
   slugs: Map<string, string>;
   render: RenderFn | undefined;
+  /** Chart-block cache of the renderer (assay charts found by their input key), if there is a renderer. */
+  block: ChartRenderer['block'] | undefined;
   /** Charts drawn and charts served from the cache so far. */
   stats: () => { rendered: number; cached: number };
   close: () => Promise<void>;
@@ -73,7 +75,8 @@ function prepare(results: StudyResults, options: BuildSiteOptions): Prepared {
   const ownRenderer = options.renderer || (workers === 0 && cacheDir === false) ? undefined : createChartRenderer({ workers, cacheDir });
   const renderer = options.renderer ?? ownRenderer;
   const render: RenderFn | undefined = renderer ? (spec, o) => renderer.render(spec, o) : undefined;
-  return { slugs, render, stats: () => renderer?.stats() ?? { rendered: 0, cached: 0 }, close: async () => ownRenderer?.close() };
+  const block: ChartRenderer['block'] | undefined = renderer ? (parts, make) => renderer.block(parts, make) : undefined;
+  return { slugs, render, block, stats: () => renderer?.stats() ?? { rendered: 0, cached: 0 }, close: async () => ownRenderer?.close() };
 }
 
 /** Everything the templates read except the variant pages (variants: []). */
@@ -165,7 +168,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     const total = results.variants.length;
     progress?.('charts', 0, total);
     const site = await studyData(results, options, prepared);
-    const build = variantPageBuilder(results, prepared.slugs, options.chartsFor, { render: prepared.render, onVariant: progress ? (d) => progress('charts', d, total) : undefined });
+    const build = variantPageBuilder(results, prepared.slugs, options.chartsFor, { render: prepared.render, block: prepared.block, onVariant: progress ? (d) => progress('charts', d, total) : undefined });
     const batches: VariantResult[][] = [];
     for (let i = 0; i < results.variants.length; i += VARIANT_BATCH) batches.push(results.variants.slice(i, i + VARIANT_BATCH));
     // Pipeline: the pool draws batch k + 1 while Eleventy writes batch k.

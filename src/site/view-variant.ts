@@ -5,7 +5,8 @@ import { forestChart } from '../charts/forest.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
 import { type CalibrationView, type CallView, type ChartBlock, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
 import { fmtCalibration } from './view-study.js';
-import { PATHS } from './paths.js';
+import { PATHS, slug } from './paths.js';
+import type { ChartRenderer } from '../charts/pool.js';
 
 export interface IndexRow {
   id: string;
@@ -107,6 +108,8 @@ const unitsLabel = (results: StudyResults, assay: string, metric: string) =>
 export interface VariantPagesOptions {
   /** Chart renderer (default: renderSvg in this thread, no cache). */
   render?: RenderFn;
+  /** Cache of assay chart blocks by input key (ChartRenderer.block); without it every chart is built and drawn. */
+  block?: ChartRenderer['block'];
   /** Variants whose pages are built at once (default 8): bounds memory, keeps a pool busy. */
   concurrency?: number;
   /** Called after each variant page: (done, total). */
@@ -142,11 +145,20 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
       const units = myUnits.filter((u) => u.assay === a.id);
       const call = v.assayCalls.find((c) => c.assay === a.id);
       if (comps.length === 0 && units.length === 0 && !call) continue;
-      const charts = await renderBlocks(
+      const charts = await Promise.all(
         extra
           .filter((c) => c.assay === a.id)
-          .map((c, i) => ({ key: `assay:${v.id}:${a.id}:${i}`, title: c.title, description: c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`, spec: drawnSpec(c.spec), table: specTable(c.spec) })),
-        render,
+          .map(async (c, i): Promise<ChartBlock> => {
+            const key = `assay:${v.id}:${a.id}:${i}`;
+            const make = async () => {
+              const description = c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`;
+              const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], render);
+              return { svg: b.svg, description: b.description, table: b.table };
+            };
+            // A chart whose inputs are unchanged comes whole from the block cache: no spec is built.
+            const got = options.block && c.inputKey ? await options.block([c.inputKey, key, c.title], make) : await make();
+            return { id: `chart-${slug(key)}`, title: c.title, ...got };
+          }),
       );
       assays.push({
         id: a.id,

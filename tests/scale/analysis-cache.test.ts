@@ -10,7 +10,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { activeModules } from '../../src/analysis/parallel.js';
 import { ASSAYS } from '../../src/assays/registry.js';
 import { syntheticStudy } from '../../src/bench/synthetic.js';
-import { analyseUnitsCached, codeFingerprint } from '../../src/build/analysis-cache.js';
+import { analyseUnitsCached } from '../../src/build/analysis-cache.js';
+import { codeFingerprint } from '../../src/fingerprint.js';
 import { loadStudy } from '../../src/study/load.js';
 import type { Study, TurnoverRow } from '../../src/study/types.js';
 

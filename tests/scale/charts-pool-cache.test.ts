@@ -116,7 +116,11 @@ describe('chart pool and cache', () => {
       for (const v of r.variants) {
         const f = forestChart(r, v, names.get(v.id) ?? v.short);
         if (f) out.set(`forest ${v.id}`, cacheEntryKey(f.spec, { key: f.key, title: f.title, description: f.description }));
-        (charts(v.id) as AssayChart[]).forEach((c, i) => out.set(`${c.assay} ${v.id} ${i}`, cacheEntryKey(c.spec, { title: c.title })));
+        (charts(v.id) as AssayChart[]).forEach((c, i) => {
+          out.set(`${c.assay} ${v.id} ${i}`, cacheEntryKey(c.spec, { title: c.title }));
+          // The input key (block cache) changes with the chart's inputs, and only with them.
+          out.set(`${c.assay} ${v.id} ${i} input`, c.inputKey as string);
+        });
       }
       return out;
     };
@@ -126,6 +130,8 @@ describe('chart pool and cache', () => {
     const differing = [...before.keys()].filter((k) => before.get(k) !== after.get(k));
     expect(differing.length).toBeGreaterThan(0);
     expect(differing.filter((k) => !k.includes(` ${changedId}`))).toEqual([]);
+    expect(differing.filter((k) => k.endsWith(' input')).length).toBeGreaterThan(0);
+    for (const k of differing.filter((d) => d.startsWith('motility') && !d.endsWith(' input'))) expect(differing).toContain(`${k} input`);
   });
 
   it('a failing render rejects instead of hanging', async () => {

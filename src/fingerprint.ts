@@ -1,0 +1,26 @@
+/**
+ * Fingerprint of the tool's code: SHA-256 over the path and contents of every .ts/.js/.mjs/.json
+ * file under src/, sorted by path. Caches whose entries are computed by the code (fitted units,
+ * chart blocks) include it in their keys, so an entry made by other code is never served,
+ * whatever the version number says. Read once per process (about a hundred small files).
+ */
+import { createHash } from 'node:crypto';
+import { readFileSync, readdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const srcDir = fileURLToPath(new URL('./', import.meta.url));
+let fingerprint: string | undefined;
+
+/** The fingerprint as 64 hex digits (computed on first call). */
+export function codeFingerprint(): string {
+  if (fingerprint) return fingerprint;
+  const hash = createHash('sha256');
+  const walk = (dir: string): string[] =>
+    readdirSync(dir, { withFileTypes: true })
+      .flatMap((e) => (e.isDirectory() ? walk(join(dir, e.name)) : /\.(ts|js|mjs|json)$/.test(e.name) ? [join(dir, e.name)] : []))
+      .sort();
+  for (const file of walk(srcDir)) hash.update(file.slice(srcDir.length)).update('\0').update(readFileSync(file)).update('\0');
+  fingerprint = hash.digest('hex');
+  return fingerprint;
+}
