@@ -15,6 +15,7 @@ import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
 import { analyseUnitsCached } from './analysis-cache.js';
+import { collectGarbage } from '../memory.js';
 import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
 import { planOutput, makeStaging, swapIn } from '../cli/output.js';
@@ -93,6 +94,8 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   const plan = planOutput(studyDir, outDir, options.force ?? false);
   const { issues, results } = await loadAndAnalyse(studyDir, options);
   if (!results) return { ok: false, issues };
+  // The file bytes and rows are garbage now: collect them before the charts, not two minutes later.
+  collectGarbage();
   const epoch = options.sourceDateEpoch;
   const tag = String(process.pid);
   const staging = makeStaging(plan.out, tag);

@@ -12,7 +12,7 @@
  * from the chart key, so pooled, cached and in-thread output are byte-identical.
  */
 import { availableParallelism } from 'node:os';
-import { Worker } from 'node:worker_threads';
+import { type ResourceLimits, Worker } from 'node:worker_threads';
 import type { ChartSpec } from '../assays/types.js';
 import { ChartCache, DEFAULT_CHART_CACHE, blockEntryKey, cacheEntryKey } from './cache.js';
 import { chartKey, renderSvg, type RenderOptions } from './render.js';
@@ -26,9 +26,18 @@ export function defaultWorkers(): number {
  * Start a worker thread on a TypeScript (or JavaScript) module: worker-boot.mjs registers tsx
  * in the worker and imports `script`. Works from any working directory.
  */
-export function startWorker(script: URL): Worker {
-  return new Worker(new URL('./worker-boot.mjs', import.meta.url), { workerData: { script: script.href } });
+export function startWorker(script: URL, resourceLimits?: ResourceLimits): Worker {
+  return new Worker(new URL('./worker-boot.mjs', import.meta.url), { workerData: { script: script.href }, ...(resourceLimits ? { resourceLimits } : {}) });
 }
+
+/**
+ * Old-generation limit of a chart worker. A worker keeps little between charts (compiled shapes
+ * and expression code), but V8 sizes a worker's heap like a process's and collects late, so
+ * each drawing worker grew to several hundred MB of garbage. 512 MB is ten times what a
+ * worker needs for the largest benchmark chart; a worker that exceeds it fails its chart
+ * with an error (the build stops) rather than taking the machine's memory.
+ */
+export const CHART_WORKER_OLD_GENERATION_MB = 512;
 
 interface Job<I, O> {
   input: I;
@@ -58,6 +67,7 @@ export class WorkerPool<I, O> {
   constructor(
     private readonly script: URL,
     readonly size: number = defaultWorkers(),
+    private readonly resourceLimits?: ResourceLimits,
   ) {}
 
   run(input: I): Promise<O> {
@@ -69,7 +79,7 @@ export class WorkerPool<I, O> {
   }
 
   private spawn(): Worker {
-    const w = startWorker(this.script);
+    const w = startWorker(this.script, this.resourceLimits);
     w.on('message', (msg: WorkerReply<O>) => {
       const cur = this.running.get(w);
       if (!cur || cur.id !== msg.id) return;
@@ -154,7 +164,7 @@ interface RenderJob {
 export function createChartRenderer(options: ChartRendererOptions = {}): ChartRenderer {
   const workers = options.workers ?? defaultWorkers();
   const cache = options.cacheDir === false ? undefined : new ChartCache(options.cacheDir ?? DEFAULT_CHART_CACHE);
-  const pool = workers > 0 ? new WorkerPool<RenderJob, string>(new URL('./render-worker.ts', import.meta.url), workers) : undefined;
+  const pool = workers > 0 ? new WorkerPool<RenderJob, string>(new URL('./render-worker.ts', import.meta.url), workers, { maxOldGenerationSizeMb: CHART_WORKER_OLD_GENERATION_MB }) : undefined;
   const pending = new Map<string, Promise<string>>();
   let rendered = 0;
   let cached = 0;

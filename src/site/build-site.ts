@@ -23,6 +23,7 @@ import { DEFAULT_CHART_CACHE } from '../charts/cache.js';
 import { type ChartRenderer, createChartRenderer, defaultWorkers } from '../charts/pool.js';
 import type { StudyResults } from '../results/types.js';
 import { PATHS, uniqueSlugs } from './paths.js';
+import { collectGarbage } from '../memory.js';
 import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
 import type { FunctionCall, VariantResult } from '../results/types.js';
 import { type RenderFn, STANDARD_CAVEATS, functionCall } from './view-common.js';
@@ -183,6 +184,9 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
       // Awaited in the next round; the no-op handler keeps a failure meanwhile from counting as unhandled.
       next?.catch(() => undefined);
       pages += await runEleventy(variantTemplate, outDir, { ...site, variants });
+      // This batch's SVGs and HTML are garbage now; without a collection here, V8 lets them pile up
+      // for several batches and the build's peak memory grows with the study.
+      collectGarbage();
     }
     progress?.('pages', 0, 1);
     pages += await runEleventy(templatesDir, outDir, site);
