@@ -18,12 +18,12 @@
  */
 import { execFileSync, spawn } from 'node:child_process';
 import { mkdirSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { availableParallelism, tmpdir } from 'node:os';
+import { availableParallelism, tmpdir, totalmem } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import { buildStudy } from '../build/build-study.js';
-import { changeOneVariant, syntheticStudy, writeStudy } from './synthetic.js';
+import { changeOneVariant, changeOneVariantInFolder, syntheticStudy, writeStudy, writeSyntheticStudy } from './synthetic.js';
 
 interface PhaseFigure {
   phase: string;
@@ -42,6 +42,9 @@ interface BuildFigures {
   /** Size of downloads/results.json. */
   resultsMB?: number;
 }
+
+/** Studies above this many variants are written slice by slice (writeSyntheticStudy). */
+const SLICED_FROM = 2000;
 
 const args = process.argv.slice(2);
 const flag = (name: string) => args.includes(name);
@@ -139,9 +142,12 @@ async function eleventyFloor(n: number): Promise<PhaseFigure> {
 const here = fileURLToPath(import.meta.url);
 
 /** Run one measured build in a fresh process (so its peak memory is its own). */
-function child(childArgs: string[]): Promise<BuildFigures | PhaseFigure> {
+function child(childArgs: string[], bigHeap = false): Promise<BuildFigures | PhaseFigure> {
   return new Promise((resolve, reject) => {
-    const p = spawn(process.execPath, ['--import', 'tsx', here, ...childArgs], { stdio: ['ignore', 'pipe', 'inherit'] });
+    // The heap limit V8 picks (about 4 GB here) is too small for the rows of a 10,000-variant study:
+    // those builds get three quarters of the machine's memory, as the README tells users to do.
+    const heap = bigHeap ? [`--max-old-space-size=${Math.floor((totalmem() / 2 ** 20) * 0.75)}`] : [];
+    const p = spawn(process.execPath, [...heap, '--import', 'tsx', here, ...childArgs], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';
     p.stdout.on('data', (d: Buffer) => (out += d.toString()));
     p.on('exit', (code, signal) => {
@@ -189,22 +195,34 @@ async function main(): Promise<void> {
     rmSync(base, { recursive: true, force: true });
     mkdirSync(base, { recursive: true });
     let t = performance.now();
-    const study = syntheticStudy({ variants: size, filaments: Number(value('--filaments') ?? 300), turnoverPoints: Number(value('--turnover-points') ?? 400) });
-    writeStudy(studyDir, study);
-    const inputMB = Object.values(study.files).reduce((s, x) => s + x.length, 0) / 1e6;
-    process.stdout.write(`\n== ${size} variants: study written in ${f1((performance.now() - t) / 1000)} s (${f1(inputMB)} MB of CSV in ${Object.keys(study.files).length} files)\n`);
+    const options = { variants: size, filaments: Number(value('--filaments') ?? 300), turnoverPoints: Number(value('--turnover-points') ?? 400) };
+    // Up to SLICED_FROM variants the study is made in one piece (as the figures in the notes were);
+    // larger ones slice by slice of 500 variants, each with its own batches (one piece would not fit in memory).
+    const sliced = size > SLICED_FROM;
+    let manifest: Record<string, unknown>;
+    let files: Record<string, string> | undefined;
+    if (sliced) manifest = writeSyntheticStudy(studyDir, options);
+    else {
+      const study = syntheticStudy(options);
+      writeStudy(studyDir, study);
+      ({ manifest, files } = study);
+    }
+    const entries = manifest.files as Array<{ path: string }>;
+    const inputMB = entries.reduce((n, e) => n + statSync(join(studyDir, e.path)).size, 0) / 1e6;
+    process.stdout.write(`\n== ${size} variants: study written in ${f1((performance.now() - t) / 1000)} s (${f1(inputMB)} MB of CSV in ${entries.length} files${sliced ? ', made in slices of 500 variants' : ''})\n`);
     const runs: string[] = value('--modes')?.split(',') ?? (flag('--baseline') ? ['serial', 'cold', 'warm'] : ['cold', 'warm']);
     for (const mode of runs) {
       if (mode === 'warm') {
         // A variant near the middle that is not a calibration control (controls are i % 25 = 0 or 1,
         // and a control's change may move the calibration, and with it every report).
         const i = Math.floor(size / 2 / 25) * 25 + 2;
-        const label = (study.manifest.variants as Array<{ hgvs?: string }>)[1 + i].hgvs!.replace(/^p\./, '');
-        writeStudy(studyDir, { manifest: study.manifest, files: changeOneVariant(study.files, label) });
+        const label = (manifest.variants as Array<{ hgvs?: string }>)[1 + i].hgvs!.replace(/^p\./, '');
+        if (files) writeStudy(studyDir, { manifest, files: changeOneVariant(files, label) });
+        else changeOneVariantInFolder(studyDir, manifest, label);
       }
       t = performance.now();
       try {
-        const fig = (await child(['--child', mode === 'serial' ? 'serial' : mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir])) as BuildFigures;
+        const fig = (await child(['--child', mode === 'serial' ? 'serial' : mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced)) as BuildFigures;
         printBuild(fig);
       } catch (err) {
         process.stdout.write(`\n${size} variants, ${mode}: ${(err as Error).message} after ${f1((performance.now() - t) / 1000)} s\n`);

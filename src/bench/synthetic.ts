@@ -10,7 +10,7 @@
  * instead of 91–181). ATPase rates (8 [actin] × 3 wells), NADH wells and motility tracks are
  * kept as the simulator writes them.
  */
-import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createRng, simulateStudy, type AssayTruth, type Scenario, type ScenarioVariant } from '../demo/simulate.js';
 import { MANIFEST_NAME } from '../study/schemas.js';
@@ -28,6 +28,11 @@ export interface SyntheticOptions {
   turnoverPoints?: number;
   /** Data rows per CSV part (default 30,000). */
   maxRowsPerFile?: number;
+  /**
+   * Only variants first … first + count − 1 of the study (writeSyntheticStudy writes a large study
+   * slice by slice); batches are the slice's own, named B<index + 1>-<k>.
+   */
+  slice?: { first: number; count: number; index: number };
 }
 
 /** Scenario of `variants` invented variants (deterministic for a seed). */
@@ -39,21 +44,25 @@ export function benchScenario(o: SyntheticOptions): Scenario {
   const length = Math.max(420, Math.ceil(n / 10) + 10);
   let sequence = 'M';
   while (sequence.length < length) sequence += rng.pick([...AMINO]);
-  const nBatches = Math.max(2, Math.ceil(n / (o.perBatch ?? 20)));
-  const batches = Array.from({ length: nBatches }, (_, i) => `B${i + 1}`);
+  const first = o.slice?.first ?? 0;
+  const count = o.slice?.count ?? n;
+  // A slice draws its effects from its own stream, so slices can be made one at a time.
+  const effectsRng = o.slice ? createRng((seed + 7919 * (o.slice.index + 1)) >>> 0) : rng;
+  const nBatches = Math.max(2, Math.ceil(count / (o.perBatch ?? 20)));
+  const batches = Array.from({ length: nBatches }, (_, i) => (o.slice ? `B${o.slice.index + 1}-${i + 1}` : `B${i + 1}`));
   const variants: ScenarioVariant[] = [];
-  for (let i = 0; i < n; i++) {
+  for (let i = first; i < first + count; i++) {
     const residue = 2 + (i % (length - 1));
     const ref = sequence[residue - 1];
     const alts = [...AMINO].filter((a) => a !== ref);
     const alt = alts[Math.floor(i / (length - 1)) % alts.length];
-    const r = rng.uniform();
+    const r = effectsRng.uniform();
     const effects: Partial<AssayTruth> =
       r < 0.15 ? { kcat: 1.4, velocity: 1.3, pCa50: 0.15 } : r < 0.3 ? { kcat: 0.65, fmax: 0.7 } : r < 0.4 ? { slowFraction: -0.12 } : {};
     const control =
       i % 25 === 0 ? { class: 'pathogenic' as const, source: 'invented for the benchmark' } : i % 25 === 1 ? { class: 'benign' as const, source: 'invented for the benchmark' } : undefined;
     if (control?.class === 'benign') for (const k of Object.keys(effects)) delete effects[k as keyof AssayTruth];
-    const b = Math.floor(i / (o.perBatch ?? 20)) % nBatches;
+    const b = Math.floor((i - first) / (o.perBatch ?? 20)) % nBatches;
     variants.push({
       hgvs: `p.${ref}${residue}${alt}`,
       ...(control ? { control } : {}),
@@ -192,6 +201,54 @@ function splitFiles(manifest: Record<string, unknown>, files: Record<string, str
     }
   }
   return { manifest: { ...manifest, files: outEntries }, files: outFiles };
+}
+
+/**
+ * Write a synthetic study of any size slice by slice (`sliceSize` variants each, every slice with
+ * its own batches and WT units), so that the generator never holds more than one slice's CSV
+ * text: the 10,000-variant study is about 1.1 GB of CSV. Files are named s<slice>-<name>.
+ * Returns the manifest written.
+ */
+export function writeSyntheticStudy(dir: string, o: SyntheticOptions, sliceSize = 500): Record<string, unknown> {
+  rmSync(dir, { recursive: true, force: true });
+  mkdirSync(dir, { recursive: true });
+  let manifest: Record<string, unknown> | undefined;
+  const files: Array<Record<string, unknown>> = [];
+  const variants: unknown[] = [];
+  const seen = new Set<string>();
+  for (let index = 0; index * sliceSize < o.variants; index++) {
+    const first = index * sliceSize;
+    const part = syntheticStudy({ ...o, slice: { first, count: Math.min(sliceSize, o.variants - first), index } });
+    const prefix = `s${String(index + 1).padStart(3, '0')}-`;
+    for (const entry of part.manifest.files as Array<Record<string, unknown>>) {
+      writeFileSync(join(dir, prefix + (entry.path as string)), part.files[entry.path as string]);
+      files.push({ ...entry, path: prefix + (entry.path as string) });
+    }
+    // WT (and anything else listed in every slice) once.
+    for (const v of part.manifest.variants as unknown[]) {
+      const key = JSON.stringify(v);
+      if (!seen.has(key)) {
+        seen.add(key);
+        variants.push(v);
+      }
+    }
+    manifest ??= part.manifest;
+  }
+  const out = { ...manifest, variants, files };
+  writeFileSync(join(dir, MANIFEST_NAME), JSON.stringify(out, null, 2) + '\n');
+  return out;
+}
+
+/** changeOneVariant on a study folder: rewrites the one velocity file holding `label`'s rows. */
+export function changeOneVariantInFolder(dir: string, manifest: Record<string, unknown>, label: string): void {
+  for (const entry of manifest.files as Array<{ path: string }>) {
+    if (!/motility-velocities/.test(entry.path)) continue;
+    const text = readFileSync(join(dir, entry.path), 'utf8');
+    if (!text.includes(`\n${label},`)) continue;
+    writeFileSync(join(dir, entry.path), changeOneVariant({ 'motility-velocities.csv': text }, label)['motility-velocities.csv']);
+    return;
+  }
+  throw new Error(`no velocity rows for ${label}`);
 }
 
 /** Write a study folder (replacing it). */
