@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../src/cli/main.js';
+import { memoryWarning } from '../../src/cli/commands/build.js';
 
 const REPO = join(import.meta.dirname, '../..');
 const root = mkdtempSync(join(tmpdir(), 'myofolio-cli-'));
@@ -127,5 +128,25 @@ describe('myofolio CLI', () => {
       code = (e as { status: number }).status;
     }
     expect(code).toBe(2);
+  });
+});
+
+describe('memory warning before a very large build', () => {
+  it('warns with the fix when the CSV files would need more heap than the limit, and not otherwise', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'myofolio-mem-'));
+    try {
+      mkdirSync(join(dir, 'sub'));
+      writeFileSync(join(dir, 'a.csv'), 'x'.repeat(1000));
+      writeFileSync(join(dir, 'sub', 'b.CSV'), 'x'.repeat(24));
+      writeFileSync(join(dir, 'notes.txt'), 'x'.repeat(100_000));
+      // 1,024 bytes of CSV × HEAP_PER_CSV_BYTE = 8,192 bytes needed.
+      expect(memoryWarning(dir, 8192 / 0.9 + 1)).toBe('');
+      const text = memoryWarning(dir, 8000);
+      expect(text).toContain('NODE_OPTIONS=--max-old-space-size=1024');
+      expect(text).toContain('warning');
+      expect(memoryWarning(join(dir, 'missing'), 1)).toBe('');
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });
