@@ -6,6 +6,11 @@ import type { MetricComparison, StudyResults } from '../results/types.js';
 import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel, unitSuffix, variantNames } from './chart-def.js';
 import { BAND_FILL, CI_COLOUR, METRIC_CALL_STYLE, REFERENCE, callScale } from './palette.js';
 
+/** Variants an effects chart labels one row each; larger studies get a ranked plot without names. */
+export const EFFECTS_LABELLED_MAX = 150;
+/** Height in px of the ranked (unlabelled) effects plot. */
+const EFFECTS_RANKED_HEIGHT = 560;
+
 /** Effects chart of one metric of one assay, or null when no variant has an estimable effect. */
 export function effectsChart(results: StudyResults, assayId: string, metricId: string): ChartDef | null {
   const names = variantNames(results);
@@ -18,9 +23,15 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
   const scale = est[0].scale;
   const log = scale === 'ratio';
   const band = results.settings.bands[`${assayId}.${metricId}`] ?? est[0].band;
-  const rows = est.map((c) => ({ row: names.get(c.variant) ?? c.variant, effect: c.effect, lo: c.ciLow, hi: c.ciHigh, call: c.call }));
-  const order = rows.map((r) => r.row);
-  const y = { field: 'row', type: 'nominal', sort: order, title: 'Variant', axis: { labelLimit: 200 } };
+  const rows = est.map((c, i) => ({ row: names.get(c.variant) ?? c.variant, rank: i + 1, effect: c.effect, lo: c.ciLow, hi: c.ciHigh, call: c.call }));
+  // Up to EFFECTS_LABELLED_MAX variants, one labelled row each, in rank order (sorted by the rank
+  // field: an explicit list of names becomes one nested expression per name in vega, which
+  // overflows the stack at about 10,000). Beyond that, a ranked plot of fixed height without names:
+  // the table below the chart lists every variant.
+  const labelled = rows.length <= EFFECTS_LABELLED_MAX;
+  const y = labelled
+    ? { field: 'row', type: 'nominal', sort: { field: 'rank', op: 'min' }, title: 'Variant', axis: { labelLimit: 200 } }
+    : { field: 'rank', type: 'quantitative', scale: { domain: [0, rows.length + 1], nice: false, zero: false, reverse: true }, title: `Variants ranked by effect (1 = lowest of ${rows.length})`, axis: { tickCount: 8, format: 'd' } };
   const { scale: xScale, axis } = effectScale([...rows.flatMap((r) => [r.effect, r.lo, r.hi]), band[0], band[1]], log);
   const label = metricLabel(results, assayId, metricId);
   const xTitle = log ? `${def?.label ?? metricId}: ratio to paired WT (log scale)` : `${def?.label ?? metricId}: difference from paired WT${unitSuffix(def?.unit)}`;
@@ -31,18 +42,19 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     title,
     width: 420,
-    height: Math.max(60, rows.length * 22),
+    height: labelled ? Math.max(60, rows.length * 22) : EFFECTS_RANKED_HEIGHT,
     layer: [
       { data: { values: [{ lo: band[0], hi: band[1] }] }, mark: { type: 'rect', color: BAND_FILL }, encoding: { x: x('lo'), x2: { field: 'hi' } } },
       { data: { values: [{ ref: log ? 1 : 0 }] }, mark: { type: 'rule', color: REFERENCE, strokeDash: [4, 3] }, encoding: { x: x('ref') } },
       {
         data: { values: rows.filter((r) => r.lo !== null && r.hi !== null) },
-        mark: { type: 'rule', color: CI_COLOUR, strokeWidth: 2 },
+        // Ranked: thousands of overlapping intervals, drawn faint so the effects stay visible.
+        mark: labelled ? { type: 'rule', color: CI_COLOUR, strokeWidth: 2 } : { type: 'rule', color: CI_COLOUR, strokeWidth: 1, opacity: 0.15 },
         encoding: { y, x: x('lo'), x2: { field: 'hi' } },
       },
       {
         data: { values: rows },
-        mark: { type: 'point', filled: true, size: 100, opacity: 1, stroke: '#ffffff', strokeWidth: 0.8 },
+        mark: labelled ? { type: 'point', filled: true, size: 100, opacity: 1, stroke: '#ffffff', strokeWidth: 0.8 } : { type: 'point', filled: true, size: 16, opacity: 0.9 },
         encoding: {
           y,
           x: x('effect'),

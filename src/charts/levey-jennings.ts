@@ -29,7 +29,6 @@ export function leveyJenningsChart(results: StudyResults, cc: ControlChart): Cha
   const def = results.assays.find((a) => a.id === cc.assay)?.metrics.find((m) => m.id === cc.metric);
   const label = metricLabel(results, cc.assay, cc.metric);
   const points = cc.points.map((p, i) => ({ order: i + 1, batch: p.batch, value: p.value, z: p.z, status: statusOf(p.rules), rules: p.rules.join(', ') }));
-  const order = points.map((p) => p.batch);
   const lines = [-3, -2, -1, 0, 1, 2, 3].map((k) => ({
     k,
     y: mean + k * sd,
@@ -37,7 +36,8 @@ export function leveyJenningsChart(results: StudyResults, cc: ControlChart): Cha
     dash: k === 0 ? 'solid' : Math.abs(k) === 1 ? 'dot' : Math.abs(k) === 2 ? 'dash' : 'long dash',
   }));
   const present = (Object.keys(STATUS) as Status[]).filter((s) => points.some((p) => p.status === s));
-  const x = { field: 'batch', type: 'ordinal', sort: order, title: 'Batch (in order)', axis: { labelAngle: -40, labelLimit: 90 } };
+  // Sorted by the order field, not by a list of batch names (vega turns a list into one nested expression per name).
+  const x = { field: 'batch', type: 'ordinal', sort: { field: 'order', op: 'min' }, title: 'Batch (in order)', axis: { labelAngle: -40, labelLimit: 90 } };
   const yTitle = `${def?.label ?? cc.metric}${unitSuffix(def?.unit)}`;
   const lo = Math.min(mean - 3.6 * sd, ...points.map((p) => p.value - 0.3 * sd));
   const hi = Math.max(mean + 3.6 * sd, ...points.map((p) => p.value + 0.3 * sd));

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
-import { effectsChart } from '../../src/charts/effects.js';
+import { EFFECTS_LABELLED_MAX, effectsChart } from '../../src/charts/effects.js';
 import { forestChart } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
 import { chartKey, drawRawDirect, drawRawShared, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, shapeStats, splitSpec, stripRedundant } from '../../src/charts/render.js';
@@ -120,6 +120,28 @@ describe('assay unit charts (ATPase, force)', () => {
     expect(curve.filter((r) => r.rate === null).map((r) => r.seq)).toEqual([3, 7]);
     expect(await renderSvg(drawnSpec(spec), { key: 'atpase-test' })).toMatch(/^<svg/);
   });
+});
+
+describe('effects chart at consortium scale', () => {
+  it('labels each variant up to EFFECTS_LABELLED_MAX, ranks them beyond, and draws 10,000 without a sort list', async () => {
+    const r = makeFixture();
+    const base = r.comparisons.find((c) => c.assay === 'atpase' && c.metric === 'kcat')!;
+    const withN = (n: number) => ({
+      ...r,
+      comparisons: [
+        ...r.comparisons.filter((c) => !(c.assay === 'atpase' && c.metric === 'kcat')),
+        ...Array.from({ length: n }, (_, i) => ({ ...base, variant: `v${i}`, effect: 0.5 + i / n, ciLow: 0.45 + i / n, ciHigh: 0.55 + i / n })),
+      ],
+    });
+    const small = effectsChart(withN(EFFECTS_LABELLED_MAX), 'atpase', 'kcat')!;
+    expect(JSON.stringify(small.spec)).toContain('"type":"nominal","sort":{"field":"rank","op":"min"}');
+    const big = effectsChart(withN(10_000), 'atpase', 'kcat')!;
+    const text = JSON.stringify(big.spec);
+    expect(text).not.toMatch(/"sort":\[/);
+    expect(big.spec.height).toBe(560);
+    expect(big.table.rows).toHaveLength(10_000);
+    expect(await renderSvg(big.spec, { key: big.key })).toMatch(/^<svg/);
+  }, 60_000);
 });
 
 describe('study chart specs', () => {
