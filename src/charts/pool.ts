@@ -33,9 +33,9 @@ export function startWorker(script: URL, resourceLimits?: ResourceLimits): Worke
 /**
  * Old-generation limit of a chart worker. A worker keeps little between charts (compiled shapes
  * and expression code), but V8 sizes a worker's heap like a process's and collects late, so
- * each drawing worker grew to several hundred MB of garbage. 512 MB is ten times what a
- * worker needs for the largest benchmark chart; a worker that exceeds it fails its chart
- * with an error (the build stops) rather than taking the machine's memory.
+ * each drawing worker grew to several hundred MB of garbage. The 10,000-variant benchmark,
+ * whose largest chart holds 10,000 variants, draws within 512 MB; a worker that exceeds it
+ * fails its chart with an error (the build stops) rather than taking the machine's memory.
  */
 export const CHART_WORKER_OLD_GENERATION_MB = 512;
 
