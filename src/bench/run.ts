@@ -7,10 +7,12 @@
  *   cold  — empty chart and analysis caches,
  *   warm  — after one variant's velocities changed, with the caches of the cold build,
  *   serial — (with --baseline) one thread, no caches: the path before the pools existed,
- * each in its own child process, so every peak-memory figure belongs to one build. Phases follow
- * src/build/build-study.ts: load (read + loadStudy), analyse (analyseUnitsParallel + analyseStudy),
- * charts (every SVG; variant pages are written by Eleventy in batches as their charts are drawn),
- * pages (the study-level pages by Eleventy), write (results.json/csv + swap).
+ * each in its own child process, so every peak-memory figure belongs to one build, through
+ * buildStudy as the CLI runs it. Phases: load (read + loadStudy), analyse (units per batch
+ * through the analysis cache and workers, then analyseStudy), charts (study-level charts, then
+ * every variant page: its charts drawn, the pages written by Eleventy in batches), pages (the
+ * study-level pages by Eleventy), write (results.json/csv + swap). Studies above 2,000 variants
+ * are written slice by slice, and their builds get a heap of three quarters of the machine's memory.
  * Printed per phase: wall time, CPU time (process.cpuUsage(): user + system of the whole process,
  * worker threads included) and peak RSS (the OS high-water mark, process.resourceUsage().maxRSS,
  * cumulative over the build, so a phase shows the peak up to its end). Then a bare Eleventy build
