@@ -4,8 +4,9 @@
  *
  *   Study ──rows split by batch──▶ per batch: context = (code fingerprint, module ids, study
  *         settings, input files' kinds/paths/settings), then two keys (SHA-256):
- *           file key    — context, the variant labels, and the path, SHA-256 and row count of each
- *                         file holding the batch's rows (cheap: unchanged files give unchanged rows)
+ *           file key    — context, the variant labels, the manifest's file entries, and the path,
+ *                         SHA-256 and row count of each file holding the batch's rows (cheap:
+ *                         unchanged files read the same way give unchanged rows)
  *           content key — context and the batch's rows in order (exact; tried when the file key misses)
  *         ──hit──▶ UnitResult[] from <dir>/<ab>/<key>.bin (v8 serialisation: exact numbers, NaN kept)
  *         ──miss──▶ analyseUnitsParallel on a study holding only the missed batches ──▶ stored
@@ -88,7 +89,9 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
   // and the variant labels the loader resolved them with. Unchanged files give unchanged rows, so this
   // cheap key is tried first; when a file changed, the content key decides per batch.
   const sha = new Map(study.files.map((f) => [f.path, f.sha256]));
-  const labels = JSON.stringify(study.variants.map((v) => [v.id, v.label]));
+  // How the loader read the files: the variant labels it resolved and the manifest's file entries
+  // (declared units, decimal mark, missing-value codes, cross-sections…), as given.
+  const labels = JSON.stringify([study.variants.map((v) => [v.id, v.label]), (study.manifestRaw as { files?: unknown } | undefined)?.files ?? null]);
   const fileKey = (batch: string, rows: Partial<Record<InputKind, RowBase[]>>) => {
     const perFile = new Map<string, number>();
     for (const kind of kinds) for (const r of rows[kind] ?? []) perFile.set(r.at.file, (perFile.get(r.at.file) ?? 0) + 1);

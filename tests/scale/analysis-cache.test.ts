@@ -57,6 +57,22 @@ describe('analyseUnitsCached', () => {
     expect(got.units).toEqual(fresh);
   }, 120_000);
 
+  it('a file read differently (its manifest entry changed, its bytes not) is never served by the file key', async () => {
+    // As loadStudy gives it after a unit declared in the manifest changed: same file bytes (same
+    // SHA-256), rows scaled. The cache must fall back to the rows and re-fit the batches they changed.
+    const rows = study.rows.turnover as TurnoverRow[];
+    const file = rows[0].at.file;
+    const raw = study.manifestRaw as { files: Array<Record<string, unknown>> };
+    const reread: Study = {
+      ...study,
+      manifestRaw: { ...raw, files: raw.files.map((f) => (f.path === file ? { ...f, note: 'units declared differently' } : f)) },
+      rows: { ...study.rows, turnover: rows.map((r) => (r.at.file === file ? { ...r, fluorescence: r.fluorescence * 2 + 1 } : r)) },
+    };
+    const got = await analyseUnitsCached(reread, ASSAYS, { cacheDir: dir, workers: 0 });
+    expect(got.batches.analysed).toBeGreaterThan(0);
+    expect(got.units).toEqual(serial(reread));
+  }, 120_000);
+
   it('a changed setting misses every batch; no cache folder means no cache', async () => {
     const tuned: Study = { ...study, settings: { ...study.settings, forceMinPoints: 5 } };
     expect((await analyseUnitsCached(tuned, ASSAYS, { cacheDir: dir, workers: 0 })).batches.cached).toBe(0);
