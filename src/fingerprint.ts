@@ -1,8 +1,9 @@
 /**
  * Fingerprint of the tool's code: SHA-256 over the path and contents of every .ts/.js/.mjs/.json
- * file under src/, sorted by path. Caches whose entries are computed by the code (fitted units,
- * chart blocks) include it in their keys, so an entry made by other code is never served,
- * whatever the version number says. Read once per process (about a hundred small files).
+ * file under src/, sorted by path, and of package-lock.json (the exact library versions).
+ * Caches whose entries are computed by the code (fitted units, chart blocks) include it in their
+ * keys, so an entry made by other code or other libraries is never served, whatever the version
+ * number says. Read once per process (about a hundred small files).
  */
 import { createHash } from 'node:crypto';
 import { readFileSync, readdirSync } from 'node:fs';
@@ -21,6 +22,11 @@ export function codeFingerprint(): string {
       .flatMap((e) => (e.isDirectory() ? walk(join(dir, e.name)) : /\.(ts|js|mjs|json)$/.test(e.name) ? [join(dir, e.name)] : []))
       .sort();
   for (const file of walk(srcDir)) hash.update(file.slice(srcDir.length)).update('\0').update(readFileSync(file)).update('\0');
+  try {
+    hash.update('package-lock.json\0').update(readFileSync(join(srcDir, '..', 'package-lock.json')));
+  } catch {
+    // no lockfile (an unpacked copy of src/): the sources alone
+  }
   fingerprint = hash.digest('hex');
   return fingerprint;
 }
