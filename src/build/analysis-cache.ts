@@ -14,8 +14,9 @@
  *
  * Why per batch: units are independent given their batch (src/analysis/parallel.ts; NADH rates
  * subtract the actin-only wells of their own batch), and the modules read nothing else of the
- * study than its settings, its files' settings and its rows. The code fingerprint hashes every
- * source file under src/, so a changed analysis can never be served from an older cache.
+ * study than its settings, its files' settings and its rows. The code fingerprint
+ * (src/fingerprint.ts) hashes every source file under src/ and package-lock.json, so a changed
+ * analysis can never be served from an older cache.
  * The result equals analyseUnitsParallel(study) (tested); entries are never pruned.
  */
 import { createHash } from 'node:crypto';
