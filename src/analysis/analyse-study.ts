@@ -11,6 +11,7 @@
  *
  * No I/O, no clock: the build time comes in as an argument.
  */
+import { groupBy } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { bandFromBenignControls } from '../calibrate/bands.js';
@@ -46,18 +47,6 @@ export const COMPARISON_METHOD =
   'the effect is the weighted mean of within-batch differences of means (log scale for ratio metrics), weights n_variant·n_WT/(n_variant + n_WT); ' +
   'residual variance from within-group and between-batch scatter on N − B − 1 degrees of freedom; t interval and two-sided t test; ' +
   'Benjamini–Hochberg q values across variants within each metric (Benjamini & Hochberg 1995). n is the number of biological units.';
-
-/** Group items by a key, keeping input order within each group (one pass; used to avoid per-variant scans). */
-function groupByKey<T>(items: readonly T[], key: (item: T) => string): Map<string, T[]> {
-  const out = new Map<string, T[]>();
-  for (const item of items) {
-    const k = key(item);
-    const list = out.get(k);
-    if (list) list.push(item);
-    else out.set(k, [item]);
-  }
-  return out;
-}
 
 function matchesExclusion(u: UnitResult, e: Exclusion, variants: Variant[]): boolean {
   if (e.assay && e.assay !== u.assay) return false;
@@ -131,7 +120,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   // 4. Assay and variant calls.
   const labels: Record<string, string> = Object.fromEntries(modules.map((m) => [m.id, m.label]));
   const assayCalls: AssayCall[] = [];
-  const comparisonsByVariant = groupByKey(comparisons, (c) => c.variant);
+  const comparisonsByVariant = groupBy(comparisons, (c) => c.variant);
   for (const v of variants) {
     if (v.isWT) continue;
     for (const m of modules) {
@@ -141,7 +130,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   }
 
   // 5. Calibration per assay and overall, from the controls' readouts.
-  const callsByVariant = groupByKey(assayCalls, (a) => a.variant);
+  const callsByVariant = groupBy(assayCalls, (a) => a.variant);
   const cap = study.thresholds.evidenceCap;
   const controls = variants.filter((v) => v.control && !v.isWT);
   const calibration: Calibration[] = modules.map((m) =>
@@ -168,7 +157,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   calibration.push(overallCal);
 
   // 6. Variant results.
-  const unitsByVariant = groupByKey(units, (u) => u.variant);
+  const unitsByVariant = groupBy(units, (u) => u.variant);
   const variantResults: VariantResult[] = variants.map((v) => {
     const overall = v.isWT
       ? { call: 'within WT range' as const, sentence: 'Wild-type reference: every comparison is made against it.', readout: null }

@@ -24,6 +24,7 @@ import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { deserialize, serialize } from 'node:v8';
 import { type ParallelOptions, activeModules, analyseUnitsParallel, serialOrder } from '../analysis/parallel.js';
+import { groupBy } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { DEFAULT_CHART_CACHE } from '../charts/cache.js';
@@ -137,8 +138,7 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     }
     const count = Object.values(rows).reduce((n, list) => n + list.length, 0);
     fresh = await analyseUnitsParallel({ ...study, rows: rows as Study['rows'] }, active, count >= (options.minRowsForWorkers ?? 0) ? options : { ...options, workers: 0 });
-    const perBatch = new Map<string, UnitResult[]>();
-    for (const u of fresh) (perBatch.get(u.batch) ?? perBatch.set(u.batch, []).get(u.batch)!).push(u);
+    const perBatch = groupBy(fresh, (u) => u.batch);
     for (const [batch, keys] of missed) {
       // A batch whose rows give no unit (e.g. only NADH actin-only wells) is stored empty.
       for (const key of keys) store(file(key), perBatch.get(batch) ?? []);

@@ -3,6 +3,7 @@
  * its WT-like band. Ratio metrics (variant/WT) share a log axis with a reference line at 1;
  * difference metrics (variant − WT) get their own linear panel with a reference line at 0.
  */
+import { groupBy } from '../assays/assay-common.js';
 import type { MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
 import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel, shortMetricLabel } from './chart-def.js';
 import { BAND_FILL, CI_COLOUR, METRIC_CALL_STYLE, REFERENCE, callScale } from './palette.js';
@@ -75,10 +76,8 @@ const comparisonsByVariant = new WeakMap<StudyResults, Map<string, MetricCompari
 function comparisonsOf(results: StudyResults, variantId: string): MetricComparison[] {
   let index = comparisonsByVariant.get(results);
   if (!index) {
-    const built = new Map<string, MetricComparison[]>();
-    for (const c of results.comparisons) (built.get(c.variant) ?? built.set(c.variant, []).get(c.variant)!).push(c);
-    comparisonsByVariant.set(results, built);
-    index = built;
+    index = groupBy(results.comparisons, (c) => c.variant);
+    comparisonsByVariant.set(results, index);
   }
   return index.get(variantId) ?? [];
 }

@@ -6,6 +6,7 @@ import type { StudyResults, VariantResult } from '../results/types.js';
 import { type CalibrationView, type CallView, type ChartBlock, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
 import { fmtCalibration } from './view-study.js';
 import { PATHS, slug } from './paths.js';
+import { groupBy } from '../assays/assay-common.js';
 import type { ChartRenderer } from '../charts/pool.js';
 
 export interface IndexRow {
@@ -61,10 +62,8 @@ export interface VariantPage {
 
 /** Comparisons and units of each variant, in results order (one pass instead of a scan per variant). */
 function byVariant(results: StudyResults) {
-  const comps = new Map<string, StudyResults['comparisons']>();
-  const units = new Map<string, StudyResults['units']>();
-  for (const c of results.comparisons) (comps.get(c.variant) ?? comps.set(c.variant, []).get(c.variant)!).push(c);
-  for (const u of results.units) (units.get(u.variant) ?? units.set(u.variant, []).get(u.variant)!).push(u);
+  const comps = groupBy(results.comparisons, (c) => c.variant);
+  const units = groupBy(results.units, (u) => u.variant);
   return { comps: (id: string) => comps.get(id) ?? [], units: (id: string) => units.get(id) ?? [] };
 }
 
