@@ -11,7 +11,7 @@
  *
  * No I/O, no clock: the build time comes in as an argument.
  */
-import { groupBy } from '../assays/assay-common.js';
+import { groupBy, hasRows } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { bandFromBenignControls } from '../calibrate/bands.js';
@@ -72,7 +72,7 @@ function resolveBands(study: Study): { bands: Record<string, [number, number]>; 
 }
 
 export function analyseStudy(study: Study, options: AnalyseOptions): StudyResults {
-  const modules = (options.assays ?? ASSAYS).filter((a) => a.inputs.some((k) => (study.rows[k]?.length ?? 0) > 0));
+  const modules = (options.assays ?? ASSAYS).filter((a) => a.inputs.some((k) => hasRows(study, k)));
   const variants = study.variants;
   const qThreshold = study.thresholds.qThreshold ?? STATS.qThreshold;
 

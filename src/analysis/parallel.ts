@@ -16,6 +16,7 @@
  * itself (47 s for the 3 million rows of a 1,000-variant benchmark study, and a copy of each
  * string per row in worker memory). This file does no I/O besides starting workers.
  */
+import { hasRows } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { type WorkerReply, defaultWorkers, startWorker } from '../charts/pool.js';
@@ -36,8 +37,8 @@ export interface ParallelOptions {
 }
 
 /** Modules that have rows in the study, in registry order: the same filter analyseStudy applies. */
-export function activeModules(study: Pick<Study, 'rows'>, modules: readonly AssayModule[] = ASSAYS): AssayModule[] {
-  return modules.filter((a) => a.inputs.some((k) => (study.rows[k]?.length ?? 0) > 0));
+export function activeModules(study: Pick<Study, 'rows' | 'omitted'>, modules: readonly AssayModule[] = ASSAYS): AssayModule[] {
+  return modules.filter((a) => a.inputs.some((k) => hasRows(study, k)));
 }
 
 /** Message to the analysis worker: a study without rows, the chunk's rows in columns, and module ids. */
@@ -84,17 +85,43 @@ export function serialOrder(study: Study, m: AssayModule, units: UnitResult[]): 
   const rank = new Map<string, Map<string, Map<string, number>>>();
   let count = 0;
   const rankOf = (r: { variant: string; unit: string; batch: string }) => rank.get(r.variant)?.get(r.unit)?.get(r.batch);
-  let last: RowBase | undefined;
-  for (const kind of m.inputs) {
-    for (const r of (study.rows[kind] ?? []) as RowBase[]) {
+  const see = (variant: string, unit: string, batch: string) => {
+    let byUnit = rank.get(variant);
+    if (!byUnit) rank.set(variant, (byUnit = new Map()));
+    let byBatch = byUnit.get(unit);
+    if (!byBatch) byUnit.set(unit, (byBatch = new Map()));
+    if (!byBatch.has(batch)) byBatch.set(batch, count++);
+  };
+  const seeRows = (rows: readonly RowBase[], from: number, to: number) => {
+    let last: RowBase | undefined;
+    for (let i = from; i < to; i++) {
+      const r = rows[i];
       if (r.variant === '' && r.unit === '') continue; // NADH actin-only wells belong to no unit
       if (last && r.variant === last.variant && r.unit === last.unit && r.batch === last.batch) continue;
       last = r;
-      let byUnit = rank.get(r.variant);
-      if (!byUnit) rank.set(r.variant, (byUnit = new Map()));
-      let byBatch = byUnit.get(r.unit);
-      if (!byBatch) byUnit.set(r.unit, (byBatch = new Map()));
-      if (!byBatch.has(r.batch)) byBatch.set(r.batch, count++);
+      see(r.variant, r.unit, r.batch);
+    }
+  };
+  for (const kind of m.inputs) {
+    const rows = (study.rows[kind] ?? []) as RowBase[];
+    if (!study.omitted?.size) {
+      seeRows(rows, 0, rows.length);
+      continue;
+    }
+    // Files in manifest order: an omitted file's units from its digest, a read file's from its
+    // rows (one contiguous run of the kind's rows, in the same order).
+    let i = 0;
+    for (const f of study.files) {
+      if (f.kind !== kind) continue;
+      const digest = study.omitted.get(f.path);
+      if (digest) {
+        for (const [variant, unit, batch] of digest.unitOrder) see(variant, unit, batch);
+        continue;
+      }
+      let j = i;
+      while (j < rows.length && rows[j].at.file === f.path) j++;
+      seeRows(rows, i, j);
+      i = j;
     }
   }
   return units

@@ -5,7 +5,7 @@
  */
 import type { FitResult } from '../numeric/types.js';
 import type { Flag } from '../results/types.js';
-import type { RowBase, SourceRef } from '../study/types.js';
+import type { InputKind, RowBase, SourceRef, Study } from '../study/types.js';
 import { ASSAY } from '../defaults.js';
 import { mean } from '../stats/descriptive.js';
 
@@ -180,4 +180,11 @@ export function relativeSeFlags(fit: FitResult, limit: number, labels: Record<st
     }
   }
   return flags;
+}
+
+/** Does the study hold rows of this kind (counting the rows of omitted files)? */
+export function hasRows(study: Pick<Study, 'rows' | 'omitted'>, kind: InputKind): boolean {
+  if ((study.rows[kind]?.length ?? 0) > 0) return true;
+  for (const d of study.omitted?.values() ?? []) if (d.kind === kind && d.kept > 0) return true;
+  return false;
 }

@@ -14,7 +14,7 @@
 import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
-import { analyseUnitsCached } from './analysis-cache.js';
+import { analyseUnitsCached, digestStore } from './analysis-cache.js';
 import { collectGarbage } from '../memory.js';
 import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
@@ -66,26 +66,46 @@ export interface BuildOutcome {
  * (most of a large study's memory) can be collected once the results exist: only the results
  * and the issues leave it.
  */
-async function loadAndAnalyse(studyDir: string, options: BuildOptions): Promise<{ issues: Issue[]; results?: StudyResults }> {
+export async function loadAndAnalyse(studyDir: string, options: BuildOptions): Promise<{ issues: Issue[]; results?: StudyResults }> {
   const phase = options.onPhase ?? (() => {});
   let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir);
   phase('check');
-  const loaded = loadStudy(folder);
-  folder = undefined; // the file bytes are not needed after loading
-  const issues = loaded.issues;
-  if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues };
-  phase('analyse');
+  // With the analysis cache, files whose batches are all cached are not parsed (their digests
+  // stand in for them); if a batch they hold turns out not to be cached, they are read after all.
+  const digests = options.analysisCache === false ? undefined : digestStore(options.analysisCache);
+  const mustRead = new Set<string>();
+  let analysing = false;
   const epoch = options.sourceDateEpoch;
   const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
-  const { units } = await analyseUnitsCached(loaded.study, ASSAYS, {
-    workers: options.workers ?? 'auto',
-    minRowsForWorkers: PARALLEL_ANALYSIS_MIN_ROWS,
-    ...(options.analysisCache !== undefined ? { cacheDir: options.analysisCache } : {}),
-    onProgress: (d, t) => options.onProgress?.('analyse', d, t),
-  });
-  const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units });
-  results.issues = issues;
-  return { issues, results };
+  for (;;) {
+    const loaded = loadStudy(folder as NonNullable<typeof folder>, digests ? { reuse: { context: digests.reuse.context, get: (key, path) => (mustRead.has(path) ? undefined : digests.reuse.get(key, path)) } } : {});
+    if (digests && loaded.digests) {
+      digests.save(loaded.digests);
+      // Read now, read again on a second pass (its new digest must not leave it out).
+      for (const d of loaded.digests) mustRead.add(d.path);
+    }
+    // The file bytes are needed again only if some files were left out.
+    if (!loaded.study?.omitted) folder = undefined;
+    const issues = loaded.issues;
+    if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues };
+    // Once: a second pass (files read after all) counts as analysis.
+    if (!analysing) phase('analyse');
+    analysing = true;
+    const got = await analyseUnitsCached(loaded.study, ASSAYS, {
+      workers: options.workers ?? 'auto',
+      minRowsForWorkers: PARALLEL_ANALYSIS_MIN_ROWS,
+      ...(options.analysisCache !== undefined ? { cacheDir: options.analysisCache } : {}),
+      onProgress: (d, t) => options.onProgress?.('analyse', d, t),
+    });
+    if (got.needRows) {
+      // Only files left out are asked for, and those join mustRead: the loop ends.
+      got.needRows.forEach((p) => mustRead.add(p));
+      continue;
+    }
+    const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units });
+    results.issues = issues;
+    return { issues, results };
+  }
 }
 
 export async function buildStudy(studyDir: string, outDir: string, options: BuildOptions = {}): Promise<BuildOutcome> {

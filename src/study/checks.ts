@@ -2,37 +2,84 @@
  * Checks across rows and files that a schema cannot express. Pure.
  */
 import { MSG, issue } from './messages.js';
-import type { Exclusion, InputKind, Issue, RowBase, RowsByKind, Variant } from './types.js';
+import type { Exclusion, InputKind, Issue, RowBase, RowsByKind, Variant, WildTypeFacts } from './types.js';
+
+/**
+ * What the WT-per-batch check needs of one file's rows: per batch (in order of its first row
+ * with a declared variant), the WT genes present and each non-WT variant with its first line.
+ * Facts of the files of one kind, in file order, stand for that kind's rows.
+ */
+export function wildTypeFacts(rows: readonly RowBase[], variants: ReadonlyMap<string, Variant>): WildTypeFacts {
+  const batches = new Map<string, { wt: Set<string>; variants: Map<string, number> }>();
+  let lastRow: RowBase | undefined;
+  for (const row of rows) {
+    if (row.variant === '') continue; // actin-only background wells
+    // Files are written unit by unit: a row like the previous one adds nothing.
+    if (lastRow && row.variant === lastRow.variant && row.batch === lastRow.batch) continue;
+    lastRow = row;
+    const v = variants.get(row.variant);
+    if (!v) continue;
+    let b = batches.get(row.batch);
+    if (!b) batches.set(row.batch, (b = { wt: new Set(), variants: new Map() }));
+    if (v.isWT) b.wt.add(v.gene);
+    else if (!b.variants.has(v.id)) b.variants.set(v.id, row.at.line ?? 0);
+  }
+  return [...batches].map(([batch, b]) => [batch, [...b.wt], [...b.variants]]);
+}
 
 /**
  * Every batch that holds a variant must also hold WT of the same gene, per input kind.
- * One error per (kind, batch), at the first line of that batch.
+ * One error per (kind, batch), at the first line of that batch's variants without WT.
+ * `kinds`: each kind with the wildTypeFacts of its files, in file order.
  */
-export function checkWildTypePerBatch(rows: Partial<RowsByKind>, variants: readonly Variant[]): Issue[] {
+export function checkWildTypeFacts(kinds: ReadonlyArray<[InputKind, ReadonlyArray<{ file: string; facts: WildTypeFacts }>]>, variants: readonly Variant[]): Issue[] {
   const issues: Issue[] = [];
   const byId = new Map(variants.map((v) => [v.id, v]));
-  for (const [kind, list] of Object.entries(rows) as [InputKind, RowBase[]][]) {
-    const batches = new Map<string, { first: RowBase; wtGenes: Set<string>; variants: Map<string, Variant> }>();
-    for (const row of list) {
-      if (row.variant === '') continue; // actin-only background wells
-      const v = byId.get(row.variant);
-      if (!v) continue;
-      let b = batches.get(row.batch);
-      if (!b) batches.set(row.batch, (b = { first: row, wtGenes: new Set(), variants: new Map() }));
-      if (v.isWT) b.wtGenes.add(v.gene);
-      else if (!b.variants.has(v.id)) {
-        b.variants.set(v.id, v);
-        if (row.at.file < b.first.at.file || (row.at.file === b.first.at.file && (row.at.line ?? 0) < (b.first.at.line ?? 0))) b.first = row;
+  for (const [kind, files] of kinds) {
+    const batches = new Map<string, { wtGenes: Set<string>; variants: Set<string> }>();
+    for (const { facts } of files) {
+      for (const [batch, wt, vs] of facts) {
+        let b = batches.get(batch);
+        if (!b) batches.set(batch, (b = { wtGenes: new Set(), variants: new Set() }));
+        for (const g of wt) b.wtGenes.add(g);
+        for (const [id] of vs) b.variants.add(id);
       }
     }
     for (const [batch, b] of batches) {
-      const orphans = [...b.variants.values()].filter((v) => !b.wtGenes.has(v.gene));
+      const orphans = [...b.variants].map((id) => byId.get(id)!).filter((v) => !b.wtGenes.has(v.gene));
       if (orphans.length === 0) continue;
-      const first = list.find((r) => r.batch === batch && orphans.some((v) => v.id === r.variant))!;
-      issues.push(issue(MSG.noWildTypeInBatch(kind, batch, orphans.map((v) => v.label)), { file: first.at.file, line: first.at.line, column: 'batch' }));
+      const ids = new Set(orphans.map((v) => v.id));
+      // The first line (file order, then line order) of any of the orphans in this batch.
+      let at: { file: string; line: number } | undefined;
+      for (const { file, facts } of files) {
+        const lines = facts.find(([b2]) => b2 === batch)?.[2].filter(([id]) => ids.has(id)).map(([, line]) => line) ?? [];
+        if (lines.length > 0) {
+          at = { file, line: Math.min(...lines) };
+          break;
+        }
+      }
+      issues.push(issue(MSG.noWildTypeInBatch(kind, batch, orphans.map((v) => v.label)), { file: at!.file, line: at!.line, column: 'batch' }));
     }
   }
   return issues;
+}
+
+/**
+ * Every batch that holds a variant must also hold WT of the same gene, per input kind (rows of
+ * each kind in file order). See checkWildTypeFacts.
+ */
+export function checkWildTypePerBatch(rows: Partial<RowsByKind>, variants: readonly Variant[]): Issue[] {
+  const byId = new Map(variants.map((v) => [v.id, v]));
+  const kinds = (Object.entries(rows) as [InputKind, RowBase[]][]).map(([kind, list]): [InputKind, Array<{ file: string; facts: WildTypeFacts }>] => {
+    const perFile = new Map<string, RowBase[]>();
+    for (const r of list) {
+      const l = perFile.get(r.at.file);
+      if (l) l.push(r);
+      else perFile.set(r.at.file, [r]);
+    }
+    return [kind, [...perFile].map(([file, fileRows]) => ({ file, facts: wildTypeFacts(fileRows, byId) }))];
+  });
+  return checkWildTypeFacts(kinds, variants);
 }
 
 /** Declared variants that no file uses: one warning each, at the manifest entry. */

@@ -9,15 +9,20 @@
  *   cross checks (WT in every batch, unused variants, exclusions) ─▶ LoadOutcome
  *
  * All problems are collected in one pass; a study is returned only when no error was found.
+ *
+ * Each file read also gives a FileDigest (its issues, counts, batches, units and the facts of
+ * the cross checks). With `reuse`, a file whose digest is found under its key (the same path,
+ * bytes, manifest entry and variants, read by the same code) is not parsed: the study takes the
+ * digest instead of its rows (Study.omitted), and issues and checks come out the same.
  */
 import { createHash } from 'node:crypto';
-import { checkExclusionsMatch, checkUnusedVariants, checkWildTypePerBatch } from './checks.js';
+import { checkExclusionsMatch, checkUnusedVariants, checkWildTypeFacts, wildTypeFacts } from './checks.js';
 import { csvDelimiter, decodeText, scanCsv } from './csv.js';
 import { readManifest } from './manifest.js';
 import { MSG, issue } from './messages.js';
 import { createRowReader, StringPool } from './rows.js';
 import { MANIFEST_NAME } from './schemas.js';
-import type { InputFile, InputKind, Issue, LoadOutcome, RowsByKind, Study } from './types.js';
+import type { FileDigest, InputFile, InputKind, Issue, LoadOutcome, RowBase, RowsByKind, Study, Variant, WildTypeFacts } from './types.js';
 
 /** The contents of a study folder, read by the CLI (see read-folder.ts) or built in memory. */
 export interface StudyFiles {
@@ -54,8 +59,71 @@ function getFile(files: StudyFiles['files'], path: string): string | Uint8Array 
   return Object.prototype.hasOwnProperty.call(rec, path) ? rec[path] : undefined;
 }
 
+/** Digests of files read before, offered to loadStudy. */
+export interface LoadReuse {
+  /** Identity of the reading code (e.g. a fingerprint of the source); part of every digest key. */
+  context: string;
+  /** The digest stored under a key (see fileDigestKey), if any. */
+  get(key: string, path: string): FileDigest | undefined;
+}
+
+export interface LoadOptions {
+  /** Leave out the rows of files whose digest is found (Study.omitted); see the module comment. */
+  reuse?: LoadReuse;
+}
+
+/** A file parsed in this load without errors: its digest, to store under its key. */
+export interface ParsedDigest {
+  path: string;
+  key: string;
+  digest: FileDigest;
+}
+
+/**
+ * Key of a file's digest: SHA-256 over the reading code's identity, the path, the bytes'
+ * SHA-256, the manifest's entry for the file (as read) and the variant labels the rows resolve
+ * against: everything a file's rows, issues and facts depend on.
+ */
+export function fileDigestKey(context: string, path: string, sha256: string, spec: unknown, byLabel: ReadonlyMap<string, Variant>, variants: readonly Variant[]): string {
+  return sha256Hex(JSON.stringify([context, path, sha256, spec, [...byLabel].map(([label, v]) => [label, v.id]), variants]));
+}
+
+/** A file's digest from its rows as read (see FileDigest). */
+export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: number, issues: Issue[], seen: { variantsSeen: Set<string>; batches: Set<string>; units: Set<string> }, variants: ReadonlyMap<string, Variant>): FileDigest {
+  const batchRows = new Map<string, number>();
+  const unitOrder: Array<[string, string, string]> = [];
+  const units = new Map<string, Map<string, Set<string>>>();
+  let last: RowBase | undefined;
+  for (const r of rows) {
+    batchRows.set(r.batch, (batchRows.get(r.batch) ?? 0) + 1);
+    if (r.variant === '' && r.unit === '') continue;
+    if (last && r.variant === last.variant && r.unit === last.unit && r.batch === last.batch) continue;
+    last = r;
+    let byUnit = units.get(r.variant);
+    if (!byUnit) units.set(r.variant, (byUnit = new Map()));
+    let batches = byUnit.get(r.unit);
+    if (!batches) byUnit.set(r.unit, (batches = new Set()));
+    if (!batches.has(r.batch)) {
+      batches.add(r.batch);
+      unitOrder.push([r.variant, r.unit, r.batch]);
+    }
+  }
+  return {
+    kind,
+    rowCount,
+    kept: rows.length,
+    issues,
+    variantsSeen: [...seen.variantsSeen],
+    batches: [...seen.batches],
+    units: [...seen.units],
+    batchRows: [...batchRows],
+    wildType: wildTypeFacts(rows, variants),
+    unitOrder,
+  };
+}
+
 /** Load and validate a study. Pure: see the module comment. */
-export function loadStudy(input: StudyFiles): LoadOutcome {
+export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOutcome & { digests?: ParsedDigest[] } {
   const manifestPath = input.manifestPath ?? MANIFEST_NAME;
   const issues: Issue[] = [...(input.readIssues ?? [])];
   // The reader could not read the manifest itself (not a regular file, too large): nothing to parse.
@@ -78,6 +146,11 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
   const units = new Set<string>();
   const pool = new StringPool();
   const readerFlagged = new Set((input.readIssues ?? []).map((i) => i.at.jsonPath));
+  const byId = new Map(manifest.variants.map((v) => [v.id, v]));
+  /** Facts of the WT-per-batch check, by kind, per file in file order. */
+  const wtFacts: Partial<Record<InputKind, Array<{ file: string; facts: WildTypeFacts }>>> = {};
+  const omitted = new Map<string, FileDigest>();
+  const parsed: ParsedDigest[] = [];
 
   for (const spec of manifest.files) {
     const path = spec.entry.path;
@@ -89,6 +162,26 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
     const data = getFile(input.files, path);
     if (data === undefined) {
       if (!readerFlagged.has(jsonPath)) issues.push(issue(MSG.fileNotFound(path), { file: manifestPath, jsonPath }));
+      continue;
+    }
+    const sha256 = input.sha256?.get(path) ?? sha256Hex(data);
+    const settings: Record<string, number | string | boolean> = { decimal: spec.decimal };
+    if (spec.pathLengthCm !== undefined) settings.pathLengthCm = spec.pathLengthCm;
+    if (spec.pixelSizeUm !== undefined) settings.pixelSizeUm = spec.pixelSizeUm;
+    if (spec.frameIntervalS !== undefined) settings.frameIntervalS = spec.frameIntervalS;
+    if (spec.crossSectionMm2 !== undefined) settings.crossSectionMm2 = spec.crossSectionMm2;
+    if (spec.missing.length) settings.missing = spec.missing.join(' ');
+    const key = options.reuse ? fileDigestKey(options.reuse.context, path, sha256, spec, manifest.byLabel, manifest.variants) : '';
+    const reused = options.reuse?.get(key, path);
+    if (reused && reused.kind === spec.entry.kind) {
+      for (const i of reused.issues) issues.push(i);
+      (rowParts[spec.entry.kind] ??= []).push([]);
+      (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: reused.wildType });
+      reused.variantsSeen.forEach((id) => variantsSeen.add(id));
+      reused.batches.forEach((b) => batches.add(b));
+      reused.units.forEach((u) => units.add(u));
+      omitted.set(path, reused);
+      inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: reused.rowCount, settings });
       continue;
     }
     const decoded = decodeText(data);
@@ -107,35 +200,31 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
       header = false;
     });
     const got = reader.finish();
-    for (const i of scanned.issues) issues.push(i);
-    for (const i of rowIssues) issues.push(i);
-    (rowParts[spec.entry.kind] ??= []).push(got.rows as unknown[]);
+    const fileIssues = [...scanned.issues, ...rowIssues];
+    for (const i of fileIssues) issues.push(i);
+    const fileRows = got.rows as unknown as RowBase[];
+    (rowParts[spec.entry.kind] ??= []).push(fileRows);
     got.variantsSeen.forEach((id) => variantsSeen.add(id));
     got.batches.forEach((b) => batches.add(b));
     got.units.forEach((u) => units.add(u));
-    const settings: Record<string, number | string | boolean> = { decimal: spec.decimal };
-    if (spec.pathLengthCm !== undefined) settings.pathLengthCm = spec.pathLengthCm;
-    if (spec.pixelSizeUm !== undefined) settings.pixelSizeUm = spec.pixelSizeUm;
-    if (spec.frameIntervalS !== undefined) settings.frameIntervalS = spec.frameIntervalS;
-    if (spec.crossSectionMm2 !== undefined) settings.crossSectionMm2 = spec.crossSectionMm2;
-    if (spec.missing.length) settings.missing = spec.missing.join(' ');
-    inputFiles.push({
-      kind: spec.entry.kind,
-      path,
-      sha256: input.sha256?.get(path) ?? sha256Hex(data),
-      rows: got.rowCount,
-      settings,
-    });
+    if (options.reuse && !fileIssues.some((i) => i.severity === 'error')) {
+      const digest = fileDigest(spec.entry.kind, fileRows, got.rowCount, fileIssues, got, byId);
+      (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: digest.wildType });
+      parsed.push({ path, key, digest });
+    } else (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: wildTypeFacts(fileRows, byId) });
+    inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: got.rowCount, settings });
   }
 
   const rows: Partial<Record<InputKind, unknown[]>> = {};
   for (const [kind, parts] of Object.entries(rowParts) as [InputKind, unknown[][]][]) rows[kind] = parts.length === 1 ? parts[0] : ([] as unknown[]).concat(...parts);
   const typedRows = rows as Partial<RowsByKind>;
-  issues.push(...checkWildTypePerBatch(typedRows, manifest.variants));
+  // Kinds in the order of their first file, as the rows object holds them.
+  issues.push(...checkWildTypeFacts(Object.keys(rowParts).map((k) => [k as InputKind, wtFacts[k as InputKind] ?? []]), manifest.variants));
   issues.push(...checkUnusedVariants(manifest.variants, variantsSeen));
   issues.push(...checkExclusionsMatch(manifest.exclusions, batches, units));
 
-  if (issues.some((i) => i.severity === 'error')) return { issues };
+  const digests = options.reuse ? parsed : undefined;
+  if (issues.some((i) => i.severity === 'error')) return { issues, ...(digests ? { digests } : {}) };
   const json = manifest.json;
   const study: Study = {
     title: json.title,
@@ -152,8 +241,9 @@ export function loadStudy(input: StudyFiles): LoadOutcome {
     settings: manifest.settings,
     files: inputFiles,
     rows: typedRows,
+    ...(omitted.size > 0 ? { omitted } : {}),
     manifestRaw: manifest.raw,
     manifestSha256: sha256Hex(input.manifest),
   };
-  return { study, issues };
+  return { study, issues, ...(digests ? { digests } : {}) };
 }

@@ -210,11 +210,46 @@ export interface Study {
   /** Optional assay settings from the manifest (e.g. motility immobile threshold), keyed by setting name. */
   settings: Record<string, number | string | boolean>;
   files: InputFile[];
+  /** Rows of every input file, by kind, in manifest file order (except the files in `omitted`). */
   rows: Partial<RowsByKind>;
+  /**
+   * Input files whose rows were left out of `rows` because a cache already holds the analysis of
+   * every batch they touch (see src/build/load-cached.ts), with what the study needs of them
+   * instead. Absent (or empty) in a study loaded whole.
+   */
+  omitted?: ReadonlyMap<string, FileDigest>;
   /** Manifest as given (parsed JSON), for the provenance page. */
   manifestRaw: unknown;
   manifestSha256: string;
 }
+
+/**
+ * What one input file gives the study besides its rows: enough to check the study across files,
+ * key the per-batch analysis cache and order units, without the rows (src/study/load.ts).
+ */
+export interface FileDigest {
+  kind: InputKind;
+  /** Data rows read (InputFile.rows) and rows kept (the length of the file's part of Study.rows). */
+  rowCount: number;
+  kept: number;
+  /** The file's issues (parse, then rows), in order; a digest is only kept for a file without errors. */
+  issues: Issue[];
+  variantsSeen: string[];
+  batches: string[];
+  units: string[];
+  /** Rows kept per batch, in order of first appearance. */
+  batchRows: Array<[batch: string, rows: number]>;
+  /** What the WT-per-batch check needs, per batch (see wildTypeFacts in src/study/checks.ts). */
+  wildType: WildTypeFacts;
+  /** Each unit (variant, unit, batch) in order of first appearance; NADH actin-only wells (no variant, no unit) left out. */
+  unitOrder: Array<[variant: string, unit: string, batch: string]>;
+}
+
+/**
+ * Per batch, in order of the first row with a declared variant: WT genes present, and each
+ * non-WT variant with the first line it appears on.
+ */
+export type WildTypeFacts = Array<[batch: string, wtGenes: string[], variants: Array<[id: string, line: number]>]>;
 
 /** What `loadStudy` returns: a study when there are no errors, and every issue found. */
 export interface LoadOutcome {

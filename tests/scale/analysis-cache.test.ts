@@ -1,6 +1,7 @@
 /**
- * The per-batch analysis cache gives exactly the units of the uncached analysis, in the same
- * order, cold and warm, and after one batch's rows changed re-analyses that batch only.
+ * The analysis cache (per module and batch) gives exactly the units of the uncached analysis, in
+ * the same order, cold and warm, and after one batch's rows changed re-analyses that batch of
+ * that assay only.
  * Study: the benchmark generator's (synthetic, invented values).
  */
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -28,7 +29,8 @@ function benchStudy(): Study {
 describe('analyseUnitsCached', () => {
   const study = benchStudy();
   const expected = serial(study);
-  const batches = new Set(expected.map((u) => u.batch)).size;
+  // Cache entries: one per (assay, batch).
+  const batches = new Set(expected.map((u) => `${u.assay} ${u.batch}`)).size;
 
   it('cold: analyses every batch and gives the serial units; warm: serves every batch from the cache, same units', async () => {
     const cold = await analyseUnitsCached(study, ASSAYS, { cacheDir: dir, workers: 0 });

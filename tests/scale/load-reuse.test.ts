@@ -1,0 +1,109 @@
+/**
+ * Files whose batches are all in the analysis cache are not parsed on a rebuild: their digests
+ * stand in for their rows (src/study/load.ts, src/build/analysis-cache.ts). Whatever is left out,
+ * the issues, the study's description of its files and the analysis must be exactly those of a
+ * study read whole. Study: the benchmark generator's (synthetic, invented values).
+ */
+import { createHash } from 'node:crypto';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { syntheticStudy, writeStudy } from '../../src/bench/synthetic.js';
+import { loadAndAnalyse } from '../../src/build/build-study.js';
+import { type ParsedDigest, loadStudy } from '../../src/study/load.js';
+import type { FileDigest } from '../../src/study/types.js';
+
+const tmp = mkdtempSync(join(tmpdir(), 'myofolio-load-reuse-'));
+afterAll(() => rmSync(tmp, { recursive: true, force: true }));
+
+const made = syntheticStudy({ variants: 10, perBatch: 3, filaments: 30, turnoverPoints: 60, maxRowsPerFile: 2000 });
+const input = (files: Record<string, string>) => ({ manifest: JSON.stringify(made.manifest), files });
+
+/** An in-memory digest store, and a load that saves what it parsed. */
+function memoryStore() {
+  const kept = new Map<string, FileDigest>();
+  const reuse = { context: 'test', get: (key: string) => kept.get(key) };
+  const load = (files: Record<string, string>) => {
+    const out = loadStudy(input(files), { reuse });
+    for (const d of out.digests ?? ([] as ParsedDigest[])) kept.set(d.key, d.digest);
+    return out;
+  };
+  return { kept, load };
+}
+
+describe('loadStudy with digests', () => {
+  it('leaves out every file it has a digest for, with the same issues and file list as a whole load', () => {
+    const whole = loadStudy(input(made.files));
+    const store = memoryStore();
+    const first = store.load(made.files);
+    expect(first.study?.omitted).toBeUndefined();
+    expect(store.kept.size).toBe(Object.keys(made.files).length);
+    const again = store.load(made.files);
+    expect(again.study?.omitted?.size).toBe(Object.keys(made.files).length);
+    expect(Object.values(again.study!.rows).every((rows) => rows.length === 0)).toBe(true);
+    expect(again.issues).toEqual(whole.issues);
+    expect(again.study!.files).toEqual(whole.study!.files);
+    expect(again.digests).toEqual([]);
+  });
+
+  it('reports a batch without WT at the same line whether its files were parsed or left out', () => {
+    // Drop the WT rows of batch B3 from the turnover files: the variants of B3 have no WT there.
+    const files = { ...made.files };
+    for (const path of Object.keys(files).filter((p) => p.startsWith('turnover'))) {
+      files[path] = files[path].split('\n').filter((line) => !/^WT,[^,]*,B3,/.test(line)).join('\n');
+    }
+    const whole = loadStudy(input(files));
+    const noWt = whole.issues.filter((i) => i.severity === 'error');
+    expect(noWt.length).toBe(1);
+    expect(noWt[0].at).toMatchObject({ file: expect.stringMatching(/^turnover/), column: 'batch' });
+    const store = memoryStore();
+    store.load(files);
+    const again = store.load(files);
+    // Each file is fine on its own, so all were left out; the check across files still fires.
+    expect(store.kept.size).toBe(Object.keys(files).length);
+    expect(again.issues).toEqual(whole.issues);
+    expect(again.study).toBeUndefined();
+  });
+
+  it('parses a file again when its bytes change', () => {
+    const store = memoryStore();
+    store.load(made.files);
+    const path = 'turnover-part2.csv';
+    const edited = { ...made.files, [path]: made.files[path].replace(/,(\d+)\.(\d)(\d*)\n/, ',$1.$2$31\n') };
+    expect(edited[path]).not.toBe(made.files[path]);
+    const again = store.load(edited);
+    expect([...again.study!.omitted!.keys()]).not.toContain(path);
+    expect(again.study!.omitted!.size).toBe(Object.keys(made.files).length - 1);
+    expect(again.study!.rows.turnover!.every((r) => r.at.file === path)).toBe(true);
+  });
+});
+
+describe('loadAndAnalyse with the analysis cache', () => {
+  const dir = join(tmp, 'study');
+  const cache = join(tmp, 'cache');
+  const run = async (analysisCache: string | false) => {
+    const got = await loadAndAnalyse(dir, { analysisCache, workers: 0, sourceDateEpoch: 1_700_000_000 });
+    expect(got.results).toBeDefined();
+    // SHA-256 of the results JSON: a failure then prints two hashes, not two copies of the results.
+    return createHash('sha256').update(JSON.stringify(got.results)).digest('hex');
+  };
+
+  it('cold, warm (all files left out) and after one file changed: the results of a build without cache', async () => {
+    writeStudy(dir, made);
+    const reference = await run(false);
+    expect(await run(cache)).toBe(reference);
+    expect(await run(cache)).toBe(reference);
+    // One turnover reading of a variant edited: its file is read, with the files sharing its batches.
+    const path = join(dir, 'turnover-part2.csv');
+    const text = readFileSync(path, 'utf8');
+    const lines = text.split('\n');
+    const i = lines.findIndex((l) => /^[A-Z]\d+A,/.test(l));
+    lines[i] = lines[i].replace(/,([0-9.]+)$/, (_m, f: string) => `,${(Number(f) * 1.3).toFixed(3)}`);
+    writeFileSync(path, lines.join('\n'));
+    const fresh = await run(false);
+    expect(fresh).not.toBe(reference);
+    expect(await run(cache)).toBe(fresh);
+    expect(await run(cache)).toBe(fresh);
+  }, 180_000);
+});
