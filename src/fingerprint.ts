@@ -12,16 +12,20 @@ import { fileURLToPath } from 'node:url';
 
 const srcDir = fileURLToPath(new URL('./', import.meta.url));
 let fingerprint: string | undefined;
+let siteFingerprintValue: string | undefined;
+
+/** Files under a folder, recursively, sorted by path. */
+function filesUnder(dir: string, name: RegExp): string[] {
+  return readdirSync(dir, { withFileTypes: true })
+    .flatMap((e) => (e.isDirectory() ? filesUnder(join(dir, e.name), name) : name.test(e.name) ? [join(dir, e.name)] : []))
+    .sort();
+}
 
 /** The fingerprint as 64 hex digits (computed on first call). */
 export function codeFingerprint(): string {
   if (fingerprint) return fingerprint;
   const hash = createHash('sha256');
-  const walk = (dir: string): string[] =>
-    readdirSync(dir, { withFileTypes: true })
-      .flatMap((e) => (e.isDirectory() ? walk(join(dir, e.name)) : /\.(ts|js|mjs|json)$/.test(e.name) ? [join(dir, e.name)] : []))
-      .sort();
-  for (const file of walk(srcDir)) hash.update(file.slice(srcDir.length)).update('\0').update(readFileSync(file)).update('\0');
+  for (const file of filesUnder(srcDir, /\.(ts|js|mjs|json)$/)) hash.update(file.slice(srcDir.length)).update('\0').update(readFileSync(file)).update('\0');
   try {
     hash.update('package-lock.json\0').update(readFileSync(join(srcDir, '..', 'package-lock.json')));
   } catch {
@@ -29,4 +33,19 @@ export function codeFingerprint(): string {
   }
   fingerprint = hash.digest('hex');
   return fingerprint;
+}
+
+/**
+ * Fingerprint of everything that makes a page from its data: the code fingerprint, every file
+ * under templates/ and the Eleventy configuration (.eleventy.js). Keys of cached pages include it.
+ */
+export function siteFingerprint(): string {
+  if (siteFingerprintValue) return siteFingerprintValue;
+  const root = join(srcDir, '..');
+  const hash = createHash('sha256').update(codeFingerprint()).update('\0');
+  const templates = join(root, 'templates');
+  for (const file of filesUnder(templates, /./)) hash.update(file.slice(root.length)).update('\0').update(readFileSync(file)).update('\0');
+  hash.update('.eleventy.js\0').update(readFileSync(join(root, '.eleventy.js')));
+  siteFingerprintValue = hash.digest('hex');
+  return siteFingerprintValue;
 }

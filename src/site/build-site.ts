@@ -5,6 +5,9 @@
  *                ──chart specs ──renderSvg──▶ SVG strings inside the site data
  *   variant pages, in batches of VARIANT_BATCH: charts ──▶ Eleventy on templates/variant.njk alone
  *                 ──▶ HTML in outDir (the next batch's charts render in the pool meanwhile)
+ *                 With a cache: a page whose data (variantSiteData, its page data with chart
+ *                 blocks as cache keys, the code and templates) is unchanged is copied from the
+ *                 page cache, without reading or drawing its charts or running Eleventy for it.
  *   study pages: site data without variants ──Eleventy (templates/, .eleventy.js)──▶ HTML in outDir
  *   templates/assets ──copy──▶ outDir/assets
  *
@@ -14,8 +17,10 @@
  *
  * Writes into the given (empty) folder; the caller swaps folders and writes downloads/.
  */
+import { createHash } from 'node:crypto';
+import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { cp } from 'node:fs/promises';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import type { ChartsFor } from '../charts/assay-charts.js';
@@ -24,6 +29,7 @@ import { type ChartRenderer, createChartRenderer, defaultWorkers } from '../char
 import type { StudyResults } from '../results/types.js';
 import { PATHS, uniqueSlugs } from './paths.js';
 import { collectGarbage } from '../memory.js';
+import { siteFingerprint } from '../fingerprint.js';
 import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
 import type { FunctionCall, VariantResult } from '../results/types.js';
 import { type RenderFn, STANDARD_CAVEATS, functionCall } from './view-common.js';
@@ -68,6 +74,8 @@ interface Prepared {
   render: RenderFn | undefined;
   /** Chart-block cache of the renderer (assay charts found by their input key), if there is a renderer. */
   block: ChartRenderer['block'] | undefined;
+  /** Page cache of the renderer, if it has a cache. */
+  pages: ChartRenderer['pages'];
   /** Charts drawn and charts served from the cache so far. */
   stats: () => { rendered: number; cached: number };
   close: () => Promise<void>;
@@ -81,7 +89,25 @@ function prepare(results: StudyResults, options: BuildSiteOptions): Prepared {
   const renderer = options.renderer ?? ownRenderer;
   const render: RenderFn | undefined = renderer ? (spec, o) => renderer.render(spec, o) : undefined;
   const block: ChartRenderer['block'] | undefined = renderer ? (parts, make) => renderer.block(parts, make) : undefined;
-  return { slugs, render, block, stats: () => renderer?.stats() ?? { rendered: 0, cached: 0 }, close: async () => ownRenderer?.close() };
+  return { slugs, render, block, pages: renderer?.pages, stats: () => renderer?.stats() ?? { rendered: 0, cached: 0 }, close: async () => ownRenderer?.close() };
+}
+
+/**
+ * Version of the variant page cache entries; bump when what a page is made from changes outside
+ * src/ and templates/ (both are in siteFingerprint).
+ */
+const PAGE_CACHE_VERSION = 1;
+
+/** Stands for the build time in variant pages made for the page cache (replaced when written out). */
+const BUILT_AT_TOKEN = 'myofolio-built-at-7f3c9a1e';
+
+/**
+ * The part of the site data the variant template (and its layout and macros) reads besides its
+ * own page: study, tool, build time, caveats, navigation and paths. Variant pages are rendered
+ * from this alone (tests/site/variant-site-data.test.ts checks the templates read nothing else).
+ */
+export function variantSiteData(site: Awaited<ReturnType<typeof studyData>>) {
+  return { study: site.study, tool: site.tool, builtAt: site.builtAt, standardCaveats: site.standardCaveats, legend: site.legend, nav: site.nav, paths: site.paths };
 }
 
 /** Everything the templates read except the variant pages (variants: []). */
@@ -173,17 +199,69 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     const total = results.variants.length;
     progress?.('charts', 0, total);
     const site = await studyData(results, options, prepared);
-    const build = variantPageBuilder(results, prepared.slugs, options.chartsFor, { render: prepared.render, block: prepared.block, onVariant: progress ? (d) => progress('charts', d, total) : undefined });
+    const pageStore = prepared.pages;
+    const build = variantPageBuilder(results, prepared.slugs, options.chartsFor, {
+      render: prepared.render,
+      block: prepared.block,
+      lazyBlocks: pageStore !== undefined,
+      onVariant: progress ? (d) => progress('charts', d, total) : undefined,
+    });
+    // What the variant template reads of the site besides its page: Eleventy is given only this,
+    // so a page is a function of it, its page data and the templates (the page cache key). The
+    // build time changes with every build: pages are made and kept with a token in its place,
+    // which is replaced as each page is written out.
+    const variantSite = variantSiteData(site);
+    const builtAt = variantSite.builtAt;
+    const renderSite = pageStore ? { ...variantSite, builtAt: BUILT_AT_TOKEN } : variantSite;
+    const siteKey = pageStore ? JSON.stringify([PAGE_CACHE_VERSION, siteFingerprint(), renderSite]) : '';
+    const stamp = (html: string) => html.split(BUILT_AT_TOKEN).join(builtAt);
+    /** One batch: its pages built, pages found in the page cache written out, the others' charts loaded. */
+    const prepareBatch = async (batch: VariantResult[]) => {
+      const built = await build(batch);
+      if (!pageStore) return { render: built, keys: [] as string[], found: 0 };
+      const render: VariantPage[] = [];
+      const keys: string[] = [];
+      let found = 0;
+      const made = new Set<string>();
+      for (const p of built) {
+        const key = createHash('sha256').update(siteKey).update('\n').update(JSON.stringify(p)).digest('hex');
+        const kept = pageStore.get(key);
+        if (kept !== undefined) {
+          const dest = join(outDir, p.path);
+          const dir = dirname(dest);
+          if (!made.has(dir)) {
+            mkdirSync(dir, { recursive: true });
+            made.add(dir);
+          }
+          writeFileSync(dest, stamp(kept));
+          found++;
+        } else {
+          render.push(p);
+          keys.push(key);
+        }
+      }
+      await Promise.all(render.flatMap((p) => p.assays.flatMap((a) => a.charts.map((c) => c.fill?.()))));
+      return { render, keys, found };
+    };
     const batches: VariantResult[][] = [];
     for (let i = 0; i < results.variants.length; i += VARIANT_BATCH) batches.push(results.variants.slice(i, i + VARIANT_BATCH));
     // Pipeline: the pool draws batch k + 1 while Eleventy writes batch k.
-    let next = batches.length > 0 ? build(batches[0]) : undefined;
+    let next = batches.length > 0 ? prepareBatch(batches[0]) : undefined;
     for (let k = 0; k < batches.length; k++) {
-      const variants = await (next as Promise<VariantPage[]>);
-      next = k + 1 < batches.length ? build(batches[k + 1]) : undefined;
+      const got = await (next as ReturnType<typeof prepareBatch>);
+      next = k + 1 < batches.length ? prepareBatch(batches[k + 1]) : undefined;
       // Awaited in the next round; the no-op handler keeps a failure meanwhile from counting as unhandled.
       next?.catch(() => undefined);
-      pages += await runEleventy(variantTemplate, outDir, { ...site, variants });
+      pages += got.found;
+      if (got.render.length > 0) pages += await runEleventy(variantTemplate, outDir, { ...renderSite, variants: got.render });
+      if (pageStore) {
+        got.render.forEach((p, i) => {
+          const file = join(outDir, p.path);
+          const html = readFileSync(file, 'utf8');
+          pageStore.set(got.keys[i], html);
+          writeFileSync(file, stamp(html));
+        });
+      }
       // This batch's SVGs and HTML are garbage now; without a collection here, V8 lets them pile up
       // for several batches and the build's peak memory grows with the study.
       collectGarbage();

@@ -14,6 +14,13 @@ export interface ChartBlock {
   description: string;
   svg: string;
   table: DataTable;
+  /**
+   * Entry key of the chart block in the cache, when the page was built with its blocks left
+   * to load (VariantPagesOptions.lazyBlocks): then svg, description and table stay empty until
+   * `fill` is awaited. The key stands for them in a page's cache key.
+   */
+  blockKey?: string;
+  fill?: () => Promise<void>;
 }
 
 export interface CallView {

@@ -8,6 +8,7 @@ import { fmtCalibration } from './view-study.js';
 import { PATHS, slug } from './paths.js';
 import { groupBy } from '../assays/assay-common.js';
 import type { ChartRenderer } from '../charts/pool.js';
+import { blockEntryKey } from '../charts/cache.js';
 
 export interface IndexRow {
   id: string;
@@ -109,6 +110,11 @@ export interface VariantPagesOptions {
   render?: RenderFn;
   /** Cache of assay chart blocks by input key (ChartRenderer.block); without it every chart is built and drawn. */
   block?: ChartRenderer['block'];
+  /**
+   * Leave the assay chart blocks that have a cache key unloaded (ChartBlock.blockKey and fill):
+   * a page found in a page cache then never reads or draws its charts. Needs `block`.
+   */
+  lazyBlocks?: boolean;
   /** Variants whose pages are built at once (default 8): bounds memory, keeps a pool busy. */
   concurrency?: number;
   /** Called after each variant page: (done, total). */
@@ -154,9 +160,20 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
               const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], render);
               return { svg: b.svg, description: b.description, table: b.table };
             };
-            // A chart whose inputs are unchanged comes whole from the block cache: no spec is built.
-            const got = options.block && c.inputKey ? await options.block([c.inputKey, key, c.title], make) : await make();
-            return { id: `chart-${slug(key)}`, title: c.title, ...got };
+            const id = `chart-${slug(key)}`;
+            if (options.block && c.inputKey) {
+              const parts = [c.inputKey, key, c.title];
+              const block = options.block;
+              if (options.lazyBlocks) {
+                const chart: ChartBlock = { id, title: c.title, description: '', svg: '', table: { columns: [], rows: [] }, blockKey: blockEntryKey(parts) };
+                // Not enumerable: the page's JSON (its cache key) holds the block key only.
+                Object.defineProperty(chart, 'fill', { enumerable: false, value: async () => Object.assign(chart, await block(parts, make)) });
+                return chart;
+              }
+              // A chart whose inputs are unchanged comes whole from the block cache: no spec is built.
+              return { id, title: c.title, ...(await block(parts, make)) };
+            }
+            return { id, title: c.title, ...(await make()) };
           }),
       );
       assays.push({

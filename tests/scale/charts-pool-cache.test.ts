@@ -3,7 +3,7 @@
  * thread without a cache; a rebuild after one variant's data changes re-renders only charts
  * whose spec changed. Data: a small invented study from the benchmark generator (synthetic).
  */
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -82,7 +82,8 @@ describe('chart pool and cache', () => {
       await buildSite(base, warm, { chartsFor: chartsFromModules(base, ASSAYS), sourceDateEpoch: 1_700_000_000, renderer });
       const second = renderer.stats();
       expect(second.rendered).toBe(first.rendered); // nothing new drawn
-      expect(second.cached).toBeGreaterThanOrEqual(first.rendered);
+      // Study-page charts come from the SVG cache; variant pages come whole from the page cache.
+      expect(second.cached).toBeGreaterThan(first.cached);
       expect(await snapshot(warm)).toEqual(serial);
 
       // One variant's velocities change: only charts whose spec changed are drawn again.
@@ -104,6 +105,44 @@ describe('chart pool and cache', () => {
     const out = await fresh('defaults');
     await buildSite(base, out, { chartsFor: chartsFromModules(base, ASSAYS), sourceDateEpoch: 1_700_000_000, chartCache: await fresh('cache2') });
     expect(await snapshot(out)).toEqual(serial);
+  }, 240_000);
+
+  it('variant pages come whole from the page cache when nothing they are made from changed', async () => {
+    const cacheDir = await fresh('pages');
+    const build = async (r: StudyResults, tag: string, sourceDateEpoch = 1_700_000_000) => {
+      const out = await fresh(tag);
+      await buildSite(r, out, { chartsFor: chartsFromModules(r, ASSAYS), sourceDateEpoch, workers: 0, chartCache: cacheDir });
+      return snapshot(out);
+    };
+    const cold = await build(base, 'pages-cold');
+    expect(cold).toEqual(serial);
+    const kept = (await listFiles(cacheDir)).filter((f) => f.endsWith('.html'));
+    expect(kept.length).toBe(base.variants.length);
+    // Mark every kept page: a build that serves them shows the mark, one that renders them does not.
+    for (const f of kept) await writeFile(join(cacheDir, f), `${await readFile(join(cacheDir, f), 'utf8')}<!-- kept -->`);
+    const warm = await build(base, 'pages-warm');
+    const variantPages = [...warm.keys()].filter((f) => f.startsWith('variants/'));
+    expect(variantPages.length).toBe(base.variants.length);
+    for (const f of variantPages) expect(warm.get(f)).toBe(`${serial.get(f)}<!-- kept -->`);
+    for (const f of [...warm.keys()].filter((k) => !k.startsWith('variants/'))) expect(warm.get(f)).toBe(serial.get(f));
+    // Built at another time: kept pages still show this build's time.
+    const later = await build(base, 'pages-later', 1_800_000_000);
+    const laterRef = await fresh('pages-later-ref');
+    await buildSite(base, laterRef, { chartsFor: chartsFromModules(base, ASSAYS), sourceDateEpoch: 1_800_000_000, workers: 0, chartCache: false });
+    const laterExpected = await snapshot(laterRef);
+    for (const f of variantPages) {
+      expect(later.get(f)).toBe(`${laterExpected.get(f)}<!-- kept -->`);
+      expect(later.get(f)).toContain('2027-01-15');
+    }
+    // One variant's data changed: its page is made again (unmarked) and equals an uncached build's.
+    const again = await build(changed, 'pages-changed');
+    const ref = await fresh('pages-ref');
+    await buildSite(changed, ref, { chartsFor: chartsFromModules(changed, ASSAYS), sourceDateEpoch: 1_700_000_000, workers: 0, chartCache: false });
+    const expected = await snapshot(ref);
+    const short = changedHgvs.replace(/^p\./, '');
+    const page = [...again.keys()].find((f) => f.startsWith('variants/') && (again.get(f) as string).includes(`(${short})`)) as string;
+    expect(page).toBeDefined();
+    expect(again.get(page)).toBe(expected.get(page));
   }, 240_000);
 
   it('a change to one variant changes the per-variant charts of that variant only', () => {
