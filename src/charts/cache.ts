@@ -9,7 +9,7 @@
  * Never point the cache inside a study folder or an output folder that gets swapped.
  */
 import { createHash } from 'node:crypto';
-import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { closeSync, copyFileSync, mkdirSync, openSync, readFileSync, renameSync, writeFileSync, writeSync } from 'node:fs';
 import { homedir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { ChartSpec } from '../assays/types.js';
@@ -64,8 +64,40 @@ export class ChartCache {
     }
   }
 
+  /**
+   * Write a kept page to `dest` with `stamp` written over its placeholder (see keepPage): the
+   * file is copied by the kernel and patched in place, with no decoding. False when not kept.
+   */
+  fetchPage(key: string, dest: string, stamp: Uint8Array): boolean {
+    let offsets: number[];
+    try {
+      offsets = JSON.parse(readFileSync(this.file(key, 'offsets.json'), 'utf8')) as number[];
+      copyFileSync(this.file(key, 'html'), dest);
+    } catch {
+      this.misses++;
+      return false;
+    }
+    patch(dest, offsets, stamp);
+    this.hits++;
+    return true;
+  }
+
+  /**
+   * Keep the page at `file`, which holds `placeholder` where each build writes its own text (of
+   * the same length), and write `stamp` over the placeholder in `file`. Best effort, as set.
+   */
+  keepPage(key: string, file: string, placeholder: Uint8Array, stamp: Uint8Array): void {
+    const bytes = readFileSync(file);
+    const offsets: number[] = [];
+    for (let at = bytes.indexOf(placeholder); at >= 0; at = bytes.indexOf(placeholder, at + placeholder.length)) offsets.push(at);
+    // The page first, its offsets last: an offsets entry always has its page.
+    this.set(key, bytes, 'html');
+    this.set(key, JSON.stringify(offsets), 'offsets.json');
+    patch(file, offsets, stamp);
+  }
+
   /** Store an SVG (or other text by extension; best effort: a cache that cannot be written only costs time). */
-  set(key: string, text: string, ext = 'svg'): void {
+  set(key: string, text: string | Uint8Array, ext = 'svg'): void {
     const sub = join(this.dir, key.slice(0, 2));
     try {
       if (!this.made.has(sub)) {
@@ -78,6 +110,17 @@ export class ChartCache {
     } catch {
       // read-only or full disk: carry on without caching
     }
+  }
+}
+
+/** Write `bytes` at each offset of a file, in place. */
+function patch(file: string, offsets: readonly number[], bytes: Uint8Array): void {
+  if (offsets.length === 0) return;
+  const fd = openSync(file, 'r+');
+  try {
+    for (const at of offsets) writeSync(fd, bytes, 0, bytes.length, at);
+  } finally {
+    closeSync(fd);
   }
 }
 

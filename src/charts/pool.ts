@@ -152,10 +152,9 @@ export interface ChartRenderer {
   block(keyParts: readonly string[], make: () => Promise<CachedBlock>): Promise<CachedBlock>;
   /**
    * Whole pages kept in the cache by a key of everything they are made from (see
-   * src/site/build-site.ts): `get` gives a kept page's HTML or undefined, `set` keeps one.
-   * Absent without a cache.
+   * src/site/build-site.ts and ChartCache.fetchPage/keepPage). Absent without a cache.
    */
-  pages?: { get(key: string): string | undefined; set(key: string, html: string): void };
+  pages?: Pick<ChartCache, 'fetchPage' | 'keepPage'>;
   /** Charts rendered and charts served from the cache. (process.cpuUsage() already counts worker threads.) */
   stats(): { rendered: number; cached: number };
   close(): Promise<void>;
@@ -220,7 +219,7 @@ export function createChartRenderer(options: ChartRendererOptions = {}): ChartRe
       cache.set(entry, JSON.stringify(block), 'json');
       return block;
     },
-    ...(cache ? { pages: { get: (key: string) => cache.get(key, 'html'), set: (key: string, html: string) => cache.set(key, html, 'html') } } : {}),
+    ...(cache ? { pages: { fetchPage: cache.fetchPage.bind(cache), keepPage: cache.keepPage.bind(cache) } } : {}),
     stats: () => ({ rendered, cached }),
     close: async () => {
       await pool?.close();

@@ -18,7 +18,7 @@
  * Writes into the given (empty) folder; the caller swaps folders and writes downloads/.
  */
 import { createHash } from 'node:crypto';
-import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { cp } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -98,8 +98,8 @@ function prepare(results: StudyResults, options: BuildSiteOptions): Prepared {
  */
 const PAGE_CACHE_VERSION = 1;
 
-/** Stands for the build time in variant pages made for the page cache (replaced when written out). */
-const BUILT_AT_TOKEN = 'myofolio-built-at-7f3c9a1e';
+/** Start of the placeholder for the build time in variant pages made for the page cache (patched when written out). */
+const BUILT_AT_STEM = 'myofolio-built-at-7f';
 
 /**
  * The part of the site data the variant template (and its layout and macros) reads besides its
@@ -199,22 +199,26 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     const total = results.variants.length;
     progress?.('charts', 0, total);
     const site = await studyData(results, options, prepared);
-    const pageStore = prepared.pages;
+    // What the variant template reads of the site besides its page: Eleventy is given only this,
+    // so a page is a function of it, its page data and the templates (the page cache key). The
+    // build time changes with every build: pages are made and kept with a placeholder in its
+    // place, and the time is written over it as each page is written out.
+    const variantSite = variantSiteData(site);
+    const builtAt = variantSite.builtAt;
+    // The placeholder has the build time's length (in UTF-8 bytes), so that kept pages are copied
+    // and patched in place; ISO times are at least 20 bytes, as is the placeholder's stem.
+    const builtAtBytes = Buffer.from(builtAt, 'utf8');
+    const placeholder = builtAtBytes.length >= 20 ? `${BUILT_AT_STEM}${'~'.repeat(builtAtBytes.length - BUILT_AT_STEM.length)}` : undefined;
+    const pageStore = placeholder !== undefined ? prepared.pages : undefined;
+    const placeholderBytes = Buffer.from(placeholder ?? '', 'utf8');
+    const renderSite = pageStore ? { ...variantSite, builtAt: placeholder as string } : variantSite;
+    const siteKey = pageStore ? JSON.stringify([PAGE_CACHE_VERSION, siteFingerprint(), renderSite]) : '';
     const build = variantPageBuilder(results, prepared.slugs, options.chartsFor, {
       render: prepared.render,
       block: prepared.block,
       lazyBlocks: pageStore !== undefined,
       onVariant: progress ? (d) => progress('charts', d, total) : undefined,
     });
-    // What the variant template reads of the site besides its page: Eleventy is given only this,
-    // so a page is a function of it, its page data and the templates (the page cache key). The
-    // build time changes with every build: pages are made and kept with a token in its place,
-    // which is replaced as each page is written out.
-    const variantSite = variantSiteData(site);
-    const builtAt = variantSite.builtAt;
-    const renderSite = pageStore ? { ...variantSite, builtAt: BUILT_AT_TOKEN } : variantSite;
-    const siteKey = pageStore ? JSON.stringify([PAGE_CACHE_VERSION, siteFingerprint(), renderSite]) : '';
-    const stamp = (html: string) => html.split(BUILT_AT_TOKEN).join(builtAt);
     /** One batch: its pages built, pages found in the page cache written out, the others' charts loaded. */
     const prepareBatch = async (batch: VariantResult[]) => {
       const built = await build(batch);
@@ -225,15 +229,13 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
       const made = new Set<string>();
       for (const p of built) {
         const key = createHash('sha256').update(siteKey).update('\n').update(JSON.stringify(p)).digest('hex');
-        const kept = pageStore.get(key);
-        if (kept !== undefined) {
-          const dest = join(outDir, p.path);
-          const dir = dirname(dest);
-          if (!made.has(dir)) {
-            mkdirSync(dir, { recursive: true });
-            made.add(dir);
-          }
-          writeFileSync(dest, stamp(kept));
+        const dest = join(outDir, p.path);
+        const dir = dirname(dest);
+        if (!made.has(dir)) {
+          mkdirSync(dir, { recursive: true });
+          made.add(dir);
+        }
+        if (pageStore.fetchPage(key, dest, builtAtBytes)) {
           found++;
         } else {
           render.push(p);
@@ -254,14 +256,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
       next?.catch(() => undefined);
       pages += got.found;
       if (got.render.length > 0) pages += await runEleventy(variantTemplate, outDir, { ...renderSite, variants: got.render });
-      if (pageStore) {
-        got.render.forEach((p, i) => {
-          const file = join(outDir, p.path);
-          const html = readFileSync(file, 'utf8');
-          pageStore.set(got.keys[i], html);
-          writeFileSync(file, stamp(html));
-        });
-      }
+      got.render.forEach((p, i) => pageStore?.keepPage(got.keys[i], join(outDir, p.path), placeholderBytes, builtAtBytes));
       // This batch's SVGs and HTML are garbage now; without a collection here, V8 lets them pile up
       // for several batches and the build's peak memory grows with the study.
       collectGarbage();
