@@ -34,7 +34,7 @@ import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
 import type { FunctionCall, VariantResult } from '../results/types.js';
 import { type RenderFn, STANDARD_CAVEATS, functionCall } from './view-common.js';
 import { assayPages, compareCharts, methodsData, provenanceData, residueCharts } from './view-study.js';
-import { type VariantPage, indexRows, variantPageBuilder, variantPages } from './view-variant.js';
+import { type VariantPage, indexRows, variantPageBuilder } from './view-variant.js';
 
 export interface BuildSiteOptions {
   /** Per-variant assay charts (data and fits beside WT); see chartsFromModules(). */
@@ -152,20 +152,6 @@ async function studyData(results: StudyResults, options: BuildSiteOptions, prepa
     methods: methodsData(results),
     provenance: provenanceData(results),
   };
-}
-
-/** Everything the templates read, computed from the results alone (all variant pages in memory: for small studies and tests). */
-export async function siteData(results: StudyResults, options: BuildSiteOptions = {}) {
-  const prepared = prepare(results, options);
-  try {
-    const site = await studyData(results, options, prepared);
-    const total = results.variants.length;
-    const progress = options.onProgress;
-    site.variants = await variantPages(results, prepared.slugs, options.chartsFor, { render: prepared.render, onVariant: progress ? (d) => progress('charts', d, total) : undefined });
-    return site;
-  } finally {
-    await prepared.close();
-  }
 }
 
 /** One Eleventy run: `input` is the templates folder or one template in it; returns the HTML pages written. */

@@ -121,11 +121,6 @@ export interface VariantPagesOptions {
   onVariant?: (done: number, total: number) => void;
 }
 
-/** Build every variant page (rendering its forest plot and assay charts). */
-export async function variantPages(results: StudyResults, slugs: Map<string, string>, chartsFor?: ChartsFor, options: VariantPagesOptions = {}): Promise<VariantPage[]> {
-  return variantPageBuilder(results, slugs, chartsFor, options)(results.variants);
-}
-
 /**
  * A builder of variant pages for any subset of the study's variants (e.g. batches of 100, so
  * that only one batch's SVGs are in memory at a time). Indexes are built once; prev/next links

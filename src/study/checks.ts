@@ -2,7 +2,7 @@
  * Checks across rows and files that a schema cannot express. Pure.
  */
 import { MSG, issue } from './messages.js';
-import type { Exclusion, InputKind, Issue, RowBase, RowsByKind, Variant, WildTypeFacts } from './types.js';
+import type { Exclusion, InputKind, Issue, RowBase, Variant, WildTypeFacts } from './types.js';
 
 /**
  * What the WT-per-batch check needs of one file's rows: per batch (in order of its first row
@@ -62,24 +62,6 @@ export function checkWildTypeFacts(kinds: ReadonlyArray<[InputKind, ReadonlyArra
     }
   }
   return issues;
-}
-
-/**
- * Every batch that holds a variant must also hold WT of the same gene, per input kind (rows of
- * each kind in file order). See checkWildTypeFacts.
- */
-export function checkWildTypePerBatch(rows: Partial<RowsByKind>, variants: readonly Variant[]): Issue[] {
-  const byId = new Map(variants.map((v) => [v.id, v]));
-  const kinds = (Object.entries(rows) as [InputKind, RowBase[]][]).map(([kind, list]): [InputKind, Array<{ file: string; facts: WildTypeFacts }>] => {
-    const perFile = new Map<string, RowBase[]>();
-    for (const r of list) {
-      const l = perFile.get(r.at.file);
-      if (l) l.push(r);
-      else perFile.set(r.at.file, [r]);
-    }
-    return [kind, [...perFile].map(([file, fileRows]) => ({ file, facts: wildTypeFacts(fileRows, byId) }))];
-  });
-  return checkWildTypeFacts(kinds, variants);
 }
 
 /** Declared variants that no file uses: one warning each, at the manifest entry. */
