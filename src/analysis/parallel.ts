@@ -16,7 +16,7 @@
  * itself (47 s for the 3 million rows of a 1,000-variant benchmark study, and a copy of each
  * string per row in worker memory). This file does no I/O besides starting workers.
  */
-import { hasRows } from '../assays/assay-common.js';
+import { hasRows, unitsInOrder } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { type WorkerReply, defaultWorkers, startWorker } from '../charts/pool.js';
@@ -81,31 +81,23 @@ function batchGroups(study: Study, n: number): string[][] {
  * the module's inputs (in module.inputs order); units not found there go last, in their order.
  */
 export function serialOrder(study: Study, m: AssayModule, units: UnitResult[]): UnitResult[] {
-  // Nested maps variant → unit → batch → rank; a row repeating the previous row's unit is skipped.
+  // Nested maps variant → unit → batch → rank.
   const rank = new Map<string, Map<string, Map<string, number>>>();
   let count = 0;
   const rankOf = (r: { variant: string; unit: string; batch: string }) => rank.get(r.variant)?.get(r.unit)?.get(r.batch);
-  const see = (variant: string, unit: string, batch: string) => {
-    let byUnit = rank.get(variant);
-    if (!byUnit) rank.set(variant, (byUnit = new Map()));
-    let byBatch = byUnit.get(unit);
-    if (!byBatch) byUnit.set(unit, (byBatch = new Map()));
-    if (!byBatch.has(batch)) byBatch.set(batch, count++);
-  };
-  const seeRows = (rows: readonly RowBase[], from: number, to: number) => {
-    let last: RowBase | undefined;
-    for (let i = from; i < to; i++) {
-      const r = rows[i];
-      if (r.variant === '' && r.unit === '') continue; // NADH actin-only wells belong to no unit
-      if (last && r.variant === last.variant && r.unit === last.unit && r.batch === last.batch) continue;
-      last = r;
-      see(r.variant, r.unit, r.batch);
+  const see = (units: ReadonlyArray<readonly [string, string, string]>) => {
+    for (const [variant, unit, batch] of units) {
+      let byUnit = rank.get(variant);
+      if (!byUnit) rank.set(variant, (byUnit = new Map()));
+      let byBatch = byUnit.get(unit);
+      if (!byBatch) byUnit.set(unit, (byBatch = new Map()));
+      if (!byBatch.has(batch)) byBatch.set(batch, count++);
     }
   };
   for (const kind of m.inputs) {
     const rows = (study.rows[kind] ?? []) as RowBase[];
     if (!study.omitted?.size) {
-      seeRows(rows, 0, rows.length);
+      see(unitsInOrder(rows));
       continue;
     }
     // Files in manifest order: an omitted file's units from its digest, a read file's from its
@@ -115,12 +107,12 @@ export function serialOrder(study: Study, m: AssayModule, units: UnitResult[]): 
       if (f.kind !== kind) continue;
       const digest = study.omitted.get(f.path);
       if (digest) {
-        for (const [variant, unit, batch] of digest.unitOrder) see(variant, unit, batch);
+        see(digest.unitOrder);
         continue;
       }
       let j = i;
       while (j < rows.length && rows[j].at.file === f.path) j++;
-      seeRows(rows, i, j);
+      see(unitsInOrder(rows, i, j));
       i = j;
     }
   }

@@ -182,6 +182,33 @@ export function relativeSeFlags(fit: FitResult, limit: number, labels: Record<st
   return flags;
 }
 
+/**
+ * Each unit (variant, unit, batch) of rows[from, to) in order of first appearance; NADH
+ * actin-only wells (no variant, no unit) belong to no unit and are left out.
+ * @example unitsInOrder([{ variant: 'a', unit: 'u1', batch: 'B1' }, { variant: 'a', unit: 'u1', batch: 'B1' }] as RowBase[]) // → [['a', 'u1', 'B1']]
+ */
+export function unitsInOrder(rows: readonly RowBase[], from = 0, to = rows.length): Array<[variant: string, unit: string, batch: string]> {
+  const seen = new Map<string, Map<string, Set<string>>>();
+  const out: Array<[string, string, string]> = [];
+  let last: RowBase | undefined;
+  for (let i = from; i < to; i++) {
+    const r = rows[i];
+    if (r.variant === '' && r.unit === '') continue;
+    // Files are written unit by unit: a row of the previous row's unit adds nothing.
+    if (last && r.variant === last.variant && r.unit === last.unit && r.batch === last.batch) continue;
+    last = r;
+    let byUnit = seen.get(r.variant);
+    if (!byUnit) seen.set(r.variant, (byUnit = new Map()));
+    let batches = byUnit.get(r.unit);
+    if (!batches) byUnit.set(r.unit, (batches = new Set()));
+    if (!batches.has(r.batch)) {
+      batches.add(r.batch);
+      out.push([r.variant, r.unit, r.batch]);
+    }
+  }
+  return out;
+}
+
 /** Does the study hold rows of this kind (counting the rows of omitted files)? */
 export function hasRows(study: Pick<Study, 'rows' | 'omitted'>, kind: InputKind): boolean {
   if ((study.rows[kind]?.length ?? 0) > 0) return true;

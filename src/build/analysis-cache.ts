@@ -74,7 +74,7 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     if (omitted.size > 0) return { units: [], needRows: [...omitted.keys()], batches: { analysed: 0, cached: 0 } };
     const total = Object.values(study.rows).reduce((n, list) => n + (list?.length ?? 0), 0);
     const units = await analyseUnitsParallel(study, modules, total >= (options.minRowsForWorkers ?? 0) ? options : { ...options, workers: 0 });
-    return { units, batches: { analysed: new Set(units.map((u) => u.batch)).size, cached: 0 } };
+    return { units, batches: { analysed: new Set(units.map((u) => `${u.assay}\0${u.batch}`)).size, cached: 0 } };
   }
   const dir = resolve(options.cacheDir ?? DEFAULT_ANALYSIS_CACHE);
   const context = JSON.stringify([
@@ -107,8 +107,8 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     if (!mine) missed.set(m, (mine = new Map()));
     mine.set(batch, keys);
   };
-  const pending: Array<{ m: AssayModule; batch: string; key: string; left: string[]; rows?: Partial<Record<InputKind, RowBase[]>> }> = [];
-  const contentKeys = new Map<AssayModule, (batch: string, rows: Partial<Record<InputKind, RowBase[]>>) => string>();
+  /** Entries found by their file key, to read: its key, the files left out it needs if it is gone after all, and what to do then. */
+  const pending: Array<{ key: string; left: string[]; ifGone: () => void }> = [];
   for (const m of active) {
     const kinds = m.inputs;
     // The module's rows of each batch, by kind.
@@ -144,22 +144,23 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
       for (const kind of kinds) hash.update('\0').update(kind).update('\0').update(JSON.stringify(rows[kind] ?? []));
       return `c${hash.digest('hex')}`;
     };
-    contentKeys.set(m, contentKey);
     for (const batch of filesOf.keys()) {
       entries++;
       const byFiles = fileKey(batch);
+      // Files left out that hold rows of this batch: needed if the batch is not cached.
+      const left = [...(filesOf.get(batch) as Map<string, number>).keys()].filter((p) => omitted.has(p));
+      const rows = byBatch.get(batch) as Partial<Record<InputKind, RowBase[]>>;
       // Only looked up here; read once it is known that no file must be loaded first.
       if (byFiles !== undefined && existsSync(file(byFiles))) {
-        pending.push({ m, batch, key: byFiles, left: [...(filesOf.get(batch) as Map<string, number>).keys()].filter((p) => omitted.has(p)), rows: byBatch.get(batch) });
+        pending.push({ key: byFiles, left, ifGone: () => miss(m, batch, [contentKey(batch, rows), byFiles]) });
         continue;
       }
       // Not cached by its files: its rows are needed, including those of files left out.
-      const left = [...(filesOf.get(batch) as Map<string, number>).keys()].filter((p) => omitted.has(p));
       if (left.length > 0) {
         left.forEach((p) => needRows.add(p));
         continue;
       }
-      const byContent = contentKey(batch, byBatch.get(batch) as Partial<Record<InputKind, RowBase[]>>);
+      const byContent = contentKey(batch, rows);
       const contentHit = read(byContent);
       if (contentHit) {
         found.push(...contentHit);
@@ -175,7 +176,7 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     const hit = read(p.key);
     if (hit) found.push(...hit);
     else if (p.left.length > 0) p.left.forEach((f) => needRows.add(f));
-    else miss(p.m, p.batch, [contentKeys.get(p.m)!(p.batch, p.rows as Partial<Record<InputKind, RowBase[]>>), p.key]);
+    else p.ifGone();
   }
   if (needRows.size > 0) return { units: [], needRows: [...needRows], batches: { analysed: 0, cached: 0 } };
 

@@ -16,6 +16,7 @@
  * digest instead of its rows (Study.omitted), and issues and checks come out the same.
  */
 import { createHash } from 'node:crypto';
+import { unitsInOrder } from '../assays/assay-common.js';
 import { checkExclusionsMatch, checkUnusedVariants, checkWildTypeFacts, wildTypeFacts } from './checks.js';
 import { csvDelimiter, decodeText, scanCsv } from './csv.js';
 import { readManifest } from './manifest.js';
@@ -91,23 +92,7 @@ export function fileDigestKey(context: string, path: string, sha256: string, spe
 /** A file's digest from its rows as read (see FileDigest). */
 export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: number, issues: Issue[], seen: { variantsSeen: Set<string>; batches: Set<string>; units: Set<string> }, variants: ReadonlyMap<string, Variant>): FileDigest {
   const batchRows = new Map<string, number>();
-  const unitOrder: Array<[string, string, string]> = [];
-  const units = new Map<string, Map<string, Set<string>>>();
-  let last: RowBase | undefined;
-  for (const r of rows) {
-    batchRows.set(r.batch, (batchRows.get(r.batch) ?? 0) + 1);
-    if (r.variant === '' && r.unit === '') continue;
-    if (last && r.variant === last.variant && r.unit === last.unit && r.batch === last.batch) continue;
-    last = r;
-    let byUnit = units.get(r.variant);
-    if (!byUnit) units.set(r.variant, (byUnit = new Map()));
-    let batches = byUnit.get(r.unit);
-    if (!batches) byUnit.set(r.unit, (batches = new Set()));
-    if (!batches.has(r.batch)) {
-      batches.add(r.batch);
-      unitOrder.push([r.variant, r.unit, r.batch]);
-    }
-  }
+  for (const r of rows) batchRows.set(r.batch, (batchRows.get(r.batch) ?? 0) + 1);
   return {
     kind,
     rowCount,
@@ -118,7 +103,7 @@ export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: 
     units: [...seen.units],
     batchRows: [...batchRows],
     wildType: wildTypeFacts(rows, variants),
-    unitOrder,
+    unitOrder: unitsInOrder(rows),
   };
 }
 
