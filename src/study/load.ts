@@ -82,11 +82,16 @@ export interface ParsedDigest {
 
 /**
  * Key of a file's digest: SHA-256 over the reading code's identity, the path, the bytes'
- * SHA-256, the manifest's entry for the file (as read) and the variant labels the rows resolve
- * against: everything a file's rows, issues and facts depend on.
+ * SHA-256, the manifest's entry for the file (as read) and `variantsKey` (see digestVariantsKey):
+ * everything a file's rows, issues and facts depend on.
  */
-export function fileDigestKey(context: string, path: string, sha256: string, spec: unknown, byLabel: ReadonlyMap<string, Variant>, variants: readonly Variant[]): string {
-  return sha256Hex(JSON.stringify([context, path, sha256, spec, [...byLabel].map(([label, v]) => [label, v.id]), variants]));
+export function fileDigestKey(context: string, path: string, sha256: string, spec: unknown, variantsKey: string): string {
+  return sha256Hex(JSON.stringify([context, path, sha256, spec, variantsKey]));
+}
+
+/** SHA-256 of the variants and labels the rows of every file resolve against (made once per load). */
+export function digestVariantsKey(byLabel: ReadonlyMap<string, Variant>, variants: readonly Variant[]): string {
+  return sha256Hex(JSON.stringify([[...byLabel].map(([label, v]) => [label, v.id]), variants]));
 }
 
 /** A file's digest from its rows as read (see FileDigest). */
@@ -136,6 +141,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
   const wtFacts: Partial<Record<InputKind, Array<{ file: string; facts: WildTypeFacts }>>> = {};
   const omitted = new Map<string, FileDigest>();
   const parsed: ParsedDigest[] = [];
+  let variantsKey: string | undefined;
 
   for (const spec of manifest.files) {
     const path = spec.entry.path;
@@ -156,7 +162,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
     if (spec.frameIntervalS !== undefined) settings.frameIntervalS = spec.frameIntervalS;
     if (spec.crossSectionMm2 !== undefined) settings.crossSectionMm2 = spec.crossSectionMm2;
     if (spec.missing.length) settings.missing = spec.missing.join(' ');
-    const key = options.reuse ? fileDigestKey(options.reuse.context, path, sha256, spec, manifest.byLabel, manifest.variants) : '';
+    const key = options.reuse ? fileDigestKey(options.reuse.context, path, sha256, spec, (variantsKey ??= digestVariantsKey(manifest.byLabel, manifest.variants))) : '';
     const reused = options.reuse?.get(key, path);
     if (reused && reused.kind === spec.entry.kind) {
       for (const i of reused.issues) issues.push(i);
