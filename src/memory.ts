@@ -15,6 +15,15 @@ import { runInNewContext } from 'node:vm';
 
 let gc: (() => void) | null | undefined;
 
+/**
+ * Bytes of CSV parsed by a build from which the build counts as heavy (a cold build, or many
+ * files changed). Parsed rows take about 8 bytes of heap per byte of CSV: a light build has at
+ * most about 130 MB of dead rows after analysis, which is not worth a full collection (about
+ * 0.2 s with a large study's results alive), and has room to start the chart workers while it
+ * analyses (src/build/build-study.ts).
+ */
+export const HEAVY_PARSE_BYTES = 16 * 2 ** 20;
+
 /** Run a full garbage collection, if the collector could be exposed. */
 export function collectGarbage(): void {
   if (gc === undefined) {

@@ -15,14 +15,14 @@ import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
 import { analyseUnitsCached, digestStore } from './analysis-cache.js';
-import { collectGarbage } from '../memory.js';
+import { HEAVY_PARSE_BYTES, collectGarbage } from '../memory.js';
 import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
 import { planOutput, makeStaging, swapIn } from '../cli/output.js';
 import { resultsCsv } from '../results/csv.js';
 import { writeJsonStreamed } from '../results/json.js';
 import type { StudyResults } from '../results/types.js';
-import { buildSite } from '../site/build-site.js';
+import { buildSite, createSiteRenderer } from '../site/build-site.js';
 import { loadStudy } from '../study/load.js';
 import { readStudyFolder } from '../study/read-folder.js';
 import type { Issue } from '../study/types.js';
@@ -66,7 +66,11 @@ export interface BuildOutcome {
  * (most of a large study's memory) can be collected once the results exist: only the results
  * and the issues leave it.
  */
-export async function loadAndAnalyse(studyDir: string, options: BuildOptions): Promise<{ issues: Issue[]; results?: StudyResults }> {
+export async function loadAndAnalyse(
+  studyDir: string,
+  options: BuildOptions,
+  hooks: { /** Called once, after the first reading and before analysis, with the bytes of CSV parsed. */ afterLoad?: (parsedBytes: number) => void } = {},
+): Promise<{ issues: Issue[]; results?: StudyResults; parsedBytes: number }> {
   const phase = options.onPhase ?? (() => {});
   let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir);
   phase('check');
@@ -77,8 +81,12 @@ export async function loadAndAnalyse(studyDir: string, options: BuildOptions): P
   let analysing = false;
   const epoch = options.sourceDateEpoch;
   const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
+  /** Bytes of the files parsed (not left out), over all passes. */
+  let parsedBytes = 0;
   for (;;) {
+    const files = (folder as NonNullable<typeof folder>).files;
     const loaded = loadStudy(folder as NonNullable<typeof folder>, digests ? { reuse: { context: digests.reuse.context, get: (key, path) => (mustRead.has(path) ? undefined : digests.reuse.get(key, path)) } } : {});
+    for (const f of loaded.study?.files ?? []) if (!loaded.study?.omitted?.has(f.path)) parsedBytes += files.get(f.path)?.length ?? 0;
     if (digests && loaded.digests) {
       digests.save(loaded.digests);
       // Read now, read again on a second pass (its new digest must not leave it out).
@@ -87,9 +95,12 @@ export async function loadAndAnalyse(studyDir: string, options: BuildOptions): P
     // The file bytes are needed again only if some files were left out.
     if (!loaded.study?.omitted) folder = undefined;
     const issues = loaded.issues;
-    if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues };
+    if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues, parsedBytes };
     // Once: a second pass (files read after all) counts as analysis.
-    if (!analysing) phase('analyse');
+    if (!analysing) {
+      hooks.afterLoad?.(parsedBytes);
+      phase('analyse');
+    }
     analysing = true;
     const got = await analyseUnitsCached(loaded.study, ASSAYS, {
       workers: options.workers ?? 'auto',
@@ -104,7 +115,7 @@ export async function loadAndAnalyse(studyDir: string, options: BuildOptions): P
     }
     const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units });
     results.issues = issues;
-    return { issues, results };
+    return { issues, results, parsedBytes };
   }
 }
 
@@ -112,32 +123,44 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   const phase = options.onPhase ?? (() => {});
   phase('read');
   const plan = planOutput(studyDir, outDir, options.force ?? false);
-  const { issues, results } = await loadAndAnalyse(studyDir, options);
-  if (!results) return { ok: false, issues };
-  // The file bytes and rows are garbage now: collect them before the charts, not two minutes later.
-  collectGarbage();
-  const epoch = options.sourceDateEpoch;
-  const tag = String(process.pid);
-  const staging = makeStaging(plan.out, tag);
+  // Made here so that on a light rebuild its worker threads start (loading the chart libraries)
+  // while the study is analysed; after a heavy load they start when the first chart is asked
+  // for, since a cold analysis already holds most of the build's memory.
+  const renderer = createSiteRenderer(options);
   try {
-    phase('pages');
-    const site = await buildSite(results, staging, {
-      chartsFor: chartsFromModules(results, ASSAYS),
-      sourceDateEpoch: epoch,
-      ...(options.workers !== undefined ? { workers: options.workers } : {}),
-      ...(options.chartCache !== undefined ? { chartCache: options.chartCache } : {}),
-      ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+    const { issues, results, parsedBytes } = await loadAndAnalyse(studyDir, options, {
+      afterLoad: (bytes) => {
+        if (bytes < HEAVY_PARSE_BYTES) renderer?.start();
+      },
     });
-    phase('write');
-    const downloads = path.join(staging, 'downloads');
-    mkdirSync(downloads, { recursive: true });
-    // Streamed: the same bytes as JSON.stringify(results) + '\n', without one string of the whole file.
-    writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
-    writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
-    const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag);
-    return { ok: true, issues, out: plan.out, pages: site.pages, charts: site.charts, results, movedAside };
-  } catch (err) {
-    rmSync(staging, { recursive: true, force: true });
-    throw err;
+    if (!results) return { ok: false, issues };
+    // The file bytes and rows are garbage now: collect them before the charts, not two minutes
+    // later. After a rebuild that parsed a few files, a full collection costs more than it frees.
+    if (parsedBytes >= HEAVY_PARSE_BYTES) collectGarbage();
+    const epoch = options.sourceDateEpoch;
+    const tag = String(process.pid);
+    const staging = makeStaging(plan.out, tag);
+    try {
+      phase('pages');
+      const site = await buildSite(results, staging, {
+        chartsFor: chartsFromModules(results, ASSAYS),
+        sourceDateEpoch: epoch,
+        ...(renderer ? { renderer } : { workers: 0, chartCache: false }),
+        ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+      });
+      phase('write');
+      const downloads = path.join(staging, 'downloads');
+      mkdirSync(downloads, { recursive: true });
+      // Streamed: the same bytes as JSON.stringify(results) + '\n', without one string of the whole file.
+      writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
+      writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
+      const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag);
+      return { ok: true, issues, out: plan.out, pages: site.pages, charts: site.charts, results, movedAside };
+    } catch (err) {
+      rmSync(staging, { recursive: true, force: true });
+      throw err;
+    }
+  } finally {
+    await renderer?.close();
   }
 }

@@ -78,6 +78,13 @@ export class WorkerPool<I, O> {
     });
   }
 
+  /** Start every worker now (each loads its script) rather than on first use; they wait unref'd. */
+  start(): void {
+    if (this.closed) return;
+    while (this.all.length < this.size) this.idle.push(this.spawn());
+    for (const w of this.idle) w.unref();
+  }
+
   private spawn(): Worker {
     const w = startWorker(this.script, this.resourceLimits);
     w.on('message', (msg: WorkerReply<O>) => {
@@ -155,6 +162,11 @@ export interface ChartRenderer {
    * src/site/build-site.ts and ChartCache.fetchPage/keepPage). Absent without a cache.
    */
   pages?: Pick<ChartCache, 'fetchPage' | 'keepPage'>;
+  /**
+   * Start the worker threads now, so that they have loaded vega and vega-lite (about a second)
+   * by the time the first chart is asked for. Without this they start on first use.
+   */
+  start(): void;
   /** Charts rendered and charts served from the cache. (process.cpuUsage() already counts worker threads.) */
   stats(): { rendered: number; cached: number };
   close(): Promise<void>;
@@ -220,6 +232,7 @@ export function createChartRenderer(options: ChartRendererOptions = {}): ChartRe
       return block;
     },
     ...(cache ? { pages: { fetchPage: cache.fetchPage.bind(cache), keepPage: cache.keepPage.bind(cache) } } : {}),
+    start: () => pool?.start(),
     stats: () => ({ rendered, cached }),
     close: async () => {
       await pool?.close();

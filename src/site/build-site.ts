@@ -81,11 +81,20 @@ interface Prepared {
   close: () => Promise<void>;
 }
 
-function prepare(results: StudyResults, options: BuildSiteOptions): Prepared {
-  const slugs = uniqueSlugs(results.variants.map((v) => v.id));
+/**
+ * The chart renderer buildSite makes from its options (workers, chartCache): undefined when
+ * charts are drawn in this thread without a cache. A caller that wants the workers started
+ * early makes it with this, passes it as `renderer` and closes it.
+ */
+export function createSiteRenderer(options: Pick<BuildSiteOptions, 'workers' | 'chartCache'>): ChartRenderer | undefined {
   const workers = options.workers === undefined || options.workers === 'auto' ? defaultWorkers() : options.workers;
   const cacheDir = options.chartCache ?? DEFAULT_CHART_CACHE;
-  const ownRenderer = options.renderer || (workers === 0 && cacheDir === false) ? undefined : createChartRenderer({ workers, cacheDir });
+  return workers === 0 && cacheDir === false ? undefined : createChartRenderer({ workers, cacheDir });
+}
+
+function prepare(results: StudyResults, options: BuildSiteOptions): Prepared {
+  const slugs = uniqueSlugs(results.variants.map((v) => v.id));
+  const ownRenderer = options.renderer ? undefined : createSiteRenderer(options);
   const renderer = options.renderer ?? ownRenderer;
   const render: RenderFn | undefined = renderer ? (spec, o) => renderer.render(spec, o) : undefined;
   const block: ChartRenderer['block'] | undefined = renderer ? (parts, make) => renderer.block(parts, make) : undefined;
@@ -106,22 +115,20 @@ const BUILT_AT_STEM = 'myofolio-built-at-7f';
  * own page: study, tool, build time, caveats, navigation and paths. Variant pages are rendered
  * from this alone (tests/site/variant-site-data.test.ts checks the templates read nothing else).
  */
-export function variantSiteData(site: Awaited<ReturnType<typeof studyData>>) {
+export function variantSiteData(site: ReturnType<typeof studyFrame>) {
   return { study: site.study, tool: site.tool, builtAt: site.builtAt, standardCaveats: site.standardCaveats, legend: site.legend, nav: site.nav, paths: site.paths };
 }
 
-/** Everything the templates read except the variant pages (variants: []). */
-async function studyData(results: StudyResults, options: BuildSiteOptions, prepared: Prepared) {
-  const { slugs, render } = prepared;
+/** The site data without charts and without variant pages: known before any chart is drawn. */
+function studyFrame(results: StudyResults, options: BuildSiteOptions, slugs: Map<string, string>) {
   const builtAt =
     options.sourceDateEpoch !== undefined && Number.isFinite(options.sourceDateEpoch)
       ? new Date(options.sourceDateEpoch * 1000).toISOString().replace('.000Z', 'Z')
       : results.provenance.builtAt;
   const rows = indexRows(results, slugs);
-  const assays = await assayPages(results, render);
   const nav = [
     { key: 'index', label: 'Variants', href: PATHS.index },
-    ...assays.map((a) => ({ key: `assay-${a.id}`, label: a.label, href: a.path })),
+    ...results.assays.map((a) => ({ key: `assay-${a.id}`, label: a.label, href: PATHS.assay(a.id) })),
     { key: 'residues', label: 'Residue map', href: PATHS.residues },
     { key: 'compare', label: 'Assays compared', href: PATHS.compare },
     { key: 'methods', label: 'Methods', href: PATHS.methods },
@@ -146,12 +153,15 @@ async function studyData(results: StudyResults, options: BuildSiteOptions, prepa
       search: Object.fromEntries(rows.map((r) => [r.id, r.search])),
     },
     variants: [] as VariantPage[],
-    assays,
-    residues: await residueCharts(results, render),
-    compare: await compareCharts(results, render),
     methods: methodsData(results),
     provenance: provenanceData(results),
   };
+}
+
+/** The study pages' charts (assay pages, residue maps, assays compared), all asked for at once. */
+async function studyCharts(results: StudyResults, render: RenderFn | undefined) {
+  const [assays, residues, compare] = await Promise.all([assayPages(results, render), residueCharts(results, render), compareCharts(results, render)]);
+  return { assays, residues, compare };
 }
 
 /** One Eleventy run: `input` is the templates folder or one template in it; returns the HTML pages written. */
@@ -184,12 +194,15 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     const progress = options.onProgress;
     const total = results.variants.length;
     progress?.('charts', 0, total);
-    const site = await studyData(results, options, prepared);
+    const frame = studyFrame(results, options, prepared.slugs);
+    // The study pages' charts are drawn while the variant pages are made; they are awaited at the end.
+    const charted = studyCharts(results, prepared.render);
+    charted.catch(() => undefined);
     // What the variant template reads of the site besides its page: Eleventy is given only this,
     // so a page is a function of it, its page data and the templates (the page cache key). The
     // build time changes with every build: pages are made and kept with a placeholder in its
     // place, and the time is written over it as each page is written out.
-    const variantSite = variantSiteData(site);
+    const variantSite = variantSiteData(frame);
     const builtAt = variantSite.builtAt;
     // The placeholder has the build time's length (in UTF-8 bytes), so that kept pages are copied
     // and patched in place; ISO times are at least 20 bytes, as is the placeholder's stem.
@@ -233,7 +246,22 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     };
     const batches: VariantResult[][] = [];
     for (let i = 0; i < results.variants.length; i += VARIANT_BATCH) batches.push(results.variants.slice(i, i + VARIANT_BATCH));
-    // Pipeline: the pool draws batch k + 1 while Eleventy writes batch k.
+    // Pipeline: the pool draws batch k + 1 while Eleventy writes batch k. Pages that are not kept
+    // are written in runs of up to VARIANT_BATCH: on a rebuild where a few pages of each batch
+    // changed, they are gathered into one run instead of one run (and one template compile) per batch.
+    const waiting: { render: VariantPage[]; keys: string[] } = { render: [], keys: [] };
+    const flush = async () => {
+      const { render, keys } = waiting;
+      if (render.length === 0) return;
+      waiting.render = [];
+      waiting.keys = [];
+      pages += await runEleventy(variantTemplate, outDir, { ...renderSite, variants: render });
+      render.forEach((p, i) => pageStore?.keepPage(keys[i], join(outDir, p.path), placeholderBytes, builtAtBytes));
+      // These pages' SVGs and HTML are garbage now; without a collection here, V8 lets them pile
+      // up for several runs and the build's peak memory grows with the study. A small run leaves
+      // little garbage, and a full collection of the results costs more than it frees.
+      if (render.length >= VARIANT_BATCH / 2) collectGarbage();
+    };
     let next = batches.length > 0 ? prepareBatch(batches[0]) : undefined;
     for (let k = 0; k < batches.length; k++) {
       const got = await (next as ReturnType<typeof prepareBatch>);
@@ -241,14 +269,13 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
       // Awaited in the next round; the no-op handler keeps a failure meanwhile from counting as unhandled.
       next?.catch(() => undefined);
       pages += got.found;
-      if (got.render.length > 0) pages += await runEleventy(variantTemplate, outDir, { ...renderSite, variants: got.render });
-      got.render.forEach((p, i) => pageStore?.keepPage(got.keys[i], join(outDir, p.path), placeholderBytes, builtAtBytes));
-      // This batch's SVGs and HTML are garbage now; without a collection here, V8 lets them pile up
-      // for several batches and the build's peak memory grows with the study.
-      collectGarbage();
+      if (waiting.render.length + got.render.length > VARIANT_BATCH) await flush();
+      waiting.render.push(...got.render);
+      waiting.keys.push(...got.keys);
+      if (waiting.render.length >= VARIANT_BATCH || k === batches.length - 1) await flush();
     }
     progress?.('pages', 0, 1);
-    pages += await runEleventy(templatesDir, outDir, site);
+    pages += await runEleventy(templatesDir, outDir, { ...frame, ...(await charted) });
     await cp(join(templatesDir, 'assets'), join(outDir, 'assets'), { recursive: true });
     progress?.('pages', 1, 1);
     charts = prepared.stats();

@@ -36,35 +36,37 @@ export interface AssayPage {
 }
 
 export async function assayPages(results: StudyResults, render?: RenderFn): Promise<AssayPage[]> {
-  const pages: AssayPage[] = [];
-  for (const a of results.assays) {
-    const cal = results.calibration.find((c) => c.scope === a.id);
-    const ccs = results.controlCharts.filter((c) => c.assay === a.id);
-    const controlCharts = [];
-    for (const cc of ccs) {
-      controlCharts.push({
+  // Every chart of every assay is asked for at once, so a worker pool draws them side by side.
+  return Promise.all(
+    results.assays.map(async (a) => {
+      const cal = results.calibration.find((c) => c.scope === a.id);
+      const ccs = results.controlCharts.filter((c) => c.assay === a.id);
+      const [controlBlocks, effects] = await Promise.all([
+        Promise.all(ccs.map(async (cc) => (await renderBlocks([leveyJenningsChart(results, cc)], render))[0] ?? null)),
+        renderBlocks(a.metrics.map((m) => effectsChart(results, a.id, m.id)), render),
+      ]);
+      const controlCharts = ccs.map((cc, i) => ({
         metric: a.metrics.find((m) => m.id === cc.metric)?.label ?? cc.metric,
         baseline: cc.baseline,
         rejected: cc.rejectedBatches.join(', '),
         warnings: cc.warningBatches.join(', '),
-        chart: (await renderBlocks([leveyJenningsChart(results, cc)], render))[0] ?? null,
-      });
-    }
-    pages.push({
-      path: PATHS.assay(a.id),
-      root: '../',
-      title: a.label,
-      id: a.id,
-      label: a.label,
-      metrics: a.metrics,
-      methods: a.methods,
-      effects: await renderBlocks(a.metrics.map((m) => effectsChart(results, a.id, m.id)), render),
-      calibration: cal ? fmtCalibration(cal) : null,
-      controlCharts,
-      exclusions: results.exclusions.filter((e) => e.assay === a.id || e.assay === undefined),
-    });
-  }
-  return pages;
+        chart: controlBlocks[i],
+      }));
+      return {
+        path: PATHS.assay(a.id),
+        root: '../',
+        title: a.label,
+        id: a.id,
+        label: a.label,
+        metrics: a.metrics,
+        methods: a.methods,
+        effects,
+        calibration: cal ? fmtCalibration(cal) : null,
+        controlCharts,
+        exclusions: results.exclusions.filter((e) => e.assay === a.id || e.assay === undefined),
+      };
+    }),
+  );
 }
 
 export async function residueCharts(results: StudyResults, render?: RenderFn): Promise<ChartBlock[]> {

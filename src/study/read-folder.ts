@@ -58,7 +58,7 @@ function insideRoot(root: string, real: string): boolean {
 }
 
 /** Read the manifest and every file it names. Throws only when the folder itself cannot be read. */
-export function readStudyFolder(dir: string): StudyFiles & { readIssues: Issue[] } {
+export function readStudyFolder(dir: string): StudyFiles & { files: ReadonlyMap<string, Uint8Array>; readIssues: Issue[] } {
   const root = realpathSync(dir);
   const files = new Map<string, Uint8Array>();
   const sha256 = new Map<string, string>();
