@@ -1,30 +1,38 @@
 /**
- * Cache of unit analyses per module and batch, so that a rebuild after one batch changed re-fits
- * only that batch's units of the assays whose files changed.
+ * Cache of unit analyses per module and batch (or per unit, for a module whose units are
+ * independent), so that a rebuild after one batch changed re-fits only that batch's units of the
+ * assays whose files changed, and after one unit changed only that unit where it can.
  *
- *   Study ──each module's rows split by batch──▶ per (module, batch): context = (code fingerprint,
- *         module ids, study settings, input files' kinds/paths/settings), then two keys (SHA-256):
- *           file key    — context, the variant labels, the manifest's file entries, and the path,
- *                         SHA-256 and row count of each file holding the batch's rows (cheap:
- *                         unchanged files read the same way give unchanged rows)
- *           content key — context and the batch's rows in order (exact; tried when the file key misses)
- *         ──hit──▶ UnitResult[] from <dir>/<ab>/<key>.bin (v8 serialisation: exact numbers, NaN kept)
- *         ──miss──▶ analyseUnitsParallel on a study holding only the missed batches ──▶ stored
+ *   Study ──each module's rows split by group (a batch; a unit, for AssayModule.independentUnits)──▶
+ *         per (module, group): context = (code fingerprint, module ids, study settings), then two
+ *         keys (SHA-256):
+ *           file key    — context, the variant labels, and for each file holding the group's rows
+ *                         its path, SHA-256, settings, manifest entry and row count of the group
+ *                         (cheap: unchanged files read the same way give unchanged rows)
+ *           content key — context, how those files were read, and the group's rows in order
+ *                         (exact; tried when the file key misses)
+ *         ──hit──▶ UnitResult[] from the file of its module and batch, <dir>/<ab>/s<hash>.bin
+ *                  (v8 serialisation: exact numbers, NaN kept; see openSlot)
+ *         ──miss──▶ analyseUnitsParallel on a study holding only the missed groups ──▶ stored
  *         ──merge, in the serial path's order──▶ UnitResult[]
  *
  * Files left out of a study (Study.omitted: their digests stand in for their rows) are keyed by
- * their digests' rows per batch; a batch they hold that is not cached by its files sends back
- * `needRows` instead of units, and the caller loads those files and asks again.
+ * their digests' rows per batch or unit; a group they hold that is not cached by its files sends
+ * back `needRows` instead of units, and the caller loads those files and asks again. Keeping
+ * independent units one by one matters there: a batch's units are often spread over many files,
+ * and a changed unit would otherwise have every file of its batch parsed again.
  *
  * Why per batch: units are independent given their batch (src/analysis/parallel.ts; NADH rates
  * subtract the actin-only wells of their own batch), and the modules read nothing else of the
- * study than its settings, its files' settings and its rows. The code fingerprint
+ * study than its settings, its files' settings and its rows. Motility, force and turnover units
+ * read only their own rows (independentUnits); a test checks each such module's units against
+ * those it gives for each unit's rows alone. The code fingerprint
  * (src/fingerprint.ts) hashes every source file under src/ and package-lock.json, so a changed
  * analysis can never be served from an older cache.
  * The result equals analyseUnitsParallel(study) (tested); entries are never pruned.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { deserialize, serialize } from 'node:v8';
 import { type ParallelOptions, activeModules, analyseUnitsParallel, serialOrder } from '../analysis/parallel.js';
@@ -41,7 +49,7 @@ import type { LoadReuse, ParsedDigest } from '../study/load.js';
 export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
 
 /** Version of the entry format; bump when what is stored changes. */
-const ENTRY_VERSION = 1;
+const ENTRY_VERSION = 2;
 
 export interface CachedAnalysisOptions extends ParallelOptions {
   /** Cache folder, or false for none (then this is analyseUnitsParallel). */
@@ -57,8 +65,28 @@ export interface CachedAnalysis {
    * they hold is not in the cache: load them and call again. Nothing was analysed then.
    */
   needRows?: string[];
-  /** Batch analyses (one module's units of one batch) made now and taken from the cache. */
+  /** Cache entries (see groupOf: one module's units of one batch, or one unit) analysed now and taken from the cache. */
   batches: { analysed: number; cached: number };
+}
+
+/**
+ * What one cache entry holds of a module's units, as a key of (variant, unit, batch): one unit of
+ * a module whose units are independent (AssayModule.independentUnits), else a whole batch.
+ */
+function groupOf(m: AssayModule): (variant: string, unit: string, batch: string) => string {
+  return m.independentUnits ? (variant, unit, batch) => JSON.stringify([batch, variant, unit]) : (_variant, _unit, batch) => batch;
+}
+
+/** groupOf for rows, remembering the last row's group (files are written unit by unit, so most rows repeat it). */
+function rowGroupOf(m: AssayModule): (r: RowBase) => string {
+  const group = groupOf(m);
+  let last: RowBase | undefined;
+  let lastGroup = '';
+  return (r) => {
+    if (!last || r.variant !== last.variant || r.unit !== last.unit || r.batch !== last.batch) lastGroup = group(r.variant, r.unit, r.batch);
+    last = r;
+    return lastGroup;
+  };
 }
 
 /**
@@ -77,148 +105,247 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     return { units, batches: { analysed: new Set(units.map((u) => `${u.assay}\0${u.batch}`)).size, cached: 0 } };
   }
   const dir = resolve(options.cacheDir ?? DEFAULT_ANALYSIS_CACHE);
-  const context = JSON.stringify([
-    ENTRY_VERSION,
-    codeFingerprint(),
-    active.map((m) => m.id),
-    study.settings,
-    study.files.map((f) => [f.kind, f.path, f.settings]),
-  ]);
-  const sha = new Map(study.files.map((f) => [f.path, f.sha256]));
-  // How the loader read the files: the variant labels it resolved and the manifest's file entries
-  // (declared units, decimal mark, missing-value codes, cross-sections…), as given.
-  const labels = JSON.stringify([study.variants.map((v) => [v.id, v.label]), (study.manifestRaw as { files?: unknown } | undefined)?.files ?? null]);
-  const file = (key: string) => join(dir, key.slice(1, 3), `${key}.bin`);
-  const read = (key: string | undefined) => {
-    if (key === undefined) return undefined;
-    try {
-      return deserialize(readFileSync(file(key))) as UnitResult[];
-    } catch {
-      return undefined;
-    }
-  };
+  const context = JSON.stringify([ENTRY_VERSION, codeFingerprint(), active.map((m) => m.id), study.settings]);
+  // How the loader read each file: its SHA-256, its settings and its manifest entry as given
+  // (declared units, decimal mark, missing-value codes, cross-sections…). Only the files that
+  // hold a group's rows enter its keys, so adding a file to the study keeps the other entries.
+  const rawEntries = new Map<string, string>();
+  for (const e of ((study.manifestRaw as { files?: unknown } | undefined)?.files ?? []) as unknown[]) {
+    const path = (e as { path?: unknown } | null)?.path;
+    if (typeof path === 'string' && !rawEntries.has(path)) rawEntries.set(path, JSON.stringify(e));
+  }
+  const read = new Map(study.files.map((f) => [f.path, { sha256: f.sha256, how: JSON.stringify([f.kind, f.settings, rawEntries.get(f.path) ?? null]) }]));
+  // The variant labels the loader resolved the rows with.
+  const labels = JSON.stringify(study.variants.map((v) => [v.id, v.label]));
 
-  const found: UnitResult[] = [];
-  const missed = new Map<AssayModule, Map<string, string[]>>(); // module → batch → keys to store its units under
+  const found: UnitResult[][] = [];
+  const missed = new Map<AssayModule, Map<string, { slot: SlotWork; keys: string[] }>>(); // module → group → its slot and the keys to store its units under
   const needRows = new Set<string>();
+  const slots: SlotWork[] = [];
   let entries = 0;
-  const miss = (m: AssayModule, batch: string, keys: string[]) => {
-    let mine = missed.get(m);
-    if (!mine) missed.set(m, (mine = new Map()));
-    mine.set(batch, keys);
-  };
-  /** Entries found by their file key, to read: its key, the files left out it needs if it is gone after all, and what to do then. */
-  const pending: Array<{ key: string; left: string[]; ifGone: () => void }> = [];
   for (const m of active) {
     const kinds = m.inputs;
-    // The module's rows of each batch, by kind.
-    const byBatch = new Map<string, Partial<Record<InputKind, RowBase[]>>>();
+    const rowGroup = rowGroupOf(m);
+    const group = groupOf(m);
+    // The module's rows of each group, by kind, and the groups of each batch.
+    const byGroup = new Map<string, Partial<Record<InputKind, RowBase[]>>>();
+    const groupsOf = new Map<string, Set<string>>();
+    const inBatch = (batch: string, g: string) => {
+      let groups = groupsOf.get(batch);
+      if (!groups) groupsOf.set(batch, (groups = new Set()));
+      groups.add(g);
+    };
     for (const kind of kinds) {
       for (const r of (study.rows[kind] ?? []) as RowBase[]) {
-        let b = byBatch.get(r.batch);
-        if (!b) byBatch.set(r.batch, (b = {}));
+        const g = rowGroup(r);
+        let b = byGroup.get(g);
+        if (!b) {
+          byGroup.set(g, (b = {}));
+          inBatch(r.batch, g);
+        }
         (b[kind] ??= []).push(r);
       }
     }
-    // Rows of each batch per file: counted in the rows read, and taken from the digests of the
-    // files left out (whose batches are in no row here).
+    // Rows of each group per file: counted in the rows read, and taken from the digests of the
+    // files left out (whose groups are in no row here).
     const filesOf = new Map<string, Map<string, number>>();
-    const addRows = (batch: string, path: string, n: number) => {
-      let perFile = filesOf.get(batch);
-      if (!perFile) filesOf.set(batch, (perFile = new Map()));
+    const addRows = (g: string, path: string, n: number) => {
+      let perFile = filesOf.get(g);
+      if (!perFile) filesOf.set(g, (perFile = new Map()));
       perFile.set(path, (perFile.get(path) ?? 0) + n);
     };
-    for (const [batch, rows] of byBatch) for (const kind of kinds) for (const r of rows[kind] ?? []) addRows(batch, r.at.file, 1);
-    for (const [path, d] of omitted) if (kinds.includes(d.kind)) for (const [batch, n] of d.batchRows) addRows(batch, path, n);
-    // File key: the files the batch's rows come from (path, SHA-256 of the bytes, rows of the batch
-    // in each) and the variant labels the loader resolved them with. Unchanged files give unchanged
-    // rows, so this cheap key is tried first; when a file changed, the content key decides.
-    const fileKey = (batch: string) => {
-      const files = [...(filesOf.get(batch) as Map<string, number>)].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([path, n]) => [path, sha.get(path) ?? null, n]);
+    for (const [g, rows] of byGroup) for (const kind of kinds) for (const r of rows[kind] ?? []) addRows(g, r.at.file, 1);
+    for (const [path, d] of omitted) {
+      if (!kinds.includes(d.kind)) continue;
+      if (m.independentUnits) {
+        for (const [variant, unit, batch, n] of d.unitRows) {
+          const g = group(variant, unit, batch);
+          inBatch(batch, g);
+          addRows(g, path, n);
+        }
+      } else {
+        for (const [batch, n] of d.batchRows) {
+          inBatch(batch, batch);
+          addRows(batch, path, n);
+        }
+      }
+    }
+    // Hashed once per module; each key continues a copy of it.
+    const moduleHash = createHash('sha256').update(context).update('\0').update(m.id);
+    const labelledHash = moduleHash.copy().update('\0').update(labels);
+    const filesIn = (g: string) => [...(filesOf.get(g) as Map<string, number>)].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+    // File key: the files the group's rows come from (path, SHA-256 of the bytes, how they were
+    // read, rows of the group in each) and the variant labels. Unchanged files read the same way
+    // give unchanged rows, so this cheap key is tried first; when a file changed, the content key decides.
+    const fileKey = (g: string) => {
+      const files = filesIn(g).map(([path, n]) => [path, read.get(path)?.sha256 ?? null, read.get(path)?.how ?? null, n]);
       if (files.some((f) => f[1] === null)) return undefined;
-      return `f${createHash('sha256').update(context).update('\0').update(m.id).update('\0').update(labels).update('\0').update(JSON.stringify([batch, files])).digest('hex')}`;
+      return `f${labelledHash.copy().update('\0').update(JSON.stringify([g, files])).digest('hex')}`;
     };
-    // Content key: the batch's rows themselves (exact, but serialising every row costs seconds in a large study).
-    const contentKey = (batch: string, rows: Partial<Record<InputKind, RowBase[]>>) => {
-      const hash = createHash('sha256').update(context).update('\0').update(m.id).update('\0').update(JSON.stringify(batch));
+    // Content key: the group's rows themselves and how their files were read (exact, but
+    // serialising every row costs seconds in a large study).
+    const contentKey = (g: string, rows: Partial<Record<InputKind, RowBase[]>>) => {
+      const hash = moduleHash.copy().update('\0').update(JSON.stringify([g, filesIn(g).map(([path]) => [path, read.get(path)?.how ?? null])]));
       for (const kind of kinds) hash.update('\0').update(kind).update('\0').update(JSON.stringify(rows[kind] ?? []));
       return `c${hash.digest('hex')}`;
     };
-    for (const batch of filesOf.keys()) {
-      entries++;
-      const byFiles = fileKey(batch);
-      // Files left out that hold rows of this batch: needed if the batch is not cached.
-      const left = [...(filesOf.get(batch) as Map<string, number>).keys()].filter((p) => omitted.has(p));
-      const rows = byBatch.get(batch) as Partial<Record<InputKind, RowBase[]>>;
-      // Only looked up here; read once it is known that no file must be loaded first.
-      if (byFiles !== undefined && existsSync(file(byFiles))) {
-        pending.push({ key: byFiles, left, ifGone: () => miss(m, batch, [contentKey(batch, rows), byFiles]) });
-        continue;
+    for (const [batch, groups] of groupsOf) {
+      const slot = openSlot(dir, context, m.id, batch);
+      slots.push(slot);
+      for (const g of groups) {
+        entries++;
+        const byFiles = fileKey(g);
+        const hit = byFiles === undefined ? undefined : slot.take(byFiles);
+        if (hit) {
+          found.push(hit);
+          continue;
+        }
+        // Not cached by its files: its rows are needed, including those of files left out.
+        const left = [...(filesOf.get(g) as Map<string, number>).keys()].filter((p) => omitted.has(p));
+        if (left.length > 0) {
+          left.forEach((p) => needRows.add(p));
+          continue;
+        }
+        const byContent = contentKey(g, byGroup.get(g) as Partial<Record<InputKind, RowBase[]>>);
+        const contentHit = slot.take(byContent, byFiles);
+        if (contentHit) {
+          found.push(contentHit);
+          continue;
+        }
+        let mine = missed.get(m);
+        if (!mine) missed.set(m, (mine = new Map()));
+        mine.set(g, { slot, keys: byFiles ? [byContent, byFiles] : [byContent] });
       }
-      // Not cached by its files: its rows are needed, including those of files left out.
-      if (left.length > 0) {
-        left.forEach((p) => needRows.add(p));
-        continue;
-      }
-      const byContent = contentKey(batch, rows);
-      const contentHit = read(byContent);
-      if (contentHit) {
-        found.push(...contentHit);
-        if (byFiles) store(file(byFiles), contentHit);
-        continue;
-      }
-      miss(m, batch, byFiles ? [byContent, byFiles] : [byContent]);
     }
-  }
-  if (needRows.size > 0) return { units: [], needRows: [...needRows], batches: { analysed: 0, cached: 0 } };
-  // Entries found by their files. One that cannot be read after all (removed meanwhile) is a miss.
-  for (const p of pending) {
-    const hit = read(p.key);
-    if (hit) found.push(...hit);
-    else if (p.left.length > 0) p.left.forEach((f) => needRows.add(f));
-    else p.ifGone();
   }
   if (needRows.size > 0) return { units: [], needRows: [...needRows], batches: { analysed: 0, cached: 0 } };
 
   const fresh: UnitResult[] = [];
   let analysed = 0;
   if (missed.size > 0) {
-    // One run over the missed batches of every module: each kind gets the rows of the batches its
-    // modules missed (the registry's modules share no kind; if some did, units of batches a module
+    // One run over the missed groups of every module: each kind gets the rows of the groups its
+    // module missed (the registry's modules share no kind; if some did, units of groups a module
     // did not miss are dropped below).
-    const wanted = new Map<InputKind, Set<string>>();
-    for (const [m, batches] of missed) {
+    const wanted = new Map<InputKind, Array<{ rowGroup: (r: RowBase) => string; groups: Map<string, unknown> }>>();
+    for (const [m, groups] of missed) {
       for (const kind of m.inputs) {
-        let set = wanted.get(kind);
-        if (!set) wanted.set(kind, (set = new Set()));
-        for (const b of batches.keys()) set.add(b);
+        let wants = wanted.get(kind);
+        if (!wants) wanted.set(kind, (wants = []));
+        wants.push({ rowGroup: rowGroupOf(m), groups });
       }
     }
     const rows: Partial<Record<InputKind, RowBase[]>> = {};
-    for (const [kind, batches] of wanted) {
-      const list = ((study.rows[kind] ?? []) as RowBase[]).filter((r) => batches.has(r.batch));
+    for (const [kind, wants] of wanted) {
+      const list = ((study.rows[kind] ?? []) as RowBase[]).filter((r) => wants.some((w) => w.groups.has(w.rowGroup(r))));
       if (list.length > 0) rows[kind] = list;
     }
     const count = Object.values(rows).reduce((n, list) => n + list.length, 0);
     const { omitted: _left, ...whole } = study;
     const units = await analyseUnitsParallel({ ...whole, rows: rows as Study['rows'] }, [...missed.keys()], count >= (options.minRowsForWorkers ?? 0) ? options : { ...options, workers: 0 });
-    for (const [m, batches] of missed) {
-      const perBatch = groupBy(
-        units.filter((u) => u.assay === m.id && batches.has(u.batch)),
-        (u) => u.batch,
+    for (const [m, groups] of missed) {
+      const group = groupOf(m);
+      const perGroup = groupBy(
+        units.filter((u) => u.assay === m.id && groups.has(group(u.variant, u.unit, u.batch))),
+        (u) => group(u.variant, u.unit, u.batch),
       );
-      for (const [batch, keys] of batches) {
-        const mine = perBatch.get(batch) ?? [];
+      for (const [g, { slot, keys }] of groups) {
+        const mine = perGroup.get(g) ?? [];
         fresh.push(...mine);
         analysed++;
-        // A batch whose rows give no unit (e.g. only NADH actin-only wells) is stored empty.
-        for (const key of keys) store(file(key), mine);
+        // A group whose rows give no unit (e.g. only NADH actin-only wells) is stored empty.
+        slot.put(keys, mine);
       }
     }
   }
-  const all = [...found, ...fresh];
+  for (const slot of slots) slot.save();
+  const all = [...found.flat(), ...fresh];
   const units = active.flatMap((m) => serialOrder(study, m, all.filter((u) => u.assay === m.id)));
   return { units, batches: { analysed, cached: entries - analysed } };
+}
+
+/** One cache file's work in one run: the entries found and made now, saved once at the end. */
+interface SlotWork {
+  /** The units stored under `key`, if any, marked as used (and to be stored under `alsoKey` too). */
+  take(key: string, alsoKey?: string): UnitResult[] | undefined;
+  /** Units made now, to be stored under every key given. */
+  put(keys: string[], units: UnitResult[]): void;
+  /** Write the file if anything in it changed (best effort). */
+  save(): void;
+}
+
+/** Stored form of a slot file: every entry's units, and the keys that lead to each. */
+interface SlotFile {
+  keys: Array<[key: string, entry: number]>;
+  entries: UnitResult[][];
+}
+
+/**
+ * The cache file of one module and batch: every entry (a batch's units, or one unit's) of that
+ * batch, each under its file key and its content key. One file per batch keeps a rebuild to one
+ * read per batch however many units it holds. What is kept: the entries used or made in this
+ * run, and of the others (another version of the study using the same batch names) at most as
+ * many again, so a file cannot grow without end.
+ */
+function openSlot(dir: string, context: string, moduleId: string, batch: string): SlotWork {
+  const name = createHash('sha256').update(context).update('\0').update(moduleId).update('\0').update(batch).digest('hex');
+  const path = join(dir, name.slice(0, 2), `s${name}.bin`);
+  let stored: SlotFile | undefined;
+  try {
+    stored = deserialize(readFileSync(path)) as SlotFile;
+    if (!Array.isArray(stored?.keys) || !Array.isArray(stored?.entries)) stored = undefined;
+  } catch {
+    stored = undefined;
+  }
+  const index = new Map(stored?.keys ?? []);
+  const used = new Map<number, Set<string>>(); // stored entry → keys it is kept under
+  const made: Array<{ keys: string[]; units: UnitResult[] }> = [];
+  let changed = false;
+  return {
+    take(key, alsoKey) {
+      const at = index.get(key);
+      const units = at === undefined ? undefined : stored?.entries[at];
+      if (at === undefined || !Array.isArray(units)) return undefined;
+      let keys = used.get(at);
+      if (!keys) used.set(at, (keys = new Set()));
+      keys.add(key);
+      if (alsoKey !== undefined && !index.has(alsoKey)) {
+        keys.add(alsoKey);
+        changed = true;
+      }
+      return units;
+    },
+    put(keys, units) {
+      made.push({ keys, units });
+      changed = true;
+    },
+    save() {
+      if (!changed) return;
+      const out: SlotFile = { keys: [], entries: [] };
+      const add = (keys: Iterable<string>, units: UnitResult[]) => {
+        for (const k of keys) out.keys.push([k, out.entries.length]);
+        out.entries.push(units);
+      };
+      const byEntry = new Map<number, string[]>();
+      for (const [k, at] of index) {
+        const keys = byEntry.get(at);
+        if (keys) keys.push(k);
+        else byEntry.set(at, [k]);
+      }
+      // Entries used now keep the keys they had and gain any new one.
+      for (const [at, keys] of used) add(new Set([...(byEntry.get(at) ?? []), ...keys]), stored?.entries[at] as UnitResult[]);
+      for (const e of made) add(e.keys, e.units);
+      // Entries of other runs, up to as many as this run uses.
+      const room = used.size + made.length;
+      let kept = 0;
+      for (const [at, keys] of byEntry) {
+        if (kept >= room) break;
+        if (used.has(at) || keys.some((k) => made.some((e) => e.keys.includes(k)))) continue;
+        add(keys, stored?.entries[at] as UnitResult[]);
+        kept++;
+      }
+      store(path, out);
+    },
+  };
 }
 
 /**
@@ -247,7 +374,7 @@ export function digestStore(cacheDir?: string): { reuse: LoadReuse; save(parsed:
 }
 
 /** Write an entry under a temporary name and rename it (best effort: a cache that cannot be written only costs time). */
-function store(path: string, value: UnitResult[] | FileDigest): void {
+function store(path: string, value: SlotFile | FileDigest): void {
   try {
     mkdirSync(join(path, '..'), { recursive: true });
     const tmp = `${path}.${process.pid}.tmp`;

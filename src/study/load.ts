@@ -98,6 +98,17 @@ export function digestVariantsKey(byLabel: ReadonlyMap<string, Variant>, variant
 export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: number, issues: Issue[], seen: { variantsSeen: Set<string>; batches: Set<string>; units: Set<string> }, variants: ReadonlyMap<string, Variant>): FileDigest {
   const batchRows = new Map<string, number>();
   for (const r of rows) batchRows.set(r.batch, (batchRows.get(r.batch) ?? 0) + 1);
+  const unitRows = new Map<string, [string, string, string, number]>();
+  let last: [string, string, string, number] | undefined;
+  for (const r of rows) {
+    // Files are written unit by unit: most rows belong to the previous row's unit.
+    if (!last || last[0] !== r.variant || last[1] !== r.unit || last[2] !== r.batch) {
+      const key = `${r.variant}\0${r.unit}\0${r.batch}`;
+      last = unitRows.get(key);
+      if (!last) unitRows.set(key, (last = [r.variant, r.unit, r.batch, 0]));
+    }
+    last[3]++;
+  }
   return {
     kind,
     rowCount,
@@ -107,6 +118,7 @@ export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: 
     batches: [...seen.batches],
     units: [...seen.units],
     batchRows: [...batchRows],
+    unitRows: [...unitRows.values()],
     wildType: wildTypeFacts(rows, variants),
     unitOrder: unitsInOrder(rows),
   };

@@ -214,7 +214,7 @@ export interface Study {
   rows: Partial<RowsByKind>;
   /**
    * Input files whose rows were left out of `rows` because a cache already holds the analysis of
-   * every batch they touch (see src/build/load-cached.ts), with what the study needs of them
+   * every batch they touch (see loadAndAnalyse in src/build/build-study.ts), with what the study needs of them
    * instead. Absent (or empty) in a study loaded whole.
    */
   omitted?: ReadonlyMap<string, FileDigest>;
@@ -239,6 +239,8 @@ export interface FileDigest {
   units: string[];
   /** Rows kept per batch, in order of first appearance. */
   batchRows: Array<[batch: string, rows: number]>;
+  /** Rows kept per (variant, unit, batch), in order of first appearance; NADH actin-only wells count under variant and unit ''. */
+  unitRows: Array<[variant: string, unit: string, batch: string, rows: number]>;
   /** What the WT-per-batch check needs, per batch (see wildTypeFacts in src/study/checks.ts). */
   wildType: WildTypeFacts;
   /** Each unit (variant, unit, batch) in order of first appearance; NADH actin-only wells (no variant, no unit) left out. */

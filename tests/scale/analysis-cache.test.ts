@@ -1,7 +1,7 @@
 /**
- * The analysis cache (per module and batch) gives exactly the units of the uncached analysis, in
- * the same order, cold and warm, and after one batch's rows changed re-analyses that batch of
- * that assay only.
+ * The analysis cache (per module and batch, or per unit for modules whose units are independent)
+ * gives exactly the units of the uncached analysis, in the same order, cold and warm, and after
+ * one unit's rows changed re-analyses that unit (or that batch) of that assay only.
  * Study: the benchmark generator's (synthetic, invented values).
  */
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -14,7 +14,9 @@ import { syntheticStudy } from '../../src/bench/synthetic.js';
 import { analyseUnitsCached } from '../../src/build/analysis-cache.js';
 import { codeFingerprint } from '../../src/fingerprint.js';
 import { loadStudy } from '../../src/study/load.js';
-import type { Study, TurnoverRow } from '../../src/study/types.js';
+import type { AssayModule } from '../../src/assays/types.js';
+import type { UnitResult } from '../../src/results/types.js';
+import type { RowBase, Study, TurnoverRow } from '../../src/study/types.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'myofolio-analysis-cache-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -26,11 +28,40 @@ function benchStudy(): Study {
   return loadStudy({ manifest: JSON.stringify(s.manifest), files: s.files }).study!;
 }
 
+/** Units of a study that holds only the given rows of each kind. */
+const analyseOnly = (study: Study, m: AssayModule, keep: (r: RowBase) => boolean) =>
+  m.analyse({ ...study, rows: Object.fromEntries(Object.entries(study.rows).map(([k, rows]) => [k, (rows as RowBase[]).filter(keep)])) as Study['rows'] });
+
+describe('AssayModule.independentUnits', () => {
+  const study = benchStudy();
+  const sameUnit = (u: UnitResult) => (r: RowBase) => r.variant === u.variant && r.unit === u.unit && r.batch === u.batch;
+
+  it('a module that declares it gives each unit from that unit\'s rows alone', () => {
+    const flagged = ASSAYS.filter((m) => m.independentUnits);
+    expect(flagged.map((m) => m.id).sort()).toEqual(['force', 'motility', 'turnover']);
+    for (const m of flagged) {
+      const whole = m.analyse(study);
+      expect(whole.length).toBeGreaterThan(10);
+      for (const u of whole) expect(analyseOnly(study, m, sameUnit(u))).toEqual([u]);
+    }
+  });
+
+  it('the ATPase does not declare it: a unit from NADH traces needs the actin-only wells of its batch', () => {
+    const atpase = ASSAYS.find((m) => m.id === 'atpase') as AssayModule;
+    expect(atpase.independentUnits).toBeFalsy();
+    const fromTraces = atpase.analyse(study).filter((u) => (study.rows['atpase-nadh'] ?? []).some(sameUnit(u)));
+    expect(fromTraces.length).toBeGreaterThan(0);
+    const u = fromTraces[0];
+    expect(analyseOnly(study, atpase, sameUnit(u))).not.toEqual([u]);
+  });
+});
+
 describe('analyseUnitsCached', () => {
   const study = benchStudy();
   const expected = serial(study);
-  // Cache entries: one per (assay, batch).
-  const batches = new Set(expected.map((u) => `${u.assay} ${u.batch}`)).size;
+  // Cache entries: one per (assay, batch), or per (assay, unit) for modules with independent units.
+  const independent = new Set(ASSAYS.filter((m) => m.independentUnits).map((m) => m.id));
+  const batches = new Set(expected.map((u) => JSON.stringify(independent.has(u.assay) ? [u.assay, u.batch, u.variant, u.unit] : [u.assay, u.batch]))).size;
 
   it('cold: analyses every batch and gives the serial units; warm: serves every batch from the cache, same units', async () => {
     const cold = await analyseUnitsCached(study, ASSAYS, { cacheDir: dir, workers: 0 });
@@ -41,7 +72,7 @@ describe('analyseUnitsCached', () => {
     expect(warm.units).toEqual(expected);
   }, 120_000);
 
-  it('after one reading of one batch changed, re-analyses that batch only and matches a fresh analysis', async () => {
+  it('after one reading of one unit changed, re-analyses that unit only and matches a fresh analysis', async () => {
     const rows = study.rows.turnover as TurnoverRow[];
     const target = rows.find((r) => r.variant !== study.variants.find((v) => v.isWT)?.id && r.batch === rows[rows.length - 1].batch) as TurnoverRow;
     // As loadStudy gives it after the file was edited: one reading differs, and so does the file's SHA-256.
@@ -50,13 +81,39 @@ describe('analyseUnitsCached', () => {
       files: study.files.map((f) => (f.path === target.at.file ? { ...f, sha256: 'edited' } : f)),
       rows: { ...study.rows, turnover: rows.map((r) => (r === target ? { ...r, fluorescence: r.fluorescence * 1.5 } : r)) },
     };
-    // Other batches have rows in the same file: they are found by their content, not re-fitted.
+    // Other units have rows in the same file: they are found by their content, not re-fitted.
     expect(new Set(rows.filter((r) => r.at.file === target.at.file).map((r) => r.batch)).size).toBeGreaterThan(1);
     const fresh = serial(changed);
     expect(fresh).not.toEqual(expected);
     const got = await analyseUnitsCached(changed, ASSAYS, { cacheDir: dir, workers: 0 });
     expect(got.batches).toEqual({ analysed: 1, cached: batches - 1 });
     expect(got.units).toEqual(fresh);
+    // The reading changed back (an edit undone): the entry of before is still kept beside the new one.
+    const back = await analyseUnitsCached(study, ASSAYS, { cacheDir: dir, workers: 0 });
+    expect(back.batches).toEqual({ analysed: 0, cached: batches });
+    expect(back.units).toEqual(expected);
+  }, 120_000);
+
+  it('a file added to the study (a new run) re-analyses only the units and batches with rows in it', async () => {
+    const fresh = mkdtempSync(join(tmpdir(), 'myofolio-analysis-cache-add-'));
+    try {
+      const path = 'turnover-part2.csv';
+      const raw = study.manifestRaw as { files: Array<{ path: string }> };
+      const without: Study = {
+        ...study,
+        files: study.files.filter((f) => f.path !== path),
+        manifestRaw: { ...raw, files: raw.files.filter((f) => f.path !== path) },
+        rows: { ...study.rows, turnover: (study.rows.turnover as TurnoverRow[]).filter((r) => r.at.file !== path) },
+      };
+      await analyseUnitsCached(without, ASSAYS, { cacheDir: fresh, workers: 0 });
+      const got = await analyseUnitsCached(study, ASSAYS, { cacheDir: fresh, workers: 0 });
+      const touched = new Set((study.rows.turnover as TurnoverRow[]).filter((r) => r.at.file === path).map((r) => JSON.stringify([r.variant, r.unit, r.batch])));
+      expect(touched.size).toBeGreaterThan(0);
+      expect(got.batches).toEqual({ analysed: touched.size, cached: batches - touched.size });
+      expect(got.units).toEqual(expected);
+    } finally {
+      rmSync(fresh, { recursive: true, force: true });
+    }
   }, 120_000);
 
   it('a file read differently (its manifest entry changed, its bytes not) is never served by the file key', async () => {

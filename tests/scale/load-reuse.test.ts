@@ -82,11 +82,22 @@ describe('loadStudy with digests', () => {
 describe('loadAndAnalyse with the analysis cache', () => {
   const dir = join(tmp, 'study');
   const cache = join(tmp, 'cache');
+  let parsed = 0;
   const run = async (analysisCache: string | false) => {
     const got = await loadAndAnalyse(dir, { analysisCache, workers: 0, sourceDateEpoch: 1_700_000_000 });
     expect(got.results).toBeDefined();
+    parsed = got.parsedBytes;
     // SHA-256 of the results JSON: a failure then prints two hashes, not two copies of the results.
     return createHash('sha256').update(JSON.stringify(got.results)).digest('hex');
+  };
+  /** Edit the first reading of a variant (not WT) in a file: its last number × 1.3. */
+  const editReading = (name: string) => {
+    const path = join(dir, name);
+    const lines = readFileSync(path, 'utf8').split('\n');
+    const i = lines.findIndex((l) => /^[A-Z]\d+A,/.test(l));
+    lines[i] = lines[i].replace(/,([0-9.]+)$/, (_m, f: string) => `,${(Number(f) * 1.3).toFixed(3)}`);
+    writeFileSync(path, lines.join('\n'));
+    return Buffer.byteLength(lines.join('\n'));
   };
 
   it('cold, warm (all files left out) and after one file changed: the results of a build without cache', async () => {
@@ -94,16 +105,27 @@ describe('loadAndAnalyse with the analysis cache', () => {
     const reference = await run(false);
     expect(await run(cache)).toBe(reference);
     expect(await run(cache)).toBe(reference);
-    // One turnover reading of a variant edited: its file is read, with the files sharing its batches.
-    const path = join(dir, 'turnover-part2.csv');
-    const text = readFileSync(path, 'utf8');
-    const lines = text.split('\n');
-    const i = lines.findIndex((l) => /^[A-Z]\d+A,/.test(l));
-    lines[i] = lines[i].replace(/,([0-9.]+)$/, (_m, f: string) => `,${(Number(f) * 1.3).toFixed(3)}`);
-    writeFileSync(path, lines.join('\n'));
+    expect(parsed).toBe(0);
+    // One turnover reading of a variant edited: turnover units are cached one by one, so only its
+    // file is read, although its batches have units in other files.
+    const size = editReading('turnover-part2.csv');
     const fresh = await run(false);
     expect(fresh).not.toBe(reference);
     expect(await run(cache)).toBe(fresh);
+    expect(parsed).toBe(size);
+    expect(await run(cache)).toBe(fresh);
+    expect(parsed).toBe(0);
+  }, 180_000);
+
+  it('after one NADH trace changed: the results of a build without cache (its batch is analysed whole)', async () => {
+    // Continues from the study and cache of the test above.
+    const before = await run(cache);
+    const size = editReading('atpase-nadh-part4.csv');
+    const fresh = await run(false);
+    expect(fresh).not.toBe(before);
+    expect(await run(cache)).toBe(fresh);
+    // The files that share its batches are read too: ATPase units need their batch.
+    expect(parsed).toBeGreaterThan(size);
     expect(await run(cache)).toBe(fresh);
   }, 180_000);
 });
