@@ -53,13 +53,15 @@ export interface WorkerReply<O> {
 }
 
 /**
- * Fixed-size pool of workers running `script`; one job in flight per worker, FIFO queue.
+ * Fixed-size pool of workers running `script`; one job in flight per worker, FIFO queues: jobs
+ * run with `later` wait until no other job is queued.
  * Workers start on first use and are unref'd while idle, so a pool never holds the process open.
  */
 export class WorkerPool<I, O> {
   private idle: Worker[] = [];
   private all: Worker[] = [];
   private queue: Job<I, O>[] = [];
+  private laterQueue: Job<I, O>[] = [];
   private running = new Map<Worker, { id: number; job: Job<I, O> }>();
   private nextId = 1;
   private closed = false;
@@ -70,10 +72,10 @@ export class WorkerPool<I, O> {
     private readonly resourceLimits?: ResourceLimits,
   ) {}
 
-  run(input: I): Promise<O> {
+  run(input: I, later = false): Promise<O> {
     if (this.closed) return Promise.reject(new Error('worker pool is closed'));
     return new Promise<O>((resolve, reject) => {
-      this.queue.push({ input, resolve, reject });
+      (later ? this.laterQueue : this.queue).push({ input, resolve, reject });
       this.pump();
     });
   }
@@ -114,11 +116,11 @@ export class WorkerPool<I, O> {
   }
 
   private pump(): void {
-    while (this.queue.length > 0) {
+    while (this.queue.length > 0 || this.laterQueue.length > 0) {
       let w = this.idle.pop();
       if (!w && this.all.length < this.size) w = this.spawn();
       if (!w) break;
-      const job = this.queue.shift() as Job<I, O>;
+      const job = (this.queue.length > 0 ? this.queue.shift() : this.laterQueue.shift()) as Job<I, O>;
       const id = this.nextId++;
       this.running.set(w, { id, job });
       w.ref();
@@ -129,7 +131,7 @@ export class WorkerPool<I, O> {
 
   async close(): Promise<void> {
     this.closed = true;
-    for (const j of this.queue.splice(0)) j.reject(new Error('worker pool closed'));
+    for (const j of [...this.queue.splice(0), ...this.laterQueue.splice(0)]) j.reject(new Error('worker pool closed'));
     await Promise.all(this.all.map((w) => w.terminate()));
     this.all = [];
     this.idle = [];
@@ -151,7 +153,8 @@ export interface CachedBlock {
 }
 
 export interface ChartRenderer {
-  render(spec: ChartSpec, options?: RenderOptions): Promise<string>;
+  /** The SVG of a chart. With `later`, it is drawn when no other chart waits (charts nothing is blocked on). */
+  render(spec: ChartSpec, options?: RenderOptions, later?: boolean): Promise<string>;
   /**
    * A chart block from the cache by its key parts (see blockEntryKey), or made by `make` (which
    * renders through this renderer) and stored. Without a cache, `make` every time.
@@ -185,14 +188,14 @@ export function createChartRenderer(options: ChartRendererOptions = {}): ChartRe
   const pending = new Map<string, Promise<string>>();
   let rendered = 0;
   let cached = 0;
-  const draw = (spec: ChartSpec, opts: RenderOptions) => (pool ? pool.run({ spec, options: opts }) : renderSvg(spec, opts));
+  const draw = (spec: ChartSpec, opts: RenderOptions, later = false) => (pool ? pool.run({ spec, options: opts }, later) : renderSvg(spec, opts));
   return {
-    async render(spec, opts = {}) {
+    async render(spec, opts = {}, later = false) {
       // The id prefix comes from opts.key, or else from the content key: fix it here once.
       const full: RenderOptions = { ...opts, key: opts.key ?? chartKey(spec) };
       if (!cache) {
         rendered++;
-        return draw(spec, full);
+        return draw(spec, full, later);
       }
       const entry = cacheEntryKey(spec, full);
       const inFlight = pending.get(entry);
@@ -202,7 +205,7 @@ export function createChartRenderer(options: ChartRendererOptions = {}): ChartRe
         cached++;
         return hit;
       }
-      const p = draw(spec, full).then((svg) => {
+      const p = draw(spec, full, later).then((svg) => {
         cache.set(entry, svg);
         rendered++;
         return svg;

@@ -74,6 +74,8 @@ export const VARIANT_BATCH = 125;
 interface Prepared {
   slugs: Map<string, string>;
   render: RenderFn | undefined;
+  /** The same, for charts drawn when no other chart waits (the study pages' charts). */
+  renderLater: RenderFn | undefined;
   /** Chart-block cache of the renderer (assay charts found by their input key), if there is a renderer. */
   block: ChartRenderer['block'] | undefined;
   /** Page cache of the renderer, if it has a cache. */
@@ -99,8 +101,9 @@ function prepare(results: StudyResults, options: BuildSiteOptions): Prepared {
   const ownRenderer = options.renderer ? undefined : createSiteRenderer(options);
   const renderer = options.renderer ?? ownRenderer;
   const render: RenderFn | undefined = renderer ? (spec, o) => renderer.render(spec, o) : undefined;
+  const renderLater: RenderFn | undefined = renderer ? (spec, o) => renderer.render(spec, o, true) : undefined;
   const block: ChartRenderer['block'] | undefined = renderer ? (parts, make) => renderer.block(parts, make) : undefined;
-  return { slugs, render, block, pages: renderer?.pages, stats: () => renderer?.stats() ?? { rendered: 0, cached: 0 }, close: async () => ownRenderer?.close() };
+  return { slugs, render, renderLater, block, pages: renderer?.pages, stats: () => renderer?.stats() ?? { rendered: 0, cached: 0 }, close: async () => ownRenderer?.close() };
 }
 
 /**
@@ -197,8 +200,9 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     const total = results.variants.length;
     progress?.('charts', 0, total);
     const frame = studyFrame(results, options, prepared.slugs);
-    // The study pages' charts are drawn while the variant pages are made; they are awaited at the end.
-    const charted = studyCharts(results, prepared.render);
+    // The study pages' charts are drawn while the variant pages are made, whenever no chart of a
+    // variant page waits (the pages' pipeline waits on those); they are awaited at the end.
+    const charted = studyCharts(results, prepared.renderLater);
     charted.catch(() => undefined);
     // What the variant template reads of the site besides its page: Eleventy is given only this,
     // so a page is a function of it, its page data and the templates (the page cache key). The
