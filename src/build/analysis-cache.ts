@@ -41,15 +41,17 @@ import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { DEFAULT_CHART_CACHE } from '../charts/cache.js';
 import type { UnitResult } from '../results/types.js';
+import { rememberUnitDigest, unitDigest } from '../results/unit-digest.js';
 import type { FileDigest, InputKind, RowBase, Study } from '../study/types.js';
 import { codeFingerprint } from '../fingerprint.js';
 import type { LoadReuse, ParsedDigest } from '../study/load.js';
+import type { KnownFiles } from '../study/read-folder.js';
 
 /** Default folder: beside the chart cache, in the user's cache directory. */
 export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
 
 /** Version of the entry format; bump when what is stored changes. */
-const ENTRY_VERSION = 2;
+const ENTRY_VERSION = 3;
 
 export interface CachedAnalysisOptions extends ParallelOptions {
   /** Cache folder, or false for none (then this is analyseUnitsParallel). */
@@ -273,10 +275,15 @@ interface SlotWork {
   save(): void;
 }
 
-/** Stored form of a slot file: every entry's units, and the keys that lead to each. */
+/** Stored form of a slot file: every entry's units with their digests (src/results/unit-digest.ts), and the keys that lead to each. */
 interface SlotFile {
   keys: Array<[key: string, entry: number]>;
-  entries: UnitResult[][];
+  entries: SlotEntry[];
+}
+
+interface SlotEntry {
+  units: UnitResult[];
+  digests: string[];
 }
 
 /**
@@ -298,13 +305,13 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
   }
   const index = new Map(stored?.keys ?? []);
   const used = new Map<number, Set<string>>(); // stored entry → keys it is kept under
-  const made: Array<{ keys: string[]; units: UnitResult[] }> = [];
+  const made: Array<{ keys: string[]; entry: SlotEntry }> = [];
   let changed = false;
   return {
     take(key, alsoKey) {
       const at = index.get(key);
-      const units = at === undefined ? undefined : stored?.entries[at];
-      if (at === undefined || !Array.isArray(units)) return undefined;
+      const entry = at === undefined ? undefined : stored?.entries[at];
+      if (at === undefined || !Array.isArray(entry?.units) || !Array.isArray(entry?.digests) || entry.digests.length !== entry.units.length) return undefined;
       let keys = used.get(at);
       if (!keys) used.set(at, (keys = new Set()));
       keys.add(key);
@@ -312,18 +319,20 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
         keys.add(alsoKey);
         changed = true;
       }
-      return units;
+      // Each unit comes back exactly as stored, so the digest stored beside it is its digest.
+      entry.units.forEach((u, i) => rememberUnitDigest(u, entry.digests[i]));
+      return entry.units;
     },
     put(keys, units) {
-      made.push({ keys, units });
+      made.push({ keys, entry: { units, digests: units.map(unitDigest) } });
       changed = true;
     },
     save() {
       if (!changed) return;
       const out: SlotFile = { keys: [], entries: [] };
-      const add = (keys: Iterable<string>, units: UnitResult[]) => {
+      const add = (keys: Iterable<string>, entry: SlotEntry) => {
         for (const k of keys) out.keys.push([k, out.entries.length]);
-        out.entries.push(units);
+        out.entries.push(entry);
       };
       const byEntry = new Map<number, string[]>();
       for (const [k, at] of index) {
@@ -332,15 +341,15 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
         else byEntry.set(at, [k]);
       }
       // Entries used now keep the keys they had and gain any new one.
-      for (const [at, keys] of used) add(new Set([...(byEntry.get(at) ?? []), ...keys]), stored?.entries[at] as UnitResult[]);
-      for (const e of made) add(e.keys, e.units);
+      for (const [at, keys] of used) add(new Set([...(byEntry.get(at) ?? []), ...keys]), stored?.entries[at] as SlotEntry);
+      for (const e of made) add(e.keys, e.entry);
       // Entries of other runs, up to as many as this run uses.
       const room = used.size + made.length;
       let kept = 0;
       for (const [at, keys] of byEntry) {
         if (kept >= room) break;
         if (used.has(at) || keys.some((k) => made.some((e) => e.keys.includes(k)))) continue;
-        add(keys, stored?.entries[at] as UnitResult[]);
+        add(keys, stored?.entries[at] as SlotEntry);
         kept++;
       }
       store(path, out);
@@ -348,14 +357,29 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
   };
 }
 
+/** Most file identities kept in the known-files record (those of other studies are dropped first). */
+const KNOWN_FILES_MAX = 4096;
+
 /**
  * Digests of input files (src/study/load.ts) kept in the analysis cache folder, so that a
  * rebuild need not parse the files whose batches are all cached: `reuse` for loadStudy, and
  * `save` for the digests of the files it parsed. Keys include the code fingerprint.
+ * `known` records the SHA-256 of files by their identity (src/study/read-folder.ts), so that a
+ * rebuild need not read the files it will not parse; `saveKnown` writes what it learnt.
  */
-export function digestStore(cacheDir?: string): { reuse: LoadReuse; save(parsed: readonly ParsedDigest[]): void } {
+export function digestStore(cacheDir?: string): { reuse: LoadReuse; save(parsed: readonly ParsedDigest[]): void; known: KnownFiles; saveKnown(): void } {
   const dir = resolve(cacheDir ?? DEFAULT_ANALYSIS_CACHE);
   const file = (key: string) => join(dir, key.slice(0, 2), `d${key}.bin`);
+  const knownPath = join(dir, 'known-files.json');
+  let before = new Map<string, string>();
+  try {
+    const list = JSON.parse(readFileSync(knownPath, 'utf8')) as unknown;
+    if (Array.isArray(list)) before = new Map(list.filter((e): e is [string, string] => Array.isArray(e) && typeof e[0] === 'string' && typeof e[1] === 'string'));
+  } catch {
+    // none yet, or unreadable: every file is read
+  }
+  const now = new Map<string, string>();
+  let learnt = false;
   return {
     reuse: {
       context: JSON.stringify([ENTRY_VERSION, codeFingerprint()]),
@@ -370,15 +394,40 @@ export function digestStore(cacheDir?: string): { reuse: LoadReuse; save(parsed:
     save(parsed) {
       for (const p of parsed) store(file(p.key), p.digest);
     },
+    known: {
+      sha256(identity) {
+        const sha = before.get(identity);
+        if (sha !== undefined) now.set(identity, sha);
+        return sha;
+      },
+      record(identity, sha) {
+        now.set(identity, sha);
+        learnt = true;
+      },
+    },
+    saveKnown() {
+      if (!learnt) return;
+      // This build's files first, then those of earlier builds up to the limit.
+      const out = new Map(now);
+      for (const [k, v] of before) {
+        if (out.size >= KNOWN_FILES_MAX) break;
+        if (!out.has(k)) out.set(k, v);
+      }
+      storeText(knownPath, JSON.stringify([...out]));
+    },
   };
 }
 
 /** Write an entry under a temporary name and rename it (best effort: a cache that cannot be written only costs time). */
 function store(path: string, value: SlotFile | FileDigest): void {
+  storeText(path, serialize(value));
+}
+
+function storeText(path: string, data: string | Uint8Array): void {
   try {
     mkdirSync(join(path, '..'), { recursive: true });
     const tmp = `${path}.${process.pid}.tmp`;
-    writeFileSync(tmp, serialize(value));
+    writeFileSync(tmp, data);
     renameSync(tmp, path);
   } catch {
     // read-only or full disk: carry on without caching

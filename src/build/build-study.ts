@@ -72,11 +72,13 @@ export async function loadAndAnalyse(
   hooks: { /** Called once, after the first reading and before analysis, with the bytes of CSV parsed. */ afterLoad?: (parsedBytes: number) => void } = {},
 ): Promise<{ issues: Issue[]; results?: StudyResults; parsedBytes: number }> {
   const phase = options.onPhase ?? (() => {});
-  let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir);
-  phase('check');
   // With the analysis cache, files whose batches are all cached are not parsed (their digests
   // stand in for them); if a batch they hold turns out not to be cached, they are read after all.
+  // Files whose SHA-256 is known by their identity are read only if they are parsed.
   const digests = options.analysisCache === false ? undefined : digestStore(options.analysisCache);
+  let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir, digests ? { known: digests.known } : {});
+  digests?.saveKnown();
+  phase('check');
   const mustRead = new Set<string>();
   let analysing = false;
   const epoch = options.sourceDateEpoch;

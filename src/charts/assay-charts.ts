@@ -3,6 +3,7 @@
  * This file adapts modules to the site's `chartsFor` callback and turns any spec's inline data
  * into a table, so the numbers behind an assay chart are readable without the picture.
  */
+import { unitDigest } from '../results/unit-digest.js';
 import { createHash } from 'node:crypto';
 import type { AssayModule, ChartSpec } from '../assays/types.js';
 import type { StudyResults, UnitResult } from '../results/types.js';
@@ -19,17 +20,6 @@ export interface AssayChart {
    * it shows): equal keys give equal specs for the same code. Lets a cache skip building the spec.
    */
   inputKey?: string;
-}
-
-/** SHA-256 of a unit result's JSON, computed once per unit object (WT units appear in many charts). */
-const unitHashes = new WeakMap<UnitResult, string>();
-function unitHash(u: UnitResult): string {
-  let h = unitHashes.get(u);
-  if (h === undefined) {
-    h = createHash('sha256').update(JSON.stringify(u)).digest('hex');
-    unitHashes.set(u, h);
-  }
-  return h;
 }
 
 export type ChartsFor = (variantId: string) => AssayChart[] | Promise<AssayChart[]>;
@@ -68,7 +58,7 @@ export function chartsFromModules(results: StudyResults, modules: ReadonlyArray<
       let spec: ChartSpec | undefined;
       const build = () => (spec ??= m.chart({ variantLabel: v.short, variantUnits, wtUnits }));
       const inputKey = createHash('sha256')
-        .update(JSON.stringify([m.id, v.short, variantUnits.map(unitHash), wtUnits.map(unitHash)]))
+        .update(JSON.stringify([m.id, v.short, variantUnits.map(unitDigest), wtUnits.map(unitDigest)]))
         .digest('hex');
       const chart: AssayChart = {
         assay: m.id,

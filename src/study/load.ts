@@ -60,6 +60,11 @@ function getFile(files: StudyFiles['files'], path: string): string | Uint8Array 
   return Object.prototype.hasOwnProperty.call(rec, path) ? rec[path] : undefined;
 }
 
+/** Is the file there? (Without getting it: a reader may read a file only when it is got.) */
+function hasFile(files: StudyFiles['files'], path: string): boolean {
+  return files instanceof Map ? files.has(path) : Object.prototype.hasOwnProperty.call(files, path);
+}
+
 /** Digests of files read before, offered to loadStudy. */
 export interface LoadReuse {
   /** Identity of the reading code (e.g. a fingerprint of the source); part of every digest key. */
@@ -162,12 +167,14 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
       if (!readerFlagged.has(jsonPath)) issues.push(issue(MSG.pathOutside(path), { file: manifestPath, jsonPath }));
       continue;
     }
-    const data = getFile(input.files, path);
-    if (data === undefined) {
+    if (!hasFile(input.files, path)) {
       if (!readerFlagged.has(jsonPath)) issues.push(issue(MSG.fileNotFound(path), { file: manifestPath, jsonPath }));
       continue;
     }
-    const sha256 = input.sha256?.get(path) ?? sha256Hex(data);
+    // The bytes are got only when needed: not for a file left out by its digest.
+    const known = input.sha256?.get(path);
+    let data = known === undefined ? (getFile(input.files, path) as string | Uint8Array) : undefined;
+    const sha256 = known ?? sha256Hex(data as string | Uint8Array);
     const settings: Record<string, number | string | boolean> = { decimal: spec.decimal };
     if (spec.pathLengthCm !== undefined) settings.pathLengthCm = spec.pathLengthCm;
     if (spec.pixelSizeUm !== undefined) settings.pixelSizeUm = spec.pixelSizeUm;
@@ -187,6 +194,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
       inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: reused.rowCount, settings });
       continue;
     }
+    data ??= getFile(input.files, path) as string | Uint8Array;
     const decoded = decodeText(data);
     if (!decoded.ok) {
       issues.push(issue(decoded.problem, { file: path, line: decoded.line, col: decoded.col }));

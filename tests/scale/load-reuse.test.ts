@@ -8,11 +8,14 @@ import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { syntheticStudy, writeStudy } from '../../src/bench/synthetic.js';
 import { loadAndAnalyse } from '../../src/build/build-study.js';
 import { type ParsedDigest, loadStudy } from '../../src/study/load.js';
 import type { FileDigest } from '../../src/study/types.js';
+import type { UnitResult } from '../../src/results/types.js';
+import { computeUnitDigest, unitDigest } from '../../src/results/unit-digest.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'myofolio-load-reuse-'));
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
@@ -79,6 +82,8 @@ describe('loadStudy with digests', () => {
   });
 });
 
+const digestsOf = (units: UnitResult[], f: (u: UnitResult) => string) => units.map(f);
+
 describe('loadAndAnalyse with the analysis cache', () => {
   const dir = join(tmp, 'study');
   const cache = join(tmp, 'cache');
@@ -87,6 +92,8 @@ describe('loadAndAnalyse with the analysis cache', () => {
     const got = await loadAndAnalyse(dir, { analysisCache, workers: 0, sourceDateEpoch: 1_700_000_000 });
     expect(got.results).toBeDefined();
     parsed = got.parsedBytes;
+    // Digests remembered for units (from the cache, carried through analyseStudy) are their digests.
+    expect(digestsOf(got.results!.units, unitDigest)).toEqual(digestsOf(got.results!.units, computeUnitDigest));
     // SHA-256 of the results JSON: a failure then prints two hashes, not two copies of the results.
     return createHash('sha256').update(JSON.stringify(got.results)).digest('hex');
   };
@@ -127,5 +134,16 @@ describe('loadAndAnalyse with the analysis cache', () => {
     // The files that share its batches are read too: ATPase units need their batch.
     expect(parsed).toBeGreaterThan(size);
     expect(await run(cache)).toBe(fresh);
+  }, 180_000);
+
+  it('the demo study (one unit excluded in its manifest): remembered unit digests are the units\' digests, cold and warm', async () => {
+    const demoCache = join(tmp, 'demo-cache');
+    const demo = fileURLToPath(new URL('../../data-demo/', import.meta.url));
+    for (let pass = 0; pass < 2; pass++) {
+      const got = await loadAndAnalyse(demo, { analysisCache: demoCache, workers: 0, sourceDateEpoch: 1_700_000_000 });
+      const units = got.results!.units;
+      expect(units.filter((u) => u.excluded).length).toBe(1);
+      expect(digestsOf(units, unitDigest)).toEqual(digestsOf(units, computeUnitDigest));
+    }
   }, 180_000);
 });
