@@ -9,9 +9,10 @@
  * and status-change times in nanoseconds) matches a recorded one gets the recorded SHA-256 and
  * is read only if the loader asks for its bytes (it does not for a file whose digest it has);
  * read then, its SHA-256 must still be the recorded one. The status-change time changes with
- * every write and cannot be set back by a user, so this is the check make and git rely on; a
- * file changed within a few seconds of being read is not recorded (KNOWN_FILE_MIN_AGE_MS), so
- * a coarse file-system clock cannot hide a change.
+ * every write and cannot be set back by a user, so this is the check make and git rely on. A
+ * file changed shortly before it was read is not recorded, so that a second change stamped with
+ * the same time cannot hide: within KNOWN_FILE_MIN_AGE_MS (3 s) when its times are whole
+ * milliseconds (a file system with a coarse clock), within KNOWN_FILE_MIN_AGE_FINE_MS otherwise.
  *
  * Size policy: every file (manifest and CSV) may be at most MAX_INPUT_FILE_BYTES (64 MiB).
  * A file is parsed in memory (text, then rows), which takes several times its size; the limit
@@ -39,6 +40,23 @@ export interface KnownFiles {
 
 /** A file younger than this (modified or its status changed) when read is not recorded in KnownFiles. */
 export const KNOWN_FILE_MIN_AGE_MS = 3000;
+
+/**
+ * The same for a file whose times have sub-millisecond parts (ext4, XFS, Btrfs, APFS: stamps
+ * from a clock that ticks every few milliseconds at most).
+ */
+export const KNOWN_FILE_MIN_AGE_FINE_MS = 100;
+
+/**
+ * May a file with these times be recorded in KnownFiles when read at `nowMs`? Not if it changed
+ * within KNOWN_FILE_MIN_AGE_MS (times in whole milliseconds: a coarse clock) or
+ * KNOWN_FILE_MIN_AGE_FINE_MS (finer times) before; `minAgeMs` overrides both.
+ */
+export function oldEnoughToRecord(st: Pick<BigIntStats, 'mtimeNs' | 'ctimeNs'>, nowMs: number, minAgeMs?: number): boolean {
+  const newestNs = st.mtimeNs > st.ctimeNs ? st.mtimeNs : st.ctimeNs;
+  const fine = st.mtimeNs % 1_000_000n !== 0n && st.ctimeNs % 1_000_000n !== 0n;
+  return nowMs - Number(newestNs / 1_000_000n) >= (minAgeMs ?? (fine ? KNOWN_FILE_MIN_AGE_FINE_MS : KNOWN_FILE_MIN_AGE_MS));
+}
 
 function identity(real: string, st: BigIntStats): string {
   return JSON.stringify([real, String(st.dev), String(st.ino), String(st.size), String(st.mtimeNs), String(st.ctimeNs)]);
@@ -160,8 +178,7 @@ export function readStudyFolder(dir: string, options: { known?: KnownFiles; know
     const got = readRegularFile(real, MAX_INPUT_FILE_BYTES, {
       sha256: (st) => {
         id = identity(real, st);
-        const newest = Number((st.mtimeNs > st.ctimeNs ? st.mtimeNs : st.ctimeNs) / 1_000_000n);
-        young = Date.now() - newest < (options.knownMinAgeMs ?? KNOWN_FILE_MIN_AGE_MS);
+        young = !oldEnoughToRecord(st, Date.now(), options.knownMinAgeMs);
         return known?.sha256(id);
       },
     });

@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { syntheticStudy, writeStudy } from '../../src/bench/synthetic.js';
 import { loadStudy } from '../../src/study/load.js';
-import { type KnownFiles, readStudyFolder } from '../../src/study/read-folder.js';
+import { type KnownFiles, oldEnoughToRecord, readStudyFolder } from '../../src/study/read-folder.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'myofolio-known-files-'));
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
@@ -54,9 +54,22 @@ describe('readStudyFolder with known files', () => {
     expect(lazy.study?.rows).toEqual(whole.study?.rows);
   });
 
-  it('does not record a file changed moments ago (a coarse file-system clock could hide a second change)', () => {
+  it('does not record a file changed shortly before it was read: 3 s on a coarse clock, 100 ms on a fine one', () => {
+    const now = 1_700_000_000_000;
+    const at = (msAgo: number, subMs: bigint) => {
+      const ns = BigInt(now - msAgo) * 1_000_000n + subMs;
+      return { mtimeNs: ns, ctimeNs: ns };
+    };
+    expect(oldEnoughToRecord(at(50, 123_456n), now)).toBe(false);
+    expect(oldEnoughToRecord(at(200, 123_456n), now)).toBe(true);
+    expect(oldEnoughToRecord(at(2_000, 0n), now)).toBe(false);
+    expect(oldEnoughToRecord(at(4_000, 0n), now)).toBe(true);
+    // The newer of the two times counts.
+    expect(oldEnoughToRecord({ mtimeNs: at(10_000, 5n).mtimeNs, ctimeNs: at(20, 5n).ctimeNs }, now)).toBe(false);
+    // Just written: not recorded.
     const m = memoryKnown();
-    readStudyFolder(dir, { known: m.known });
+    appendFileSync(join(dir, paths[0]), '\n');
+    readStudyFolder(dir, { known: m.known, knownMinAgeMs: 60_000 });
     expect(m.record.size).toBe(0);
   });
 
