@@ -3,7 +3,7 @@
  *
  *   study folder ──readStudyFolder──▶ files (bytes, SHA-256)      src/study/read-folder.ts
  *                ──loadStudy───────▶ Study | issues               src/study/load.ts (pure)
- *                ──units per batch─▶ UnitResult[] (cached by batch) src/build/analysis-cache.ts
+ *                ──units per batch─▶ UnitResult[] (cached by batch or unit) src/build/analysis-cache.ts
  *                ──analyseStudy────▶ StudyResults                 src/analysis/analyse-study.ts (pure)
  *                ──buildSite───────▶ pages + SVG charts            src/site/build-site.ts
  *                ──downloads───────▶ results.json, results.csv
@@ -39,8 +39,8 @@ export interface BuildOptions {
   /** Chart SVG cache folder, or false for none (default: the user's cache folder, see src/charts/cache.ts). */
   chartCache?: string | false;
   /**
-   * Per-batch analysis cache folder, or false for none (default: beside the chart cache, see
-   * src/build/analysis-cache.ts): a rebuild re-fits only the batches whose rows changed.
+   * Analysis cache folder, or false for none (default: beside the chart cache, see
+   * src/build/analysis-cache.ts): a rebuild re-fits only the batches or units whose rows changed.
    */
   analysisCache?: string | false;
   /** Worker threads for analysis and charts: 'auto' (default, one per core) or a number (0 = all in this thread). */
