@@ -78,9 +78,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   const qThreshold = study.thresholds.qThreshold ?? STATS.qThreshold;
 
   // 1. Per-unit analysis, then manifest exclusions (kept for display, out of the statistics).
-  // Copies with the same property descriptors: a unit from the analysis cache reads its plot only
-  // when asked (src/build/analysis-cache.ts), and a spread would read every plot here.
-  const units: UnitResult[] = options.units ? options.units.map((u) => Object.defineProperties({}, Object.getOwnPropertyDescriptors(u)) as UnitResult) : [];
+  const units: UnitResult[] = options.units ? options.units.map((u) => ({ ...u })) : [];
   if (!options.units) for (const m of modules) for (const u of m.analyse(study)) units.push(u);
   for (const u of units) {
     const e = study.exclusions.find((x) => matchesExclusion(u, x, variants));

@@ -51,7 +51,7 @@ import type { KnownFiles } from '../study/read-folder.js';
 export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
 
 /** Version of the entry format; bump when what is stored changes. */
-const ENTRY_VERSION = 4;
+const ENTRY_VERSION = 3;
 
 export interface CachedAnalysisOptions extends ParallelOptions {
   /** Cache folder, or false for none (then this is analyseUnitsParallel). */
@@ -281,51 +281,9 @@ interface SlotFile {
   entries: SlotEntry[];
 }
 
-/**
- * One entry: its units with `plot` (the readings and curves the charts draw, most of a unit's
- * bytes) set to null, each plot serialised on its own (null for a unit without one), and each
- * unit's digest.
- */
 interface SlotEntry {
   units: UnitResult[];
-  plots: Array<Uint8Array | null>;
   digests: string[];
-}
-
-/** An entry of units as stored: plots serialised apart (see SlotEntry). */
-function toEntry(units: UnitResult[]): SlotEntry {
-  return {
-    units: units.map((u) => (Object.hasOwn(u, 'plot') ? { ...u, plot: null as unknown as UnitResult['plot'] } : u)),
-    plots: units.map((u) => (Object.hasOwn(u, 'plot') ? serialize(u.plot) : null)),
-    digests: units.map(unitDigest),
-  };
-}
-
-/**
- * The units of a stored entry, each a new object whose `plot` is read from its serialised form
- * each time it is read (in its place among the unit's properties, so its JSON is the stored
- * unit's). Only the charts drawn again and results.json read plots: a rebuild does not hold every
- * plot of the study, and what it reads of them is short-lived garbage.
- */
-function fromEntry(entry: SlotEntry): UnitResult[] {
-  return entry.units.map((stored, i) => {
-    const u = { ...stored };
-    const plot = entry.plots[i];
-    if (plot instanceof Uint8Array) {
-      Object.defineProperty(u, 'plot', {
-        enumerable: true,
-        configurable: true,
-        get: () => deserialize(plot) as UnitResult['plot'],
-        // Assigning a plot makes it a plain property again (of the object assigned to, a copy too).
-        set(this: UnitResult, value: UnitResult['plot']) {
-          Object.defineProperty(this, 'plot', { value, enumerable: true, configurable: true, writable: true });
-        },
-      });
-    }
-    // The unit's JSON is the stored unit's, so the digest stored beside it is its digest.
-    rememberUnitDigest(u, entry.digests[i]);
-    return u;
-  });
 }
 
 /**
@@ -353,7 +311,7 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
     take(key, alsoKey) {
       const at = index.get(key);
       const entry = at === undefined ? undefined : stored?.entries[at];
-      if (at === undefined || !Array.isArray(entry?.units) || entry.digests?.length !== entry.units.length || entry.plots?.length !== entry.units.length) return undefined;
+      if (at === undefined || !Array.isArray(entry?.units) || !Array.isArray(entry?.digests) || entry.digests.length !== entry.units.length) return undefined;
       let keys = used.get(at);
       if (!keys) used.set(at, (keys = new Set()));
       keys.add(key);
@@ -361,10 +319,12 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
         keys.add(alsoKey);
         changed = true;
       }
-      return fromEntry(entry);
+      // Each unit comes back exactly as stored, so the digest stored beside it is its digest.
+      entry.units.forEach((u, i) => rememberUnitDigest(u, entry.digests[i]));
+      return entry.units;
     },
     put(keys, units) {
-      made.push({ keys, entry: toEntry(units) });
+      made.push({ keys, entry: { units, digests: units.map(unitDigest) } });
       changed = true;
     },
     save() {
