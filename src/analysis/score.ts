@@ -121,12 +121,16 @@ export function variantCall(
   }
   const allWithin = measured.every((a) => a.call === 'within WT range');
   const call = combine(dirs, allWithin, measured.length > 0);
+  // How many assays changed is said outright: "hypercontractile across 4 assays" read as if all
+  // four were, when one was and three were within WT range.
+  const n = measured.length;
+  const changed = measured.filter((a) => a.call === HYPER || a.call === HYPO || a.call === 'mixed').length;
+  const count =
+    changed === 0 ? `no change in ${n === 1 ? 'the one assay' : `any of the ${n} assays`} measured` : `a change in ${changed} of ${n} assay${n === 1 ? '' : 's'} measured`;
   const sentence =
     call === 'not measured'
       ? 'No assay measured this variant.'
-      : `${capitalise(call)} across ${measured.length} assay${measured.length === 1 ? '' : 's'}: ${measured
-          .map((a) => `${labels[a.assay] ?? a.assay} ${a.call}`)
-          .join('; ')}.`;
+      : `${capitalise(call)} overall, from ${count}: ${measured.map((a) => `${labels[a.assay] ?? a.assay} ${a.call}`).join('; ')}.`;
   return { call, sentence, readout: readoutOf(call, direction) };
 }
 

@@ -63,6 +63,20 @@ describe('variantCall and readout', () => {
     expect(variantCall([ac('x', 'within WT range'), ac('y', 'within WT range')], {}, 'either').call).toBe('within WT range');
     expect(variantCall([ac('x', 'within WT range'), ac('y', 'indeterminate')], {}, 'either').call).toBe('indeterminate');
   });
+
+  it('says how many of the measured assays changed, not only how many were measured', () => {
+    const labels = { x: 'ATPase', y: 'Motility', z: 'Turnover' };
+    expect(variantCall([ac('x', 'within WT range'), ac('y', 'within WT range'), ac('z', 'hypercontractile'), ac('w', 'not measured')], labels, 'either').sentence).toBe(
+      'Hypercontractile overall, from a change in 1 of 3 assays measured: ATPase within WT range; Motility within WT range; Turnover hypercontractile.',
+    );
+    expect(variantCall([ac('x', 'within WT range'), ac('y', 'within WT range')], labels, 'either').sentence).toBe(
+      'Within WT range overall, from no change in any of the 2 assays measured: ATPase within WT range; Motility within WT range.',
+    );
+    expect(variantCall([ac('x', 'indeterminate')], labels, 'either').sentence).toBe('Indeterminate overall, from no change in the one assay measured: ATPase indeterminate.');
+    expect(variantCall([ac('x', 'hypocontractile'), ac('y', 'hypercontractile')], labels, 'either').sentence).toBe(
+      'Mixed overall, from a change in 2 of 2 assays measured: ATPase hypocontractile; Motility hypercontractile.',
+    );
+  });
   it.each([
     ['hypercontractile', 'hypercontractile', 'abnormal'],
     ['hypocontractile', 'hypercontractile', null],
