@@ -17,7 +17,7 @@
  *         ──merge, in the serial path's order──▶ UnitResult[]
  *
  * Files left out of a study (Study.omitted: their digests stand in for their rows) are keyed by
- * their digests' rows per batch or unit; a group they hold that is not cached by its files sends
+ * their digests' rows per unit; a group they hold that is not cached by its files sends
  * back `needRows` instead of units, and the caller loads those files and asks again. Keeping
  * independent units one by one matters there: a batch's units are often spread over many files,
  * and a changed unit would otherwise have every file of its batch parsed again.
@@ -159,17 +159,10 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     for (const [g, rows] of byGroup) for (const kind of kinds) for (const r of rows[kind] ?? []) addRows(g, r.at.file, 1);
     for (const [path, d] of omitted) {
       if (!kinds.includes(d.kind)) continue;
-      if (m.independentUnits) {
-        for (const [variant, unit, batch, n] of d.unitRows) {
-          const g = group(variant, unit, batch);
-          inBatch(batch, g);
-          addRows(g, path, n);
-        }
-      } else {
-        for (const [batch, n] of d.batchRows) {
-          inBatch(batch, batch);
-          addRows(batch, path, n);
-        }
+      for (const [variant, unit, batch, n] of d.unitRows) {
+        const g = group(variant, unit, batch);
+        inBatch(batch, g);
+        addRows(g, path, n);
       }
     }
     // Hashed once per module; each key continues a copy of it.

@@ -16,7 +16,6 @@
  * digest instead of its rows (Study.omitted), and issues and checks come out the same.
  */
 import { createHash } from 'node:crypto';
-import { unitsInOrder } from '../assays/assay-common.js';
 import { checkExclusionsMatch, checkUnusedVariants, checkWildTypeFacts, wildTypeFacts } from './checks.js';
 import { csvDelimiter, decodeText, scanCsv } from './csv.js';
 import { readManifest } from './manifest.js';
@@ -101,8 +100,6 @@ export function digestVariantsKey(byLabel: ReadonlyMap<string, Variant>, variant
 
 /** A file's digest from its rows as read (see FileDigest). */
 export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: number, issues: Issue[], seen: { variantsSeen: Set<string>; batches: Set<string>; units: Set<string> }, variants: ReadonlyMap<string, Variant>): FileDigest {
-  const batchRows = new Map<string, number>();
-  for (const r of rows) batchRows.set(r.batch, (batchRows.get(r.batch) ?? 0) + 1);
   const unitRows = new Map<string, [string, string, string, number]>();
   let last: [string, string, string, number] | undefined;
   for (const r of rows) {
@@ -122,10 +119,10 @@ export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: 
     variantsSeen: [...seen.variantsSeen],
     batches: [...seen.batches],
     units: [...seen.units],
-    batchRows: [...batchRows],
     unitRows: [...unitRows.values()],
     wildType: wildTypeFacts(rows, variants),
-    unitOrder: unitsInOrder(rows),
+    // The same first appearances as unitsInOrder(rows), from the walk above.
+    unitOrder: [...unitRows.values()].filter(([variant, unit]) => variant !== '' || unit !== '').map(([variant, unit, batch]) => [variant, unit, batch]),
   };
 }
 

@@ -237,8 +237,6 @@ export interface FileDigest {
   variantsSeen: string[];
   batches: string[];
   units: string[];
-  /** Rows kept per batch, in order of first appearance. */
-  batchRows: Array<[batch: string, rows: number]>;
   /** Rows kept per (variant, unit, batch), in order of first appearance; NADH actin-only wells count under variant and unit ''. */
   unitRows: Array<[variant: string, unit: string, batch: string, rows: number]>;
   /** What the WT-per-batch check needs, per batch (see wildTypeFacts in src/study/checks.ts). */
