@@ -12,7 +12,8 @@
  *           content key — context, how those files were read, and the group's rows in order
  *                         (exact; tried when the file key misses)
  *         ──hit──▶ UnitResult[] from the file of its module and batch, <dir>/<ab>/s<hash>.bin
- *                  (v8 serialisation: exact numbers, NaN kept; see openSlot)
+ *                  (v8 serialisation: exact numbers, NaN kept; each plot as its JSON text,
+ *                  parsed only if read: see storedUnit and openSlot)
  *         ──miss──▶ analyseUnitsParallel on a study holding only the missed groups ──▶ stored
  *         ──merge, in the serial path's order──▶ UnitResult[]
  *
@@ -41,6 +42,7 @@ import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { DEFAULT_CHART_CACHE } from '../charts/cache.js';
 import type { UnitResult } from '../results/types.js';
+import { lazyJsonObject, rawJsonOf } from '../results/raw-json.js';
 import { rememberUnitDigest, unitDigest } from '../results/unit-digest.js';
 import type { FileDigest, InputKind, RowBase, Study } from '../study/types.js';
 import { codeFingerprint } from '../fingerprint.js';
@@ -51,7 +53,7 @@ import type { KnownFiles } from '../study/read-folder.js';
 export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
 
 /** Version of the entry format; bump when what is stored changes. */
-const ENTRY_VERSION = 3;
+const ENTRY_VERSION = 4;
 
 export interface CachedAnalysisOptions extends ParallelOptions {
   /** Cache folder, or false for none (then this is analyseUnitsParallel). */
@@ -275,8 +277,32 @@ interface SlotFile {
 }
 
 interface SlotEntry {
-  units: UnitResult[];
+  units: StoredUnit[];
   digests: string[];
+}
+
+/**
+ * A unit as stored: its plot as JSON text (a string where the plot was), with the plot's keys in
+ * order, where that text gives back exactly the plot (no null in it: JSON writes NaN, ±Infinity
+ * and undefined array elements as null); else the plot itself. A rebuild reads every unit of the
+ * study but draws the charts of a few variants only: a plot kept as text is one string to read
+ * instead of many small objects, and results.json copies the text (src/results/raw-json.ts).
+ */
+type StoredUnit = Omit<UnitResult, 'plot'> & { plot: UnitResult['plot'] | string; plotKeys?: string[] };
+
+function storedUnit(u: UnitResult): StoredUnit {
+  const plot = u.plot as unknown;
+  if (plot === null || typeof plot !== 'object' || Array.isArray(plot)) return u;
+  const text = rawJsonOf(plot) ?? JSON.stringify(plot);
+  if (text.includes('null')) return u;
+  // The plot's value is replaced where it stands, so the unit's keys keep their order.
+  return { ...u, plot: text, plotKeys: Object.keys(plot) };
+}
+
+function unitFromStored(s: StoredUnit): UnitResult {
+  if (typeof s.plot !== 'string') return s as UnitResult;
+  const { plotKeys, ...rest } = s;
+  return { ...rest, plot: lazyJsonObject<UnitResult['plot']>(plotKeys ?? [], s.plot) };
 }
 
 /**
@@ -299,6 +325,7 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
   const index = new Map(stored?.keys ?? []);
   const used = new Map<number, Set<string>>(); // stored entry → keys it is kept under
   const made: Array<{ keys: string[]; entry: SlotEntry }> = [];
+  const read = new Map<number, UnitResult[]>(); // stored entry → its units as taken
   let changed = false;
   return {
     take(key, alsoKey) {
@@ -312,12 +339,17 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
         keys.add(alsoKey);
         changed = true;
       }
-      // Each unit comes back exactly as stored, so the digest stored beside it is its digest.
-      entry.units.forEach((u, i) => rememberUnitDigest(u, entry.digests[i]));
-      return entry.units;
+      let units = read.get(at);
+      if (!units) {
+        // Each unit comes back with the JSON it was stored with, so the digest stored beside it is its digest.
+        units = entry.units.map(unitFromStored);
+        units.forEach((u, i) => rememberUnitDigest(u, entry.digests[i]));
+        read.set(at, units);
+      }
+      return units;
     },
     put(keys, units) {
-      made.push({ keys, entry: { units, digests: units.map(unitDigest) } });
+      made.push({ keys, entry: { units: units.map(storedUnit), digests: units.map(unitDigest) } });
       changed = true;
     },
     save() {

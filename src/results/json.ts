@@ -5,9 +5,12 @@
  * length"), and a single string that size would double the build's peak memory.
  *
  * Top-level arrays are written element by element, everything else with JSON.stringify; the
- * text goes out through a buffer in chunks of about CHUNK_BYTES.
+ * text goes out through a buffer in chunks of about CHUNK_BYTES. An element's properties that
+ * keep their JSON text (units' plots from the analysis cache, src/results/raw-json.ts) are
+ * copied as that text.
  */
 import { closeSync, openSync, writeSync } from 'node:fs';
+import { stringifyKeepingRaw } from './raw-json.js';
 
 /** Bytes collected before a write to the file. */
 const CHUNK_BYTES = 1 << 20;
@@ -47,7 +50,7 @@ export function writeJsonStreamed(file: string, value: Record<string, unknown>):
     for (const [key, v] of Object.entries(value)) {
       if (Array.isArray(v)) {
         out.write(`${first ? '' : ','}${JSON.stringify(key)}:[`);
-        v.forEach((item, i) => out.write((i > 0 ? ',' : '') + (JSON.stringify(item) ?? 'null')));
+        v.forEach((item, i) => out.write((i > 0 ? ',' : '') + (stringifyKeepingRaw(item) ?? 'null')));
         out.write(']');
       } else {
         const text = JSON.stringify(v);

@@ -16,6 +16,8 @@ import { type ParsedDigest, loadStudy } from '../../src/study/load.js';
 import type { FileDigest } from '../../src/study/types.js';
 import type { UnitResult } from '../../src/results/types.js';
 import { computeUnitDigest, unitDigest } from '../../src/results/unit-digest.js';
+import { writeJsonStreamed } from '../../src/results/json.js';
+import { rawJsonOf } from '../../src/results/raw-json.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'myofolio-load-reuse-'));
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
@@ -88,14 +90,24 @@ describe('loadAndAnalyse with the analysis cache', () => {
   const dir = join(tmp, 'study');
   const cache = join(tmp, 'cache');
   let parsed = 0;
+  let textPlots = 0;
+  let unitCount = 0;
   const run = async (analysisCache: string | false) => {
     const got = await loadAndAnalyse(dir, { analysisCache, workers: 0, sourceDateEpoch: 1_700_000_000 });
     expect(got.results).toBeDefined();
     parsed = got.parsedBytes;
+    // results.json as the build writes it (plots of cached units copied from their stored text,
+    // before anything parses them) is JSON.stringify of the results.
+    const file = join(tmp, 'results.json');
+    writeJsonStreamed(file, got.results as never);
+    const written = readFileSync(file, 'utf8');
     // Digests remembered for units (from the cache, carried through analyseStudy) are their digests.
     expect(digestsOf(got.results!.units, unitDigest)).toEqual(digestsOf(got.results!.units, computeUnitDigest));
+    expect(written === `${JSON.stringify(got.results)}\n`).toBe(true);
+    textPlots = got.results!.units.filter((u) => rawJsonOf(u.plot) !== undefined).length;
+    unitCount = got.results!.units.length;
     // SHA-256 of the results JSON: a failure then prints two hashes, not two copies of the results.
-    return createHash('sha256').update(JSON.stringify(got.results)).digest('hex');
+    return createHash('sha256').update(written).digest('hex');
   };
   /** Edit the first reading of a variant (not WT) in a file: its last number × 1.3. */
   const editReading = (name: string) => {
@@ -122,6 +134,8 @@ describe('loadAndAnalyse with the analysis cache', () => {
     expect(await run(cache)).toBe(reference);
     expect(await run(cache)).toBe(reference);
     expect(parsed).toBe(0);
+    // Every unit came from the cache with its plot as text (its plot has no null).
+    expect(textPlots).toBe(unitCount);
     // One turnover reading of a variant edited: turnover units are cached one by one, so only its
     // file is read, although its batches have units in other files.
     const { size, fresh } = await editAndCompare('turnover-part2.csv');
