@@ -13,7 +13,7 @@
  *                         (exact; tried when the file key misses)
  *         ──hit──▶ UnitResult[] from the file of its module and batch, <dir>/<ab>/s<hash>.bin
  *                  (v8 serialisation: exact numbers, NaN kept; each plot as its JSON text,
- *                  parsed only if read: see storedUnit and openSlot)
+ *                  parsed only if read: see StoredUnit and openSlot)
  *         ──miss──▶ analyseUnitsParallel on a study holding only the missed groups ──▶ stored
  *         ──merge, in the serial path's order──▶ UnitResult[]
  *
@@ -53,7 +53,7 @@ import type { KnownFiles } from '../study/read-folder.js';
 export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
 
 /** Version of the entry format; bump when what is stored changes. */
-const ENTRY_VERSION = 4;
+const ENTRY_VERSION = 5;
 
 export interface CachedAnalysisOptions extends ParallelOptions {
   /** Cache folder, or false for none (then this is analyseUnitsParallel). */
@@ -270,7 +270,11 @@ interface SlotWork {
   save(): void;
 }
 
-/** Stored form of a slot file: every entry's units with their digests (src/results/unit-digest.ts), and the keys that lead to each. */
+/**
+ * Stored form of a slot file: every entry's units with their digests (src/results/unit-digest.ts),
+ * and the keys that lead to each. On disk: the byte length of the v8-serialised SlotFile (uint32,
+ * little-endian), the SlotFile, then the plots' JSON (UTF-8) one after another (see StoredUnit).
+ */
 interface SlotFile {
   keys: Array<[key: string, entry: number]>;
   entries: SlotEntry[];
@@ -282,27 +286,85 @@ interface SlotEntry {
 }
 
 /**
- * A unit as stored: its plot as JSON text (a string where the plot was), with the plot's keys in
- * order, where that text gives back exactly the plot (no null in it: JSON writes NaN, ±Infinity
- * and undefined array elements as null); else the plot itself. A rebuild reads every unit of the
- * study but draws the charts of a few variants only: a plot kept as text is one string to read
- * instead of many small objects, and results.json copies the text (src/results/raw-json.ts).
+ * A unit as stored: with `plotKeys` (the plot's keys in order), its plot is JSON text whose
+ * place in the file's plot bytes is `plot` ([start, length]); without, `plot` is the plot itself
+ * (a plot whose JSON holds a null: JSON writes NaN, ±Infinity and undefined array elements as
+ * null, so that text would not give the plot back). A rebuild reads every unit of the study but
+ * draws the charts of a few variants only: a plot left as bytes of the file is parsed only if
+ * read, and results.json copies the bytes (src/results/raw-json.ts).
  */
-type StoredUnit = Omit<UnitResult, 'plot'> & { plot: UnitResult['plot'] | string; plotKeys?: string[] };
+type StoredUnit = Omit<UnitResult, 'plot'> & { plot: UnitResult['plot'] | [start: number, length: number]; plotKeys?: string[] };
 
-function storedUnit(u: UnitResult): StoredUnit {
-  const plot = u.plot as unknown;
-  if (plot === null || typeof plot !== 'object' || Array.isArray(plot)) return u;
-  const text = rawJsonOf(plot) ?? JSON.stringify(plot);
-  if (text.includes('null')) return u;
-  // The plot's value is replaced where it stands, so the unit's keys keep their order.
-  return { ...u, plot: text, plotKeys: Object.keys(plot) };
+/** Bytes of the file's header length field. */
+const HEADER_LENGTH_BYTES = 4;
+
+/** A slot file's parts, or undefined when it is not one (missing, unreadable, of an older layout, or with plots out of range). */
+function readSlot(path: string): { file: SlotFile; plots: Buffer } | undefined {
+  try {
+    const buf = readFileSync(path);
+    const n = buf.readUInt32LE(0);
+    const end = HEADER_LENGTH_BYTES + n;
+    if (end > buf.length) return undefined;
+    const file = deserialize(buf.subarray(HEADER_LENGTH_BYTES, end)) as SlotFile;
+    if (!Array.isArray(file?.keys) || !Array.isArray(file?.entries)) return undefined;
+    const plots = buf.subarray(end);
+    for (const e of file.entries) {
+      for (const u of Array.isArray(e?.units) ? e.units : []) {
+        if (!u?.plotKeys) continue;
+        const [start, length] = Array.isArray(u.plot) ? u.plot : [NaN, NaN];
+        if (!Number.isInteger(start) || !Number.isInteger(length) || start < 0 || length < 0 || start + length > plots.length) return undefined;
+      }
+    }
+    return { file, plots };
+  } catch {
+    return undefined;
+  }
 }
 
-function unitFromStored(s: StoredUnit): UnitResult {
-  if (typeof s.plot !== 'string') return s as UnitResult;
+/** Write a slot file: units made now (UnitResult) get their plot's JSON written, stored ones have theirs copied from `oldPlots`. */
+function writeSlot(path: string, entries: Array<{ keys: Iterable<string>; units: Array<StoredUnit | UnitResult>; digests: string[]; stored: boolean }>, oldPlots: Buffer | undefined): void {
+  const out: SlotFile = { keys: [], entries: [] };
+  const chunks: Uint8Array[] = [];
+  let offset = 0;
+  const place = (bytes: Uint8Array): [number, number] => {
+    chunks.push(bytes);
+    offset += bytes.byteLength;
+    return [offset - bytes.byteLength, bytes.byteLength];
+  };
+  const storedForm = (u: StoredUnit | UnitResult, stored: boolean): StoredUnit => {
+    if (stored) {
+      const s = u as StoredUnit;
+      if (!s.plotKeys || !oldPlots) return s;
+      const [start, length] = s.plot as [number, number];
+      return { ...s, plot: place(oldPlots.subarray(start, start + length)) };
+    }
+    const plot = u.plot as unknown;
+    if (plot === null || typeof plot !== 'object' || Array.isArray(plot)) return u;
+    let bytes = rawJsonOf(plot);
+    if (!bytes) {
+      const text = JSON.stringify(plot);
+      if (text.includes('null')) return u;
+      bytes = Buffer.from(text, 'utf8');
+    }
+    // The plot's value is replaced where it stands, so the unit's keys keep their order.
+    return { ...u, plot: place(bytes), plotKeys: Object.keys(plot) };
+  };
+  for (const e of entries) {
+    for (const k of e.keys) out.keys.push([k, out.entries.length]);
+    out.entries.push({ units: e.units.map((u) => storedForm(u, e.stored)), digests: e.digests });
+  }
+  const header = serialize(out);
+  const length = Buffer.alloc(HEADER_LENGTH_BYTES);
+  length.writeUInt32LE(header.length, 0);
+  storeText(path, Buffer.concat([length, header, ...chunks]));
+}
+
+/** A stored unit as a UnitResult: a plot kept as JSON is read from `plots` when first read. */
+function unitFromStored(s: StoredUnit, plots: Buffer): UnitResult {
+  if (!s.plotKeys) return s as UnitResult;
   const { plotKeys, ...rest } = s;
-  return { ...rest, plot: lazyJsonObject<UnitResult['plot']>(plotKeys ?? [], s.plot) };
+  const [start, length] = s.plot as [number, number];
+  return { ...rest, plot: lazyJsonObject<UnitResult['plot']>(plotKeys, plots.subarray(start, start + length)) };
 }
 
 /**
@@ -315,23 +377,18 @@ function unitFromStored(s: StoredUnit): UnitResult {
 function openSlot(dir: string, context: string, moduleId: string, batch: string): SlotWork {
   const name = createHash('sha256').update(context).update('\0').update(moduleId).update('\0').update(batch).digest('hex');
   const path = join(dir, name.slice(0, 2), `s${name}.bin`);
-  let stored: SlotFile | undefined;
-  try {
-    stored = deserialize(readFileSync(path)) as SlotFile;
-    if (!Array.isArray(stored?.keys) || !Array.isArray(stored?.entries)) stored = undefined;
-  } catch {
-    stored = undefined;
-  }
+  const slot = readSlot(path);
+  const stored = slot?.file;
   const index = new Map(stored?.keys ?? []);
   const used = new Map<number, Set<string>>(); // stored entry → keys it is kept under
-  const made: Array<{ keys: string[]; entry: SlotEntry }> = [];
+  const made: Array<{ keys: string[]; units: UnitResult[]; digests: string[] }> = [];
   const read = new Map<number, UnitResult[]>(); // stored entry → its units as taken
   let changed = false;
   return {
     take(key, alsoKey) {
       const at = index.get(key);
       const entry = at === undefined ? undefined : stored?.entries[at];
-      if (at === undefined || !Array.isArray(entry?.units) || !Array.isArray(entry?.digests) || entry.digests.length !== entry.units.length) return undefined;
+      if (at === undefined || !slot || !Array.isArray(entry?.units) || !Array.isArray(entry?.digests) || entry.digests.length !== entry.units.length) return undefined;
       let keys = used.get(at);
       if (!keys) used.set(at, (keys = new Set()));
       keys.add(key);
@@ -342,42 +399,42 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
       let units = read.get(at);
       if (!units) {
         // Each unit comes back with the JSON it was stored with, so the digest stored beside it is its digest.
-        units = entry.units.map(unitFromStored);
+        units = entry.units.map((u) => unitFromStored(u, slot.plots));
         units.forEach((u, i) => rememberUnitDigest(u, entry.digests[i]));
         read.set(at, units);
       }
       return units;
     },
     put(keys, units) {
-      made.push({ keys, entry: { units: units.map(storedUnit), digests: units.map(unitDigest) } });
+      made.push({ keys, units, digests: units.map(unitDigest) });
       changed = true;
     },
     save() {
       if (!changed) return;
-      const out: SlotFile = { keys: [], entries: [] };
-      const add = (keys: Iterable<string>, entry: SlotEntry) => {
-        for (const k of keys) out.keys.push([k, out.entries.length]);
-        out.entries.push(entry);
-      };
+      const out: Parameters<typeof writeSlot>[1] = [];
       const byEntry = new Map<number, string[]>();
       for (const [k, at] of index) {
         const keys = byEntry.get(at);
         if (keys) keys.push(k);
         else byEntry.set(at, [k]);
       }
+      const storedEntry = (at: number, keys: Iterable<string>) => {
+        const e = stored?.entries[at] as SlotEntry;
+        out.push({ keys, units: e.units, digests: e.digests, stored: true });
+      };
       // Entries used now keep the keys they had and gain any new one.
-      for (const [at, keys] of used) add(new Set([...(byEntry.get(at) ?? []), ...keys]), stored?.entries[at] as SlotEntry);
-      for (const e of made) add(e.keys, e.entry);
+      for (const [at, keys] of used) storedEntry(at, new Set([...(byEntry.get(at) ?? []), ...keys]));
+      for (const e of made) out.push({ keys: e.keys, units: e.units, digests: e.digests, stored: false });
       // Entries of other runs, up to as many as this run uses.
       const room = used.size + made.length;
       let kept = 0;
       for (const [at, keys] of byEntry) {
         if (kept >= room) break;
         if (used.has(at) || keys.some((k) => made.some((e) => e.keys.includes(k)))) continue;
-        add(keys, stored?.entries[at] as SlotEntry);
+        storedEntry(at, keys);
         kept++;
       }
-      store(path, out);
+      writeSlot(path, out, slot?.plots);
     },
   };
 }
@@ -444,7 +501,7 @@ export function digestStore(cacheDir?: string): { reuse: LoadReuse; save(parsed:
 }
 
 /** Write an entry under a temporary name and rename it (best effort: a cache that cannot be written only costs time). */
-function store(path: string, value: SlotFile | FileDigest): void {
+function store(path: string, value: FileDigest): void {
   storeText(path, serialize(value));
 }
 

@@ -6,29 +6,36 @@
  *
  * Top-level arrays are written element by element, everything else with JSON.stringify; the
  * text goes out through a buffer in chunks of about CHUNK_BYTES. An element's properties that
- * keep their JSON text (units' plots from the analysis cache, src/results/raw-json.ts) are
- * copied as that text.
+ * keep their JSON bytes (units' plots from the analysis cache, src/results/raw-json.ts) are
+ * copied as those bytes.
  */
 import { closeSync, openSync, writeSync } from 'node:fs';
-import { stringifyKeepingRaw } from './raw-json.js';
+import { jsonPieces } from './raw-json.js';
 
 /** Bytes collected before a write to the file. */
 const CHUNK_BYTES = 1 << 20;
 
-/** A sink that collects text and writes it to `fd` in chunks. */
+/** A sink that collects text and bytes (UTF-8) and writes them to `fd` in chunks. */
 function chunkedWriter(fd: number) {
-  let parts: string[] = [];
+  let parts: Array<string | Uint8Array> = [];
   let size = 0;
+  let bytes = false;
   const flush = () => {
     if (parts.length === 0) return;
-    writeSync(fd, parts.join(''));
+    if (bytes) writeSync(fd, Buffer.concat(parts.map((p) => (typeof p === 'string' ? Buffer.from(p, 'utf8') : p))));
+    else writeSync(fd, (parts as string[]).join(''));
     parts = [];
     size = 0;
+    bytes = false;
   };
   return {
-    write(text: string) {
-      parts.push(text);
-      size += text.length;
+    write(piece: string | Uint8Array) {
+      parts.push(piece);
+      if (typeof piece === 'string') size += piece.length;
+      else {
+        size += piece.byteLength;
+        bytes = true;
+      }
       if (size >= CHUNK_BYTES) flush();
     },
     flush,
@@ -50,7 +57,12 @@ export function writeJsonStreamed(file: string, value: Record<string, unknown>):
     for (const [key, v] of Object.entries(value)) {
       if (Array.isArray(v)) {
         out.write(`${first ? '' : ','}${JSON.stringify(key)}:[`);
-        v.forEach((item, i) => out.write((i > 0 ? ',' : '') + (stringifyKeepingRaw(item) ?? 'null')));
+        v.forEach((item, i) => {
+          if (i > 0) out.write(',');
+          const pieces = jsonPieces(item);
+          if (pieces === undefined) out.write('null');
+          else for (const p of pieces) out.write(p);
+        });
         out.write(']');
       } else {
         const text = JSON.stringify(v);

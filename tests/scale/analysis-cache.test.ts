@@ -4,7 +4,7 @@
  * one unit's rows changed re-analyses that unit (or that batch) of that assay only.
  * Study: the benchmark generator's (synthetic, invented values).
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -130,6 +130,24 @@ describe('analyseUnitsCached', () => {
     const got = await analyseUnitsCached(reread, ASSAYS, { cacheDir: dir, workers: 0 });
     expect(got.batches.analysed).toBeGreaterThan(0);
     expect(got.units).toEqual(serial(reread));
+  }, 120_000);
+
+  it('a damaged cache file counts as missing: its batches are analysed again, same units', async () => {
+    const damaged = join(dir, 'damaged');
+    await analyseUnitsCached(study, ASSAYS, { cacheDir: damaged, workers: 0 });
+    const slots = readdirSync(damaged, { recursive: true, encoding: 'utf8' }).filter((f) => /(^|\/)s[0-9a-f]+\.bin$/.test(f)).sort();
+    expect(slots.length).toBeGreaterThan(3);
+    // Cut short in its plot bytes; cut short in its header; a header length past the end; empty.
+    const cuts = [(b: Buffer) => b.subarray(0, b.length - 5), (b: Buffer) => b.subarray(0, 12), (b: Buffer) => Buffer.concat([Buffer.from([0xff, 0xff, 0xff, 0x7f]), b.subarray(4)]), () => Buffer.alloc(0)];
+    cuts.forEach((cut, i) => {
+      const file = join(damaged, slots[i]);
+      writeFileSync(file, cut(readFileSync(file)));
+    });
+    const again = await analyseUnitsCached(study, ASSAYS, { cacheDir: damaged, workers: 0 });
+    expect(again.batches.analysed).toBeGreaterThanOrEqual(cuts.length);
+    expect(again.units).toEqual(expected);
+    // Written again whole: the next run takes everything from the cache.
+    expect((await analyseUnitsCached(study, ASSAYS, { cacheDir: damaged, workers: 0 })).batches.analysed).toBe(0);
   }, 120_000);
 
   it('a changed setting misses every batch; no cache folder means no cache', async () => {
