@@ -156,10 +156,13 @@ export interface ChartRenderer {
   /** The SVG of a chart. With `later`, it is drawn when no other chart waits (charts nothing is blocked on). */
   render(spec: ChartSpec, options?: RenderOptions, later?: boolean): Promise<string>;
   /**
-   * A chart block from the cache by its key parts (see blockEntryKey), or made by `make` (which
-   * renders through this renderer) and stored. Without a cache, `make` every time.
+   * A chart block from the cache by its key parts (see blockEntryKey), or made by `make` and
+   * stored. Without a cache, `make` every time. `make` draws with the function it is given: this
+   * renderer without its SVG cache, as the block stores the SVG already (hashing every spec for
+   * an SVG entry that only a block miss with an unchanged spec could use cost seconds per
+   * thousand variants on a cold build).
    */
-  block(keyParts: readonly string[], make: () => Promise<CachedBlock>): Promise<CachedBlock>;
+  block(keyParts: readonly string[], make: (draw: DrawFn) => Promise<CachedBlock>): Promise<CachedBlock>;
   /**
    * Whole pages kept in the cache by a key of everything they are made from (see
    * src/site/build-site.ts and ChartCache.fetchPage/keepPage). Absent without a cache.
@@ -174,6 +177,9 @@ export interface ChartRenderer {
   stats(): { rendered: number; cached: number };
   close(): Promise<void>;
 }
+
+/** Draws one chart: the SVG for a spec and its render options. */
+export type DrawFn = (spec: ChartSpec, options: RenderOptions) => Promise<string>;
 
 interface RenderJob {
   spec: ChartSpec;
@@ -218,7 +224,12 @@ export function createChartRenderer(options: ChartRendererOptions = {}): ChartRe
       }
     },
     async block(keyParts, make) {
-      if (!cache) return make();
+      // Drawn without the SVG cache, counted as drawn.
+      const drawCounted: DrawFn = (spec, opts) => {
+        rendered++;
+        return draw(spec, { ...opts, key: opts.key ?? chartKey(spec) });
+      };
+      if (!cache) return make(drawCounted);
       const entry = blockEntryKey(keyParts);
       const hit = cache.get(entry, 'json');
       if (hit !== undefined) {
@@ -230,7 +241,7 @@ export function createChartRenderer(options: ChartRendererOptions = {}): ChartRe
           // unreadable entry: make it again
         }
       }
-      const block = await make();
+      const block = await make(drawCounted);
       cache.set(entry, JSON.stringify(block), 'json');
       return block;
     },

@@ -150,9 +150,9 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
           .filter((c) => c.assay === a.id)
           .map(async (c, i): Promise<ChartBlock> => {
             const key = `assay:${v.id}:${a.id}:${i}`;
-            const make = async () => {
+            const make = async (draw: RenderFn | undefined) => {
               const description = c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`;
-              const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], render);
+              const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], draw);
               return { svg: b.svg, description: b.description, table: b.table };
             };
             const id = `chart-${slug(key)}`;
@@ -168,7 +168,7 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
               // A chart whose inputs are unchanged comes whole from the block cache: no spec is built.
               return { id, title: c.title, ...(await block(parts, make)) };
             }
-            return { id, title: c.title, ...(await make()) };
+            return { id, title: c.title, ...(await make(render)) };
           }),
       );
       assays.push({

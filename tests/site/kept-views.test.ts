@@ -28,12 +28,13 @@ async function siteSpecs(): Promise<ChartSpec[]> {
   const study = loadStudy({ manifest: JSON.stringify(s.manifest), files: s.files }).study!;
   const results = analyseStudy(study, { toolVersion: 'test', builtAt: '2025-01-01T00:00:00Z' });
   const specs: ChartSpec[] = [];
+  const record = async (spec: ChartSpec) => {
+    specs.push(drawnSpec(spec));
+    return '<svg></svg>';
+  };
   const recorder: ChartRenderer = {
-    render: async (spec) => {
-      specs.push(drawnSpec(spec));
-      return '<svg></svg>';
-    },
-    block: (_parts, make) => make(),
+    render: record,
+    block: (_parts, make) => make(record),
     start: () => undefined,
     stats: () => ({ rendered: specs.length, cached: 0 }),
     close: async () => undefined,
