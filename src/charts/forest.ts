@@ -3,6 +3,7 @@
  * its WT-like band. Ratio metrics (variant/WT) share a log axis with a reference line at 1;
  * difference metrics (variant − WT) get their own linear panel with a reference line at 0.
  */
+import { createHash } from 'node:crypto';
 import { groupBy } from '../assays/assay-common.js';
 import type { MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
 import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel, shortMetricLabel } from './chart-def.js';
@@ -82,6 +83,31 @@ function comparisonsOf(results: StudyResults, variantId: string): MetricComparis
   return index.get(variantId) ?? [];
 }
 
+/** JSON of the study's assay and metric definitions (the plot's labels come from them), once per results object. */
+const assaysJson = new WeakMap<StudyResults, string>();
+
+/**
+ * Content key of everything forestChart(results, variant, name) reads: the name, the variant's
+ * comparisons and the study's assay and metric definitions (SHA-256, hex). Equal keys give equal
+ * charts for the same code, so a cache can find the chart without building its spec. Undefined
+ * when forestChart gives null (no estimable comparison).
+ */
+export function forestInputKey(results: StudyResults, variant: VariantResult, name: string): string | undefined {
+  const comps = comparisonsOf(results, variant.id);
+  if (!comps.some((c) => c.effect !== null && Number.isFinite(c.effect))) return undefined;
+  let assays = assaysJson.get(results);
+  if (assays === undefined) {
+    assays = JSON.stringify(results.assays);
+    assaysJson.set(results, assays);
+  }
+  return createHash('sha256').update(JSON.stringify(['forest', variant.id, name, comps])).update('\0').update(assays).digest('hex');
+}
+
+/** Title of a variant's forest plot. */
+export function forestTitle(name: string): string {
+  return `Normalised metrics of ${name} against paired WT`;
+}
+
 /** Forest plot of one variant, or null when it has no estimable comparison. */
 export function forestChart(results: StudyResults, variant: VariantResult, name: string): ChartDef | null {
   const comps = comparisonsOf(results, variant.id);
@@ -101,7 +127,7 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
   const calls = [...new Set(estimable.map((c) => c.call))];
   const params: Param[] = [];
   const panels = [...(ratio.length ? [panel(ratio, 'ratio', calls, params)] : []), ...(diff.length ? [panel(diff, 'difference', calls, params)] : [])];
-  const title = `Normalised metrics of ${name} against paired WT`;
+  const title = forestTitle(name);
   const spec = {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     title,

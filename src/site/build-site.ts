@@ -247,7 +247,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
           keys.push(key);
         }
       }
-      await Promise.all(render.flatMap((p) => p.assays.flatMap((a) => a.charts.map((c) => c.fill?.()))));
+      await Promise.all(render.flatMap((p) => [p.forest?.fill?.(), ...p.assays.flatMap((a) => a.charts.map((c) => c.fill?.()))]));
       return { render, keys, found };
     };
     const batches: VariantResult[][] = [];

@@ -1,7 +1,7 @@
 /** Data for the index table and the per-variant reports. */
 import { type ChartsFor, drawnSpec, specTable } from '../charts/assay-charts.js';
 import { fmt, fmtCi, fmtP, variantNames } from '../charts/chart-def.js';
-import { forestChart } from '../charts/forest.js';
+import { forestChart, forestInputKey, forestTitle } from '../charts/forest.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
 import { type CalibrationView, type CallView, type ChartBlock, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
 import { fmtCalibration } from './view-study.js';
@@ -134,6 +134,30 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
   const position = new Map(results.variants.map((v, i) => [v.id, i]));
   const link = (q: VariantResult | undefined) => (q ? { name: names.get(q.id) ?? q.short, href: PATHS.variant(slugs.get(q.id) as string) } : null);
   let done = 0;
+  /**
+   * The variant's forest plot, as the assay charts: from the block cache by its inputs when there
+   * is one (left to load with lazyBlocks), else built and drawn.
+   */
+  const forestBlock = async (v: VariantResult, name: string): Promise<ChartBlock | null> => {
+    const drawn = async (draw: RenderFn | undefined) => (await renderBlocks([forestChart(results, v, name)], draw))[0] ?? null;
+    const inputKey = options.block ? forestInputKey(results, v, name) : undefined;
+    if (!options.block || inputKey === undefined) return drawn(render);
+    const block = options.block;
+    const key = `forest:${v.id}`;
+    const title = forestTitle(name);
+    const parts = [inputKey, key, title];
+    const make = async (draw: RenderFn) => {
+      const b = (await drawn(draw)) as ChartBlock;
+      return { svg: b.svg, description: b.description, table: b.table };
+    };
+    const id = `chart-${slug(key)}`;
+    if (options.lazyBlocks) {
+      const chart: ChartBlock = { id, title, description: '', svg: '', table: { columns: [], rows: [] }, blockKey: blockEntryKey(parts) };
+      Object.defineProperty(chart, 'fill', { enumerable: false, value: async () => Object.assign(chart, await block(parts, make)) });
+      return chart;
+    }
+    return { id, title, ...(await block(parts, make)) };
+  };
   return (subset) => mapLimit(subset, options.concurrency ?? 8, async (v): Promise<VariantPage> => {
     const name = names.get(v.id) ?? v.short;
     const extra = chartsFor ? await chartsFor(v.id) : [];
@@ -220,7 +244,7 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
       lines.set(s.file, list);
     }
     const cal = results.calibration.find((c) => c.scope === v.evidence.scope);
-    const forest = (await renderBlocks([forestChart(results, v, name)], render))[0] ?? null;
+    const forest = await forestBlock(v, name);
     options.onVariant?.(++done, results.variants.length);
     return {
       path: PATHS.variant(slugs.get(v.id) as string),

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
 import { EFFECTS_LABELLED_MAX, effectsChart } from '../../src/charts/effects.js';
-import { forestChart } from '../../src/charts/forest.js';
+import { forestChart, forestInputKey } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
 import { chartKey, drawRawDirect, drawRawShared, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, shapeStats, splitSpec, stripRedundant } from '../../src/charts/render.js';
 import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
@@ -177,6 +177,26 @@ describe('study chart specs', () => {
     expect(spec.vconcat).toHaveLength(2);
     expect(spec.vconcat[0].layer[0].encoding.x.scale.type).toBe('log');
     expect(spec.vconcat[1].layer[0].encoding.x.scale.type).toBeUndefined();
+  });
+
+  it('keys a forest plot by what it is drawn from: same inputs, same key; any of them changed, another key', () => {
+    const v = r.variants[1];
+    const key = forestInputKey(r, v, 'G120S');
+    expect(key).toMatch(/^[0-9a-f]{64}$/);
+    expect(forestInputKey(makeFixture(), makeFixture().variants[1], 'G120S')).toBe(key);
+    expect(forestInputKey(r, v, 'G120S (2)')).not.toBe(key);
+    const moved = makeFixture();
+    const c = moved.comparisons.find((x) => x.variant === v.id && x.effect !== null)!;
+    c.ciHigh = (c.ciHigh ?? 0) + 0.01;
+    expect(forestInputKey(moved, moved.variants[1], 'G120S')).not.toBe(key);
+    const relabelled = makeFixture();
+    relabelled.assays[0].metrics[0].label += ' (renamed)';
+    expect(forestInputKey(relabelled, relabelled.variants[1], 'G120S')).not.toBe(key);
+    // No estimable comparison: no plot, no key.
+    const none = makeFixture();
+    for (const x of none.comparisons) if (x.variant === v.id) x.effect = null;
+    expect(forestChart(none, none.variants[1], 'G120S')).toBeNull();
+    expect(forestInputKey(none, none.variants[1], 'G120S')).toBeUndefined();
   });
 
   it('sorts the effects chart by effect', () => {
