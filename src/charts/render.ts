@@ -393,7 +393,7 @@ async function drawRaw(spec: ChartSpec): Promise<string> {
   } finally {
     if (mine) entry.busy = false;
     if (mine && ok) {
-      if (entry.view !== view) entry.view?.finalize();
+      // The View drawn on is the kept one, or a new one where none was kept.
       entry.view = view;
       const at = keptViews.indexOf(entry);
       if (at >= 0) keptViews.splice(at, 1);

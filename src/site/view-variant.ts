@@ -142,17 +142,21 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
     const drawn = async (draw: RenderFn | undefined) => (await renderBlocks([forestChart(results, v, name)], draw))[0] ?? null;
     const inputKey = options.block ? forestInputKey(results, v, name) : undefined;
     if (!options.block || inputKey === undefined) return drawn(render);
-    const block = options.block;
     const key = `forest:${v.id}`;
     const title = forestTitle(name);
-    const parts = [inputKey, key, title];
-    const make = async (draw: RenderFn) => {
+    return cachedBlock(options.block, `chart-${slug(key)}`, title, [inputKey, key, title], async (draw) => {
       const b = (await drawn(draw)) as ChartBlock;
       return { svg: b.svg, description: b.description, table: b.table };
-    };
-    const id = `chart-${slug(key)}`;
+    });
+  };
+  /**
+   * A chart block from the block cache by its key parts, or made: left to load (blockKey and
+   * fill) with lazyBlocks, so that a page found in the page cache never reads or draws it.
+   */
+  const cachedBlock = async (block: ChartRenderer['block'], id: string, title: string, parts: string[], make: Parameters<ChartRenderer['block']>[1]): Promise<ChartBlock> => {
     if (options.lazyBlocks) {
       const chart: ChartBlock = { id, title, description: '', svg: '', table: { columns: [], rows: [] }, blockKey: blockEntryKey(parts) };
+      // Not enumerable: the page's JSON (its cache key) holds the block key only.
       Object.defineProperty(chart, 'fill', { enumerable: false, value: async () => Object.assign(chart, await block(parts, make)) });
       return chart;
     }
@@ -180,18 +184,8 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
               return { svg: b.svg, description: b.description, table: b.table };
             };
             const id = `chart-${slug(key)}`;
-            if (options.block && c.inputKey) {
-              const parts = [c.inputKey, key, c.title];
-              const block = options.block;
-              if (options.lazyBlocks) {
-                const chart: ChartBlock = { id, title: c.title, description: '', svg: '', table: { columns: [], rows: [] }, blockKey: blockEntryKey(parts) };
-                // Not enumerable: the page's JSON (its cache key) holds the block key only.
-                Object.defineProperty(chart, 'fill', { enumerable: false, value: async () => Object.assign(chart, await block(parts, make)) });
-                return chart;
-              }
-              // A chart whose inputs are unchanged comes whole from the block cache: no spec is built.
-              return { id, title: c.title, ...(await block(parts, make)) };
-            }
+            // A chart whose inputs are unchanged comes whole from the block cache: no spec is built.
+            if (options.block && c.inputKey) return cachedBlock(options.block, id, c.title, [c.inputKey, key, c.title], make);
             return { id, title: c.title, ...(await make(render)) };
           }),
       );
