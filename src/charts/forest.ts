@@ -87,10 +87,13 @@ function comparisonsOf(results: StudyResults, variantId: string): MetricComparis
 const assaysJson = new WeakMap<StudyResults, string>();
 
 /**
- * Content key of everything forestChart(results, variant, name) reads: the name, the variant's
- * comparisons and the study's assay and metric definitions (SHA-256, hex). Equal keys give equal
- * charts for the same code, so a cache can find the chart without building its spec. Undefined
- * when forestChart gives null (no estimable comparison).
+ * Content key of everything the picture and description of forestChart(results, variant, name)
+ * are made from: the name, the drawn fields of the variant's comparisons (metric, scale, effect,
+ * CI, band, call) and the study's assay and metric definitions (SHA-256, hex). Equal keys give
+ * equal SVGs and descriptions for the same code, so a cache can find them without building the
+ * spec. The table (forestTable) also shows q values, which move with every other variant's p
+ * value (Benjamini–Hochberg): it is not covered, and is made afresh. Undefined when forestChart
+ * gives null (no estimable comparison).
  */
 export function forestInputKey(results: StudyResults, variant: VariantResult, name: string): string | undefined {
   const comps = comparisonsOf(results, variant.id);
@@ -100,7 +103,8 @@ export function forestInputKey(results: StudyResults, variant: VariantResult, na
     assays = JSON.stringify(results.assays);
     assaysJson.set(results, assays);
   }
-  return createHash('sha256').update(JSON.stringify(['forest', variant.id, name, comps])).update('\0').update(assays).digest('hex');
+  const drawn = comps.map((c) => [c.assay, c.metric, c.scale, c.effect, c.ciLow, c.ciHigh, c.band, c.call]);
+  return createHash('sha256').update(JSON.stringify(['forest', variant.id, name, drawn])).update('\0').update(assays).digest('hex');
 }
 
 /** Title of a variant's forest plot. */
@@ -141,9 +145,14 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
     `Forest plot: each metric of ${name} as ${ratio.length ? 'a ratio to WT on a log axis' : ''}` +
     `${ratio.length && diff.length ? ' or ' : ''}${diff.length ? 'a difference from WT on a linear axis' : ''}, ` +
     `with its 95% confidence interval; shaded areas are the WT-like bands. ${parts.join('; ')}.`;
-  const table = {
+  return { key: `forest:${variant.id}`, title, description, spec, table: forestTable(results, variant) };
+}
+
+/** The numbers table under a variant's forest plot: every comparison, with its q value. */
+export function forestTable(results: StudyResults, variant: VariantResult): ChartDef['table'] {
+  return {
     columns: ['Metric', 'Scale', 'Effect', '95% CI', 'WT-like band', 'q', 'Call'],
-    rows: comps.map((c) => [
+    rows: comparisonsOf(results, variant.id).map((c) => [
       metricLabel(results, c.assay, c.metric),
       c.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',
       fmt(c.effect),
@@ -153,5 +162,4 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
       c.call,
     ]),
   };
-  return { key: `forest:${variant.id}`, title, description, spec, table };
 }

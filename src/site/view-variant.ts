@@ -1,7 +1,7 @@
 /** Data for the index table and the per-variant reports. */
 import { type ChartsFor, drawnSpec, specTable } from '../charts/assay-charts.js';
 import { fmt, fmtCi, fmtP, variantNames } from '../charts/chart-def.js';
-import { forestChart, forestInputKey, forestTitle } from '../charts/forest.js';
+import { forestChart, forestInputKey, forestTable, forestTitle } from '../charts/forest.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
 import { type CalibrationView, type CallView, type ChartBlock, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
 import { fmtCalibration } from './view-study.js';
@@ -144,23 +144,27 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
     if (!options.block || inputKey === undefined) return drawn(render);
     const key = `forest:${v.id}`;
     const title = forestTitle(name);
+    // The table shows q values, which the block's key does not cover: it is made afresh.
+    const table = forestTable(results, v);
     return cachedBlock(options.block, `chart-${slug(key)}`, title, [inputKey, key, title], async (draw) => {
       const b = (await drawn(draw)) as ChartBlock;
       return { svg: b.svg, description: b.description, table: b.table };
-    });
+    }, table);
   };
   /**
    * A chart block from the block cache by its key parts, or made: left to load (blockKey and
    * fill) with lazyBlocks, so that a page found in the page cache never reads or draws it.
+   * `table`, when given, is shown instead of the block's (whose key does not cover it).
    */
-  const cachedBlock = async (block: ChartRenderer['block'], id: string, title: string, parts: string[], make: Parameters<ChartRenderer['block']>[1]): Promise<ChartBlock> => {
+  const cachedBlock = async (block: ChartRenderer['block'], id: string, title: string, parts: string[], make: Parameters<ChartRenderer['block']>[1], table?: ChartBlock['table']): Promise<ChartBlock> => {
+    const own = table ? { table } : {};
     if (options.lazyBlocks) {
-      const chart: ChartBlock = { id, title, description: '', svg: '', table: { columns: [], rows: [] }, blockKey: blockEntryKey(parts) };
+      const chart: ChartBlock = { id, title, description: '', svg: '', table: table ?? { columns: [], rows: [] }, blockKey: blockEntryKey(parts) };
       // Not enumerable: the page's JSON (its cache key) holds the block key only.
-      Object.defineProperty(chart, 'fill', { enumerable: false, value: async () => Object.assign(chart, await block(parts, make)) });
+      Object.defineProperty(chart, 'fill', { enumerable: false, value: async () => Object.assign(chart, await block(parts, make), own) });
       return chart;
     }
-    return { id, title, ...(await block(parts, make)) };
+    return { id, title, ...(await block(parts, make)), ...own };
   };
   return (subset) => mapLimit(subset, options.concurrency ?? 8, async (v): Promise<VariantPage> => {
     const name = names.get(v.id) ?? v.short;

@@ -13,7 +13,7 @@ import { changeOneVariant, syntheticStudy } from '../../src/bench/synthetic.js';
 import { type AssayChart, chartsFromModules } from '../../src/charts/assay-charts.js';
 import { cacheEntryKey } from '../../src/charts/cache.js';
 import { variantNames } from '../../src/charts/chart-def.js';
-import { forestChart } from '../../src/charts/forest.js';
+import { forestChart, forestInputKey } from '../../src/charts/forest.js';
 import { createChartRenderer } from '../../src/charts/pool.js';
 import { canonical, canonicalSlow, chartKey } from '../../src/charts/render.js';
 import type { StudyResults } from '../../src/results/types.js';
@@ -155,6 +155,9 @@ describe('chart pool and cache', () => {
       for (const v of r.variants) {
         const f = forestChart(r, v, names.get(v.id) ?? v.short);
         if (f) out.set(`forest ${v.id}`, cacheEntryKey(f.spec, { key: f.key, title: f.title, description: f.description }));
+        // The forest plot's input key (block cache) too: it must not follow other variants' q values.
+        const fi = forestInputKey(r, v, names.get(v.id) ?? v.short);
+        if (fi) out.set(`forest ${v.id} input`, fi);
         (charts(v.id) as AssayChart[]).forEach((c, i) => {
           out.set(`${c.assay} ${v.id} ${i}`, cacheEntryKey(c.spec, { title: c.title }));
           // The input key (block cache) changes with the chart's inputs, and only with them.

@@ -189,6 +189,10 @@ describe('study chart specs', () => {
     const c = moved.comparisons.find((x) => x.variant === v.id && x.effect !== null)!;
     c.ciHigh = (c.ciHigh ?? 0) + 0.01;
     expect(forestInputKey(moved, moved.variants[1], 'G120S')).not.toBe(key);
+    // q values move with other variants' p values; they are in the table, not in the picture.
+    const requeued = makeFixture();
+    for (const x of requeued.comparisons) if (x.variant === v.id && x.q !== null) x.q = Math.min(1, x.q * 1.7);
+    expect(forestInputKey(requeued, requeued.variants[1], 'G120S')).toBe(key);
     const relabelled = makeFixture();
     relabelled.assays[0].metrics[0].label += ' (renamed)';
     expect(forestInputKey(relabelled, relabelled.variants[1], 'G120S')).not.toBe(key);
