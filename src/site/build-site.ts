@@ -67,9 +67,10 @@ const variantTemplate = join(templatesDir, 'variant.njk');
  * (about 0.2 s), and one batch's pages and SVGs are in memory at a time (with the next one
  * being drawn), with the garbage of rendering them. Measured on the 1,000-variant benchmark
  * (cold): 250 pages per run peaked at 1.64 GB in this phase, 125 at 1.42–1.45 GB, at the same
- * build time.
+ * build time; with chart Views kept between charts (src/charts/render.ts) 125 peaked at
+ * 1.56 GB and 100 at 1.50 GB.
  */
-export const VARIANT_BATCH = 125;
+export const VARIANT_BATCH = 100;
 
 interface Prepared {
   slugs: Map<string, string>;
