@@ -6,7 +6,8 @@
  * again to find its charts unchanged.
  *
  * A digest is remembered only for an object whose JSON it was computed from: units come back
- * from the analysis cache exactly as they were stored (v8 serialisation), and analyseStudy's
+ * from the analysis cache with the JSON they were stored with (v8 serialisation, plots as their
+ * JSON bytes: src/results/raw-json.ts), and analyseStudy's
  * copies carry their original's digest only when nothing was added to them (carryUnitDigest).
  * Units are not changed after analyseStudy (tests/scale/load-reuse.test.ts checks the
  * remembered digests against fresh ones after a build).
