@@ -6,8 +6,9 @@
  *   Study ──each module's rows split by group (a batch; a unit, for AssayModule.independentUnits)──▶
  *         per (module, group): context = (code fingerprint, module ids, study settings), then two
  *         keys (SHA-256):
- *           file key    — context, the variant labels, and for each file holding the group's rows
- *                         its path, SHA-256, settings, manifest entry and row count of the group
+ *           file key    — context, and for each file holding the group's rows its path, SHA-256,
+ *                         settings, manifest entry, the variant labels it uses (with their
+ *                         variants: InputFile.variantLabels) and row count of the group
  *                         (cheap: unchanged files read the same way give unchanged rows)
  *           content key — context, how those files were read, and the group's rows in order
  *                         (exact; tried when the file key misses)
@@ -53,7 +54,7 @@ import type { KnownFiles } from '../study/read-folder.js';
 export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
 
 /** Version of the entry format; bump when what is stored changes. */
-const ENTRY_VERSION = 5;
+const ENTRY_VERSION = 6;
 
 export interface CachedAnalysisOptions extends ParallelOptions {
   /** Cache folder, or false for none (then this is analyseUnitsParallel). */
@@ -118,9 +119,11 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     const path = (e as { path?: unknown } | null)?.path;
     if (typeof path === 'string' && !rawEntries.has(path)) rawEntries.set(path, JSON.stringify(e));
   }
-  const read = new Map(study.files.map((f) => [f.path, { sha256: f.sha256, how: JSON.stringify([f.kind, f.settings, rawEntries.get(f.path) ?? null]) }]));
-  // The variant labels the loader resolved the rows with.
-  const labels = JSON.stringify(study.variants.map((v) => [v.id, v.label]));
+  // With each file, the variant labels the loader resolved its rows with: those the file uses
+  // (InputFile.variantLabels), or all of the study's for a file read without that record.
+  let allLabels: string | undefined;
+  const labelsOf = (f: Study['files'][number]) => f.variantLabels ?? (allLabels ??= JSON.stringify(study.variants.map((v) => [v.id, v.label, v.gene, v.isWT])));
+  const read = new Map(study.files.map((f) => [f.path, { sha256: f.sha256, how: JSON.stringify([f.kind, f.settings, rawEntries.get(f.path) ?? null]), labels: labelsOf(f) }]));
 
   const found: UnitResult[][] = [];
   const missed = new Map<AssayModule, Map<string, { slot: SlotWork; keys: string[] }>>(); // module → group → its slot and the keys to store its units under
@@ -169,15 +172,18 @@ export async function analyseUnitsCached(study: Study, modules: readonly AssayMo
     }
     // Hashed once per module; each key continues a copy of it.
     const moduleHash = createHash('sha256').update(context).update('\0').update(m.id);
-    const labelledHash = moduleHash.copy().update('\0').update(labels);
     const filesIn = (g: string) => [...(filesOf.get(g) as Map<string, number>)].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
     // File key: the files the group's rows come from (path, SHA-256 of the bytes, how they were
-    // read, rows of the group in each) and the variant labels. Unchanged files read the same way
-    // give unchanged rows, so this cheap key is tried first; when a file changed, the content key decides.
+    // read, the variant labels they use, rows of the group in each). Unchanged files read the
+    // same way give unchanged rows, so this cheap key is tried first; when a file changed, the
+    // content key decides.
     const fileKey = (g: string) => {
-      const files = filesIn(g).map(([path, n]) => [path, read.get(path)?.sha256 ?? null, read.get(path)?.how ?? null, n]);
+      const files = filesIn(g).map(([path, n]) => {
+        const f = read.get(path);
+        return [path, f?.sha256 ?? null, f?.how ?? null, f?.labels ?? null, n];
+      });
       if (files.some((f) => f[1] === null)) return undefined;
-      return `f${labelledHash.copy().update('\0').update(JSON.stringify([g, files])).digest('hex')}`;
+      return `f${moduleHash.copy().update('\0').update(JSON.stringify([g, files])).digest('hex')}`;
     };
     // Content key: the group's rows themselves and how their files were read (exact, but
     // serialising every row costs seconds in a large study).

@@ -10,10 +10,11 @@
  *
  * All problems are collected in one pass; a study is returned only when no error was found.
  *
- * Each file read also gives a FileDigest (its issues, counts, batches, units and the facts of
- * the cross checks). With `reuse`, a file whose digest is found under its key (the same path,
- * bytes, manifest entry and variants, read by the same code) is not parsed: the study takes the
- * digest instead of its rows (Study.omitted), and issues and checks come out the same.
+ * Each file read also gives a FileDigest (its issues, counts, batches, units, the variant labels
+ * it uses and the facts of the cross checks). With `reuse`, a file whose digest is found under
+ * its key (the same path, bytes and manifest entry, read by the same code) and whose labels
+ * resolve to variants with the same facts is not parsed: the study takes the digest instead of
+ * its rows (Study.omitted), and issues and checks come out the same.
  */
 import { createHash } from 'node:crypto';
 import { checkExclusionsMatch, checkUnusedVariants, checkWildTypeFacts, wildTypeFacts } from './checks.js';
@@ -86,20 +87,40 @@ export interface ParsedDigest {
 
 /**
  * Key of a file's digest: SHA-256 over the reading code's identity, the path, the bytes'
- * SHA-256, the manifest's entry for the file (as read) and `variantsKey` (see digestVariantsKey):
- * everything a file's rows, issues and facts depend on.
+ * SHA-256 and the manifest's entry for the file (as read). The variants its labels resolve to are
+ * checked against the digest's own list (FileDigest.labels, see labelsResolveAlike), so that
+ * declaring, renaming or removing a variant leaves the files that do not mention it unparsed.
  */
-export function fileDigestKey(context: string, path: string, sha256: string, spec: unknown, variantsKey: string): string {
-  return sha256Hex(JSON.stringify([context, path, sha256, spec, variantsKey]));
+export function fileDigestKey(context: string, path: string, sha256: string, spec: unknown): string {
+  return sha256Hex(JSON.stringify([context, path, sha256, spec]));
 }
 
-/** SHA-256 of the variants and labels the rows of every file resolve against (made once per load). */
-export function digestVariantsKey(byLabel: ReadonlyMap<string, Variant>, variants: readonly Variant[]): string {
-  return sha256Hex(JSON.stringify([[...byLabel].map(([label, v]) => [label, v.id]), variants]));
+/**
+ * What reading a file takes from the variant a label resolves to: its id (in every row), and its
+ * gene and WT flag (the WT-per-batch check, wildTypeFacts). Nothing else of the variant enters
+ * the rows, issues or facts of a file without errors.
+ */
+export function variantFacts(v: Variant): string {
+  return JSON.stringify([v.id, v.gene, v.isWT]);
+}
+
+/** Do the labels of a digest resolve, in this manifest, to variants with the same facts? */
+export function labelsResolveAlike(labels: FileDigest['labels'], byLabel: ReadonlyMap<string, Variant>): boolean {
+  if (!Array.isArray(labels)) return false;
+  for (const [label, facts] of labels) {
+    const v = byLabel.get(label);
+    if (!v || variantFacts(v) !== facts) return false;
+  }
+  return true;
+}
+
+/** InputFile.variantLabels: SHA-256 of a file's labels with their variants' facts, in file order. */
+function labelsSha256(labels: FileDigest['labels']): string {
+  return sha256Hex(JSON.stringify(labels));
 }
 
 /** A file's digest from its rows as read (see FileDigest). */
-export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: number, issues: Issue[], seen: { variantsSeen: Set<string>; batches: Set<string>; units: Set<string> }, variants: ReadonlyMap<string, Variant>): FileDigest {
+export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: number, issues: Issue[], seen: { variantsSeen: Set<string>; labels: Map<string, Variant>; batches: Set<string>; units: Set<string> }, variants: ReadonlyMap<string, Variant>): FileDigest {
   const unitRows = new Map<string, [string, string, string, number]>();
   let last: [string, string, string, number] | undefined;
   for (const r of rows) {
@@ -117,6 +138,7 @@ export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: 
     kept: rows.length,
     issues,
     variantsSeen: [...seen.variantsSeen],
+    labels: labelsOf(seen.labels),
     batches: [...seen.batches],
     units: [...seen.units],
     unitRows: [...unitRows.values()],
@@ -124,6 +146,11 @@ export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: 
     // The same first appearances as unitsInOrder(rows), from the walk above.
     unitOrder: [...unitRows.values()].filter(([variant, unit]) => variant !== '' || unit !== '').map(([variant, unit, batch]) => [variant, unit, batch]),
   };
+}
+
+/** The labels met in a file (FileRows.labels) as FileDigest.labels. */
+function labelsOf(labels: ReadonlyMap<string, Variant>): FileDigest['labels'] {
+  return [...labels].map(([label, v]) => [label, variantFacts(v)]);
 }
 
 /** Load and validate a study. Pure: see the module comment. */
@@ -155,7 +182,6 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
   const wtFacts: Partial<Record<InputKind, Array<{ file: string; facts: WildTypeFacts }>>> = {};
   const omitted = new Map<string, FileDigest>();
   const parsed: ParsedDigest[] = [];
-  let variantsKey: string | undefined;
 
   for (const spec of manifest.files) {
     const path = spec.entry.path;
@@ -178,9 +204,9 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
     if (spec.frameIntervalS !== undefined) settings.frameIntervalS = spec.frameIntervalS;
     if (spec.crossSectionMm2 !== undefined) settings.crossSectionMm2 = spec.crossSectionMm2;
     if (spec.missing.length) settings.missing = spec.missing.join(' ');
-    const key = options.reuse ? fileDigestKey(options.reuse.context, path, sha256, spec, (variantsKey ??= digestVariantsKey(manifest.byLabel, manifest.variants))) : '';
+    const key = options.reuse ? fileDigestKey(options.reuse.context, path, sha256, spec) : '';
     const reused = options.reuse?.get(key, path);
-    if (reused && reused.kind === spec.entry.kind) {
+    if (reused && reused.kind === spec.entry.kind && labelsResolveAlike(reused.labels, manifest.byLabel)) {
       for (const i of reused.issues) issues.push(i);
       (rowParts[spec.entry.kind] ??= []).push([]);
       (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: reused.wildType });
@@ -188,7 +214,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
       reused.batches.forEach((b) => batches.add(b));
       reused.units.forEach((u) => units.add(u));
       omitted.set(path, reused);
-      inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: reused.rowCount, settings });
+      inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: reused.rowCount, settings, variantLabels: labelsSha256(reused.labels) });
       continue;
     }
     data ??= getFile(input.files, path) as string | Uint8Array;
@@ -220,7 +246,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
       (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: digest.wildType });
       parsed.push({ path, key, digest });
     } else (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: wildTypeFacts(fileRows, byId) });
-    inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: got.rowCount, settings });
+    inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: got.rowCount, settings, variantLabels: labelsSha256(labelsOf(got.labels)) });
   }
 
   const rows: Partial<Record<InputKind, unknown[]>> = {};

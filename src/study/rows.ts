@@ -39,6 +39,8 @@ export interface FileRows<K extends InputKind = InputKind> {
   rows: RowsByKind[K];
   /** Ids of the variants met in the file. */
   variantsSeen: Set<string>;
+  /** Each variant label met in the file (as written in it), with the variant it resolved to. */
+  labels: Map<string, Variant>;
   batches: Set<string>;
   units: Set<string>;
   /** Data rows read (excluding header and comments), whether or not they were usable. */
@@ -274,7 +276,7 @@ export function createRowReader<K extends InputKind>(
   pool: StringPool = new StringPool(),
 ): RowReader<K> {
   const cat = CATALOGUE[kind];
-  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), batches: new Set(), units: new Set(), rowCount: 0 };
+  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), labels: new Map(), batches: new Set(), units: new Set(), rowCount: 0 };
   let state: 'no-header' | 'skip' | 'read' = 'no-header';
   let headerLine = 0;
   let width = 0;
@@ -522,9 +524,13 @@ export function createRowReader<K extends InputKind>(
       const label = variantSlot === undefined ? undefined : (vals[variantSlot] as string | undefined);
       let variantId = '';
       if (label !== undefined) {
-        const variant = label === lastLabel ? lastLabelVariant : byLabel.get(label);
-        lastLabel = label;
-        lastLabelVariant = variant;
+        let variant = lastLabelVariant;
+        if (label !== lastLabel) {
+          variant = byLabel.get(label);
+          lastLabel = label;
+          lastLabelVariant = variant;
+          if (variant && !out.labels.has(label)) out.labels.set(label, variant);
+        }
         if (!variant) {
           issues.push(issue(MSG.unknownVariant(label), cellAt(byName.get('variant')!, line)));
           return;

@@ -166,6 +166,12 @@ export interface InputFile {
   rows: number;
   /** Motility tracks: minimum frames a track needs; immobile threshold etc. live in settings. */
   settings: Record<string, number | string | boolean>;
+  /**
+   * SHA-256 of the variant labels the file's rows use, each with the variant it resolved to
+   * (see variantFacts in src/study/load.ts): with `sha256` and `settings`, what the file's rows
+   * depend on. Set by loadStudy; the analysis cache keys on it.
+   */
+  variantLabels?: string;
 }
 
 export interface Exclusion {
@@ -235,6 +241,8 @@ export interface FileDigest {
   /** The file's issues (parse, then rows), in order; a digest is only kept for a file without errors. */
   issues: Issue[];
   variantsSeen: string[];
+  /** Each variant label met in the file, in order of first appearance, with variantFacts of the variant it resolved to (src/study/load.ts). */
+  labels: Array<[label: string, facts: string]>;
   batches: string[];
   units: string[];
   /** Rows kept per (variant, unit, batch), in order of first appearance; NADH actin-only wells count under variant and unit ''. */

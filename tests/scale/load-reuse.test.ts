@@ -12,7 +12,7 @@ import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { syntheticStudy, writeStudy } from '../../src/bench/synthetic.js';
 import { loadAndAnalyse } from '../../src/build/build-study.js';
-import { type ParsedDigest, loadStudy } from '../../src/study/load.js';
+import { type ParsedDigest, labelsResolveAlike, loadStudy, variantFacts } from '../../src/study/load.js';
 import type { FileDigest } from '../../src/study/types.js';
 import type { UnitResult } from '../../src/results/types.js';
 import { computeUnitDigest, unitDigest } from '../../src/results/unit-digest.js';
@@ -23,14 +23,14 @@ const tmp = mkdtempSync(join(tmpdir(), 'myofolio-load-reuse-'));
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
 
 const made = syntheticStudy({ variants: 10, perBatch: 3, filaments: 30, turnoverPoints: 60, maxRowsPerFile: 2000 });
-const input = (files: Record<string, string>) => ({ manifest: JSON.stringify(made.manifest), files });
+const input = (files: Record<string, string>, manifest: unknown = made.manifest) => ({ manifest: JSON.stringify(manifest), files });
 
 /** An in-memory digest store, and a load that saves what it parsed. */
 function memoryStore() {
   const kept = new Map<string, FileDigest>();
   const reuse = { context: 'test', get: (key: string) => kept.get(key) };
-  const load = (files: Record<string, string>) => {
-    const out = loadStudy(input(files), { reuse });
+  const load = (files: Record<string, string>, manifest: unknown = made.manifest) => {
+    const out = loadStudy(input(files, manifest), { reuse });
     for (const d of out.digests ?? ([] as ParsedDigest[])) kept.set(d.key, d.digest);
     return out;
   };
@@ -69,6 +69,49 @@ describe('loadStudy with digests', () => {
     expect(store.kept.size).toBe(Object.keys(files).length);
     expect(again.issues).toEqual(whole.issues);
     expect(again.study).toBeUndefined();
+  });
+
+  it('a variant declared: no file is parsed; a label that now names another variant: the files using it are parsed', () => {
+    const store = memoryStore();
+    store.load(made.files);
+    const variants = made.manifest.variants as Array<Record<string, unknown>>;
+    const first = variants.findIndex((v) => v.wt !== true);
+    const [, ref, pos, alt] = /^p\.([A-Z])(\d+)([A-Z])$/.exec(variants[first].hgvs as string) as RegExpExecArray;
+    const other = `p.${ref}${pos}${ref === 'W' || alt === 'W' ? 'Y' : 'W'}`;
+    // Declared first, so that every other variant's place in the manifest moves; used by no file.
+    const added = { ...made.manifest, variants: [{ hgvs: other }, ...variants] };
+    const whole = loadStudy(input(made.files, added));
+    const again = store.load(made.files, added);
+    expect(again.study?.omitted?.size).toBe(Object.keys(made.files).length);
+    expect(again.issues).toEqual(whole.issues);
+    expect(again.issues.map((i) => i.code)).toContain('manifest.variant-unused');
+    expect(again.study!.files).toEqual(whole.study!.files);
+
+    // The label of that variant now names a variant with another id: the same bytes give other rows.
+    const label = `${ref}${pos}${alt}`;
+    const remapped = { ...made.manifest, variants: variants.map((v, i) => (i === first ? { ...v, hgvs: other, label } : v)) };
+    const using = Object.keys(made.files).filter((p) => made.files[p].includes(`\n${label},`));
+    expect(using.length).toBeGreaterThan(1);
+    const whole2 = loadStudy(input(made.files, remapped));
+    const again2 = store.load(made.files, remapped);
+    expect([...again2.study!.omitted!.keys()].sort()).toEqual(Object.keys(made.files).filter((p) => !using.includes(p)).sort());
+    expect(again2.issues).toEqual(whole2.issues);
+    expect(again2.study!.files).toEqual(whole2.study!.files);
+    for (const [kind, rows] of Object.entries(whole2.study!.rows)) {
+      expect((again2.study!.rows as Record<string, unknown[]>)[kind]).toEqual((rows as Array<{ at: { file: string } }>).filter((r) => using.includes(r.at.file)));
+    }
+    expect(whole2.study!.variants[first].id).not.toBe(whole.study!.variants[first + 1].id);
+  });
+
+  it('a label whose variant keeps its id but not its WT flag or gene does not resolve alike', () => {
+    const v = loadStudy(input(made.files)).study!.variants.find((x) => !x.isWT)!;
+    const labels: FileDigest['labels'] = [[v.label, variantFacts(v)]];
+    expect(labelsResolveAlike(labels, new Map([[v.label, v]]))).toBe(true);
+    expect(labelsResolveAlike(labels, new Map([[v.label, { ...v, isWT: true }]]))).toBe(false);
+    expect(labelsResolveAlike(labels, new Map([[v.label, { ...v, gene: 'OTHER' }]]))).toBe(false);
+    expect(labelsResolveAlike(labels, new Map())).toBe(false);
+    // A digest stored without labels (an older format) is never taken.
+    expect(labelsResolveAlike(undefined as never, new Map([[v.label, v]]))).toBe(false);
   });
 
   it('parses a file again when its bytes change', () => {
@@ -149,6 +192,47 @@ describe('loadAndAnalyse with the analysis cache', () => {
     const { size } = await editAndCompare('atpase-nadh-part4.csv');
     // The files that share its batches are read too: ATPase units need their batch.
     expect(parsed).toBeGreaterThan(size);
+  }, 180_000);
+
+  it('a new batch of a new variant in a new file, then a label naming another variant: only the files concerned are read, and the results are those of a build without cache', async () => {
+    // Continues from the study and cache of the tests above.
+    const manifestPath = join(dir, 'study.json');
+    const manifest = JSON.parse(readFileSync(manifestPath, 'utf8')) as { variants: Array<Record<string, unknown>>; files: Array<Record<string, unknown>> };
+    const turnover = manifest.files.filter((f) => f.kind === 'turnover').map((f) => readFileSync(join(dir, f.path as string), 'utf8'));
+    const lines = turnover.flatMap((t) => t.split('\n'));
+    const preamble = turnover[0].split('\n').filter((l) => l.startsWith('#') || l.startsWith('variant,'));
+    const inB1 = lines.filter((l) => l.split(',')[2] === 'B1');
+    const oldLabel = (inB1.find((l) => !l.startsWith('WT,')) as string).split(',')[0];
+    const at = manifest.variants.findIndex((v) => typeof v.hgvs === 'string' && v.hgvs.endsWith(oldLabel));
+    const [, ref, pos, alt] = /^p\.([A-Z])(\d+)([A-Z])$/.exec(manifest.variants[at].hgvs as string) as RegExpExecArray;
+    const newLabel = `${ref}${pos}${ref === 'W' || alt === 'W' ? 'Y' : 'W'}`;
+    const rows = inB1
+      .filter((l) => l.startsWith('WT,') || l.startsWith(`${oldLabel},`))
+      .map((l) => {
+        const [label, unit, , ...rest] = l.split(',');
+        const to = label === 'WT' ? 'WT' : newLabel;
+        return [to, `${unit.replace(oldLabel, to)}-new`, 'BNEW', ...rest].join(',');
+      });
+    const text = `${[...preamble, ...rows].join('\n')}\n`;
+    writeFileSync(join(dir, 'turnover-new.csv'), text);
+    manifest.variants.push({ hgvs: `p.${newLabel}` });
+    manifest.files.push({ path: 'turnover-new.csv', kind: 'turnover' });
+    writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
+    const fresh = await run(false);
+    expect(await run(cache)).toBe(fresh);
+    expect(parsed).toBe(Buffer.byteLength(text));
+
+    // The old label now names the new variant (and the new label the old one): the same bytes
+    // give other rows. The files using either label are parsed (see the loadStudy test above),
+    // and so are the files sharing cache entries with them: an entry's file key covers the labels
+    // of each of its files as a whole, so every entry with rows in those files is looked up by
+    // its rows.
+    manifest.variants[at] = { ...manifest.variants[at], label: newLabel };
+    manifest.variants[manifest.variants.length - 1] = { hgvs: `p.${newLabel}`, label: oldLabel };
+    writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
+    const swapped = await run(false);
+    expect(swapped).not.toBe(fresh);
+    expect(await run(cache)).toBe(swapped);
   }, 180_000);
 
   it('the demo study (one unit excluded in its manifest): remembered unit digests are the units\' digests, cold and warm', async () => {
