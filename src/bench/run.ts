@@ -7,6 +7,8 @@
  *   cold  — empty chart and analysis caches,
  *   warm  — after one variant's velocities changed (its one file rewritten in place, as a lab
  *           would correct it), with the caches of the cold build,
+ *   batch — after a new batch was added (one new variant with WT, every assay, in new files, and
+ *           the variant declared in the manifest: addBatchInFolder), with the caches of the builds before,
  *   serial — (with --baseline) one thread, no caches: the path before the pools existed,
  * each in its own child process, so every peak-memory figure belongs to one build, through
  * buildStudy as the CLI runs it. Phases: load (read + loadStudy), analyse (units per batch
@@ -26,7 +28,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import { buildStudy } from '../build/build-study.js';
-import { changeOneVariantInFolder, syntheticStudy, writeStudy, writeSyntheticStudy } from './synthetic.js';
+import { addBatchInFolder, changeOneVariantInFolder, syntheticStudy, writeStudy, writeSyntheticStudy } from './synthetic.js';
 
 interface PhaseFigure {
   phase: string;
@@ -101,6 +103,8 @@ async function buildOnce(studyDir: string, outDir: string, cacheDir: string, mod
     workers: serial ? 0 : 'auto',
     chartCache: serial ? false : join(cacheDir, 'charts'),
     analysisCache: serial ? false : join(cacheDir, 'analysis'),
+    // As the CLI does: the previous site is deleted by a process of its own, after this one.
+    removePrevious: 'background',
     onPhase: (phase) => {
       if (phase === 'analyse') m.lap('load');
       else if (phase === 'pages') m.lap('analyse');
@@ -212,7 +216,7 @@ async function main(): Promise<void> {
     const entries = manifest.files as Array<{ path: string }>;
     const inputMB = entries.reduce((n, e) => n + statSync(join(studyDir, e.path)).size, 0) / 1e6;
     process.stdout.write(`\n== ${size} variants: study written in ${f1((performance.now() - t) / 1000)} s (${f1(inputMB)} MB of CSV in ${entries.length} files${sliced ? ', made in slices of 500 variants' : ''})\n`);
-    const runs: string[] = value('--modes')?.split(',') ?? (flag('--baseline') ? ['serial', 'cold', 'warm'] : ['cold', 'warm']);
+    const runs: string[] = value('--modes')?.split(',') ?? (flag('--baseline') ? ['serial', 'cold', 'warm', 'batch'] : ['cold', 'warm', 'batch']);
     for (const mode of runs) {
       if (mode === 'warm') {
         // A variant near the middle that is not a calibration control (controls are i % 25 = 0 or 1,
@@ -222,10 +226,10 @@ async function main(): Promise<void> {
         // As a lab would: the one file holding that variant's velocities is rewritten, the others
         // are left as they are (same bytes, same inode and times).
         changeOneVariantInFolder(studyDir, manifest, label);
-      }
+      } else if (mode === 'batch') addBatchInFolder(studyDir, manifest);
       t = performance.now();
       try {
-        const fig = (await child(['--child', mode === 'serial' ? 'serial' : mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced)) as BuildFigures;
+        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced)) as BuildFigures;
         printBuild(fig);
       } catch (err) {
         process.stdout.write(`\n${size} variants, ${mode}: ${(err as Error).message} after ${f1((performance.now() - t) / 1000)} s\n`);

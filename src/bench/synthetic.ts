@@ -251,6 +251,55 @@ export function changeOneVariantInFolder(dir: string, manifest: Record<string, u
   throw new Error(`no velocity rows for ${label}`);
 }
 
+/**
+ * A new batch on a study folder, as a lab adds one after a new run: one new variant (declared in
+ * the manifest) with WT, in new files `new-batch-<kind>.csv`, one per input kind of the study.
+ * Its rows are those of WT, of the batch's actin-only wells and of one non-control variant of
+ * the study's first batch, moved to batch 'BNEW' under the new label; each new file is read with
+ * the manifest entry of the kind's first file. The other files are left as they are. Returns the
+ * new variant's label.
+ */
+export function addBatchInFolder(dir: string, manifest: Record<string, unknown>): string {
+  const variants = manifest.variants as Array<{ hgvs?: string; control?: unknown; wt?: boolean }>;
+  const entries = manifest.files as Array<{ path: string; kind: string } & Record<string, unknown>>;
+  const declared = new Set(variants.map((v) => v.hgvs));
+  const sequence = (manifest.genes as Array<{ sequence: string }>)[0].sequence;
+  let hgvs = '';
+  for (let pos = sequence.length; pos > 0 && hgvs === ''; pos--) {
+    const ref = sequence[pos - 1];
+    for (const alt of 'WYF') if (alt !== ref && !declared.has(`p.${ref}${pos}${alt}`) && hgvs === '') hgvs = `p.${ref}${pos}${alt}`;
+  }
+  const label = hgvs.slice(2);
+  const firstBatch = (text: string) => text.split('\n').find((l) => l !== '' && !l.startsWith('#') && !l.startsWith('variant,'))?.split(',')[2];
+  const batch = firstBatch(readFileSync(join(dir, entries[0].path), 'utf8')) as string;
+  const controls = new Set(variants.filter((v) => v.control !== undefined).map((v) => v.hgvs?.slice(2)));
+  let model: string | undefined;
+  const out = new Map<string, string[]>();
+  for (const entry of entries) {
+    const lines = readFileSync(join(dir, entry.path), 'utf8').split('\n');
+    const rows = out.get(entry.kind) ?? lines.filter((l) => l.startsWith('#') || l.startsWith('variant,'));
+    out.set(entry.kind, rows);
+    for (const line of lines) {
+      const cells = line.split(',');
+      if (cells.length < 3 || cells[2] !== batch || line.startsWith('#')) continue;
+      if (model === undefined && cells[0] !== 'WT' && cells[0] !== '' && !controls.has(cells[0])) model = cells[0];
+      if (cells[0] !== 'WT' && cells[0] !== '' && cells[0] !== model) continue;
+      const to = cells[0] === model ? label : cells[0];
+      rows.push([to, cells[1] === '' ? '' : `${cells[1].replace(model as string, label)}-new`, 'BNEW', ...cells.slice(3)].join(','));
+    }
+  }
+  if (model === undefined) throw new Error(`no variant to model a new batch on in batch ${batch}`);
+  for (const [kind, rows] of out) {
+    const path = `new-batch-${kind}.csv`;
+    writeFileSync(join(dir, path), `${rows.join('\n')}\n`);
+    // Read as the kind's other files are (pixel size, frame interval, path length…).
+    entries.push({ ...(entries.find((e) => e.kind === kind) as Record<string, unknown>), path, kind });
+  }
+  variants.push({ hgvs });
+  writeFileSync(join(dir, MANIFEST_NAME), JSON.stringify(manifest, null, 2) + '\n');
+  return label;
+}
+
 /** Write a study folder (replacing it). */
 export function writeStudy(dir: string, study: { manifest: Record<string, unknown>; files: Record<string, string> }): void {
   rmSync(dir, { recursive: true, force: true });

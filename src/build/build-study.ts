@@ -18,7 +18,7 @@ import { analyseUnitsCached, digestStore } from './analysis-cache.js';
 import { HEAVY_PARSE_BYTES, collectGarbage } from '../memory.js';
 import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
-import { planOutput, makeStaging, swapIn } from '../cli/output.js';
+import { type RemovePrevious, planOutput, makeStaging, swapIn } from '../cli/output.js';
 import { resultsCsv } from '../results/csv.js';
 import { writeJsonStreamed } from '../results/json.js';
 import type { StudyResults } from '../results/types.js';
@@ -45,6 +45,8 @@ export interface BuildOptions {
   analysisCache?: string | false;
   /** Worker threads for analysis and charts: 'auto' (default, one per core) or a number (0 = all in this thread). */
   workers?: number | 'auto';
+  /** How the previous output is removed after the swap (see src/cli/output.ts); default 'now'. The CLI removes it in the background. */
+  removePrevious?: RemovePrevious;
 }
 
 /** Rows to analyse (those not served by the analysis cache) from which worker threads are used; below it, starting workers costs more than it saves. */
@@ -156,7 +158,7 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
       // Streamed: the same bytes as JSON.stringify(results) + '\n', without one string of the whole file.
       writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
       writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
-      const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag);
+      const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
       return { ok: true, issues, out: plan.out, pages: site.pages, charts: site.charts, results, movedAside };
     } catch (err) {
       rmSync(staging, { recursive: true, force: true });

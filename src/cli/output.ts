@@ -4,6 +4,7 @@
  * inside the study folder, and into a non-empty folder it did not create unless forced; even
  * forced, it moves the old folder aside rather than deleting what it did not write.
  */
+import { spawn } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, realpathSync, renameSync, rmSync, rmdirSync, writeFileSync, lstatSync } from 'node:fs';
 import path from 'node:path';
 
@@ -80,8 +81,12 @@ export function cleanStale(out: string): string[] {
     if (pid === process.pid || processAlive(pid)) continue;
     if (!lstatSync(full).isDirectory()) continue;
     if (!hasMarker(full) && !(m[1] === 'preparing' && readdirSync(full).length === 0)) continue;
-    rmSync(full, { recursive: true, force: true });
-    removed.push(full);
+    try {
+      rmSync(full, { recursive: true, force: true });
+      removed.push(full);
+    } catch {
+      // still being removed by the build that left it (see removePrevious), or not ours to remove
+    }
   }
   return removed;
 }
@@ -123,8 +128,30 @@ export function makeStaging(out: string, tag: string): string {
   return staging;
 }
 
+/**
+ * How the previous output is removed once the new one is in place: 'now', or 'background' in a
+ * detached process that outlives this one, so that the user need not wait while a large site
+ * (hundreds of megabytes for 1,000 variants) is deleted; at once if that process cannot start.
+ * A folder whose removal was cut short is removed by the next build (cleanStale).
+ */
+export type RemovePrevious = 'now' | 'background';
+
+function removeFolder(dir: string, how: RemovePrevious): void {
+  if (how === 'background') {
+    try {
+      const child = spawn(process.execPath, ['-e', 'require("node:fs").rmSync(process.argv[1], { recursive: true, force: true })', dir], { detached: true, stdio: 'ignore' });
+      child.on('error', () => rmSync(dir, { recursive: true, force: true }));
+      child.unref();
+      return;
+    } catch {
+      // removed below
+    }
+  }
+  rmSync(dir, { recursive: true, force: true });
+}
+
 /** Swap the finished staging folder in. Returns where a foreign folder was moved, if any. */
-export function swapIn(staging: string, out: string, replaceForeign: boolean, tag: string): string | undefined {
+export function swapIn(staging: string, out: string, replaceForeign: boolean, tag: string, removePrevious: RemovePrevious = 'now'): string | undefined {
   let movedAside: string | undefined;
   let old: string | undefined;
   if (existsSync(out)) {
@@ -141,7 +168,7 @@ export function swapIn(staging: string, out: string, replaceForeign: boolean, ta
   }
   renameSync(staging, out);
   if (old) {
-    if (hasMarker(old)) rmSync(old, { recursive: true, force: true });
+    if (hasMarker(old)) removeFolder(old, removePrevious);
     else {
       try {
         rmdirSync(old); // was empty; if something appeared in it meanwhile, it is left in place

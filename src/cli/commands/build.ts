@@ -106,6 +106,7 @@ export const command: Command = {
         sourceDateEpoch: sourceDateEpoch(process.env),
         onPhase: (p) => progress.onProgress(p, 0, 1),
         onProgress: progress.onProgress,
+        removePrevious: 'background',
       });
       progress.done();
       for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i)}\n`);
