@@ -14,6 +14,18 @@ export const INPUT = {
   maxFileBytes: 64 * 1024 * 1024,
 } as const;
 
+/** The build caches in the user's cache folder (src/build/cache-prune.ts). */
+export const CACHE = {
+  /**
+   * Days a cache entry (chart, chart block, page, unit analysis, file digest) is kept without a build
+   * using it. Long enough for a lab that rebuilds monthly to keep its rebuilds fast; entries of old
+   * code versions and retired studies go after it.
+   */
+  keepDays: 30,
+  /** Hours between two prunings of one cache folder: each walks every entry (about 0.1 s per 10,000). */
+  pruneEveryHours: 24,
+} as const;
+
 /** Nonlinear least squares (src/numeric/nls.ts). */
 export const FIT = {
   /** Maximum Levenberg–Marquardt iterations before stopping with 'max-iterations'. */

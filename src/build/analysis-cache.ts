@@ -31,7 +31,8 @@
  * those it gives for each unit's rows alone. The code fingerprint
  * (src/fingerprint.ts) hashes every source file under src/ and package-lock.json, so a changed
  * analysis can never be served from an older cache.
- * The result equals analyseUnitsParallel(study) (tested); entries are never pruned.
+ * The result equals analyseUnitsParallel(study) (tested). Files read are marked as used, and those
+ * unused for 30 days are pruned (src/build/cache-prune.ts).
  */
 import { createHash } from 'node:crypto';
 import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
@@ -46,6 +47,7 @@ import type { UnitResult } from '../results/types.js';
 import { lazyJsonObject, rawJsonOf } from '../results/raw-json.js';
 import { rememberUnitDigest, unitDigest } from '../results/unit-digest.js';
 import type { FileDigest, InputKind, RowBase, Study } from '../study/types.js';
+import { markUsed } from './cache-prune.js';
 import { codeFingerprint } from '../fingerprint.js';
 import type { LoadReuse, ParsedDigest } from '../study/load.js';
 import type { KnownFiles } from '../study/read-folder.js';
@@ -384,6 +386,7 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
   const name = createHash('sha256').update(context).update('\0').update(moduleId).update('\0').update(batch).digest('hex');
   const path = join(dir, name.slice(0, 2), `s${name}.bin`);
   const slot = readSlot(path);
+  if (slot) markUsed(path);
   const stored = slot?.file;
   const index = new Map(stored?.keys ?? []);
   const used = new Map<number, Set<string>>(); // stored entry → keys it is kept under
@@ -473,7 +476,9 @@ export function digestStore(cacheDir?: string): { reuse: LoadReuse; save(parsed:
       context: JSON.stringify([ENTRY_VERSION, codeFingerprint()]),
       get(key) {
         try {
-          return deserialize(readFileSync(file(key))) as FileDigest;
+          const digest = deserialize(readFileSync(file(key))) as FileDigest;
+          markUsed(file(key));
+          return digest;
         } catch {
           return undefined;
         }

@@ -8,13 +8,16 @@
  *                ──buildSite───────▶ pages + SVG charts            src/site/build-site.ts
  *                ──downloads───────▶ results.json, results.csv
  *                ──swapIn──────────▶ output folder (atomic rename; the last good output survives a failure)
+ *                ──pruneCache──────▶ cache entries unused for 30 days removed (once a day) src/build/cache-prune.ts
  *
  * Returns issues as data; the CLI decides what to print and the exit code.
  */
 import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
-import { analyseUnitsCached, digestStore } from './analysis-cache.js';
+import { DEFAULT_ANALYSIS_CACHE, analyseUnitsCached, digestStore } from './analysis-cache.js';
+import { pruneCache } from './cache-prune.js';
+import { DEFAULT_CHART_CACHE } from '../charts/cache.js';
 import { HEAVY_PARSE_BYTES, collectGarbage } from '../memory.js';
 import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
@@ -159,6 +162,8 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
       writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
       writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
       const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
+      // Once a day at most: cache entries no build has used for CACHE_KEEP_DAYS go.
+      for (const dir of [options.chartCache ?? DEFAULT_CHART_CACHE, options.analysisCache ?? DEFAULT_ANALYSIS_CACHE]) if (dir !== false) pruneCache(path.resolve(dir));
       return { ok: true, issues, out: plan.out, pages: site.pages, charts: site.charts, results, movedAside };
     } catch (err) {
       rmSync(staging, { recursive: true, force: true });

@@ -13,13 +13,15 @@ import { closeSync, copyFileSync, mkdirSync, openSync, readFileSync, renameSync,
 import { homedir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { ChartSpec } from '../assays/types.js';
+import { markUsed } from '../build/cache-prune.js';
 import { codeFingerprint } from '../fingerprint.js';
 import { RENDERER_ID, chartKey, type RenderOptions } from './render.js';
 
 /**
  * Default cache folder: the user's cache directory ($XDG_CACHE_HOME, else ~/.cache) under
  * myofolio/charts, so that a build never writes into the folder it is run from (which may be a
- * study folder). Entries are never stale (content-addressed); delete the folder to reclaim space.
+ * study folder). Entries are never stale (content-addressed); those unused for 30 days are pruned
+ * (src/build/cache-prune.ts), and deleting the folder is always safe.
  */
 export const DEFAULT_CHART_CACHE = join(process.env.XDG_CACHE_HOME || join(homedir(), '.cache'), 'myofolio', 'charts');
 
@@ -55,7 +57,9 @@ export class ChartCache {
   /** The cached SVG (or other text by extension), or undefined (a missing or unreadable entry counts as a miss). */
   get(key: string, ext = 'svg'): string | undefined {
     try {
-      const text = readFileSync(this.file(key, ext), 'utf8');
+      const file = this.file(key, ext);
+      const text = readFileSync(file, 'utf8');
+      markUsed(file);
       this.hits++;
       return text;
     } catch {
@@ -67,8 +71,9 @@ export class ChartCache {
   /**
    * Write a kept page to `dest` with `stamp` written over its placeholder (see keepPage): the
    * file is copied by the kernel and patched in place, with no decoding. False when not kept.
+   * `blocks`: the chart-block entries (blockEntryKey) the page shows, marked as used with it.
    */
-  fetchPage(key: string, dest: string, stamp: Uint8Array): boolean {
+  fetchPage(key: string, dest: string, stamp: Uint8Array, blocks: readonly string[] = []): boolean {
     let offsets: number[];
     try {
       offsets = JSON.parse(readFileSync(this.file(key, 'offsets.json'), 'utf8')) as number[];
@@ -78,6 +83,10 @@ export class ChartCache {
       return false;
     }
     patch(dest, offsets, stamp);
+    markUsed(this.file(key, 'offsets.json'));
+    markUsed(this.file(key, 'html'));
+    // The page's chart blocks are not read, but would be if it changed: they are in use too.
+    for (const b of blocks) markUsed(this.file(b, 'json'));
     this.hits++;
     return true;
   }

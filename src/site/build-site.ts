@@ -241,7 +241,8 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
           mkdirSync(dir, { recursive: true });
           made.add(dir);
         }
-        if (pageStore.fetchPage(key, dest, builtAtBytes)) {
+        const blocks = [p.forest?.blockKey, ...p.assays.flatMap((a) => a.charts.map((c) => c.blockKey))].filter((b): b is string => b !== undefined);
+        if (pageStore.fetchPage(key, dest, builtAtBytes, blocks)) {
           found++;
         } else {
           render.push(p);
