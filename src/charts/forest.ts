@@ -40,12 +40,15 @@ function panel(rows: Row[], scale: MetricScale, calls: string[], params: Param[]
     axis.values = { expr: `${scale}Ticks` };
     params.push({ name: `${scale}Ticks`, value: fitted.axis.values });
   }
-  const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 440 } };
+  // Each row label on two lines, the assay above the metric (split at the line break in the row's
+  // name): on one line, the longer ones were cut short by vega's text-width estimate (0.8 em per
+  // character, so 720 px holds 75 characters at 12 px; the axis is only as wide as its longest label).
+  const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 720, labelExpr: "split(datum.label, '\\n')", labelLineHeight: 14, labelOffset: -7 } };
   const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
   const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, axis, title: xTitle });
   return {
     width: 380,
-    height: Math.max(40, rows.length * 30),
+    height: Math.max(40, rows.length * 36),
     data: { values: rows },
     layer: [
       { mark: { type: 'rect', color: BAND_FILL }, encoding: { y, x: x('bandLo'), x2: { field: 'bandHi' } } },
@@ -118,7 +121,7 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
   const estimable = comps.filter((c): c is MetricComparison & { effect: number } => c.effect !== null && Number.isFinite(c.effect));
   if (estimable.length === 0) return null;
   const toRow = (c: MetricComparison & { effect: number }): Row => ({
-    row: shortMetricLabel(results, c.assay, c.metric),
+    row: shortMetricLabel(results, c.assay, c.metric).replace(': ', '\n'),
     effect: c.effect,
     lo: c.ciLow,
     hi: c.ciHigh,

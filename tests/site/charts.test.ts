@@ -179,6 +179,17 @@ describe('study chart specs', () => {
     expect(spec.vconcat[1].layer[0].encoding.x.scale.type).toBeUndefined();
   });
 
+  it('labels each row in full, the assay above the metric, however long the metric name', async () => {
+    const long = makeFixture();
+    long.assays[1].metrics[0].label = '95th percentile velocity of moving filaments in the slowest field';
+    const d = forestChart(long, long.variants[1], 'G120S')!;
+    const svg = await renderSvg(d.spec, { key: d.key, title: d.title, description: d.description });
+    // On one line this label (68 characters) was cut to about 44 by vega's text-width estimate.
+    expect(svg).not.toContain('…');
+    expect(svg).toContain('<tspan>In vitro motility</tspan><tspan x="0" dy="14">95th percentile velocity of moving filaments in the slowest field</tspan>');
+    expect(svg).toContain('<tspan>Actin-activated ATPase</tspan><tspan x="0" dy="14">kcat</tspan>');
+  });
+
   it('keys a forest plot by what it is drawn from: same inputs, same key; any of them changed, another key', () => {
     const v = r.variants[1];
     const key = forestInputKey(r, v, 'G120S');
