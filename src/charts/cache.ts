@@ -69,20 +69,25 @@ export class ChartCache {
   }
 
   /**
-   * Write a kept page to `dest` with `stamp` written over its placeholder (see keepPage): the
-   * file is copied by the kernel and patched in place, with no decoding. False when not kept.
+   * Write a kept page to `dest` with `stamp` written over its placeholder and each slot filled
+   * (see keepPage). A page without slots is copied by the kernel and patched in place, with no
+   * decoding. False when not kept (or kept with a slot `slots` has no fill for).
    * `blocks`: the chart-block entries (blockEntryKey) the page shows, marked as used with it.
    */
-  fetchPage(key: string, dest: string, stamp: Uint8Array, blocks: readonly string[] = []): boolean {
-    let offsets: number[];
+  fetchPage(key: string, dest: string, stamp: Uint8Array, blocks: readonly string[] = [], slots?: PageSlots): boolean {
+    let marks: PageMarks;
     try {
-      offsets = JSON.parse(readFileSync(this.file(key, 'offsets.json'), 'utf8')) as number[];
-      copyFileSync(this.file(key, 'html'), dest);
+      marks = JSON.parse(readFileSync(this.file(key, 'offsets.json'), 'utf8')) as PageMarks;
+      if (!Array.isArray(marks?.stamp) || !Array.isArray(marks?.slots)) throw new Error('not a page entry');
+      if (marks.slots.some(([, , n]) => n >= (slots?.fills.length ?? 0))) throw new Error('a slot without its fill');
+      if (marks.slots.length === 0) {
+        copyFileSync(this.file(key, 'html'), dest);
+        patch(dest, marks.stamp, stamp);
+      } else writeFileSync(dest, filled(readFileSync(this.file(key, 'html')), marks, stamp, slots as PageSlots));
     } catch {
       this.misses++;
       return false;
     }
-    patch(dest, offsets, stamp);
     markUsed(this.file(key, 'offsets.json'));
     markUsed(this.file(key, 'html'));
     // The page's chart blocks are not read, but would be if it changed: they are in use too.
@@ -93,16 +98,29 @@ export class ChartCache {
 
   /**
    * Keep the page at `file`, which holds `placeholder` where each build writes its own text (of
-   * the same length), and write `stamp` over the placeholder in `file`. Best effort, as set.
+   * the same length) and slots (`slots.stem`, a number n, '~') where each build writes its n-th
+   * fill; then write `stamp` and the fills into `file`. Best effort, as set.
    */
-  keepPage(key: string, file: string, placeholder: Uint8Array, stamp: Uint8Array): void {
+  keepPage(key: string, file: string, placeholder: Uint8Array, stamp: Uint8Array, slots?: PageSlots): void {
     const bytes = readFileSync(file);
-    const offsets: number[] = [];
-    for (let at = bytes.indexOf(placeholder); at >= 0; at = bytes.indexOf(placeholder, at + placeholder.length)) offsets.push(at);
-    // The page first, its offsets last: an offsets entry always has its page.
+    const marks: PageMarks = { stamp: [], slots: [] };
+    for (let at = bytes.indexOf(placeholder); at >= 0; at = bytes.indexOf(placeholder, at + placeholder.length)) marks.stamp.push(at);
+    if (slots) {
+      const stem = slots.stem;
+      for (let at = bytes.indexOf(stem); at >= 0; at = bytes.indexOf(stem, at + 1)) {
+        let end = at + stem.length;
+        let n = 0;
+        while (end < bytes.length && bytes[end] >= 0x30 && bytes[end] <= 0x39) n = n * 10 + bytes[end++] - 0x30;
+        // Not a slot (no digits, or no closing '~'): left as it is.
+        if (end === at + stem.length || bytes[end] !== 0x7e) continue;
+        marks.slots.push([at, end + 1 - at, n]);
+      }
+    }
+    // The page first, its marks last: a marks entry always has its page.
     this.set(key, bytes, 'html');
-    this.set(key, JSON.stringify(offsets), 'offsets.json');
-    patch(file, offsets, stamp);
+    this.set(key, JSON.stringify(marks), 'offsets.json');
+    if (marks.slots.length === 0) patch(file, marks.stamp, stamp);
+    else writeFileSync(file, filled(bytes, marks, stamp, slots as PageSlots));
   }
 
   /** Store an SVG (or other text by extension; best effort: a cache that cannot be written only costs time). */
@@ -120,6 +138,34 @@ export class ChartCache {
       // read-only or full disk: carry on without caching
     }
   }
+}
+
+/** Slots of a kept page: the bytes each starts with, and the text (as it goes into the HTML) of slot n. */
+export interface PageSlots {
+  stem: Uint8Array;
+  fills: readonly string[];
+}
+
+/** Where a kept page takes the build time (offsets of the placeholder) and its fills ([offset, length, n]). */
+interface PageMarks {
+  stamp: number[];
+  slots: Array<[number, number, number]>;
+}
+
+/** A kept page with the stamp over each placeholder and each slot replaced by its fill. */
+function filled(bytes: Buffer, marks: PageMarks, stamp: Uint8Array, slots: PageSlots): Buffer {
+  const edits: Array<[number, number, Uint8Array]> = [
+    ...marks.stamp.map((at): [number, number, Uint8Array] => [at, stamp.length, stamp]),
+    ...marks.slots.map(([at, length, n]): [number, number, Uint8Array] => [at, length, Buffer.from(slots.fills[n], 'utf8')]),
+  ].sort((a, b) => a[0] - b[0]);
+  const parts: Uint8Array[] = [];
+  let from = 0;
+  for (const [at, length, bytesIn] of edits) {
+    parts.push(bytes.subarray(from, at), bytesIn);
+    from = at + length;
+  }
+  parts.push(bytes.subarray(from));
+  return Buffer.concat(parts);
 }
 
 /** Write `bytes` at each offset of a file, in place. */

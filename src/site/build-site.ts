@@ -24,7 +24,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import type { ChartsFor } from '../charts/assay-charts.js';
-import { DEFAULT_CHART_CACHE } from '../charts/cache.js';
+import { DEFAULT_CHART_CACHE, type PageSlots } from '../charts/cache.js';
 import { type ChartRenderer, createChartRenderer, defaultWorkers } from '../charts/pool.js';
 import type { StudyResults } from '../results/types.js';
 import { PATHS, uniqueSlugs } from './paths.js';
@@ -34,7 +34,7 @@ import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
 import type { FunctionCall, VariantResult } from '../results/types.js';
 import { type RenderFn, STANDARD_CAVEATS, functionCall } from './view-common.js';
 import { assayPages, compareCharts, methodsData, provenanceData, residueCharts } from './view-study.js';
-import { type VariantPage, indexRows, variantPageBuilder } from './view-variant.js';
+import { Q_SLOT_STEM, type VariantPage, indexRows, variantPageBuilder } from './view-variant.js';
 
 export interface BuildSiteOptions {
   /** Per-variant assay charts (data and fits beside WT); see chartsFromModules(). */
@@ -115,6 +115,19 @@ const PAGE_CACHE_VERSION = 1;
 
 /** Start of the placeholder for the build time in variant pages made for the page cache (patched when written out). */
 const BUILT_AT_STEM = 'myofolio-built-at-7f';
+
+/** Escaped as Nunjucks escapes text it writes into a template (autoescape; node_modules/nunjucks/src/lib.js). */
+const NUNJUCKS_ESCAPES: Record<string, string> = { '&': '&amp;', '"': '&quot;', "'": '&#39;', '<': '&lt;', '>': '&gt;', '\\': '&#92;' };
+export function escapeAsNunjucks(text: string): string {
+  return text.replace(/[&"'<>\\]/g, (ch) => NUNJUCKS_ESCAPES[ch]);
+}
+
+const Q_SLOT_STEM_BYTES = Buffer.from(Q_SLOT_STEM, 'utf8');
+
+/** A variant page's q slots and their texts as they go into the HTML (see qSlots in src/site/view-variant.ts). */
+function slotsOf(p: VariantPage): PageSlots {
+  return { stem: Q_SLOT_STEM_BYTES, fills: (p.qFills ?? []).map(escapeAsNunjucks) };
+}
 
 /**
  * The part of the site data the variant template (and its layout and macros) reads besides its
@@ -223,6 +236,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
       render: prepared.render,
       block: prepared.block,
       lazyBlocks: pageStore !== undefined,
+      qSlots: pageStore !== undefined,
       onVariant: progress ? (d) => progress('charts', d, total) : undefined,
     });
     /** One batch: its pages built, pages found in the page cache written out, the others' charts loaded. */
@@ -242,7 +256,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
           made.add(dir);
         }
         const blocks = [p.forest?.blockKey, ...p.assays.flatMap((a) => a.charts.map((c) => c.blockKey))].filter((b): b is string => b !== undefined);
-        if (pageStore.fetchPage(key, dest, builtAtBytes, blocks)) {
+        if (pageStore.fetchPage(key, dest, builtAtBytes, blocks, slotsOf(p))) {
           found++;
         } else {
           render.push(p);
@@ -264,7 +278,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
       waiting.render = [];
       waiting.keys = [];
       pages += await runEleventy(variantTemplate, outDir, { ...renderSite, variants: render });
-      render.forEach((p, i) => pageStore?.keepPage(keys[i], join(outDir, p.path), placeholderBytes, builtAtBytes));
+      render.forEach((p, i) => pageStore?.keepPage(keys[i], join(outDir, p.path), placeholderBytes, builtAtBytes, slotsOf(p)));
       // These pages' SVGs and HTML are garbage now; without a collection here, V8 lets them pile
       // up for several runs and the build's peak memory grows with the study. A small run leaves
       // little garbage, and a full collection of the results costs more than it frees.

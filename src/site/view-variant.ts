@@ -38,7 +38,6 @@ export interface MetricRow {
   n: string;
   batches: string;
   call: CallView;
-  sentence: string;
   flags: string;
 }
 
@@ -59,6 +58,8 @@ export interface VariantPage {
   evidence: { level: string; scope: string; sentence: string; calibration: CalibrationView | null };
   prev: { name: string; href: string } | null;
   next: { name: string; href: string } | null;
+  /** With qSlots: the q texts of the page's slots, in order (not enumerable, so not in the page's JSON). */
+  qFills?: string[];
 }
 
 /** Comparisons and units of each variant, in results order (one pass instead of a scan per variant). */
@@ -115,6 +116,13 @@ export interface VariantPagesOptions {
    * a page found in a page cache then never reads or draws its charts. Needs `block`.
    */
   lazyBlocks?: boolean;
+  /**
+   * Put a slot (qSlot(n)) in the page wherever a q value is shown, and the q texts in the page's
+   * `qFills` (not enumerable): q values move with every other variant's p values
+   * (Benjamini–Hochberg), so a page kept whole (src/site/build-site.ts) is keyed without them and
+   * gets them filled in as it is written out.
+   */
+  qSlots?: boolean;
   /** Variants whose pages are built at once (default 8): bounds memory, keeps a pool busy. */
   concurrency?: number;
   /** Called after each variant page: (done, total). */
@@ -138,14 +146,19 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
    * The variant's forest plot, as the assay charts: from the block cache by its inputs when there
    * is one (left to load with lazyBlocks), else built and drawn.
    */
-  const forestBlock = async (v: VariantResult, name: string): Promise<ChartBlock | null> => {
-    const drawn = async (draw: RenderFn | undefined) => (await renderBlocks([forestChart(results, v, name)], draw))[0] ?? null;
+  const forestBlock = async (v: VariantResult, name: string, q: (text: string) => string): Promise<ChartBlock | null> => {
+    // The table shows q values, which the block's key does not cover: it is made afresh.
+    const made = forestTable(results, v);
+    const qCol = made.columns.indexOf('q');
+    const table = { ...made, rows: made.rows.map((row) => row.map((cell, i) => (i === qCol ? q(String(cell)) : cell))) };
+    const drawn = async (draw: RenderFn | undefined) => {
+      const b = (await renderBlocks([forestChart(results, v, name)], draw))[0];
+      return b ? { ...b, table } : null;
+    };
     const inputKey = options.block ? forestInputKey(results, v, name) : undefined;
     if (!options.block || inputKey === undefined) return drawn(render);
     const key = `forest:${v.id}`;
     const title = forestTitle(name);
-    // The table shows q values, which the block's key does not cover: it is made afresh.
-    const table = forestTable(results, v);
     return cachedBlock(options.block, `chart-${slug(key)}`, title, [inputKey, key, title], async (draw) => {
       const b = (await drawn(draw)) as ChartBlock;
       return { svg: b.svg, description: b.description, table: b.table };
@@ -168,6 +181,8 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
   };
   return (subset) => mapLimit(subset, options.concurrency ?? 8, async (v): Promise<VariantPage> => {
     const name = names.get(v.id) ?? v.short;
+    const qFills: string[] = [];
+    const q = options.qSlots ? (text: string) => qSlot(qFills.push(text) - 1) : (text: string) => text;
     const extra = chartsFor ? await chartsFor(v.id) : [];
     const myComps = idx.comps(v.id);
     const myUnits = idx.units(v.id);
@@ -207,11 +222,10 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
             scale: c.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',
             effect: fmt(c.effect),
             ci: fmtCi(c.ciLow, c.ciHigh),
-            q: fmtP(c.q),
+            q: q(fmtP(c.q)),
             n: `${c.nVariantUnits} / ${c.nWtUnits}`,
             batches: c.batches.join(', '),
             call: metricCall(c.call),
-            sentence: c.sentence,
             flags: c.flags.map((f) => f.code).join(', '),
           };
         }),
@@ -242,9 +256,9 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
       lines.set(s.file, list);
     }
     const cal = results.calibration.find((c) => c.scope === v.evidence.scope);
-    const forest = await forestBlock(v, name);
+    const forest = await forestBlock(v, name, q);
     options.onVariant?.(++done, results.variants.length);
-    return {
+    const page: VariantPage = {
       path: PATHS.variant(slugs.get(v.id) as string),
       root: '../',
       title: v.isWT ? `${v.gene} wild type` : `${name} (${v.gene} ${v.hgvs})`,
@@ -261,5 +275,16 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
       prev: link(results.variants[(position.get(v.id) as number) - 1]),
       next: link(results.variants[(position.get(v.id) as number) + 1]),
     };
+    // Not enumerable: the page's JSON (its cache key) holds the slots only.
+    if (options.qSlots) Object.defineProperty(page, 'qFills', { enumerable: false, value: qFills });
+    return page;
   });
+}
+
+/** Start of a q-value slot in a variant page (see VariantPagesOptions.qSlots); ASCII that HTML escaping leaves as it is. */
+export const Q_SLOT_STEM = 'myofolio-q-7f-';
+
+/** The slot of the n-th q text of a page: Q_SLOT_STEM, n in decimal, '~'. */
+export function qSlot(n: number): string {
+  return `${Q_SLOT_STEM}${n}~`;
 }

@@ -18,6 +18,7 @@ import { createChartRenderer } from '../../src/charts/pool.js';
 import { canonical, canonicalSlow, chartKey } from '../../src/charts/render.js';
 import type { StudyResults } from '../../src/results/types.js';
 import { buildSite } from '../../src/site/build-site.js';
+import { Q_SLOT_STEM } from '../../src/site/view-variant.js';
 import { loadStudy } from '../../src/study/load.js';
 import { listFiles } from '../site/helpers.js';
 
@@ -47,9 +48,11 @@ let base: StudyResults;
 let changed: StudyResults;
 let serial: Map<string, string>;
 let changedHgvs: string;
+let made: ReturnType<typeof syntheticStudy>;
 
 beforeAll(async () => {
   const study = syntheticStudy(small);
+  made = study;
   base = analyse(study);
   const label = (study.manifest.variants as Array<{ hgvs?: string }>)[2].hgvs as string;
   changedHgvs = label;
@@ -143,6 +146,28 @@ describe('chart pool and cache', () => {
     const page = [...again.keys()].find((f) => f.startsWith('variants/') && (again.get(f) as string).includes(`(${short})`)) as string;
     expect(page).toBeDefined();
     expect(again.get(page)).toBe(expected.get(page));
+
+    // A variant that is not a calibration control changes (that one was a benign control, so
+    // every page's evidence sentence changed): every other variant page comes whole from the
+    // page cache (marked), with this build's q values filled into its slots. Each equals an
+    // uncached build's page but for the mark, also where the change moved a q value
+    // (Benjamini–Hochberg runs over all variants).
+    const label = (made.manifest.variants as Array<{ hgvs?: string; control?: unknown }>).find((v, i) => i > 0 && v.control === undefined)?.hgvs as string;
+    const changedQ = analyse({ manifest: made.manifest, files: changeOneVariant(made.files, label.replace(/^p\./, '')) });
+    const qBuild = await build(changedQ, 'pages-q');
+    const qRef = await fresh('pages-q-ref');
+    await buildSite(changedQ, qRef, { chartsFor: chartsFromModules(changedQ, ASSAYS), sourceDateEpoch: 1_700_000_000, workers: 0, chartCache: false });
+    const qExpected = await snapshot(qRef);
+    const qPage = variantPages.find((f) => (qBuild.get(f) as string).includes(`(${label.replace(/^p\./, '')})`)) as string;
+    expect(qBuild.get(qPage)).toBe(qExpected.get(qPage));
+    let movedQ = 0;
+    for (const f of variantPages) {
+      if (f === qPage) continue;
+      expect(qBuild.get(f)).toBe(`${qExpected.get(f)}<!-- kept -->`);
+      if (qExpected.get(f) !== serial.get(f)) movedQ++;
+    }
+    expect(movedQ).toBeGreaterThan(0);
+    expect([...qBuild.values()].some((html) => html.includes(Q_SLOT_STEM))).toBe(false);
   }, 240_000);
 
   it('a change to one variant changes the per-variant charts of that variant only', () => {
