@@ -9,7 +9,7 @@
  * Never point the cache inside a study folder or an output folder that gets swapped.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, copyFileSync, mkdirSync, openSync, readFileSync, renameSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, copyFileSync, fstatSync, mkdirSync, openSync, readFileSync, readSync, renameSync, writeFileSync, writeSync, writevSync } from 'node:fs';
 import { homedir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { ChartSpec } from '../assays/types.js';
@@ -45,6 +45,7 @@ export class ChartCache {
   hits = 0;
   misses = 0;
   private made = new Set<string>();
+  private scratch = Buffer.alloc(0);
 
   constructor(dir: string = DEFAULT_CHART_CACHE) {
     this.dir = resolve(dir);
@@ -83,7 +84,7 @@ export class ChartCache {
       if (marks.slots.length === 0) {
         copyFileSync(this.file(key, 'html'), dest);
         patch(dest, marks.stamp, stamp);
-      } else writeFileSync(dest, filled(readFileSync(this.file(key, 'html')), marks, stamp, slots as PageSlots));
+      } else writeFilled(dest, this.readPage(this.file(key, 'html')), marks, stamp, slots as PageSlots);
     } catch {
       this.misses++;
       return false;
@@ -120,7 +121,25 @@ export class ChartCache {
     this.set(key, bytes, 'html');
     this.set(key, JSON.stringify(marks), 'offsets.json');
     if (marks.slots.length === 0) patch(file, marks.stamp, stamp);
-    else writeFileSync(file, filled(bytes, marks, stamp, slots as PageSlots));
+    else writeFilled(file, bytes, marks, stamp, slots as PageSlots);
+  }
+
+  /** A kept page's bytes, read into a buffer reused from page to page (valid until the next call). */
+  private readPage(file: string): Buffer {
+    const fd = openSync(file, 'r');
+    try {
+      const size = fstatSync(fd).size;
+      if (this.scratch.length < size) this.scratch = Buffer.allocUnsafe(Math.ceil(size * 1.25));
+      let got = 0;
+      while (got < size) {
+        const n = readSync(fd, this.scratch, got, size - got, got);
+        if (n === 0) break;
+        got += n;
+      }
+      return this.scratch.subarray(0, got);
+    } finally {
+      closeSync(fd);
+    }
   }
 
   /** Store an SVG (or other text by extension; best effort: a cache that cannot be written only costs time). */
@@ -152,8 +171,11 @@ interface PageMarks {
   slots: Array<[number, number, number]>;
 }
 
-/** A kept page with the stamp over each placeholder and each slot replaced by its fill. */
-function filled(bytes: Buffer, marks: PageMarks, stamp: Uint8Array, slots: PageSlots): Buffer {
+/**
+ * Write a kept page to `file` with the stamp over each placeholder and each slot replaced by its
+ * fill: its pieces are written as they stand (one writev), never joined into a new buffer.
+ */
+function writeFilled(file: string, bytes: Buffer, marks: PageMarks, stamp: Uint8Array, slots: PageSlots): void {
   const edits: Array<[number, number, Uint8Array]> = [
     ...marks.stamp.map((at): [number, number, Uint8Array] => [at, stamp.length, stamp]),
     ...marks.slots.map(([at, length, n]): [number, number, Uint8Array] => [at, length, Buffer.from(slots.fills[n], 'utf8')]),
@@ -165,7 +187,18 @@ function filled(bytes: Buffer, marks: PageMarks, stamp: Uint8Array, slots: PageS
     from = at + length;
   }
   parts.push(bytes.subarray(from));
-  return Buffer.concat(parts);
+  const fd = openSync(file, 'w');
+  try {
+    const total = parts.reduce((n, p) => n + p.length, 0);
+    const written = writevSync(fd, parts);
+    // A short write (rare on a regular file): the rest in one buffer.
+    if (written < total) {
+      const rest = Buffer.concat(parts).subarray(written);
+      for (let at = 0; at < rest.length; at += writeSync(fd, rest, at));
+    }
+  } finally {
+    closeSync(fd);
+  }
 }
 
 /** Write `bytes` at each offset of a file, in place. */
