@@ -68,9 +68,10 @@ const variantTemplate = join(templatesDir, 'variant.njk');
  * being drawn), with the garbage of rendering them. Measured on the 1,000-variant benchmark
  * (cold): 250 pages per run peaked at 1.64 GB in this phase, 125 at 1.42–1.45 GB, at the same
  * build time; with chart Views kept between charts (src/charts/render.ts) 125 peaked at
- * 1.56 GB and 100 at 1.50 GB.
+ * 1.56 GB and 100 at 1.50 GB (1.49–1.50 GB in this phase in two later runs), 75 at 1.44 GB
+ * (then set by the analysis phase; one run).
  */
-export const VARIANT_BATCH = 100;
+export const VARIANT_BATCH = 75;
 
 interface Prepared {
   slugs: Map<string, string>;
