@@ -15,28 +15,42 @@ import { jsonPieces } from './raw-json.js';
 /** Bytes collected before a write to the file. */
 const CHUNK_BYTES = 1 << 20;
 
-/** A sink that collects text and bytes (UTF-8) and writes them to `fd` in chunks. */
+/**
+ * A sink that collects text and bytes (UTF-8) in one buffer, reused from chunk to chunk, and
+ * writes it to `fd` when full. A new buffer per chunk cost a page fault per 4 KB page written
+ * (about 0.3 s for the 76 MB of a 1,000-variant study).
+ */
 function chunkedWriter(fd: number) {
-  let parts: Array<string | Uint8Array> = [];
+  const buf = Buffer.allocUnsafe(CHUNK_BYTES);
   let size = 0;
-  let bytes = false;
   const flush = () => {
-    if (parts.length === 0) return;
-    if (bytes) writeSync(fd, Buffer.concat(parts.map((p) => (typeof p === 'string' ? Buffer.from(p, 'utf8') : p))));
-    else writeSync(fd, (parts as string[]).join(''));
-    parts = [];
+    for (let at = 0; at < size; at += writeSync(fd, buf, at, size - at));
     size = 0;
-    bytes = false;
   };
   return {
     write(piece: string | Uint8Array) {
-      parts.push(piece);
-      if (typeof piece === 'string') size += piece.length;
-      else {
+      if (typeof piece === 'string') {
+        // At most 3 UTF-8 bytes per UTF-16 code unit.
+        if (size + piece.length * 3 > CHUNK_BYTES) {
+          flush();
+          if (piece.length * 3 > CHUNK_BYTES) {
+            const bytes = Buffer.from(piece, 'utf8');
+            for (let at = 0; at < bytes.length; at += writeSync(fd, bytes, at));
+            return;
+          }
+        }
+        size += buf.write(piece, size, 'utf8');
+      } else {
+        if (size + piece.byteLength > CHUNK_BYTES) {
+          flush();
+          if (piece.byteLength > CHUNK_BYTES) {
+            for (let at = 0; at < piece.byteLength; at += writeSync(fd, piece, at));
+            return;
+          }
+        }
+        buf.set(piece, size);
         size += piece.byteLength;
-        bytes = true;
       }
-      if (size >= CHUNK_BYTES) flush();
     },
     flush,
   };

@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { writeJsonStreamed } from '../../src/results/json.js';
+import { lazyJsonObject } from '../../src/results/raw-json.js';
 import { makeFixture } from '../fixtures/results-fixture.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'myofolio-json-'));
@@ -21,6 +22,24 @@ describe('writeJsonStreamed', () => {
     const file = join(dir, 'edge.json');
     writeJsonStreamed(file, value as never);
     expect(readFileSync(file, 'utf8')).toBe(JSON.stringify(value) + '\n');
+  });
+
+  it('writes multi-byte text, pieces larger than its buffer and kept JSON bytes exactly', () => {
+    // Elements of about a third of the 1 MiB buffer, so that pieces meet its end at odd places;
+    // one element larger than the buffer; text with 2-, 3- and 4-byte UTF-8 characters; and
+    // 900 KB of ASCII followed by text that would fit the rest of the buffer in UTF-16 code units
+    // but not in UTF-8 bytes.
+    const text = (n: number) => 'µ°C – 𝛽 pCa₅₀ '.repeat(n);
+    const value = { rows: [text(20_000), { t: text(80_000) }, text(20_001), 'plain'.repeat(70_000), text(3), 'a'.repeat(300_000), 'b'.repeat(300_000), 'c'.repeat(300_000), text(8_000)] };
+    const file = join(dir, 'utf8.json');
+    writeJsonStreamed(file, value);
+    expect(readFileSync(file, 'utf8')).toBe(JSON.stringify(value) + '\n');
+    // Plots kept as their JSON bytes (src/results/raw-json.ts) are copied as they stand, large or small.
+    const big = lazyJsonObject<object>(['t'], Buffer.from(JSON.stringify({ t: text(90_000) }), 'utf8'));
+    const small = lazyJsonObject<object>(['t'], Buffer.from(JSON.stringify({ t: text(2) }), 'utf8'));
+    const withBytes = { units: [{ plot: small }, { plot: big }, { plot: small }] };
+    writeJsonStreamed(file, withBytes);
+    expect(readFileSync(file, 'utf8')).toBe(JSON.stringify({ units: [{ plot: { t: text(2) } }, { plot: { t: text(90_000) } }, { plot: { t: text(2) } }] }) + '\n');
   });
 
   it('writes a file larger than its write buffer', () => {
