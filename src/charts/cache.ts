@@ -103,7 +103,7 @@ export class ChartCache {
    * fill; then write `stamp` and the fills into `file`. Best effort, as set.
    */
   keepPage(key: string, file: string, placeholder: Uint8Array, stamp: Uint8Array, slots?: PageSlots): void {
-    const bytes = readFileSync(file);
+    const bytes = this.readPage(file);
     const marks: PageMarks = { stamp: [], slots: [] };
     for (let at = bytes.indexOf(placeholder); at >= 0; at = bytes.indexOf(placeholder, at + placeholder.length)) marks.stamp.push(at);
     if (slots) {
