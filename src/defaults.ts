@@ -18,11 +18,11 @@ export const INPUT = {
 export const CACHE = {
   /**
    * Days a cache entry (chart, chart block, page, unit analysis, file digest) is kept without a build
-   * using it. Long enough for a lab that rebuilds monthly to keep its rebuilds fast; entries of old
-   * code versions and retired studies go after it.
+   * using it: a study rebuilt at least monthly keeps its rebuilds fast; entries of old code versions
+   * and retired studies go after it.
    */
   keepDays: 30,
-  /** Hours between two prunings of one cache folder: each walks every entry (about 0.1 s per 10,000). */
+  /** Hours between two prunings of one cache folder: each walks every entry (about 0.15 s for the 7,400 files of a 1,000-variant study). */
   pruneEveryHours: 24,
 } as const;
 

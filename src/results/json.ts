@@ -18,7 +18,7 @@ const CHUNK_BYTES = 1 << 20;
 /**
  * A sink that collects text and bytes (UTF-8) in one buffer, reused from chunk to chunk, and
  * writes it to `fd` when full. A new buffer per chunk cost a page fault per 4 KB page written
- * (about 0.3 s for the 76 MB of a 1,000-variant study).
+ * (the 1,000-variant rebuild's write phase went from 0.94 s to 0.82 s, near the noise).
  */
 function chunkedWriter(fd: number) {
   const buf = Buffer.allocUnsafe(CHUNK_BYTES);
