@@ -1,4 +1,5 @@
 /** What every study-level chart builder returns: a spec plus the words and numbers that go with it. */
+import { fmtP as formatP } from '../analysis/format.js';
 import type { ChartSpec } from '../assays/types.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
 
@@ -31,11 +32,14 @@ export function fmt(x: number | null | undefined, digits = 3): string {
   return x.toExponential(digits - 1);
 }
 
-/** q and p values: 2 significant digits, '< 0.0001' below that. Example: fmtP(0.01234) → '0.012'. */
+/**
+ * q and p values in tables and charts: as in the results' sentences (src/analysis/format.ts: 2
+ * significant figures, '< 0.001' below 0.001), with '—' for none. One rule, so that a report's
+ * table and its downloads never show one q value two ways. Example: fmtP(0.01234) → '0.012'.
+ */
 export function fmtP(x: number | null | undefined): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  if (x < 1e-4) return '< 0.0001';
-  return String(Number(x.toPrecision(2)));
+  return formatP(x);
 }
 
 /** Interval as 'low–high'. */

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
+import { fmtP as formatP } from '../../src/analysis/format.js';
 import { EFFECTS_LABELLED_MAX, effectsChart } from '../../src/charts/effects.js';
 import { forestChart, forestInputKey } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
@@ -244,7 +245,11 @@ describe('formatting and paths (common practice, no source)', () => {
     expect(fmt(0.00123456)).toBe('0.00123');
     expect(fmt(null)).toBe('—');
     expect(fmtP(0.01234)).toBe('0.012');
-    expect(fmtP(1e-6)).toBe('< 0.0001');
+    expect(fmtP(0.5)).toBe('0.50');
+    expect(fmtP(1e-6)).toBe('< 0.001');
+    expect(fmtP(null)).toBe('—');
+    // The same text as the results' sentences give (results.json, results.csv).
+    for (const q of [0.0005, 0.00099, 0.001, 0.0123, 0.5, 0.999]) expect(fmtP(q)).toBe(formatP(q));
   });
 
   it('chooses log-axis domains that hold every value and symmetric ratio ticks', () => {
