@@ -5,7 +5,7 @@
  * only folders that carry its marker.
  */
 import { existsSync, mkdirSync, readdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
+import { basename, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildStudy } from '../../src/build/build-study.js';
 import { OUTPUT_MARKER, cleanStale } from '../../src/cli/output.js';
