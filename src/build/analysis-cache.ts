@@ -56,7 +56,7 @@ import type { KnownFiles } from '../study/read-folder.js';
 export const DEFAULT_ANALYSIS_CACHE = join(DEFAULT_CHART_CACHE, '..', 'analysis');
 
 /** Version of the entry format; bump when what is stored changes. */
-const ENTRY_VERSION = 6;
+const ENTRY_VERSION = 7;
 
 export interface CachedAnalysisOptions extends ParallelOptions {
   /** Cache folder, or false for none (then this is analyseUnitsParallel). */
@@ -281,7 +281,7 @@ interface SlotWork {
 /**
  * Stored form of a slot file: every entry's units with their digests (src/results/unit-digest.ts),
  * and the keys that lead to each. On disk: the byte length of the v8-serialised SlotFile (uint32,
- * little-endian), the SlotFile, then the plots' JSON (UTF-8) one after another (see StoredUnit).
+ * little-endian), the SlotFile, then the JSON (UTF-8) of the units' lazy parts one after another (see StoredUnit).
  */
 interface SlotFile {
   keys: Array<[key: string, entry: number]>;
@@ -293,21 +293,25 @@ interface SlotEntry {
   digests: string[];
 }
 
+/** Parts of a unit kept as JSON text in the cache file: a rebuild reads none of them, except the plots of the charts it draws. */
+const LAZY_FIELDS = ['plot', 'fit', 'metricSe'] as const;
+type LazyField = (typeof LAZY_FIELDS)[number];
+
 /**
- * A unit as stored: with `plotKeys` (the plot's keys in order), its plot is JSON text whose
- * place in the file's plot bytes is `plot` ([start, length]); without, `plot` is the plot itself
- * (a plot whose JSON holds a null: JSON writes NaN, ±Infinity and undefined array elements as
- * null, so that text would not give the plot back). A rebuild reads every unit of the study but
- * draws the charts of a few variants only: a plot left as bytes of the file is parsed only if
- * read, and results.json copies the bytes (src/results/raw-json.ts).
+ * A unit as stored: each field named in `lazy` holds [start, length], the place of its JSON text
+ * in the file's JSON bytes; other fields hold their values. A part whose JSON would hold a null
+ * is kept as a value (JSON writes NaN, ±Infinity and undefined array elements as null, so that
+ * text would not give the value back), as is anything not a plain object. A rebuild reads every
+ * unit of the study but draws the charts of a few variants only: a part left as bytes is parsed
+ * only if read, and results.json copies its bytes (src/results/raw-json.ts).
  */
-type StoredUnit = Omit<UnitResult, 'plot'> & { plot: UnitResult['plot'] | [start: number, length: number]; plotKeys?: string[] };
+type StoredUnit = Omit<UnitResult, LazyField> & { [F in LazyField]?: UnitResult[F] | [start: number, length: number] } & { lazy?: LazyField[] };
 
 /** Bytes of the file's header length field. */
 const HEADER_LENGTH_BYTES = 4;
 
-/** A slot file's parts, or undefined when it is not one (missing, unreadable, of an older layout, or with plots out of range). */
-function readSlot(path: string): { file: SlotFile; plots: Buffer } | undefined {
+/** A slot file's parts, or undefined when it is not one (missing, unreadable, of an older layout, or with JSON text out of range). */
+function readSlot(path: string): { file: SlotFile; texts: Buffer } | undefined {
   try {
     const buf = readFileSync(path);
     const n = buf.readUInt32LE(0);
@@ -315,22 +319,37 @@ function readSlot(path: string): { file: SlotFile; plots: Buffer } | undefined {
     if (end > buf.length) return undefined;
     const file = deserialize(buf.subarray(HEADER_LENGTH_BYTES, end)) as SlotFile;
     if (!Array.isArray(file?.keys) || !Array.isArray(file?.entries)) return undefined;
-    const plots = buf.subarray(end);
+    const texts = buf.subarray(end);
     for (const e of file.entries) {
       for (const u of Array.isArray(e?.units) ? e.units : []) {
-        if (!u?.plotKeys) continue;
-        const [start, length] = Array.isArray(u.plot) ? u.plot : [NaN, NaN];
-        if (!Number.isInteger(start) || !Number.isInteger(length) || start < 0 || length < 0 || start + length > plots.length) return undefined;
+        if (u?.lazy === undefined) continue;
+        if (!Array.isArray(u.lazy)) return undefined;
+        for (const field of u.lazy) {
+          const at = u[field];
+          const [start, length] = Array.isArray(at) ? at : [NaN, NaN];
+          if (!Number.isInteger(start) || !Number.isInteger(length) || start < 0 || length < 0 || start + length > texts.length) return undefined;
+        }
       }
     }
-    return { file, plots };
+    return { file, texts };
   } catch {
     return undefined;
   }
 }
 
-/** Write a slot file: units made now (UnitResult) get their plot's JSON written, stored ones have theirs copied from `oldPlots`. */
-function writeSlot(path: string, entries: Array<{ keys: Iterable<string>; units: Array<StoredUnit | UnitResult>; digests: string[]; stored: boolean }>, oldPlots: Buffer | undefined): void {
+/** JSON bytes of a unit's part, or undefined when it must stay a value (see StoredUnit). */
+function lazyBytes(value: unknown): Uint8Array | undefined {
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) return undefined;
+  const kept = rawJsonOf(value);
+  if (kept) return kept;
+  const proto = Object.getPrototypeOf(value) as unknown;
+  if (proto !== Object.prototype && proto !== null) return undefined;
+  const text = JSON.stringify(value);
+  return text.includes('null') ? undefined : Buffer.from(text, 'utf8');
+}
+
+/** Write a slot file: units made now (UnitResult) get the JSON of their lazy parts written, stored ones have theirs copied from `oldTexts`. */
+function writeSlot(path: string, entries: Array<{ keys: Iterable<string>; units: Array<StoredUnit | UnitResult>; digests: string[]; stored: boolean }>, oldTexts: Buffer | undefined): void {
   const out: SlotFile = { keys: [], entries: [] };
   const chunks: Uint8Array[] = [];
   let offset = 0;
@@ -342,20 +361,25 @@ function writeSlot(path: string, entries: Array<{ keys: Iterable<string>; units:
   const storedForm = (u: StoredUnit | UnitResult, stored: boolean): StoredUnit => {
     if (stored) {
       const s = u as StoredUnit;
-      if (!s.plotKeys || !oldPlots) return s;
-      const [start, length] = s.plot as [number, number];
-      return { ...s, plot: place(oldPlots.subarray(start, start + length)) };
+      if (!s.lazy || !oldTexts) return s;
+      const copy: StoredUnit = { ...s };
+      for (const field of s.lazy) {
+        const [start, length] = s[field] as [number, number];
+        copy[field] = place(oldTexts.subarray(start, start + length));
+      }
+      return copy;
     }
-    const plot = u.plot as unknown;
-    if (plot === null || typeof plot !== 'object' || Array.isArray(plot)) return u;
-    let bytes = rawJsonOf(plot);
-    if (!bytes) {
-      const text = JSON.stringify(plot);
-      if (text.includes('null')) return u;
-      bytes = Buffer.from(text, 'utf8');
+    // Each part's value is replaced where it stands, so the unit's keys keep their order.
+    const copy: StoredUnit = { ...(u as UnitResult) };
+    const lazy: LazyField[] = [];
+    for (const field of LAZY_FIELDS) {
+      const bytes = lazyBytes((u as UnitResult)[field]);
+      if (!bytes) continue;
+      copy[field] = place(bytes);
+      lazy.push(field);
     }
-    // The plot's value is replaced where it stands, so the unit's keys keep their order.
-    return { ...u, plot: place(bytes), plotKeys: Object.keys(plot) };
+    if (lazy.length > 0) copy.lazy = lazy;
+    return copy;
   };
   for (const e of entries) {
     for (const k of e.keys) out.keys.push([k, out.entries.length]);
@@ -367,12 +391,16 @@ function writeSlot(path: string, entries: Array<{ keys: Iterable<string>; units:
   storeText(path, Buffer.concat([length, header, ...chunks]));
 }
 
-/** A stored unit as a UnitResult: a plot kept as JSON is read from `plots` when first read. */
-function unitFromStored(s: StoredUnit, plots: Buffer): UnitResult {
-  if (!s.plotKeys) return s as UnitResult;
-  const { plotKeys, ...rest } = s;
-  const [start, length] = s.plot as [number, number];
-  return { ...rest, plot: lazyJsonObject<UnitResult['plot']>(plotKeys, plots.subarray(start, start + length)) };
+/** A stored unit as a UnitResult: its parts kept as JSON are read from `texts` when first read. */
+function unitFromStored(s: StoredUnit, texts: Buffer): UnitResult {
+  if (!s.lazy) return s as UnitResult;
+  const { lazy, ...rest } = s;
+  const u = rest as Record<string, unknown>;
+  for (const field of lazy) {
+    const [start, length] = s[field] as [number, number];
+    u[field] = lazyJsonObject(texts, start, start + length);
+  }
+  return u as unknown as UnitResult;
 }
 
 /**
@@ -408,7 +436,7 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
       let units = read.get(at);
       if (!units) {
         // Each unit comes back with the JSON it was stored with, so the digest stored beside it is its digest.
-        units = entry.units.map((u) => unitFromStored(u, slot.plots));
+        units = entry.units.map((u) => unitFromStored(u, slot.texts));
         units.forEach((u, i) => rememberUnitDigest(u, entry.digests[i]));
         read.set(at, units);
       }
@@ -443,7 +471,7 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
         storedEntry(at, keys);
         kept++;
       }
-      writeSlot(path, out, slot?.plots);
+      writeSlot(path, out, slot?.texts);
     },
   };
 }

@@ -2,54 +2,100 @@
  * Objects that keep the JSON text they were read from (as UTF-8 bytes), so that text can be
  * written out again without decoding it, parsing it and serialising it back.
  *
- * The analysis cache (src/build/analysis-cache.ts) stores each unit's `plot` (the readings and
- * curves its charts draw: most of a unit's bytes) as JSON text. A rebuild reads the study's
- * units from the cache, but draws the charts of a few variants only; every plot is written to
- * results.json, though. Left as bytes of the cache file, a plot costs no object at all instead
- * of thousands of small ones (whose deserialisation and garbage collection were the larger part
- * of a 1,000-variant rebuild), and results.json copies the bytes as they are (writeJsonStreamed).
+ * The analysis cache (src/build/analysis-cache.ts) stores the parts of each unit that a rebuild
+ * does not read (its `plot`, the readings and curves its charts draw, most of a unit's bytes; its
+ * `fit` and `metricSe`) as JSON text. A rebuild reads the study's units from the cache, but draws
+ * the charts of a few variants only; every unit is written to results.json, though. Left as bytes
+ * of the cache file, such a part costs two small objects instead of dozens (whose deserialisation
+ * and garbage collection were the larger part of a 1,000-variant rebuild), and results.json
+ * copies the bytes as they are (writeJsonStreamed).
  *
- *   lazyJsonObject(keys, bytes) ──any property read──▶ JSON.parse(UTF-8 text) once, values from it
- *                               ──rawJsonOf──▶ bytes (until a property is assigned)
+ *   lazyJsonObject(bytes) ──any property or key read──▶ JSON.parse(UTF-8 text) once, answers from it
+ *                         ──rawJsonOf──▶ bytes (until a property is assigned, defined or deleted)
  *
- * The text must be JSON.stringify's own output for an object with those keys, in that order, and
- * nothing may change the parsed values in place (plots are not changed after the fit): then
- * JSON.stringify of the object, read or not, gives the text back byte for byte.
+ * The text must be JSON.stringify's own output for the object, and nothing may change the parsed
+ * values in place (these parts are not changed after the fit): then JSON.stringify of the object,
+ * read or not, gives the text back byte for byte. The objects are proxies: util.inspect shows
+ * their state, not their properties (spread one first), and structuredClone refuses them.
  */
 
-/** Own, non-enumerable marker holding the JSON bytes of an object made by lazyJsonObject. */
+/** Key under which a lazy object answers with its state while its bytes stand for it (never an own key it lists). */
 const RAW_JSON: unique symbol = Symbol('myofolio.rawJson');
 
 /**
- * An object with enumerable properties `keys` whose values come from `bytes` (UTF-8 JSON of an
- * object with those keys), parsed when a property is first read. Assigning a property keeps the
- * other values and drops the bytes (rawJsonOf then gives undefined).
- * @example const o = lazyJsonObject<{ a: number[] }>(['a'], Buffer.from('{"a":[1,2]}')); o.a[1] // → 2
+ * What a lazy object holds, and the target of its proxy: where its text is, and the parsed
+ * object once a property is read. Its own properties are plain (configurable) ones, so the
+ * proxy may report other properties instead of them.
  */
-export function lazyJsonObject<T extends object>(keys: readonly string[], bytes: Uint8Array): T {
-  let parsed: Record<string, unknown> | undefined;
-  const read = () => (parsed ??= JSON.parse(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('utf8')) as Record<string, unknown>);
-  const target: Record<string | symbol, unknown> = {};
-  for (const key of keys) {
-    Object.defineProperty(target, key, {
-      enumerable: true,
-      configurable: true,
-      get: () => read()[key],
-      set: (value: unknown) => {
-        read()[key] = value;
-        delete target[RAW_JSON];
-      },
-    });
-  }
-  Object.defineProperty(target, RAW_JSON, { value: bytes, enumerable: false, configurable: true, writable: false });
-  return target as T;
+interface LazyState {
+  source: Uint8Array;
+  start: number;
+  end: number;
+  /** False once a property was assigned, defined or deleted: the bytes no longer stand for it. */
+  raw: boolean;
+  parsed: Record<string | symbol, unknown> | undefined;
+}
+
+function parsedOf(s: LazyState): Record<string | symbol, unknown> {
+  return (s.parsed ??= JSON.parse(Buffer.from(s.source.buffer, s.source.byteOffset + s.start, s.end - s.start).toString('utf8')) as Record<string, unknown>);
+}
+
+/**
+ * One handler for every lazy object: each trap works on the parsed object, so the proxy behaves
+ * as that object does (keys in their order, spread, JSON.stringify, toEqual). The target's
+ * prototype, Object.prototype, is what the proxy reports; every property it reports is
+ * configurable, as the proxy invariants require of properties the target does not have.
+ */
+const HANDLER: ProxyHandler<LazyState> = {
+  get(s, key) {
+    if (key === RAW_JSON) return s.raw ? s : undefined;
+    return parsedOf(s)[key];
+  },
+  has(s, key) {
+    return key in parsedOf(s);
+  },
+  ownKeys(s) {
+    return Reflect.ownKeys(parsedOf(s));
+  },
+  getOwnPropertyDescriptor(s, key) {
+    const d = Reflect.getOwnPropertyDescriptor(parsedOf(s), key);
+    return d === undefined ? undefined : { ...d, configurable: true };
+  },
+  set(s, key, value) {
+    parsedOf(s)[key] = value;
+    s.raw = false;
+    return true;
+  },
+  defineProperty(s, key, descriptor) {
+    s.raw = false;
+    return Reflect.defineProperty(parsedOf(s), key, { ...descriptor, configurable: true });
+  },
+  deleteProperty(s, key) {
+    s.raw = false;
+    return Reflect.deleteProperty(parsedOf(s), key);
+  },
+};
+
+/**
+ * An object whose properties are those of the JSON object in `source` (UTF-8 bytes, or the
+ * bytes `start`..`end` of it), parsed when a property or key is first read: a proxy with one
+ * shared handler, so an object never read costs two small objects and no copy of its bytes.
+ * Changing it (assign, define, delete) keeps the other values and drops the bytes (rawJsonOf
+ * then gives undefined). Values JSON cannot hold must not be in the text's object: a key whose
+ * value was undefined is missing, and -0 reads as 0.
+ * @example const o = lazyJsonObject<{ a: number[] }>(Buffer.from('{"a":[1,2]}')); o.a[1] // → 2
+ */
+export function lazyJsonObject<T extends object>(source: Uint8Array, start = 0, end = source.byteLength): T {
+  const state: LazyState = { source, start, end, raw: true, parsed: undefined };
+  return new Proxy(state, HANDLER) as unknown as T;
 }
 
 /** The JSON bytes an object was made from (lazyJsonObject), if they still stand for the object. */
 export function rawJsonOf(value: unknown): Uint8Array | undefined {
   if (value === null || typeof value !== 'object') return undefined;
-  const bytes = (value as Record<symbol, unknown>)[RAW_JSON];
-  return bytes instanceof Uint8Array ? bytes : undefined;
+  const s = (value as Record<symbol, unknown>)[RAW_JSON] as LazyState | undefined;
+  if (s === undefined) return undefined;
+  return s.start === 0 && s.end === s.source.byteLength ? s.source : s.source.subarray(s.start, s.end);
 }
 
 /**

@@ -35,8 +35,8 @@ describe('writeJsonStreamed', () => {
     writeJsonStreamed(file, value);
     expect(readFileSync(file, 'utf8')).toBe(JSON.stringify(value) + '\n');
     // Plots kept as their JSON bytes (src/results/raw-json.ts) are copied as they stand, large or small.
-    const big = lazyJsonObject<object>(['t'], Buffer.from(JSON.stringify({ t: text(90_000) }), 'utf8'));
-    const small = lazyJsonObject<object>(['t'], Buffer.from(JSON.stringify({ t: text(2) }), 'utf8'));
+    const big = lazyJsonObject<object>(Buffer.from(JSON.stringify({ t: text(90_000) }), 'utf8'));
+    const small = lazyJsonObject<object>(Buffer.from(JSON.stringify({ t: text(2) }), 'utf8'));
     const withBytes = { units: [{ plot: small }, { plot: big }, { plot: small }] };
     writeJsonStreamed(file, withBytes);
     expect(readFileSync(file, 'utf8')).toBe(JSON.stringify({ units: [{ plot: { t: text(2) } }, { plot: { t: text(90_000) } }, { plot: { t: text(2) } }] }) + '\n');

@@ -17,7 +17,7 @@ describe('lazyJsonObject', () => {
       return parse(t) as unknown;
     }) as typeof JSON.parse;
     try {
-      const o = lazyJsonObject<typeof plot>(Object.keys(plot), bytes);
+      const o = lazyJsonObject<typeof plot>(bytes);
       expect(Object.keys(o)).toEqual(['points', 'curve']);
       expect({ ...o }.points).toBeDefined(); // a spread reads the values
       expect(calls).toEqual([text]);
@@ -30,7 +30,7 @@ describe('lazyJsonObject', () => {
   });
 
   it('keeps its text, even after reading, until a property is assigned', () => {
-    const o = lazyJsonObject<typeof plot>(Object.keys(plot), bytes);
+    const o = lazyJsonObject<typeof plot>(bytes);
     expect(rawJsonOf(o)).toBe(bytes);
     void o.points;
     expect(rawJsonOf(o)).toBe(bytes);
@@ -46,7 +46,7 @@ describe('jsonPieces', () => {
   it('gives JSON.stringify of a unit whose plot is lazy, copying its bytes without reading them', () => {
     const unit = { assay: 'turnover', variant: 'v', metrics: { fast: 0.2, slow: null }, plot: plot as unknown, fit: undefined, source: [] };
     const expected = JSON.stringify(unit);
-    const lazy = { ...unit, plot: lazyJsonObject(Object.keys(plot), bytes) };
+    const lazy = { ...unit, plot: lazyJsonObject(bytes) };
     const parse = JSON.parse;
     let parsed = 0;
     JSON.parse = ((t: string) => {
@@ -66,6 +66,65 @@ describe('jsonPieces', () => {
   it('is JSON.stringify for everything else', () => {
     for (const v of [undefined, null, 3, 'x', [1, undefined], { a: undefined, b: () => 1, c: [NaN] }, { toJSON: () => 'j' }, new Date(0)]) {
       expect(joined(jsonPieces(v))).toBe(JSON.stringify(v));
+    }
+  });
+});
+
+describe('lazyJsonObject over a part of a larger buffer', () => {
+  const fit = { modelId: 'hill', parameters: [{ name: 'pCa50', estimate: 5.8, se: 0.02 }], converged: true, stopReason: 'converged-rss', correlation: [[1]] };
+  const fitText = JSON.stringify(fit);
+  const file = Buffer.concat([Buffer.from('{"x":1}'), Buffer.from(fitText, 'utf8'), Buffer.from(text, 'utf8')]);
+  const start = '{"x":1}'.length;
+  const end = start + Buffer.byteLength(fitText);
+
+  it('gives exactly its bytes, and behaves as the parsed object in every reflective way', () => {
+    const o = lazyJsonObject<typeof fit>(file, start, end);
+    expect(Buffer.from(rawJsonOf(o)!).toString('utf8')).toBe(fitText);
+    expect(Object.getPrototypeOf(o)).toBe(Object.prototype);
+    expect(Array.isArray(o)).toBe(false);
+    expect(Object.keys(o)).toEqual(Object.keys(fit));
+    expect('converged' in o).toBe(true);
+    expect('x' in o).toBe(false);
+    expect(Object.prototype.hasOwnProperty.call(o, 'modelId')).toBe(true);
+    expect(Object.getOwnPropertyDescriptor(o, 'modelId')).toEqual({ value: 'hill', writable: true, enumerable: true, configurable: true });
+    expect({ ...o }).toEqual(fit);
+    expect(o).toEqual(fit);
+    expect(JSON.stringify(o)).toBe(fitText);
+    expect(JSON.stringify({ u: o })).toBe(JSON.stringify({ u: fit }));
+    // Still its bytes after being read.
+    expect(Buffer.from(rawJsonOf(o)!).toString('utf8')).toBe(fitText);
+  });
+
+  it('drops its bytes when changed by assignment, definition or deletion, keeping the other values', () => {
+    const assigned = lazyJsonObject<Record<string, unknown>>(file, start, end);
+    assigned.converged = false;
+    expect(rawJsonOf(assigned)).toBeUndefined();
+    expect(JSON.stringify(assigned)).toBe(JSON.stringify({ ...fit, converged: false }));
+    const defined = lazyJsonObject<Record<string, unknown>>(file, start, end);
+    Object.defineProperty(defined, 'note', { value: 'n', enumerable: true });
+    expect(rawJsonOf(defined)).toBeUndefined();
+    expect(JSON.stringify(defined)).toBe(JSON.stringify({ ...fit, note: 'n' }));
+    const deleted = lazyJsonObject<Record<string, unknown>>(file, start, end);
+    delete deleted.correlation;
+    expect(rawJsonOf(deleted)).toBeUndefined();
+    const { correlation: _c, ...rest } = fit;
+    expect(JSON.stringify(deleted)).toBe(JSON.stringify(rest));
+  });
+
+  it('in a unit: jsonPieces copies each lazy part as its bytes, without parsing any', () => {
+    const unit = { assay: 'force', metrics: { pCa50: 5.8 }, fit, plot };
+    const lazy = { ...unit, fit: lazyJsonObject(file, start, end), plot: lazyJsonObject(file, end) };
+    const parse = JSON.parse;
+    let parsed = 0;
+    JSON.parse = ((t: string) => {
+      parsed++;
+      return parse(t) as unknown;
+    }) as typeof JSON.parse;
+    try {
+      expect(joined(jsonPieces(lazy))).toBe(JSON.stringify(unit));
+      expect(parsed).toBe(0);
+    } finally {
+      JSON.parse = parse;
     }
   });
 });

@@ -134,6 +134,9 @@ describe('loadAndAnalyse with the analysis cache', () => {
   const cache = join(tmp, 'cache');
   let parsed = 0;
   let textPlots = 0;
+  let textFits = 0;
+  /** Units with a fit or metricSe that is neither text nor one JSON cannot hold (a null in its text). */
+  let parsedParts = 0;
   let unitCount = 0;
   const run = async (analysisCache: string | false) => {
     const got = await loadAndAnalyse(dir, { analysisCache, workers: 0, sourceDateEpoch: 1_700_000_000 });
@@ -148,6 +151,8 @@ describe('loadAndAnalyse with the analysis cache', () => {
     expect(digestsOf(got.results!.units, unitDigest)).toEqual(digestsOf(got.results!.units, computeUnitDigest));
     expect(written === `${JSON.stringify(got.results)}\n`).toBe(true);
     textPlots = got.results!.units.filter((u) => rawJsonOf(u.plot) !== undefined).length;
+    textFits = got.results!.units.filter((u) => rawJsonOf(u.fit) !== undefined).length;
+    parsedParts = got.results!.units.filter((u) => [u.fit, u.metricSe].some((v) => v !== undefined && rawJsonOf(v) === undefined && !JSON.stringify(v).includes('null'))).length;
     unitCount = got.results!.units.length;
     // SHA-256 of the results JSON: a failure then prints two hashes, not two copies of the results.
     return createHash('sha256').update(written).digest('hex');
@@ -177,8 +182,11 @@ describe('loadAndAnalyse with the analysis cache', () => {
     expect(await run(cache)).toBe(reference);
     expect(await run(cache)).toBe(reference);
     expect(parsed).toBe(0);
-    // Every unit came from the cache with its plot as text (its plot has no null).
+    // Every unit came from the cache with its plot as text (its plot has no null), and so did
+    // every fit and metricSe whose JSON has no null.
     expect(textPlots).toBe(unitCount);
+    expect(textFits).toBeGreaterThan(0);
+    expect(parsedParts).toBe(0);
     // One turnover reading of a variant edited: turnover units are cached one by one, so only its
     // file is read, although its batches have units in other files.
     const { size, fresh } = await editAndCompare('turnover-part2.csv');
