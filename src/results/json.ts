@@ -6,11 +6,11 @@
  *
  * Top-level arrays are written element by element, everything else with JSON.stringify; the
  * text goes out through a buffer in chunks of about CHUNK_BYTES. An element's properties that
- * keep their JSON bytes (units' plots from the analysis cache, src/results/raw-json.ts) are
- * copied as those bytes.
+ * keep their JSON bytes (units' plots, fits and metricSe from the analysis cache, read from its
+ * files: src/results/raw-json.ts) are copied as those bytes.
  */
 import { closeSync, openSync, writeSync } from 'node:fs';
-import { jsonPieces } from './raw-json.js';
+import { jsonPieces, peekRawJson } from './raw-json.js';
 
 /** Bytes collected before a write to the file. */
 const CHUNK_BYTES = 1 << 20;
@@ -75,7 +75,8 @@ export function writeJsonStreamed(file: string, value: Record<string, unknown>):
           if (i > 0) out.write(',');
           const pieces = jsonPieces(item);
           if (pieces === undefined) out.write('null');
-          else for (const p of pieces) out.write(p);
+          // A lazy object's bytes are written (copied) before the next is peeked.
+          else for (const p of pieces) out.write(typeof p === 'string' ? p : (peekRawJson(p) as Uint8Array));
         });
         out.write(']');
       } else {

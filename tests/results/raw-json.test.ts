@@ -1,12 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { jsonPieces, lazyJsonObject, rawJsonOf } from '../../src/results/raw-json.js';
+import { type JsonPiece, type TextSource, jsonPieces, lazyJsonObject, peekRawJson, rawJsonOf } from '../../src/results/raw-json.js';
 
 // A plot as the assay modules make it: points and a curve of plain numbers and strings.
 const plot = { points: [{ t: 0, f: 1.25, state: 'moving' }, { t: 0.5, f: -0.0625, state: 'stuck "x" µ–≥' }], curve: [{ t: 1e-7, f: 12345.678 }] };
 const text = JSON.stringify(plot);
 const bytes = Buffer.from(text, 'utf8');
 /** The pieces joined as the writer joins them (strings as UTF-8). */
-const joined = (pieces: Array<string | Uint8Array> | undefined) => (pieces === undefined ? undefined : Buffer.concat(pieces.map((p) => (typeof p === 'string' ? Buffer.from(p, 'utf8') : p))).toString('utf8'));
+const joined = (pieces: JsonPiece[] | undefined) => (pieces === undefined ? undefined : Buffer.concat(pieces.map((p) => (typeof p === 'string' ? Buffer.from(p, 'utf8') : Buffer.from(peekRawJson(p) as Uint8Array)))).toString('utf8'));
 
 describe('lazyJsonObject', () => {
   it('reads as the object its text was made from, parsing only when a property is read', () => {
@@ -55,7 +55,8 @@ describe('jsonPieces', () => {
     }) as typeof JSON.parse;
     try {
       const pieces = jsonPieces(lazy);
-      expect(pieces).toContain(bytes);
+      expect(pieces?.includes(lazy.plot)).toBe(true);
+      expect(peekRawJson(lazy.plot)).toBe(bytes);
       expect(joined(pieces)).toBe(expected);
       expect(parsed).toBe(0);
     } finally {
@@ -126,5 +127,47 @@ describe('lazyJsonObject over a part of a larger buffer', () => {
     } finally {
       JSON.parse = parse;
     }
+  });
+});
+
+describe('lazyJsonObject over a TextSource (text read when wanted, into a reused buffer)', () => {
+  /** A source over `file` that reads every peek into one buffer, overwriting the last peek, and counts peeks. */
+  const sourceOver = (file: Buffer) => {
+    const scratch = Buffer.alloc(file.length);
+    const source = {
+      peeks: 0,
+      peek(start: number, end: number) {
+        source.peeks++;
+        scratch.fill(0x58);
+        file.copy(scratch, 0, start, end);
+        return scratch.subarray(0, end - start);
+      },
+    } satisfies TextSource & { peeks: number };
+    return source;
+  };
+  const fit = { modelId: 'single', parameters: [{ name: 'k', estimate: 0.03 }], converged: true };
+  const fitText = JSON.stringify(fit);
+  const plotText = JSON.stringify(plot);
+  const file = Buffer.from(`${fitText}${plotText}`, 'utf8');
+  const fitEnd = Buffer.byteLength(fitText);
+
+  it('reads nothing until wanted; rawJsonOf gives a copy that a later peek does not change', () => {
+    const source = sourceOver(file);
+    const o = lazyJsonObject<typeof fit>(source, 0, fitEnd);
+    const p = lazyJsonObject<typeof plot>(source, fitEnd, file.length);
+    expect(source.peeks).toBe(0);
+    const kept = rawJsonOf(o)!;
+    void rawJsonOf(p);
+    expect(Buffer.from(kept).toString('utf8')).toBe(fitText);
+    expect(o).toEqual(fit);
+    expect(p.points[1].state).toBe(plot.points[1].state);
+  });
+
+  it('in a unit: the pieces, each used before the next peek, join to JSON.stringify', () => {
+    const source = sourceOver(file);
+    const unit = { assay: 'turnover', fit, metrics: { k: 0.03 }, plot };
+    const lazy = { ...unit, fit: lazyJsonObject(source, 0, fitEnd), plot: lazyJsonObject(source, fitEnd, file.length) };
+    expect(joined(jsonPieces(lazy))).toBe(JSON.stringify(unit));
+    expect(source.peeks).toBe(2);
   });
 });

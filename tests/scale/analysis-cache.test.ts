@@ -4,7 +4,7 @@
  * one unit's rows changed re-analyses that unit (or that batch) of that assay only.
  * Study: the benchmark generator's (synthetic, invented values).
  */
-import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -130,6 +130,27 @@ describe('analyseUnitsCached', () => {
     const got = await analyseUnitsCached(reread, ASSAYS, { cacheDir: dir, workers: 0 });
     expect(got.batches.analysed).toBeGreaterThan(0);
     expect(got.units).toEqual(serial(reread));
+  }, 120_000);
+
+  it('units served from the cache keep their stored parts after their files are replaced or removed (another build, pruning)', async () => {
+    const own = join(dir, 'replaced');
+    await analyseUnitsCached(study, ASSAYS, { cacheDir: own, workers: 0 });
+    const warm = await analyseUnitsCached(study, ASSAYS, { cacheDir: own, workers: 0 });
+    expect(warm.batches.analysed).toBe(0);
+    // Nothing of a unit's plot, fit or metricSe has been read yet: they are in the files.
+    const slots = readdirSync(own, { recursive: true, encoding: 'utf8' }).filter((f) => /(^|\/)s[0-9a-f]+\.bin$/.test(f)).sort();
+    expect(slots.length).toBeGreaterThan(2);
+    slots.forEach((f, i) => {
+      const file = join(own, f);
+      if (i % 2 === 0) rmSync(file);
+      else {
+        // Replaced as storeText replaces (a new file renamed over it), with other bytes.
+        writeFileSync(`${file}.x`, Buffer.alloc(readFileSync(file).length, 0x20));
+        renameSync(`${file}.x`, file);
+      }
+    });
+    expect(JSON.stringify(warm.units)).toBe(JSON.stringify(expected));
+    expect(warm.units).toEqual(expected);
   }, 120_000);
 
   it('a damaged cache file counts as missing: its batches are analysed again, same units', async () => {
