@@ -18,8 +18,26 @@ import normalQuantileLib from '@stdlib/stats-base-dists-normal-quantile';
  * @example tQuantile(0.975, 10) // → 2.228139 (R: qt(0.975, 10) = 2.228139)
  */
 export function tQuantile(probability: number, df: number): number {
-  return tQuantileLib(probability, df);
+  // Memoised: a study asks for the same few (level, df) pairs for thousands of comparisons, and
+  // each costs an inverse incomplete beta (about 15 µs; 0.2 s of a 1,000-variant rebuild).
+  const byDf = quantiles.get(probability);
+  const known = byDf?.get(df);
+  if (known !== undefined) return known;
+  const q = tQuantileLib(probability, df);
+  if (quantileCount >= QUANTILES_KEPT) {
+    quantiles.clear();
+    quantileCount = 0;
+  }
+  if (byDf) byDf.set(df, q);
+  else quantiles.set(probability, new Map([[df, q]]));
+  quantileCount++;
+  return q;
 }
+
+/** tQuantile's memo: probability → df → quantile; emptied when it holds QUANTILES_KEPT values. */
+const quantiles = new Map<number, Map<number, number>>();
+let quantileCount = 0;
+const QUANTILES_KEPT = 10_000;
 
 /**
  * Cumulative distribution function of Student's t distribution.

@@ -10,6 +10,8 @@ import { studentTTest, welchTTest } from '../../src/stats/ttest.js';
 import { benjaminiHochberg } from '../../src/stats/bh.js';
 import { fiellerInterval } from '../../src/stats/fieller.js';
 import { logRatioInterval } from '../../src/stats/logratio.js';
+import tQuantileLib from '@stdlib/stats-base-dists-t-quantile';
+import { tQuantile } from '../../src/stats/distributions.js';
 import { fTestPSanity } from './helpers.js';
 
 const relative = (got: number, want: number) => Math.abs(got - want) / Math.abs(want);
@@ -118,4 +120,15 @@ describe('log-ratio interval (delta method)', () => {
 
 describe('distribution wrappers', () => {
   it('F upper tail keeps precision in the far tail', () => fTestPSanity());
+
+  it('tQuantile (memoised) gives the library value every time, for each probability and df, also once its memo is emptied', () => {
+    // Reference: the library itself (@stdlib/stats-base-dists-t-quantile), called directly.
+    const pairs: Array<[number, number]> = [];
+    for (const p of [0.975, 0.95, 0.995, 0.5]) for (const df of [1, 2, 3.5, 10, 44, 1000, 0, NaN]) pairs.push([p, df]);
+    for (let round = 0; round < 2; round++) for (const [p, df] of pairs) expect(Object.is(tQuantile(p, df), tQuantileLib(p, df))).toBe(true);
+    // More distinct pairs than the memo keeps, then the first ones again.
+    for (let df = 1; df <= 10_050; df++) tQuantile(0.9, df);
+    for (const [p, df] of pairs) expect(Object.is(tQuantile(p, df), tQuantileLib(p, df))).toBe(true);
+    expect(tQuantile(0.9, 10_050)).toBe(tQuantileLib(0.9, 10_050));
+  });
 });
