@@ -310,9 +310,15 @@ type StoredUnit = Omit<UnitResult, LazyField> & { [F in LazyField]?: UnitResult[
 /** Bytes of the file's header length field. */
 const HEADER_LENGTH_BYTES = 4;
 
+/** Bytes of a slot file's texts read at once by a peek (see SlotTexts.peek). */
+const TEXT_WINDOW_BYTES = 1 << 18;
+
 /** One buffer, reused, for slot headers and peeks at texts (peeks are used before the next: TextSource). */
-let scratch = Buffer.allocUnsafe(1 << 16);
+let scratch = Buffer.allocUnsafe(TEXT_WINDOW_BYTES);
+/** Which texts `scratch` holds: bytes start..end of the texts of `of`. */
+const textWindow: { of: SlotTexts | undefined; start: number; end: number } = { of: undefined, start: 0, end: 0 };
 function scratchOf(bytes: number): Buffer {
+  textWindow.of = undefined;
   if (scratch.length < bytes) scratch = Buffer.allocUnsafe(Math.max(bytes, scratch.length * 2));
   return scratch;
 }
@@ -368,9 +374,16 @@ class SlotTexts implements TextSource {
 
   peek(start: number, end: number): Uint8Array {
     if (this.memory) return this.memory.subarray(start, end);
-    const into = scratchOf(end - start);
-    readFully(this.fd as number, into, end - start, this.base + start);
-    return into.subarray(0, end - start);
+    // Units are mostly written in the order of their files, so the texts that follow are read
+    // with this one: one read per TEXT_WINDOW_BYTES instead of one per part.
+    if (textWindow.of !== this || start < textWindow.start || end > textWindow.end) {
+      const to = Math.min(this.length, Math.max(end, start + TEXT_WINDOW_BYTES));
+      readFully(this.fd as number, scratchOf(to - start), to - start, this.base + start);
+      textWindow.of = this;
+      textWindow.start = start;
+      textWindow.end = to;
+    }
+    return scratch.subarray(start - textWindow.start, end - textWindow.start);
   }
 
   /** Every text, in memory from now on; the file is closed. */
