@@ -130,14 +130,15 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   const phase = options.onPhase ?? (() => {});
   phase('read');
   const plan = planOutput(studyDir, outDir, options.force ?? false);
-  // Made here so that on a light rebuild its worker threads start (loading the chart libraries)
-  // while the study is analysed; after a heavy load they start when the first chart is asked
+  // Made here so that on a light rebuild one worker thread starts (loading the chart libraries)
+  // while the study is analysed; after a heavy load they start when the first charts are asked
   // for, since a cold analysis already holds most of the build's memory.
   const renderer = createSiteRenderer(options);
   try {
     const { issues, results, parsedBytes } = await loadAndAnalyse(studyDir, options, {
       afterLoad: (bytes) => {
-        if (bytes < HEAVY_PARSE_BYTES) renderer?.start();
+        // One worker: a light rebuild draws few charts, and more start if many wait.
+        if (bytes < HEAVY_PARSE_BYTES) renderer?.start(1);
       },
     });
     if (!results) return { ok: false, issues };
