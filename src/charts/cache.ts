@@ -202,7 +202,8 @@ function writeFilled(file: string, bytes: Buffer, marks: PageMarks, stamp: Uint8
 }
 
 /** Write `bytes` at each offset of a file, in place. */
-function patch(file: string, offsets: readonly number[], bytes: Uint8Array): void {
+/** Write `bytes` over the file at each offset. */
+export function patch(file: string, offsets: readonly number[], bytes: Uint8Array): void {
   if (offsets.length === 0) return;
   const fd = openSync(file, 'r+');
   try {
