@@ -202,8 +202,7 @@ function writeFilled(file: string, bytes: Buffer, marks: PageMarks, stamp: Uint8
 }
 
 /** Write `bytes` at each offset of a file, in place. */
-/** Write `bytes` over the file at each offset. */
-export function patch(file: string, offsets: readonly number[], bytes: Uint8Array): void {
+function patch(file: string, offsets: readonly number[], bytes: Uint8Array): void {
   if (offsets.length === 0) return;
   const fd = openSync(file, 'r+');
   try {

@@ -18,13 +18,13 @@
  * Writes into the given (empty) folder; the caller swaps folders and writes downloads/.
  */
 import { createHash } from 'node:crypto';
-import { mkdirSync, readFileSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { cp } from 'node:fs/promises';
-import { dirname, join, resolve } from 'node:path';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import type { ChartsFor } from '../charts/assay-charts.js';
-import { DEFAULT_CHART_CACHE, type PageSlots, patch } from '../charts/cache.js';
+import { DEFAULT_CHART_CACHE, type PageSlots } from '../charts/cache.js';
 import { type ChartRenderer, createChartRenderer, defaultWorkers } from '../charts/pool.js';
 import type { StudyResults } from '../results/types.js';
 import { PATHS, uniqueSlugs } from './paths.js';
@@ -184,8 +184,8 @@ async function studyCharts(results: StudyResults, render: RenderFn | undefined) 
   return { assays, residues, compare };
 }
 
-/** One Eleventy run: `input` is the templates folder or one template in it; returns the HTML pages written (their paths). */
-async function runEleventy(input: string, outDir: string, site: unknown): Promise<string[]> {
+/** One Eleventy run: `input` is the templates folder or one template in it; returns the HTML pages written. */
+async function runEleventy(input: string, outDir: string, site: unknown): Promise<number> {
   const elev = new Eleventy(input, outDir, {
     configPath,
     quietMode: true,
@@ -197,15 +197,7 @@ async function runEleventy(input: string, outDir: string, site: unknown): Promis
   // write() resolves to [passthroughCopies, templates] for the file system.
   const written = (await elev.write()) as unknown[];
   const templates = (Array.isArray(written[1]) ? written[1] : []) as Array<{ outputPath?: unknown }>;
-  return templates.map((r) => r.outputPath).filter((p): p is string => typeof p === 'string' && p.endsWith('.html'));
-}
-
-/** Write `stamp` over every `placeholder` in a file (same length in bytes). */
-function stampFile(file: string, placeholder: Uint8Array, stamp: Uint8Array): void {
-  const bytes = readFileSync(file);
-  const at: number[] = [];
-  for (let i = bytes.indexOf(placeholder); i >= 0; i = bytes.indexOf(placeholder, i + placeholder.length)) at.push(i);
-  patch(file, at, stamp);
+  return templates.filter((r) => typeof r.outputPath === 'string' && r.outputPath.endsWith('.html')).length;
 }
 
 /**
@@ -281,15 +273,13 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     // are written in runs of up to VARIANT_BATCH: on a rebuild where a few pages of each batch
     // changed, they are gathered into one run instead of one run (and one template compile) per batch.
     const waiting: { render: VariantPage[]; keys: string[] } = { render: [], keys: [] };
-    /** Pages written by Eleventy just now: kept in the page cache (which writes the time and q values in). */
-    const keep = (render: VariantPage[], keys: string[]) => render.forEach((p, i) => pageStore?.keepPage(keys[i], join(outDir, p.path), placeholderBytes, builtAtBytes, slotsOf(p)));
     const flush = async () => {
       const { render, keys } = waiting;
       if (render.length === 0) return;
       waiting.render = [];
       waiting.keys = [];
-      pages += (await runEleventy(variantTemplate, outDir, { ...renderSite, variants: render })).length;
-      keep(render, keys);
+      pages += await runEleventy(variantTemplate, outDir, { ...renderSite, variants: render });
+      render.forEach((p, i) => pageStore?.keepPage(keys[i], join(outDir, p.path), placeholderBytes, builtAtBytes, slotsOf(p)));
       // These pages' SVGs and HTML are garbage now; without a collection here, V8 lets them pile
       // up for several runs and the build's peak memory grows with the study. A small run leaves
       // little garbage, and a full collection of the results costs more than it frees.
@@ -305,23 +295,10 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
       if (waiting.render.length + got.render.length > VARIANT_BATCH) await flush();
       waiting.render.push(...got.render);
       waiting.keys.push(...got.keys);
-      // The last run is left to the study pages' run (below).
-      if (waiting.render.length >= VARIANT_BATCH) await flush();
+      if (waiting.render.length >= VARIANT_BATCH || k === batches.length - 1) await flush();
     }
     progress?.('pages', 0, 1);
-    // The study pages, and the variant pages still to write: one Eleventy run, not two (each run
-    // starts Eleventy and compiles the templates again: about 0.3 s). The variant template reads
-    // only the site fields of variantSiteData (tested), so its pages come out as in a run of their
-    // own; with the page cache, every page has the placeholder for the build time, written over
-    // as the variant pages are kept and in the study pages here.
-    const last = waiting;
-    const written = await runEleventy(templatesDir, outDir, { ...frame, ...(await charted), variants: last.render, ...(pageStore ? { builtAt: placeholder } : {}) });
-    pages += written.length;
-    keep(last.render, last.keys);
-    if (pageStore) {
-      const variantPages = new Set(last.render.map((p) => resolve(outDir, p.path)));
-      for (const file of written) if (!variantPages.has(resolve(file))) stampFile(file, placeholderBytes, builtAtBytes);
-    }
+    pages += await runEleventy(templatesDir, outDir, { ...frame, ...(await charted) });
     await cp(join(templatesDir, 'assets'), join(outDir, 'assets'), { recursive: true });
     progress?.('pages', 1, 1);
     charts = prepared.stats();
