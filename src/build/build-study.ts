@@ -23,7 +23,7 @@ import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
 import { type RemovePrevious, planOutput, makeStaging, swapIn } from '../cli/output.js';
 import { resultsCsv } from '../results/csv.js';
-import { writeJsonStreamed } from '../results/json.js';
+import { writeJsonInSlices } from '../results/json.js';
 import type { StudyResults } from '../results/types.js';
 import { buildSite, createSiteRenderer } from '../site/build-site.js';
 import { loadStudy } from '../study/load.js';
@@ -148,7 +148,15 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
     const epoch = options.sourceDateEpoch;
     const tag = String(process.pid);
     const staging = makeStaging(plan.out, tag);
+    // results.json is written in slices while the site is made, in the time the build waits on
+    // its chart workers (the results do not change from here on).
+    const stopWriting = new AbortController();
+    let writing: Promise<void> | undefined;
     try {
+      const downloads = path.join(staging, 'downloads');
+      mkdirSync(downloads, { recursive: true });
+      writing = writeJsonInSlices(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>, { signal: stopWriting.signal });
+      writing.catch(() => undefined);
       phase('pages');
       const site = await buildSite(results, staging, {
         chartsFor: chartsFromModules(results, ASSAYS),
@@ -157,16 +165,16 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
         ...(options.onProgress ? { onProgress: options.onProgress } : {}),
       });
       phase('write');
-      const downloads = path.join(staging, 'downloads');
-      mkdirSync(downloads, { recursive: true });
       // Streamed: the same bytes as JSON.stringify(results) + '\n', without one string of the whole file.
-      writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
+      await writing;
       writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
       const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
       // Once a day at most: cache entries no build has used for CACHE_KEEP_DAYS go.
       for (const dir of [options.chartCache ?? DEFAULT_CHART_CACHE, options.analysisCache ?? DEFAULT_ANALYSIS_CACHE]) if (dir !== false) pruneCache(path.resolve(dir));
       return { ok: true, issues, out: plan.out, pages: site.pages, charts: site.charts, results, movedAside };
     } catch (err) {
+      stopWriting.abort();
+      await writing?.catch(() => undefined);
       rmSync(staging, { recursive: true, force: true });
       throw err;
     }

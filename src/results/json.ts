@@ -57,6 +57,37 @@ function chunkedWriter(fd: number) {
 }
 
 /**
+ * The writing of `value` (see writeJsonStreamed) as steps: each call of the generator's next()
+ * writes one top-level element or key, so a caller may pause between steps.
+ */
+function* jsonSteps(out: ReturnType<typeof chunkedWriter>, value: Record<string, unknown>): Generator<void, void, void> {
+  out.write('{');
+  let first = true;
+  for (const [key, v] of Object.entries(value)) {
+    if (Array.isArray(v)) {
+      out.write(`${first ? '' : ','}${JSON.stringify(key)}:[`);
+      for (let i = 0; i < v.length; i++) {
+        if (i > 0) out.write(',');
+        const pieces = jsonPieces(v[i]);
+        if (pieces === undefined) out.write('null');
+        // A lazy object's bytes are written (copied) before the next is peeked.
+        else for (const p of pieces) out.write(typeof p === 'string' ? p : (peekRawJson(p) as Uint8Array));
+        yield;
+      }
+      out.write(']');
+    } else {
+      const text = JSON.stringify(v);
+      if (text === undefined) continue; // as JSON.stringify drops the key
+      out.write(`${first ? '' : ','}${JSON.stringify(key)}:${text}`);
+      yield;
+    }
+    first = false;
+  }
+  out.write('}\n');
+  out.flush();
+}
+
+/**
  * Write `value` as compact JSON followed by a newline, streaming the elements of its top-level
  * arrays. Equal to writeFileSync(file, JSON.stringify(value) + '\n') for any plain JSON object
  * (keys whose value JSON.stringify leaves out, such as undefined or functions, are left out here too).
@@ -65,29 +96,31 @@ function chunkedWriter(fd: number) {
 export function writeJsonStreamed(file: string, value: Record<string, unknown>): void {
   const fd = openSync(file, 'w');
   try {
-    const out = chunkedWriter(fd);
-    out.write('{');
-    let first = true;
-    for (const [key, v] of Object.entries(value)) {
-      if (Array.isArray(v)) {
-        out.write(`${first ? '' : ','}${JSON.stringify(key)}:[`);
-        v.forEach((item, i) => {
-          if (i > 0) out.write(',');
-          const pieces = jsonPieces(item);
-          if (pieces === undefined) out.write('null');
-          // A lazy object's bytes are written (copied) before the next is peeked.
-          else for (const p of pieces) out.write(typeof p === 'string' ? p : (peekRawJson(p) as Uint8Array));
-        });
-        out.write(']');
-      } else {
-        const text = JSON.stringify(v);
-        if (text === undefined) continue; // as JSON.stringify drops the key
-        out.write(`${first ? '' : ','}${JSON.stringify(key)}:${text}`);
-      }
-      first = false;
+    for (const _ of jsonSteps(chunkedWriter(fd), value));
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/**
+ * writeJsonStreamed in slices of about `sliceMs` of work, giving the event loop back between
+ * slices: the build writes results.json while it waits on its chart workers. `value` must not
+ * change until the promise settles; `signal` stops the writing (the promise then rejects).
+ */
+export async function writeJsonInSlices(file: string, value: Record<string, unknown>, options: { sliceMs?: number; signal?: AbortSignal } = {}): Promise<void> {
+  const sliceMs = options.sliceMs ?? 4;
+  const fd = openSync(file, 'w');
+  try {
+    const steps = jsonSteps(chunkedWriter(fd), value);
+    for (;;) {
+      options.signal?.throwIfAborted();
+      const until = performance.now() + sliceMs;
+      let done = false;
+      do done = steps.next().done === true;
+      while (!done && performance.now() < until);
+      if (done) return;
+      await new Promise<void>((resolve) => setImmediate(resolve));
     }
-    out.write('}\n');
-    out.flush();
   } finally {
     closeSync(fd);
   }

@@ -2,7 +2,7 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { writeJsonStreamed } from '../../src/results/json.js';
+import { writeJsonInSlices, writeJsonStreamed } from '../../src/results/json.js';
 import { lazyJsonObject } from '../../src/results/raw-json.js';
 import { makeFixture } from '../fixtures/results-fixture.js';
 
@@ -47,5 +47,33 @@ describe('writeJsonStreamed', () => {
     const file = join(dir, 'big.json');
     writeJsonStreamed(file, value);
     expect(readFileSync(file, 'utf8')).toBe(JSON.stringify(value) + '\n');
+  });
+});
+
+describe('writeJsonInSlices', () => {
+  it('writes the bytes writeJsonStreamed writes, giving the event loop back between slices', async () => {
+    const results = makeFixture();
+    const whole = join(dir, 'whole.json');
+    const sliced = join(dir, 'sliced.json');
+    writeJsonStreamed(whole, results as never);
+    // Slices of no time at all: one element per slice, so other work runs in between.
+    let ticks = 0;
+    const ticker = setInterval(() => ticks++, 0);
+    try {
+      await writeJsonInSlices(sliced, results as never, { sliceMs: 0 });
+    } finally {
+      clearInterval(ticker);
+    }
+    expect(readFileSync(sliced, 'utf8')).toBe(readFileSync(whole, 'utf8'));
+    expect(ticks).toBeGreaterThan(0);
+  });
+
+  it('stops when its signal is aborted, and says so', async () => {
+    const value = { items: Array.from({ length: 1000 }, (_, i) => ({ i })) };
+    const stop = new AbortController();
+    const writing = writeJsonInSlices(join(dir, 'stopped.json'), value, { sliceMs: 0, signal: stop.signal });
+    stop.abort();
+    await expect(writing).rejects.toThrow();
+    expect(readFileSync(join(dir, 'stopped.json'), 'utf8').length).toBeLessThan(JSON.stringify(value).length);
   });
 });
