@@ -358,8 +358,8 @@ const closeWhenDropped = new FinalizationRegistry<number>((fd) => {
  * The file stays open for as long as its units may be read (it is closed when this object is
  * collected), so the bytes read are those of the file the header came from even if the file is
  * replaced meanwhile: by this build (which reads the texts into memory first, `load`), by another
- * build using the same cache folder, or by pruning. If the file cannot be kept open (too many open
- * files), its texts are read into memory at once.
+ * build using the same cache folder, or by pruning. Beyond OPEN_SLOT_FILES_MAX open files, texts
+ * are read into memory at once instead.
  */
 class SlotTexts implements TextSource {
   private memory: Buffer | undefined;
@@ -420,7 +420,7 @@ function readSlot(path: string): { file: SlotFile; texts: SlotTexts } | undefine
     for (const e of file.entries) {
       for (const u of Array.isArray(e?.units) ? e.units : []) {
         if (u?.lazy === undefined) continue;
-        if (!Array.isArray(u.lazy)) return undefined;
+        if (!Array.isArray(u.lazy) || !u.lazy.every((f) => (LAZY_FIELDS as readonly string[]).includes(f))) return undefined;
         for (const field of u.lazy) {
           const at = u[field];
           const [start, length] = Array.isArray(at) ? at : [NaN, NaN];
@@ -573,7 +573,13 @@ function openSlot(dir: string, context: string, moduleId: string, batch: string)
         storedEntry(at, keys);
         kept++;
       }
-      writeSlot(path, out, slot?.texts.load());
+      let oldTexts: Buffer | undefined;
+      try {
+        oldTexts = slot?.texts.load();
+      } catch {
+        return; // the old file cannot be read: keep it as it is rather than write one without its texts
+      }
+      writeSlot(path, out, oldTexts);
     },
   };
 }

@@ -100,8 +100,9 @@ const HANDLER: ProxyHandler<LazyState> = {
 
 /**
  * An object whose properties are those of the JSON object in `source` (UTF-8 bytes, or the
- * bytes `start`..`end` of it; or a TextSource, read when needed), parsed when a property or key is first read: a proxy with one
- * shared handler, so an object never read costs two small objects and no copy of its bytes.
+ * bytes `start`..`end` of it; or a TextSource, read when needed), parsed when a property or key
+ * is first read: a proxy with one shared handler, so an object never read costs two small
+ * objects and no copy of its bytes.
  * Changing it (assign, define, delete) keeps the other values and drops the bytes (rawJsonOf
  * then gives undefined). Values JSON cannot hold must not be in the text's object: a key whose
  * value was undefined is missing, and -0 reads as 0.

@@ -7,6 +7,7 @@
 import { mkdtempSync, readFileSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { deserialize, serialize } from 'node:v8';
 import { afterAll, describe, expect, it } from 'vitest';
 import { activeModules } from '../../src/analysis/parallel.js';
 import { ASSAYS } from '../../src/assays/registry.js';
@@ -169,6 +170,37 @@ describe('analyseUnitsCached', () => {
     expect(again.units).toEqual(expected);
     // Written again whole: the next run takes everything from the cache.
     expect((await analyseUnitsCached(study, ASSAYS, { cacheDir: damaged, workers: 0 })).batches.analysed).toBe(0);
+  }, 120_000);
+
+  it('a cache file whose units name a lazy part the cache does not make counts as missing', async () => {
+    const odd = join(dir, 'odd-part');
+    await analyseUnitsCached(study, ASSAYS, { cacheDir: odd, workers: 0 });
+    const slots = readdirSync(odd, { recursive: true, encoding: 'utf8' }).filter((f) => /(^|\/)s[0-9a-f]+\.bin$/.test(f)).sort();
+    // The first unit of the first file that has one with lazy parts: its first lazy part renamed
+    // to '__proto__' (whose [start, length] is in range), the file written again as the cache writes it.
+    let changed = 0;
+    for (const f of slots) {
+      const file = join(odd, f);
+      const bytes = readFileSync(file);
+      const n = bytes.readUInt32LE(0);
+      const header = deserialize(bytes.subarray(4, 4 + n)) as { entries: Array<{ units: Array<Record<string, unknown> & { lazy?: string[] }> }> };
+      const unit = header.entries.flatMap((e) => e.units).find((u) => Array.isArray(u.lazy) && u.lazy.length > 0);
+      if (!unit) continue;
+      const field = (unit.lazy as string[])[0];
+      Object.defineProperty(unit, '__proto__', { value: unit[field], enumerable: true, configurable: true, writable: true });
+      unit.lazy = ['__proto__', ...(unit.lazy as string[]).slice(1)];
+      const out = serialize(header);
+      const length = Buffer.alloc(4);
+      length.writeUInt32LE(out.length, 0);
+      writeFileSync(file, Buffer.concat([length, out, bytes.subarray(4 + n)]));
+      changed++;
+      break;
+    }
+    expect(changed).toBe(1);
+    const again = await analyseUnitsCached(study, ASSAYS, { cacheDir: odd, workers: 0 });
+    expect(again.batches.analysed).toBeGreaterThan(0);
+    expect(again.units).toEqual(expected);
+    for (const u of again.units) expect(Object.getPrototypeOf(u)).toBe(Object.prototype);
   }, 120_000);
 
   it('a changed setting misses every batch; no cache folder means no cache', async () => {
