@@ -9,11 +9,12 @@
  * Never point the cache inside a study folder or an output folder that gets swapped.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, copyFileSync, fstatSync, mkdirSync, openSync, readFileSync, readSync, renameSync, writeFileSync, writeSync, writevSync } from 'node:fs';
+import { closeSync, copyFileSync, fstatSync, mkdirSync, openSync, readFileSync, readSync, renameSync, statSync, writeFileSync, writeSync, writevSync } from 'node:fs';
 import { homedir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { ChartSpec } from '../assays/types.js';
 import { markUsed } from '../build/cache-prune.js';
+import { CACHE } from '../defaults.js';
 import { codeFingerprint } from '../fingerprint.js';
 import { RENDERER_ID, chartKey, type RenderOptions } from './render.js';
 
@@ -46,6 +47,8 @@ export class ChartCache {
   misses = 0;
   private made = new Set<string>();
   private scratch = Buffer.alloc(0);
+  /** Modification time (ms) of the page readPage read last. */
+  private pageModified = 0;
 
   constructor(dir: string = DEFAULT_CHART_CACHE) {
     this.dir = resolve(dir);
@@ -77,23 +80,32 @@ export class ChartCache {
    */
   fetchPage(key: string, dest: string, stamp: Uint8Array, blocks: readonly string[] = [], slots?: PageSlots): boolean {
     let marks: PageMarks;
+    let recent = false;
     try {
       marks = JSON.parse(readFileSync(this.file(key, 'offsets.json'), 'utf8')) as PageMarks;
       if (!Array.isArray(marks?.stamp) || !Array.isArray(marks?.slots)) throw new Error('not a page entry');
       if (marks.slots.some(([, , n]) => n >= (slots?.fills.length ?? 0))) throw new Error('a slot without its fill');
+      let modified: number;
       if (marks.slots.length === 0) {
+        modified = statSync(this.file(key, 'html')).mtimeMs;
         copyFileSync(this.file(key, 'html'), dest);
         patch(dest, marks.stamp, stamp);
-      } else writeFilled(dest, this.readPage(this.file(key, 'html')), marks, stamp, slots as PageSlots);
+      } else {
+        writeFilled(dest, this.readPage(this.file(key, 'html')), marks, stamp, slots as PageSlots);
+        modified = this.pageModified;
+      }
+      // The page and its blocks are marked together: if the page was, lately, so were they.
+      recent = Date.now() - modified < CACHE.markAgainHours * 3600 * 1000;
     } catch {
       this.misses++;
       return false;
     }
+    this.hits++;
+    if (recent) return true;
     markUsed(this.file(key, 'offsets.json'));
     markUsed(this.file(key, 'html'));
     // The page's chart blocks are not read, but would be if it changed: they are in use too.
     for (const b of blocks) markUsed(this.file(b, 'json'));
-    this.hits++;
     return true;
   }
 
@@ -128,7 +140,9 @@ export class ChartCache {
   private readPage(file: string): Buffer {
     const fd = openSync(file, 'r');
     try {
-      const size = fstatSync(fd).size;
+      const st = fstatSync(fd);
+      const size = st.size;
+      this.pageModified = st.mtimeMs;
       if (this.scratch.length < size) this.scratch = Buffer.allocUnsafe(Math.ceil(size * 1.25));
       let got = 0;
       while (got < size) {

@@ -11,6 +11,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { CACHE_KEEP_DAYS, PRUNE_STAMP, pruneCache } from '../../src/build/cache-prune.js';
 import { ChartCache } from '../../src/charts/cache.js';
 import { buildStudy } from '../../src/build/build-study.js';
+import { CACHE } from '../../src/defaults.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'myofolio-prune-'));
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
@@ -76,6 +77,32 @@ describe('pruneCache', () => {
     expect(Date.now() - statSync(file).mtimeMs).toBeLessThan(DAY);
     expect(pruneCache(dir)).toEqual({ removed: 0, kept: 1 });
   });
+});
+
+describe('kept pages are marked as used at most once per CACHE.markAgainHours', () => {
+  it('a page served whole leaves its entries as they are when marked lately, and marks them all when not', async () => {
+    const demo = join(import.meta.dirname, '..', '..', 'data-demo');
+    const charts = join(tmp, 'marks', 'charts');
+    const options = { chartCache: charts, analysisCache: join(tmp, 'marks', 'analysis'), workers: 0, sourceDateEpoch: 1_700_000_000 } as const;
+    expect((await buildStudy(demo, join(tmp, 'marks-1'), options)).ok).toBe(true);
+    const pageFiles = () => readdirSync(charts, { recursive: true, encoding: 'utf8' }).filter((n) => /[0-9a-f]{64}\.(html|offsets\.json)$/.test(n));
+    expect(pageFiles().length).toBeGreaterThan(0);
+    const setAll = (hoursAgo: number) => {
+      const t = new Date(Date.now() - hoursAgo * 3600 * 1000);
+      for (const n of readdirSync(charts, { recursive: true, encoding: 'utf8' })) if (/[0-9a-f]{64}\./.test(n)) utimesSync(join(charts, n), t, t);
+    };
+    const newest = () => Math.max(...readdirSync(charts, { recursive: true, encoding: 'utf8' }).filter((n) => /[0-9a-f]{64}\.(html|offsets\.json|json)$/.test(n)).map((n) => statSync(join(charts, n)).mtimeMs));
+    // Marked an hour ago: a build that serves every page from the cache writes none of them.
+    setAll(1);
+    expect((await buildStudy(demo, join(tmp, 'marks-2'), { ...options, force: true })).ok).toBe(true);
+    expect(Date.now() - newest()).toBeGreaterThan(0.9 * 3600 * 1000);
+    // Marked longer ago than CACHE.markAgainHours: pages, their offsets and chart blocks are marked now.
+    setAll(CACHE.markAgainHours + 1);
+    expect((await buildStudy(demo, join(tmp, 'marks-3'), { ...options, force: true })).ok).toBe(true);
+    for (const n of readdirSync(charts, { recursive: true, encoding: 'utf8' }).filter((f) => /[0-9a-f]{64}\.(html|offsets\.json)$/.test(f))) {
+      expect(Date.now() - statSync(join(charts, n)).mtimeMs).toBeLessThan(3600 * 1000);
+    }
+  }, 120_000);
 });
 
 describe('a build prunes its caches', () => {
