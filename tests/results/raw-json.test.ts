@@ -5,6 +5,22 @@ import { type JsonPiece, type TextSource, jsonPieces, lazyJsonObject, peekRawJso
 const plot = { points: [{ t: 0, f: 1.25, state: 'moving' }, { t: 0.5, f: -0.0625, state: 'stuck "x" µ–≥' }], curve: [{ t: 1e-7, f: 12345.678 }] };
 const text = JSON.stringify(plot);
 const bytes = Buffer.from(text, 'utf8');
+/** Calls of JSON.parse while `fn` runs. */
+function countingParses(fn: () => void): number {
+  const parse = JSON.parse;
+  let parsed = 0;
+  JSON.parse = ((t: string) => {
+    parsed++;
+    return parse(t) as unknown;
+  }) as typeof JSON.parse;
+  try {
+    fn();
+  } finally {
+    JSON.parse = parse;
+  }
+  return parsed;
+}
+
 /** The pieces joined as the writer joins them (strings as UTF-8). */
 const joined = (pieces: JsonPiece[] | undefined) => (pieces === undefined ? undefined : Buffer.concat(pieces.map((p) => (typeof p === 'string' ? Buffer.from(p, 'utf8') : Buffer.from(peekRawJson(p) as Uint8Array)))).toString('utf8'));
 
@@ -47,21 +63,13 @@ describe('jsonPieces', () => {
     const unit = { assay: 'turnover', variant: 'v', metrics: { fast: 0.2, slow: null }, plot: plot as unknown, fit: undefined, source: [] };
     const expected = JSON.stringify(unit);
     const lazy = { ...unit, plot: lazyJsonObject(bytes) };
-    const parse = JSON.parse;
-    let parsed = 0;
-    JSON.parse = ((t: string) => {
-      parsed++;
-      return parse(t) as unknown;
-    }) as typeof JSON.parse;
-    try {
+    const parsed = countingParses(() => {
       const pieces = jsonPieces(lazy);
       expect(pieces?.includes(lazy.plot)).toBe(true);
       expect(peekRawJson(lazy.plot)).toBe(bytes);
       expect(joined(pieces)).toBe(expected);
-      expect(parsed).toBe(0);
-    } finally {
-      JSON.parse = parse;
-    }
+    });
+    expect(parsed).toBe(0);
   });
 
   it('is JSON.stringify for everything else', () => {
@@ -115,18 +123,7 @@ describe('lazyJsonObject over a part of a larger buffer', () => {
   it('in a unit: jsonPieces copies each lazy part as its bytes, without parsing any', () => {
     const unit = { assay: 'force', metrics: { pCa50: 5.8 }, fit, plot };
     const lazy = { ...unit, fit: lazyJsonObject(file, start, end), plot: lazyJsonObject(file, end) };
-    const parse = JSON.parse;
-    let parsed = 0;
-    JSON.parse = ((t: string) => {
-      parsed++;
-      return parse(t) as unknown;
-    }) as typeof JSON.parse;
-    try {
-      expect(joined(jsonPieces(lazy))).toBe(JSON.stringify(unit));
-      expect(parsed).toBe(0);
-    } finally {
-      JSON.parse = parse;
-    }
+    expect(countingParses(() => expect(joined(jsonPieces(lazy))).toBe(JSON.stringify(unit)))).toBe(0);
   });
 });
 
