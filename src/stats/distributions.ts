@@ -20,14 +20,14 @@ import normalQuantileLib from '@stdlib/stats-base-dists-normal-quantile';
 export function tQuantile(probability: number, df: number): number {
   // Memoised: a study asks for the same few (level, df) pairs for thousands of comparisons, and
   // each costs an inverse incomplete beta (about 15 µs; 0.2 s of a 1,000-variant rebuild).
-  const byDf = quantiles.get(probability);
-  const known = byDf?.get(df);
+  const known = quantiles.get(probability)?.get(df);
   if (known !== undefined) return known;
   const q = tQuantileLib(probability, df);
   if (quantileCount >= QUANTILES_KEPT) {
     quantiles.clear();
     quantileCount = 0;
   }
+  const byDf = quantiles.get(probability);
   if (byDf) byDf.set(df, q);
   else quantiles.set(probability, new Map([[df, q]]));
   quantileCount++;
