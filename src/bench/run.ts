@@ -1,12 +1,14 @@
 /**
- * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--baseline] [--modes cold,warm] [--keep]
- * [--filaments 300] [--turnover-points 400]`.
+ * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--baseline] [--modes cold,warm] [--warm-runs 1]
+ * [--keep] [--filaments 300] [--turnover-points 400]`.
  *
  * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
  * (src/bench/synthetic.ts) to os.tmpdir(), then builds it
  *   cold  — empty chart and analysis caches,
  *   warm  — after one variant's velocities changed (its one file rewritten in place, as a lab
- *           would correct it), with the caches of the cold build,
+ *           would correct it), with the caches of the cold build; with --warm-runs N, N such
+ *           rebuilds one after another, each for another variant, and their median (one rebuild's
+ *           time varies by some 20% on a small shared machine),
  *   batch — after a new batch was added (one new variant with WT, every assay, in new files, and
  *           the variant declared in the manifest: addBatchInFolder), with the caches of the builds before,
  *   serial — (with --baseline) one thread, no caches: the path before the pools existed,
@@ -216,12 +218,17 @@ async function main(): Promise<void> {
     const entries = manifest.files as Array<{ path: string }>;
     const inputMB = entries.reduce((n, e) => n + statSync(join(studyDir, e.path)).size, 0) / 1e6;
     process.stdout.write(`\n== ${size} variants: study written in ${f1((performance.now() - t) / 1000)} s (${f1(inputMB)} MB of CSV in ${entries.length} files${sliced ? ', made in slices of 500 variants' : ''})\n`);
-    const runs: string[] = value('--modes')?.split(',') ?? (flag('--baseline') ? ['serial', 'cold', 'warm', 'batch'] : ['cold', 'warm', 'batch']);
+    const modes: string[] = value('--modes')?.split(',') ?? (flag('--baseline') ? ['serial', 'cold', 'warm', 'batch'] : ['cold', 'warm', 'batch']);
+    const warmRuns = Math.max(1, Number(value('--warm-runs') ?? 1));
+    const runs = modes.flatMap((m) => (m === 'warm' ? Array<string>(warmRuns).fill('warm') : [m]));
+    // Variants that are not calibration controls (controls are i % 25 = 0 or 1, and a control's
+    // change may move the calibration, and with it every report), from the middle on.
+    const changeable = Array.from({ length: size }, (_, i) => i).filter((i) => i % 25 === 2);
+    const middle = changeable.indexOf(Math.floor(size / 2 / 25) * 25 + 2);
+    const warmWall: number[] = [];
     for (const mode of runs) {
       if (mode === 'warm') {
-        // A variant near the middle that is not a calibration control (controls are i % 25 = 0 or 1,
-        // and a control's change may move the calibration, and with it every report).
-        const i = Math.floor(size / 2 / 25) * 25 + 2;
+        const i = changeable[(Math.max(0, middle) + warmWall.length) % changeable.length];
         const label = (manifest.variants as Array<{ hgvs?: string }>)[1 + i].hgvs!.replace(/^p\./, '');
         // As a lab would: the one file holding that variant's velocities is rewritten, the others
         // are left as they are (same bytes, same inode and times).
@@ -231,9 +238,16 @@ async function main(): Promise<void> {
       try {
         const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced)) as BuildFigures;
         printBuild(fig);
+        if (mode === 'warm') warmWall.push(fig.phases.reduce((sum, p) => sum + p.wallS, 0));
       } catch (err) {
         process.stdout.write(`\n${size} variants, ${mode}: ${(err as Error).message} after ${f1((performance.now() - t) / 1000)} s\n`);
       }
+    }
+    if (warmWall.length > 1) {
+      const sorted = [...warmWall].sort((a, b) => a - b);
+      const mid = sorted.length / 2;
+      const median = sorted.length % 2 === 1 ? sorted[Math.floor(mid)] : (sorted[mid - 1] + sorted[mid]) / 2;
+      process.stdout.write(`\n${size} variants, warm, ${warmWall.length} rebuilds (another variant each): median ${f1(median)} s wall (${sorted.map(f1).join(', ')} s)\n`);
     }
     const pages = size + 10;
     const floor = (await child(['--child', 'floor', '--size', String(pages)])) as PhaseFigure;
