@@ -312,16 +312,31 @@ const HEADER_LENGTH_BYTES = 4;
 
 /** Bytes of a slot file's texts read at once by a peek (see SlotTexts.peek). */
 const TEXT_WINDOW_BYTES = 1 << 18;
+/**
+ * Windows of texts kept, of the files read most recently. results.json asks for units in results
+ * order, which may go back and forth between a few files (a variant's units in several batches):
+ * with one window, each switch read a window again.
+ */
+const TEXT_WINDOWS = 8;
+/** Reads of slot texts by peeks in this thread, and their bytes (for tests and profiling). */
+export const slotTextReads = { reads: 0, bytes: 0 };
 
-/** One buffer, reused, for slot headers and peeks at texts (peeks are used before the next: TextSource). */
-let scratch = Buffer.allocUnsafe(TEXT_WINDOW_BYTES);
-/** Which texts `scratch` holds: bytes start..end of the texts of `of`. */
-const textWindow: { of: SlotTexts | undefined; start: number; end: number } = { of: undefined, start: 0, end: 0 };
-function scratchOf(bytes: number): Buffer {
-  textWindow.of = undefined;
-  if (scratch.length < bytes) scratch = Buffer.allocUnsafe(Math.max(bytes, scratch.length * 2));
-  return scratch;
+/** One buffer, reused, for slot headers. */
+let headerScratch = Buffer.allocUnsafe(1 << 16);
+function headerBuffer(bytes: number): Buffer {
+  if (headerScratch.length < bytes) headerScratch = Buffer.allocUnsafe(Math.max(bytes, headerScratch.length * 2));
+  return headerScratch;
 }
+
+/** Bytes start..end of the texts of `of`, at the start of `bytes`. */
+interface TextWindow {
+  of: SlotTexts | undefined;
+  start: number;
+  end: number;
+  bytes: Buffer;
+}
+/** Windows, least recently used first (peeks are used before the next: TextSource). */
+const textWindows: TextWindow[] = [];
 
 function readFully(fd: number, into: Buffer, length: number, position: number): void {
   for (let at = 0; at < length; ) {
@@ -374,16 +389,26 @@ class SlotTexts implements TextSource {
 
   peek(start: number, end: number): Uint8Array {
     if (this.memory) return this.memory.subarray(start, end);
-    // Units are mostly written in the order of their files, so the texts that follow are read
-    // with this one: one read per TEXT_WINDOW_BYTES instead of one per part.
-    if (textWindow.of !== this || start < textWindow.start || end > textWindow.end) {
+    // Units are asked for mostly in the order of their files, so the texts that follow are read
+    // with this one: one read per TEXT_WINDOW_BYTES of a file instead of one per part.
+    let at = textWindows.length - 1;
+    while (at >= 0 && !(textWindows[at].of === this && start >= textWindows[at].start && end <= textWindows[at].end)) at--;
+    let w: TextWindow;
+    if (at >= 0) w = textWindows.splice(at, 1)[0];
+    else {
+      w = textWindows.length < TEXT_WINDOWS ? { of: undefined, start: 0, end: 0, bytes: Buffer.allocUnsafe(TEXT_WINDOW_BYTES) } : (textWindows.shift() as TextWindow);
       const to = Math.min(this.length, Math.max(end, start + TEXT_WINDOW_BYTES));
-      readFully(this.fd as number, scratchOf(to - start), to - start, this.base + start);
-      textWindow.of = this;
-      textWindow.start = start;
-      textWindow.end = to;
+      if (w.bytes.length < to - start) w.bytes = Buffer.allocUnsafe(to - start);
+      w.of = undefined;
+      readFully(this.fd as number, w.bytes, to - start, this.base + start);
+      slotTextReads.reads++;
+      slotTextReads.bytes += to - start;
+      w.of = this;
+      w.start = start;
+      w.end = to;
     }
-    return scratch.subarray(start - textWindow.start, end - textWindow.start);
+    textWindows.push(w);
+    return w.bytes.subarray(start - w.start, end - w.start);
   }
 
   /** Every text, in memory from now on; the file is closed. */
@@ -408,11 +433,11 @@ function readSlot(path: string): { file: SlotFile; texts: SlotTexts } | undefine
     fd = openSync(path, 'r');
     const size = fstatSync(fd).size;
     if (size < HEADER_LENGTH_BYTES) return undefined;
-    readFully(fd, scratchOf(HEADER_LENGTH_BYTES), HEADER_LENGTH_BYTES, 0);
-    const n = scratch.readUInt32LE(0);
+    readFully(fd, headerBuffer(HEADER_LENGTH_BYTES), HEADER_LENGTH_BYTES, 0);
+    const n = headerScratch.readUInt32LE(0);
     const end = HEADER_LENGTH_BYTES + n;
     if (end > size) return undefined;
-    const header = scratchOf(n);
+    const header = headerBuffer(n);
     readFully(fd, header, n, HEADER_LENGTH_BYTES);
     const file = deserialize(header.subarray(0, n)) as SlotFile;
     if (!Array.isArray(file?.keys) || !Array.isArray(file?.entries)) return undefined;
@@ -471,10 +496,12 @@ function writeSlot(path: string, entries: Array<{ keys: Iterable<string>; units:
       }
       return copy;
     }
-    // Each part's value is replaced where it stands, so the unit's keys keep their order.
+    // Each part's value is replaced where it stands, so the unit's keys keep their order. Parts
+    // are stored in that order too, the order results.json reads them in: a window read for the
+    // first then holds the others (SlotTexts.peek).
     const copy: StoredUnit = { ...(u as UnitResult) };
     const lazy: LazyField[] = [];
-    for (const field of LAZY_FIELDS) {
+    for (const field of Object.keys(u).filter((k): k is LazyField => (LAZY_FIELDS as readonly string[]).includes(k))) {
       const bytes = lazyBytes((u as UnitResult)[field]);
       if (!bytes) continue;
       copy[field] = place(bytes);

@@ -12,7 +12,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { activeModules } from '../../src/analysis/parallel.js';
 import { ASSAYS } from '../../src/assays/registry.js';
 import { syntheticStudy } from '../../src/bench/synthetic.js';
-import { analyseUnitsCached } from '../../src/build/analysis-cache.js';
+import { analyseUnitsCached, slotTextReads } from '../../src/build/analysis-cache.js';
+import { writeJsonStreamed } from '../../src/results/json.js';
 import { codeFingerprint } from '../../src/fingerprint.js';
 import { loadStudy } from '../../src/study/load.js';
 import type { AssayModule } from '../../src/assays/types.js';
@@ -152,6 +153,31 @@ describe('analyseUnitsCached', () => {
     });
     expect(JSON.stringify(warm.units)).toBe(JSON.stringify(expected));
     expect(warm.units).toEqual(expected);
+  }, 120_000);
+
+  it('results.json reads each cache file\'s stored parts about once, in windows (parts stored in the order they are written out)', async () => {
+    const own = join(dir, 'windows');
+    await analyseUnitsCached(study, ASSAYS, { cacheDir: own, workers: 0 });
+    const warm = await analyseUnitsCached(study, ASSAYS, { cacheDir: own, workers: 0 });
+    expect(warm.batches.analysed).toBe(0);
+    // Bytes of stored parts: each slot file's size less its header (length field and header).
+    const slots = readdirSync(own, { recursive: true, encoding: 'utf8' }).filter((f) => /(^|\/)s[0-9a-f]+\.bin$/.test(f));
+    const textBytes = slots.reduce((n, f) => {
+      const bytes = readFileSync(join(own, f));
+      return n + bytes.length - 4 - bytes.readUInt32LE(0);
+    }, 0);
+    expect(textBytes).toBeGreaterThan(0);
+    const before = { ...slotTextReads };
+    const out = join(dir, 'windows.json');
+    writeJsonStreamed(out, { units: warm.units });
+    const reads = slotTextReads.reads - before.reads;
+    const bytes = slotTextReads.bytes - before.bytes;
+    expect(JSON.parse(readFileSync(out, 'utf8'))).toEqual(JSON.parse(JSON.stringify({ units: expected })));
+    // Each file's parts once (a window of 256 KiB holds a small file whole): one read per file
+    // here. With one window (results order goes back and forth between files) 114 reads; with a
+    // unit's parts stored in another order than its keys, 76.
+    expect(reads).toBeLessThanOrEqual(slots.length);
+    expect(bytes).toBeLessThanOrEqual(textBytes);
   }, 120_000);
 
   it('a damaged cache file counts as missing: its batches are analysed again, same units', async () => {
