@@ -155,8 +155,11 @@ function child(childArgs: string[], bigHeap = false): Promise<BuildFigures | Pha
   return new Promise((resolve, reject) => {
     // The heap limit V8 picks (about 4 GB here) is too small for the rows of a 10,000-variant study:
     // those builds get three quarters of the machine's memory, as the README tells users to do.
-    const heap = bigHeap ? [`--max-old-space-size=${Math.floor((totalmem() / 2 ** 20) * 0.75)}`] : [];
-    const p = spawn(process.execPath, [...heap, '--import', 'tsx', here, ...childArgs], { stdio: ['ignore', 'pipe', 'inherit'] });
+    // Given in NODE_OPTIONS, not as an argument: worker threads may not be given a V8 flag, and
+    // startWorker gives them this process's arguments without '--import tsx' (src/charts/pool.ts).
+    const heap = bigHeap ? `--max-old-space-size=${Math.floor((totalmem() / 2 ** 20) * 0.75)}` : '';
+    const env = heap ? { ...process.env, NODE_OPTIONS: [process.env.NODE_OPTIONS, heap].filter(Boolean).join(' ') } : process.env;
+    const p = spawn(process.execPath, ['--import', 'tsx', here, ...childArgs], { stdio: ['ignore', 'pipe', 'inherit'], env });
     let out = '';
     p.stdout.on('data', (d: Buffer) => (out += d.toString()));
     p.on('exit', (code, signal) => {

@@ -23,12 +23,43 @@ export function defaultWorkers(): number {
 }
 
 /**
- * Start a worker thread on a TypeScript (or JavaScript) module: worker-boot.mjs registers tsx
- * in the worker and imports `script`. Works from any working directory.
+ * Node options of this process for a worker, without those that register tsx (`--import tsx`, as
+ * `npm run bench` and other scripts run): worker-boot.mjs registers it itself, after its preloads.
+ * @example workerExecArgv(['--import', 'tsx', '--max-old-space-size=900']) // → ['--max-old-space-size=900']
  */
-export function startWorker(script: URL, resourceLimits?: ResourceLimits): Worker {
-  return new Worker(new URL('./worker-boot.mjs', import.meta.url), { workerData: { script: script.href }, ...(resourceLimits ? { resourceLimits } : {}) });
+export function workerExecArgv(execArgv: readonly string[]): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < execArgv.length; i++) {
+    if (execArgv[i] === '--import' && execArgv[i + 1] === 'tsx') i++;
+    else if (execArgv[i] !== '--import=tsx') out.push(execArgv[i]);
+  }
+  return out;
 }
+
+/**
+ * Start a worker thread on a TypeScript (or JavaScript) module: worker-boot.mjs imports the
+ * packages named in `preload` (by Node's own loader, which is much faster for large packages),
+ * registers tsx in the worker and imports `script`. Works from any working directory.
+ */
+export function startWorker(script: URL, resourceLimits?: ResourceLimits, preload: readonly string[] = []): Worker {
+  const boot = new URL('./worker-boot.mjs', import.meta.url);
+  const options = { workerData: { script: script.href, preload: [...preload] }, ...(resourceLimits ? { resourceLimits } : {}) };
+  const execArgv = workerExecArgv(process.execArgv);
+  // Nothing to leave out: the worker inherits this process's options, as by default.
+  if (execArgv.length === process.execArgv.length) return new Worker(boot, options);
+  try {
+    return new Worker(boot, { ...options, execArgv });
+  } catch (err) {
+    // Options given explicitly are checked, inherited ones are not: with one a worker may not be
+    // given (a V8 flag such as --max-old-space-size, which applies to the whole process anyway),
+    // the worker inherits them all, tsx included (it then loads its preloads through tsx, slower).
+    if ((err as { code?: string }).code !== 'ERR_WORKER_INVALID_EXEC_ARGV') throw err;
+    return new Worker(boot, options);
+  }
+}
+
+/** Packages a chart worker loads before its TypeScript (see worker-boot.mjs): those of render.ts. */
+export const CHART_WORKER_PRELOAD = ['vega', 'vega-lite'] as const;
 
 /**
  * Old-generation limit of a chart worker. A worker keeps little between charts (compiled shapes
@@ -79,6 +110,7 @@ export class WorkerPool<I, O> {
     private readonly script: URL,
     readonly size: number = defaultWorkers(),
     private readonly resourceLimits?: ResourceLimits,
+    private readonly preload: readonly string[] = [],
   ) {}
 
   run(input: I, later = false): Promise<O> {
@@ -102,7 +134,7 @@ export class WorkerPool<I, O> {
   }
 
   private spawn(): Worker {
-    const w = startWorker(this.script, this.resourceLimits);
+    const w = startWorker(this.script, this.resourceLimits, this.preload);
     w.on('message', (msg: WorkerReply<O>) => {
       const cur = this.running.get(w);
       if (!cur || cur.id !== msg.id) return;
@@ -207,7 +239,7 @@ interface RenderJob {
 export function createChartRenderer(options: ChartRendererOptions = {}): ChartRenderer {
   const workers = options.workers ?? defaultWorkers();
   const cache = options.cacheDir === false ? undefined : new ChartCache(options.cacheDir ?? DEFAULT_CHART_CACHE);
-  const pool = workers > 0 ? new WorkerPool<RenderJob, string>(new URL('./render-worker.ts', import.meta.url), workers, { maxOldGenerationSizeMb: CHART_WORKER_OLD_GENERATION_MB }) : undefined;
+  const pool = workers > 0 ? new WorkerPool<RenderJob, string>(new URL('./render-worker.ts', import.meta.url), workers, { maxOldGenerationSizeMb: CHART_WORKER_OLD_GENERATION_MB }, CHART_WORKER_PRELOAD) : undefined;
   const pending = new Map<string, Promise<string>>();
   let rendered = 0;
   let cached = 0;
