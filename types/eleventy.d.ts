@@ -2,6 +2,7 @@
 declare module '@11ty/eleventy' {
   export interface EleventyUserConfigLike {
     addGlobalData(name: string, value: unknown): void;
+    addFilter(name: string, filter: (...args: never[]) => unknown): void;
     [key: string]: unknown;
   }
   export interface EleventyOptions {

@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
-import { escapeAsNunjucks, variantSiteData } from '../../src/site/build-site.js';
+import { dataRowsHtml, escapeAsNunjucks, variantSiteData } from '../../src/site/build-site.js';
 
 const templates = ['templates/variant.njk', 'templates/_includes/base.njk', 'templates/_includes/macros.njk'];
 
@@ -30,5 +30,25 @@ describe('q slots of kept variant pages', () => {
     for (const text of ['< 0.001', '0.012', '—', `a&b"c'd<e>f\\g`, 'µ 1.2e-5', '']) {
       expect(escapeAsNunjucks(text)).toBe(nunjucks.lib.escape(text));
     }
+  });
+});
+
+describe('data rows of chart tables', () => {
+  it('are the rows the former loop of the chart macro wrote with Nunjucks, for any cells', () => {
+    // Reference: the loop the chart macro (templates/_includes/macros.njk) had, rendered by
+    // Nunjucks from npm with the site's options (.eleventy.js).
+    const nunjucks = createRequire(import.meta.url)('nunjucks') as { Environment: new (loader: null, o: object) => { renderString: (t: string, c: object) => string } };
+    const env = new nunjucks.Environment(null, { autoescape: true, throwOnUndefined: false, trimBlocks: true, lstripBlocks: true });
+    const loop =
+      '      <tbody>\n      {% for row in rows %}\n      <tr>{% for cell in row %}{% if loop.first %}<th scope="row">{{ cell }}</th>{% else %}<td>{{ cell }}</td>{% endif %}{% endfor %}</tr>\n      {% endfor %}\n      </tbody>';
+    const cases: unknown[][][] = [
+      [],
+      [['S166W', '0.63', '0.561–0.707', '< 0.001', 'decreased']],
+      [[`a&b"c'd<e>f\\g`, 0, null, undefined, 1.5e-7, '']],
+      [['only']],
+      [[], ['x', 'y']],
+    ];
+    // The macro now writes '      <tbody>\n{{ block.table.rows | dataRows | safe }}      </tbody>'.
+    for (const rows of cases) expect(`      <tbody>\n${dataRowsHtml(rows)}      </tbody>`).toBe(env.renderString(loop, { rows }));
   });
 });
