@@ -2,7 +2,7 @@
 declare module '@11ty/eleventy' {
   export interface EleventyUserConfigLike {
     addGlobalData(name: string, value: unknown): void;
-    addFilter(name: string, filter: (...args: never[]) => unknown): void;
+    amendLibrary(engine: 'njk', amend: (env: { addFilter(name: string, filter: (...args: never[]) => unknown): void }) => void): void;
     [key: string]: unknown;
   }
   export interface EleventyOptions {
