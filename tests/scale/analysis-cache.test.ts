@@ -134,13 +134,19 @@ describe('analyseUnitsCached', () => {
     expect(got.units).toEqual(serial(reread));
   }, 120_000);
 
-  it('units served from the cache keep their stored parts after their files are replaced or removed (another build, pruning)', async () => {
-    const own = join(dir, 'replaced');
+  /** The study analysed cold, then warm, in a cache folder of its own: the warm analysis and the cache's slot files. */
+  async function warmFromOwnCache(name: string) {
+    const own = join(dir, name);
     await analyseUnitsCached(study, ASSAYS, { cacheDir: own, workers: 0 });
     const warm = await analyseUnitsCached(study, ASSAYS, { cacheDir: own, workers: 0 });
+    const slots = readdirSync(own, { recursive: true, encoding: 'utf8' }).filter((f) => /(^|\/)s[0-9a-f]+\.bin$/.test(f)).sort();
+    return { own, warm, slots };
+  }
+
+  it('units served from the cache keep their stored parts after their files are replaced or removed (another build, pruning)', async () => {
+    const { own, warm, slots } = await warmFromOwnCache('replaced');
     expect(warm.batches.analysed).toBe(0);
     // Nothing of a unit's plot, fit or metricSe has been read yet: they are in the files.
-    const slots = readdirSync(own, { recursive: true, encoding: 'utf8' }).filter((f) => /(^|\/)s[0-9a-f]+\.bin$/.test(f)).sort();
     expect(slots.length).toBeGreaterThan(2);
     slots.forEach((f, i) => {
       const file = join(own, f);
@@ -156,12 +162,9 @@ describe('analyseUnitsCached', () => {
   }, 120_000);
 
   it('results.json reads each cache file\'s stored parts about once, in windows (parts stored in the order they are written out)', async () => {
-    const own = join(dir, 'windows');
-    await analyseUnitsCached(study, ASSAYS, { cacheDir: own, workers: 0 });
-    const warm = await analyseUnitsCached(study, ASSAYS, { cacheDir: own, workers: 0 });
+    const { own, warm, slots } = await warmFromOwnCache('windows');
     expect(warm.batches.analysed).toBe(0);
     // Bytes of stored parts: each slot file's size less its header (length field and header).
-    const slots = readdirSync(own, { recursive: true, encoding: 'utf8' }).filter((f) => /(^|\/)s[0-9a-f]+\.bin$/.test(f));
     const textBytes = slots.reduce((n, f) => {
       const bytes = readFileSync(join(own, f));
       return n + bytes.length - 4 - bytes.readUInt32LE(0);
