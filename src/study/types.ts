@@ -220,7 +220,7 @@ export interface Study {
   rows: Partial<RowsByKind>;
   /**
    * Input files whose rows were left out of `rows` because a cache already holds the analysis of
-   * every batch they touch (see loadAndAnalyse in src/build/build-study.ts), with what the study needs of them
+   * every batch they touch (see loadAndAnalyse in src/pipeline/build-study.ts), with what the study needs of them
    * instead. Absent (or empty) in a study loaded whole.
    */
   omitted?: ReadonlyMap<string, FileDigest>;
