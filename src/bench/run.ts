@@ -9,9 +9,12 @@
  *   warm  — the default build after one variant's velocities changed (its one file rewritten in
  *           place, as a lab would correct it), with the store of the builds before; with
  *           --warm-runs N, N such rebuilds, each for another variant, and their median,
- *   warm-no-file  — the same rebuild without the stored file readings (every file parsed),
- *   warm-no-svg   — the same rebuild without stored charts (every chart drawn),
- *   warm-no-units — the same rebuild without stored units (every batch fitted; files parsed),
+ *   warm-no-file   — the same rebuild without the stored file readings (every file parsed),
+ *   warm-no-units  — the same rebuild without stored units (every batch fitted, every file parsed),
+ *   warm-no-block  — the same rebuild without assay charts stored by their units (their specs built
+ *                    and hashed; SVGs still found by spec),
+ *   warm-no-charts — the same rebuild without any stored chart (every chart drawn),
+ *   …-default-heap — any of these with V8's default young generation (src/pipeline/young-generation.ts),
  *   batch — after a new batch was added (one new variant with WT, every assay, in new files),
  * each in its own child process, so every peak-memory figure belongs to one build. Phases: load
  * (read + check), analyse (units + analyseStudy), charts (variant pages: charts drawn, pages
@@ -26,7 +29,8 @@ import { availableParallelism, tmpdir, totalmem } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
-import { buildStudy } from '../pipeline/build-study.js';
+import { type StoreKind, buildStudy } from '../pipeline/build-study.js';
+import { enlargeYoungGeneration } from '../pipeline/young-generation.js';
 import { addBatchInFolder, changeOneVariantInFolder, syntheticStudy, writeStudy, writeSyntheticStudy } from './synthetic.js';
 
 interface PhaseFigure {
@@ -88,10 +92,12 @@ function duMB(dir: string): number {
   }
 }
 
-const STORE_KINDS: Record<string, ReadonlyArray<'file' | 'units' | 'svg'>> = {
-  'warm-no-file': ['units', 'svg'],
-  'warm-no-svg': ['file', 'units'],
-  'warm-no-units': ['svg'],
+/** The store's kinds of entry a mode leaves out (src/pipeline/build-study.ts, BuildOptions.storeKinds). */
+const STORE_KINDS: Record<string, ReadonlyArray<StoreKind>> = {
+  'warm-no-file': ['units', 'svg', 'block'],
+  'warm-no-units': ['svg', 'block'],
+  'warm-no-block': ['file', 'units', 'svg'],
+  'warm-no-charts': ['file', 'units'],
 };
 
 /** One build of a study folder by buildStudy (src/pipeline/build-study.ts), timed phase by phase (child process). */
@@ -182,6 +188,8 @@ function printBuild(b: BuildFigures): void {
 
 async function main(): Promise<void> {
   if (flag('--child')) {
+    // As the command line does (src/cli/myofolio.ts), unless the build is measured without it.
+    if (!flag('--default-heap')) enlargeYoungGeneration();
     const kind = value('--child');
     const size = Number(value('--size'));
     const fig =
@@ -236,7 +244,8 @@ async function main(): Promise<void> {
       } else if (mode === 'batch') addBatchInFolder(studyDir, manifest);
       t = performance.now();
       try {
-        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced)) as BuildFigures;
+        const heap = mode.endsWith('-default-heap') ? ['--default-heap'] : [];
+        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir, ...heap], sliced)) as BuildFigures;
         printBuild(fig);
         summary.push(fig);
       } catch (err) {

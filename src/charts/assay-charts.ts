@@ -3,7 +3,7 @@
  * This file adapts modules to the site's `chartsFor` callback and turns any spec's inline data
  * into a table, so the numbers behind an assay chart are readable without the picture.
  */
-import type { AssayModule, ChartSpec } from '../assays/types.js';
+import type { AssayChartInput, AssayModule, ChartSpec } from '../assays/types.js';
 import type { StudyResults, UnitResult } from '../results/types.js';
 import { type DataTable, fmt } from './chart-def.js';
 
@@ -11,8 +11,11 @@ import { type DataTable, fmt } from './chart-def.js';
 export interface AssayChart {
   assay: string;
   title: string;
-  spec: ChartSpec;
-  description?: string;
+  /** The spec, built when first read: a chart found in the store by its inputs never builds it. */
+  readonly spec: ChartSpec;
+  readonly description?: string;
+  /** What the chart is drawn from (the module's chart() input): equal inputs give equal specs for the same code. */
+  inputs: AssayChartInput;
 }
 
 export type ChartsFor = (variantId: string) => AssayChart[] | Promise<AssayChart[]>;
@@ -47,12 +50,20 @@ export function chartsFromModules(results: StudyResults, modules: ReadonlyArray<
       const batches = [...new Set(variantUnits.map((u) => u.batch))];
       // WT units in results order (as the former scan gave them), whatever the order of the batches.
       const wtUnits = batches.length === 1 ? (wtByBatch.get(JSON.stringify([m.id, batches[0]])) ?? []) : resultsOrder(results, batches.flatMap((b) => wtByBatch.get(JSON.stringify([m.id, b])) ?? []));
-      const spec = m.chart({ variantLabel: v.short, variantUnits, wtUnits });
+      const inputs: AssayChartInput = { variantLabel: v.short, variantUnits, wtUnits };
+      let spec: ChartSpec | undefined;
+      const build = () => (spec ??= m.chart(inputs));
       const chart: AssayChart = {
         assay: m.id,
         title: `${m.label}: ${v.short} beside paired WT`,
-        spec,
-        ...(typeof spec.description === 'string' ? { description: spec.description } : {}),
+        inputs,
+        get spec() {
+          return build();
+        },
+        get description() {
+          const d = build().description;
+          return typeof d === 'string' ? d : undefined;
+        },
       };
       return [chart];
     });

@@ -142,11 +142,112 @@ export function stripRedundant(svg: string): string {
     .replace(/<path d="M0,0h0v0h0Z"\/>/g, '');
 }
 
+/** Name of the signal that carries a chart's drawn title into a shared shape. */
+const TITLE_SIGNAL = 'myofolio_title';
+/** Prefix of the dataset names that replace inline `data.values` in a shape. */
+const DATA_PREFIX = 'myofolio_data_';
+
 /**
- * Vega's raw SVG for a spec: compiled by vega-lite, parsed by vega and drawn by a View of its
- * own, with no renderer (SVG is made from the scenegraph), then finalised.
+ * A spec split into its shape and its data: every inline `data: {values}` becomes a named
+ * dataset `myofolio_data_<k>` (numbered in document order), and `title`/`description` are left
+ * out of the shape, as are the values of top-level `params` of the form { name, value }.
+ * Specs that differ only in those share a shape.
+ * @example splitSpec({ title: 'A', data: { values: [{ x: 1 }] }, mark: 'point' })
+ * // → { shape: { data: { name: 'myofolio_data_0' }, mark: 'point' }, datasets: [[{ x: 1 }]], title: 'A', signals: [] }
+ */
+export function splitSpec(spec: ChartSpec): { shape: ChartSpec; datasets: unknown[][]; title: unknown; signals: Array<[string, unknown]> } {
+  const datasets: unknown[][] = [];
+  const walk = (node: unknown): unknown => {
+    if (Array.isArray(node)) return node.map(walk);
+    if (!node || typeof node !== 'object') return node;
+    const out: Record<string, unknown> = {};
+    for (const [k, v] of Object.entries(node as Record<string, unknown>)) {
+      const values = k === 'data' && v && typeof v === 'object' ? (v as { values?: unknown }).values : undefined;
+      if (Array.isArray(values) && Object.keys(v as object).length === 1) {
+        out.data = { name: `${DATA_PREFIX}${datasets.length}` };
+        datasets.push(values);
+      } else out[k] = walk(v);
+    }
+    return out;
+  };
+  const { title, description: _d, params, ...rest } = spec;
+  // Top-level parameters that are plain values ({ name, value }) are chart constants computed
+  // from the data (axis ranges, tick values, axis titles): the shape keeps their names, each
+  // chart sets their values. Other parameters (selections, bindings, expressions) stay in the shape.
+  const signals: Array<[string, unknown]> = [];
+  const shapeParams = Array.isArray(params)
+    ? params.map((p: unknown) => {
+        const q = p as Record<string, unknown>;
+        if (q && typeof q === 'object' && typeof q.name === 'string' && 'value' in q && Object.keys(q).length === 2) {
+          signals.push([q.name, q.value]);
+          return { name: q.name, value: null };
+        }
+        return p;
+      })
+    : params;
+  const shape = walk(rest) as ChartSpec;
+  if (shapeParams !== undefined) shape.params = shapeParams;
+  return { shape, datasets, title, signals };
+}
+
+/** Vega runtimes of shapes by canonical JSON, per process; least recently used dropped first. */
+const runtimes = new Map<string, ReturnType<typeof vega.parse>>();
+/** Shapes kept: a study has a handful (one per assay chart and forest-plot height). */
+const MAX_SHAPES = 64;
+
+/**
+ * The vega runtime of a shape: compiled by vega-lite and parsed by vega once, with the title text
+ * (if the spec has a title) drawn from the signal TITLE_SIGNAL, so that one runtime serves every
+ * chart of that shape.
+ */
+function runtimeFor(shape: ChartSpec): ReturnType<typeof vega.parse> {
+  const key = canonical(shape);
+  const hit = runtimes.get(key);
+  if (hit) {
+    runtimes.delete(key);
+    runtimes.set(key, hit);
+    return hit;
+  }
+  const vg = compile(withFont(shape) as never).spec as Record<string, unknown>;
+  if (shape.title !== undefined) {
+    const t = vg.title as Record<string, unknown> | string;
+    vg.title = typeof t === 'string' ? { text: { signal: TITLE_SIGNAL } } : { ...t, text: { signal: TITLE_SIGNAL } };
+    vg.signals = [...((vg.signals as unknown[]) ?? []), { name: TITLE_SIGNAL, value: '' }];
+  }
+  const runtime = vega.parse(vg as never);
+  runtimes.set(key, runtime);
+  if (runtimes.size > MAX_SHAPES) runtimes.delete(runtimes.keys().next().value as string);
+  return runtime;
+}
+
+/**
+ * Vega's raw SVG for a spec: its shape's runtime (compiled and parsed once) in a new View, given
+ * this chart's datasets, title and parameter values through the View's public API (data, signal),
+ * then finalised. Compiling and parsing is most of a chart's time, and charts of a study share a
+ * handful of shapes. Tests draw charts this way and compiled on their own (drawRawDirect): same bytes.
  */
 export async function drawRaw(spec: ChartSpec): Promise<string> {
+  const { shape, datasets, title, signals } = splitSpec(spec);
+  // The title's text travels as a signal value; its other parameters (if any) stay in the shape.
+  const params = title && typeof title === 'object' && !Array.isArray(title) ? (title as Record<string, unknown>) : undefined;
+  const titleText = params ? params.text : title;
+  // An empty title draws nothing whichever way it is compiled: leave it out of the shape.
+  const hasTitle = titleText !== undefined && titleText !== null && titleText !== '';
+  const runtime = runtimeFor(hasTitle ? { ...shape, title: params ? { ...params, text: 'T' } : 'T' } : shape);
+  const view = new vega.View(runtime, { renderer: 'none' });
+  try {
+    datasets.forEach((values, i) => view.data(`${DATA_PREFIX}${i}`, values as never));
+    if (hasTitle) view.signal(TITLE_SIGNAL, titleText);
+    for (const [name, value] of signals) view.signal(name, value);
+    await view.runAsync();
+    return await view.toSVG();
+  } finally {
+    view.finalize();
+  }
+}
+
+/** Vega's raw SVG for a spec compiled and parsed on its own: the reference drawRaw must equal. */
+export async function drawRawDirect(spec: ChartSpec): Promise<string> {
   const view = new vega.View(vega.parse(compile(withFont(spec) as never).spec), { renderer: 'none' });
   try {
     return await view.toSVG();

@@ -72,7 +72,14 @@ export function analyseOrder(study: Study, m: AssayModule, units: UnitResult[]):
     .map((x) => x.u);
 }
 
-export type StoredAnalysis = { units: UnitResult[]; counts: { analysed: number; stored: number } } | { needRows: string[] };
+export type StoredAnalysis =
+  | {
+      units: UnitResult[];
+      counts: { analysed: number; stored: number };
+      /** Store key of each (assay, batch) entry, by `${assay}\0${batch}`: what each of its units is made from. */
+      entries: Map<string, string>;
+    }
+  | { needRows: string[] };
 
 /**
  * Units of every active module: from the store where a batch's files are unchanged, else
@@ -85,7 +92,7 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
   if (!store || active.some((m) => !ASSAYS.includes(m))) {
     if (omitted.size > 0) return { needRows: [...omitted.keys()] };
     const units = active.flatMap((m) => m.analyse(study));
-    return { units, counts: { analysed: new Set(units.map((u) => `${u.assay}\0${u.batch}`)).size, stored: 0 } };
+    return { units, counts: { analysed: new Set(units.map((u) => `${u.assay}\0${u.batch}`)).size, stored: 0 }, entries: new Map() };
   }
   // How the loader read each file: kind, settings, its manifest entry as given, the labels it resolved.
   const entries = new Map<string, unknown>();
@@ -96,6 +103,7 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
   const files = new Map(study.files.map((f) => [f.path, [f.path, f.sha256, f.kind, f.settings, entries.get(f.path) ?? null, f.variantLabels ?? null]]));
 
   const found: UnitResult[] = [];
+  const entryKeys = new Map<string, string>();
   const needRows = new Set<string>();
   const missed: Array<{ m: AssayModule; batches: Map<string, string> }> = [];
   let stored = 0;
@@ -112,6 +120,7 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
     const mine = new Map<string, string>();
     for (const [batch, perFile] of perBatch) {
       const key = store.key('units', [m.id, batch, study.settings, [...perFile].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([path, n]) => [files.get(path) ?? path, n])]);
+      entryKeys.set(`${m.id}\0${batch}`, key);
       const hit = store.get('units', key);
       const units = hit ? unitsFrom(hit, m.id, batch) : undefined;
       if (units) {
@@ -145,7 +154,7 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
     found.push(...units);
   }
   const units = active.flatMap((m) => analyseOrder(study, m, found.filter((u) => u.assay === m.id)));
-  return { units, counts: { analysed, stored } };
+  return { units, counts: { analysed, stored }, entries: entryKeys };
 }
 
 /** A stored entry's units, if it holds what this key was made for (a list of this module's units of this batch). */

@@ -9,8 +9,8 @@
  *                ──downloads───────▶ results.json, results.csv
  *                ──swapIn──────────▶ output folder (atomic rename; the last good output survives a failure)
  *
- * The store (src/pipeline/store.ts) keeps a file's reading, a module's units of a batch and each
- * chart's SVG; a rebuild parses only the files whose batches changed, fits only those batches and
+ * The store (src/pipeline/store.ts) keeps a file's reading, a module's units of a batch, each
+ * chart's SVG and each variant's assay charts by the units they draw; a rebuild parses only the files whose batches changed, fits only those batches and
  * draws only the charts whose specs changed. Returns issues as data; the CLI decides what to print
  * and the exit code.
  */
@@ -32,7 +32,7 @@ import { analyseUnits } from './analyse-units.js';
 import { installedFingerprint } from './fingerprint.js';
 import { type RemovePrevious, planOutput, makeStaging, swapIn } from './output.js';
 import { Store, storeDirFor } from './store.js';
-import { type ChartCounts, storedRender } from './stored-render.js';
+import { type ChartCounts, storedBlock, storedRender } from './stored-render.js';
 
 export interface BuildOptions {
   force?: boolean;
@@ -49,15 +49,17 @@ export interface BuildOptions {
   store?: string | false;
   /**
    * Which kinds of store entry are used (default all): 'file' (a file's reading, so unchanged
-   * files need not be parsed), 'units' (a module's units of a batch), 'svg' (a chart). For the
-   * benchmark, which measures what each earns.
+   * files need not be parsed), 'units' (a module's units of a batch), 'svg' (a chart by its spec),
+   * 'block' (a variant's assay chart by its units). For the benchmark, which measures what each earns.
    */
-  storeKinds?: ReadonlyArray<'file' | 'units' | 'svg'>;
+  storeKinds?: ReadonlyArray<StoreKind>;
   /** Fingerprint of what computes the stored entries (default: this installation's, src/pipeline/fingerprint.ts). */
   fingerprint?: string;
   /** How the previous output is removed after the swap (see src/pipeline/output.ts); default 'now'. The CLI removes it in the background. */
   removePrevious?: RemovePrevious;
 }
+
+export type StoreKind = 'file' | 'units' | 'svg' | 'block';
 
 export interface BuildOutcome {
   ok: boolean;
@@ -102,7 +104,7 @@ function fileReadings(store: Store, mustRead: ReadonlySet<string>): LoadReuse {
  * (their stored readings stand in for them); if a batch they hold turns out not to be stored,
  * they are read after all, in a second pass.
  */
-export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'sourceDateEpoch' | 'onPhase'>, store?: Store, kinds: ReadonlySet<string> = new Set(['file', 'units'])): { issues: Issue[]; results?: StudyResults; parsedBytes: number } {
+export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'sourceDateEpoch' | 'onPhase'>, store?: Store, kinds: ReadonlySet<StoreKind> = new Set(['file', 'units'])): { issues: Issue[]; results?: StudyResults; parsedBytes: number; entries?: Map<string, string> } {
   const fileStore = kinds.has('file') && kinds.has('units') ? store : undefined;
   const phase = options.onPhase ?? (() => {});
   let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir);
@@ -132,7 +134,7 @@ export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'so
     }
     const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units });
     results.issues = issues;
-    return { issues, results, parsedBytes };
+    return { issues, results, parsedBytes, entries: got.entries };
   }
 }
 
@@ -147,8 +149,8 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
     if (damaged > 0) notes.push(`${damaged} damaged cache ${damaged === 1 ? 'entry was' : 'entries were'} discarded and computed again (cache folder ${store?.dir}).`);
     return notes;
   };
-  const kinds = new Set(options.storeKinds ?? ['file', 'units', 'svg']);
-  const { issues, results } = loadAndAnalyse(studyDir, options, store, kinds);
+  const kinds = new Set<StoreKind>(options.storeKinds ?? ['file', 'units', 'svg', 'block']);
+  const { issues, results, entries } = loadAndAnalyse(studyDir, options, store, kinds);
   if (!results) return { ok: false, issues, notes: withStoreNote() };
   const tag = String(process.pid);
   const staging = makeStaging(plan.out, tag);
@@ -159,6 +161,7 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
       chartsFor: chartsFromModules(results, ASSAYS),
       sourceDateEpoch: options.sourceDateEpoch,
       ...(store && kinds.has('svg') ? { render: storedRender(store, charts) } : {}),
+      ...(store && kinds.has('block') ? { block: storedBlock(store, charts, entries) } : {}),
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
     });
     phase('write');

@@ -23,7 +23,7 @@ import type { StudyResults } from '../results/types.js';
 import { PATHS, uniqueSlugs } from './paths.js';
 import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
 import type { FunctionCall, VariantResult } from '../results/types.js';
-import { type RenderFn, STANDARD_CAVEATS, functionCall } from './view-common.js';
+import { type BlockFn, type RenderFn, STANDARD_CAVEATS, functionCall } from './view-common.js';
 import { assayPages, compareCharts, methodsData, provenanceData, residueCharts } from './view-study.js';
 import { type VariantPage, indexRows, variantPageBuilder } from './view-variant.js';
 
@@ -34,6 +34,8 @@ export interface BuildSiteOptions {
   sourceDateEpoch?: number;
   /** Chart renderer (default: renderSvg in this thread). */
   render?: RenderFn;
+  /** Assay chart blocks by their inputs (the build's store); see VariantPagesOptions.block. */
+  block?: BlockFn;
   /** Progress: ('charts', variant pages done, total) while rendering, then ('pages', 0, 1) and ('pages', 1, 1) around Eleventy. */
   onProgress?: (phase: string, done: number, total: number) => void;
 }
@@ -46,7 +48,7 @@ const variantTemplate = join(templatesDir, 'variant.njk');
  * Variant pages built and written per Eleventy run: each run compiles the templates again, and
  * one batch's pages and SVGs are in memory at a time, so this bounds the build's memory.
  */
-export const VARIANT_BATCH = 75;
+export const VARIANT_BATCH = 250;
 
 /** Escaped as Nunjucks escapes text it writes into a template (autoescape; node_modules/nunjucks/src/lib.js). */
 const NUNJUCKS_ESCAPES: Record<string, string> = { '&': '&amp;', '"': '&quot;', "'": '&#39;', '<': '&lt;', '>': '&gt;', '\\': '&#92;' };
@@ -163,6 +165,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
   const variantSite = variantSiteData(frame);
   const build = variantPageBuilder(results, slugs, options.chartsFor, {
     ...(options.render ? { render: options.render } : {}),
+    ...(options.block ? { block: options.block } : {}),
     ...(progress ? { onVariant: (d: number) => progress('charts', d, total) } : {}),
   });
   let pages = 0;

@@ -34,6 +34,15 @@ export function metricCall(call: MetricCall): CallView {
 /** Renders one chart to SVG: renderSvg, or the build's render through the store (src/pipeline/stored-render.ts). */
 export type RenderFn = (spec: ChartSpec, options: RenderOptions) => Promise<string>;
 
+/** What a chart block shows besides its id and title. */
+export type BlockContent = Pick<ChartBlock, 'svg' | 'description' | 'table'>;
+
+/**
+ * A chart block found by what it is drawn from (`inputs`: any JSON value), or made by `make` and
+ * kept: the build's store (src/pipeline/stored-render.ts). Without one, every block is made.
+ */
+export type BlockFn = (inputs: unknown, make: () => Promise<BlockContent>) => Promise<BlockContent>;
+
 /**
  * Render chart definitions to blocks, in order (deterministic).
  */

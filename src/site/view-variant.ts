@@ -3,7 +3,7 @@ import { type ChartsFor, drawnSpec, specTable } from '../charts/assay-charts.js'
 import { fmt, fmtCi, fmtP, variantNames } from '../charts/chart-def.js';
 import { forestChart, forestTable } from '../charts/forest.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
-import { type CalibrationView, type CallView, type ChartBlock, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
+import { type CalibrationView, type CallView, type ChartBlock, type BlockFn, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
 import { fmtCalibration } from './view-study.js';
 import { PATHS, slug } from './paths.js';
 import { groupBy } from '../assays/assay-common.js';
@@ -105,6 +105,8 @@ const unitsLabel = (results: StudyResults, assay: string, metric: string) =>
 export interface VariantPagesOptions {
   /** Chart renderer (default: renderSvg in this thread, no cache). */
   render?: RenderFn;
+  /** Assay chart blocks found by their inputs (the build's store), so that an unchanged chart's spec is never built. */
+  block?: BlockFn;
   /** Variants whose pages are built at once (default 8). */
   concurrency?: number;
   /** Called after each variant page: (done, total). */
@@ -145,9 +147,13 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
           .filter((c) => c.assay === a.id)
           .map(async (c, i): Promise<ChartBlock> => {
             const key = `assay:${v.id}:${a.id}:${i}`;
-            const description = c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`;
-            const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], render);
-            return b as ChartBlock;
+            const make = async () => {
+              const description = c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`;
+              const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], render);
+              return { svg: b!.svg, description: b!.description, table: b!.table };
+            };
+            const content = options.block ? await options.block(['assay-chart', a.id, key, c.title, c.inputs], make) : await make();
+            return { id: `chart-${slug(key)}`, title: c.title, ...content };
           }),
       );
       assays.push({

@@ -4,7 +4,7 @@ import { fmtP as formatP } from '../../src/results/format.js';
 import { EFFECTS_LABELLED_MAX, effectsChart } from '../../src/charts/effects.js';
 import { forestChart } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
-import { chartKey, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, stripRedundant } from '../../src/charts/render.js';
+import { chartKey, drawRaw, drawRawDirect, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, splitSpec, stripRedundant } from '../../src/charts/render.js';
 import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
 import { motilityChart, motilityPlotPoints } from '../../src/assays/motility.js';
 import { atpase } from '../../src/assays/atpase.js';
@@ -49,6 +49,46 @@ describe('renderSvg', () => {
   it('keys equal specs equally regardless of key order', () => {
     expect(chartKey({ a: 1, b: [1, { c: 2, d: 3 }] })).toBe(chartKey({ b: [1, { d: 3, c: 2 }], a: 1 }));
     expect(chartKey({ a: 1 })).not.toBe(chartKey({ a: 2 }));
+  });
+});
+
+describe('chart shapes (compiled once, each chart a new View with its data)', () => {
+  it('splits a spec into shape, datasets, title and parameter values', () => {
+    expect(splitSpec({ title: 'A', description: 'D', params: [{ name: 'top', value: 3 }, { name: 'sel', select: 'point' }], layer: [{ data: { values: [{ x: 1 }] }, mark: 'point' }, { data: { values: [] }, mark: 'rule' }] })).toEqual({
+      shape: { layer: [{ data: { name: 'myofolio_data_0' }, mark: 'point' }, { data: { name: 'myofolio_data_1' }, mark: 'rule' }], params: [{ name: 'top', value: null }, { name: 'sel', select: 'point' }] },
+      datasets: [[{ x: 1 }], []],
+      title: 'A',
+      signals: [['top', 3]],
+    });
+  });
+
+  // Vega numbers clip paths from a global counter: compare with ids renumbered the same way.
+  const same = (svg: string) => renumberIds(svg, 'z');
+
+  it('draws every chart of a shape exactly as compiling that chart on its own would, in any order', async () => {
+    const r = makeFixture();
+    const motility = (velocity: number, n: number) =>
+      motilityChart({
+        variantLabel: `V${n}`,
+        variantUnits: [{ assay: 'motility', variant: 'v', unit: 'v-1', batch: 'B1', metrics: { velocity, fractionImmobile: 0.1 }, flags: [], nTechnical: n, plot: { points: Array.from({ length: n }, (_, i) => ({ velocity: (velocity * (i + 1)) / n, state: i === 0 ? 'immobile' : 'moving' })) }, source: [] }],
+        wtUnits: [{ assay: 'motility', variant: 'wt', unit: 'wt-1', batch: 'B1', metrics: { velocity: 0.5, fractionImmobile: 0 }, flags: [], nTechnical: 5, plot: { points: [0.3, 0.4, 0.5, 0.6, 0.7].map((v) => ({ velocity: v, state: 'moving' })) }, source: [] }],
+      } as never);
+    const specs = [
+      { ...simple, title: 'First' },
+      { ...simple, title: '' },
+      { ...simple, title: { text: ['Second', 'two lines'], subtitle: 'sub' }, data: { values: [{ a: 5, b: 1 }, { a: 9, b: 30 }] } },
+      simple,
+      ...r.variants.filter((v) => !v.isWT).map((v) => forestChart(r, v, v.short)?.spec).filter((s) => s !== undefined),
+      drawnSpec(motility(0.4, 30)),
+      drawnSpec(motility(1.3, 12)),
+    ];
+    // The two motility charts (different axis ranges, titles and data) share one shape.
+    expect(splitSpec(specs.at(-1)!).shape).toEqual(splitSpec(specs.at(-2)!).shape);
+    const direct = [];
+    for (const spec of specs) direct.push(same(await drawRawDirect(spec)));
+    for (const order of [specs.map((_, i) => i), specs.map((_, i) => specs.length - 1 - i)]) {
+      for (const i of order) expect(same(await drawRaw(specs[i]!)), `chart ${i}`).toBe(direct[i]);
+    }
   });
 });
 
