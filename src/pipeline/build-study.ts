@@ -20,6 +20,7 @@ import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
 import { ASSAYS } from '../assays/registry.js';
 import { chartsFromModules } from '../charts/assay-charts.js';
+import { renderSvg } from '../charts/render.js';
 import { resultsCsv } from '../results/csv.js';
 import { writeJsonStreamed } from '../results/json.js';
 import type { StudyResults } from '../results/types.js';
@@ -32,7 +33,7 @@ import { analyseUnits } from './analyse-units.js';
 import { installedFingerprint } from './fingerprint.js';
 import { type RemovePrevious, planOutput, makeStaging, swapIn } from './output.js';
 import { Store, storeDirFor } from './store.js';
-import { type ChartCounts, storedBlock, storedRender } from './stored-render.js';
+import { type ChartCounts, countedDraw, storedBlock, storedRender } from './stored-render.js';
 
 export interface BuildOptions {
   force?: boolean;
@@ -151,7 +152,10 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   };
   const kinds = new Set<StoreKind>(options.storeKinds ?? ['file', 'units', 'svg', 'block']);
   const { issues, results, entries } = loadAndAnalyse(studyDir, options, store, kinds);
-  if (!results) return { ok: false, issues, notes: withStoreNote() };
+  if (!results) {
+    await store?.flush();
+    return { ok: false, issues, notes: withStoreNote() };
+  }
   const tag = String(process.pid);
   const staging = makeStaging(plan.out, tag);
   try {
@@ -161,7 +165,7 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
       chartsFor: chartsFromModules(results, ASSAYS),
       sourceDateEpoch: options.sourceDateEpoch,
       ...(store && kinds.has('svg') ? { render: storedRender(store, charts) } : {}),
-      ...(store && kinds.has('block') ? { block: storedBlock(store, charts, entries) } : {}),
+      ...(store && kinds.has('block') ? { block: storedBlock(store, charts, entries), blockRender: countedDraw(renderSvg, charts) } : {}),
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
     });
     phase('write');
@@ -171,10 +175,13 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
     writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
     writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
     const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
+    await store?.flush();
     store?.prune();
     return { ok: true, issues, out: plan.out, pages: site.pages, charts, results, notes: withStoreNote(), ...(movedAside ? { movedAside } : {}) };
   } catch (err) {
     rmSync(staging, { recursive: true, force: true });
     throw err;
+  } finally {
+    await store?.flush();
   }
 }

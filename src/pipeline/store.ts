@@ -2,7 +2,7 @@
  * The store: one content-addressed folder for what is costly to recompute (a module's units of
  * one batch, a file's reading, a chart's SVG), shared by every build of every study.
  *
- *   (kind, fingerprint, key parts) ──SHA-256──▶ <dir>/<kind>/<ab>/<hash>
+ *   (kind, fingerprint, key parts) ──SHA-256──▶ <dir>/<kind>/<a>/<hash>   (<a>: the hash's first hex digit)
  *   entry file: 'myofolio-store 1 <SHA-256 of payload> <payload bytes>\n' + payload
  *
  * Every key includes the fingerprint of what computes the entries (src/pipeline/fingerprint.ts),
@@ -10,11 +10,13 @@
  * checked on reading against the hash in its header: an entry that is not a regular file (a FIFO,
  * a device, a link), cannot be read, is truncated or has other bytes is discarded, counted and
  * recomputed by the caller; it is never served and never stops a build. Entries are written under
- * a temporary name and renamed, so a reader never sees half an entry. Entries not used for
+ * a temporary name and renamed, so a reader never sees half an entry; a build waits for its
+ * writes before it ends (flush). Entries not used for
  * CACHE.keepDays are removed (prune), at most once per CACHE.pruneEveryHours.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, constants, fstatSync, lstatSync, mkdirSync, openSync, readFileSync, readdirSync, renameSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { closeSync, constants, fstatSync, lstatSync, mkdirSync, openSync, readFileSync, readdirSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { rename, rm, writeFile } from 'node:fs/promises';
 import { homedir } from 'node:os';
 import { isAbsolute, join, relative, resolve } from 'node:path';
 import { CACHE } from '../defaults.js';
@@ -68,6 +70,7 @@ export class Store {
   readonly dir: string;
   readonly counts: StoreCounts = { hits: 0, misses: 0, discarded: [] };
   private readonly made = new Set<string>();
+  private readonly writing: Array<Promise<unknown>> = [];
 
   constructor(dir: string, readonly fingerprint: string) {
     this.dir = resolve(dir);
@@ -80,7 +83,7 @@ export class Store {
 
   /** Path of an entry. */
   path(kind: string, key: string): string {
-    return join(this.dir, kind, key.slice(0, 2), key);
+    return join(this.dir, kind, key.slice(0, 1), key);
   }
 
   /** The payload stored under a key, checked against its hash; undefined when absent or discarded. */
@@ -111,23 +114,35 @@ export class Store {
     return payload;
   }
 
-  /** Store a payload under a key (best effort: a store that cannot be written is not an error). */
+  /**
+   * Store a payload under a key. Written in the background (libuv's thread pool), so that the
+   * build goes on meanwhile; `flush` waits for every write. Best effort: a store that cannot be
+   * written is not an error.
+   */
   put(kind: string, key: string, payload: Uint8Array | string): void {
     const file = this.path(kind, key);
     const bytes = typeof payload === 'string' ? Buffer.from(payload, 'utf8') : payload;
     const header = `${MAGIC} ${STORE_FORMAT} ${createHash('sha256').update(bytes).digest('hex')} ${bytes.byteLength}\n`;
     const tmp = `${file}.tmp-${process.pid}-${Math.random().toString(36).slice(2)}`;
+    const sub = join(file, '..');
     try {
-      const sub = join(file, '..');
       if (!this.made.has(sub)) {
         mkdirSync(sub, { recursive: true });
         this.made.add(sub);
       }
-      writeFileSync(tmp, Buffer.concat([Buffer.from(header, 'ascii'), bytes]));
-      renameSync(tmp, file);
     } catch {
-      rmSync(tmp, { force: true });
+      return;
     }
+    this.writing.push(
+      writeFile(tmp, Buffer.concat([Buffer.from(header, 'ascii'), bytes]))
+        .then(() => rename(tmp, file))
+        .catch(() => rm(tmp, { force: true }).catch(() => undefined)),
+    );
+  }
+
+  /** Wait until every entry put so far is written (or given up). */
+  async flush(): Promise<void> {
+    while (this.writing.length > 0) await Promise.all(this.writing.splice(0));
   }
 
   /** Remove what is at an entry's path (it is ours: the store folder is myofolio's) and count it. */
@@ -142,7 +157,7 @@ export class Store {
 
   /**
    * Remove entries not used (modification time) for CACHE.keepDays, if the store was not pruned
-   * within CACHE.pruneEveryHours. Only files in the store's own layout (<kind>/<ab>/<64 hex>, and
+   * within CACHE.pruneEveryHours. Only files in the store's own layout (<kind>/<a>/<64 hex>, and
    * temporary files left by killed builds) are removed.
    */
   prune(nowMs: number = Date.now()): number {
@@ -164,7 +179,7 @@ export class Store {
     for (const kind of list(this.dir)) {
       if (!kind.isDirectory()) continue;
       for (const sub of list(join(this.dir, kind.name))) {
-        if (!sub.isDirectory() || !/^[0-9a-f]{2}$/.test(sub.name)) continue;
+        if (!sub.isDirectory() || !/^[0-9a-f]$/.test(sub.name)) continue;
         for (const entry of list(join(this.dir, kind.name, sub.name))) {
           if (!/^[0-9a-f]{64}(\.tmp-\d+-[0-9a-z]+)?$/.test(entry.name) || !entry.name.startsWith(sub.name)) continue;
           const file = join(this.dir, kind.name, sub.name, entry.name);

@@ -26,8 +26,8 @@ export interface ChartCounts {
   stored: number;
 }
 
-/** A render function for buildSite that asks the store first and keeps what it draws. */
-export function storedRender(store: Store, counts: ChartCounts): RenderFn {
+/** A render function for buildSite that asks the store first and keeps what `draw` draws. */
+export function storedRender(store: Store, counts: ChartCounts, draw: RenderFn = renderSvg): RenderFn {
   return async (spec: ChartSpec, options: RenderOptions) => {
     const key = store.key('svg', [options.key ?? null, options.title ?? null, options.description ?? null, spec]);
     const hit = store.get('svg', key);
@@ -35,10 +35,18 @@ export function storedRender(store: Store, counts: ChartCounts): RenderFn {
       counts.stored++;
       return hit.toString('utf8');
     }
-    const svg = await renderSvg(spec, options);
+    const svg = await draw(spec, options);
     store.put('svg', key, svg);
     counts.rendered++;
     return svg;
+  };
+}
+
+/** `draw`, counting the charts it draws. */
+export function countedDraw(draw: RenderFn, counts: ChartCounts): RenderFn {
+  return (spec, options) => {
+    counts.rendered++;
+    return draw(spec, options);
   };
 }
 

@@ -34,8 +34,9 @@ export interface BuildSiteOptions {
   sourceDateEpoch?: number;
   /** Chart renderer (default: renderSvg in this thread). */
   render?: RenderFn;
-  /** Assay chart blocks by their inputs (the build's store); see VariantPagesOptions.block. */
+  /** Assay chart blocks by their inputs (the build's store), and the renderer of their charts; see VariantPagesOptions. */
   block?: BlockFn;
+  blockRender?: RenderFn;
   /** Progress: ('charts', variant pages done, total) while rendering, then ('pages', 0, 1) and ('pages', 1, 1) around Eleventy. */
   onProgress?: (phase: string, done: number, total: number) => void;
 }
@@ -166,6 +167,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
   const build = variantPageBuilder(results, slugs, options.chartsFor, {
     ...(options.render ? { render: options.render } : {}),
     ...(options.block ? { block: options.block } : {}),
+    ...(options.blockRender ? { blockRender: options.blockRender } : {}),
     ...(progress ? { onVariant: (d: number) => progress('charts', d, total) } : {}),
   });
   let pages = 0;

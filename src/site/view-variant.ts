@@ -107,6 +107,8 @@ export interface VariantPagesOptions {
   render?: RenderFn;
   /** Assay chart blocks found by their inputs (the build's store), so that an unchanged chart's spec is never built. */
   block?: BlockFn;
+  /** Renderer of the charts inside such blocks (the block is kept whole, its SVG need not be kept again); default `render`. */
+  blockRender?: RenderFn;
   /** Variants whose pages are built at once (default 8). */
   concurrency?: number;
   /** Called after each variant page: (done, total). */
@@ -149,7 +151,7 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
             const key = `assay:${v.id}:${a.id}:${i}`;
             const make = async () => {
               const description = c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`;
-              const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], render);
+              const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], options.block ? (options.blockRender ?? render) : render);
               return { svg: b!.svg, description: b!.description, table: b!.table };
             };
             const content = options.block ? await options.block(['assay-chart', a.id, key, c.title, c.inputs], make) : await make();

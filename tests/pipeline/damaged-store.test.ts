@@ -26,7 +26,7 @@ async function build(store: string | false, out: string) {
 function entries(store: string): Record<string, string[]> {
   const out: Record<string, string[]> = {};
   for (const kind of readdirSync(store, { withFileTypes: true }).filter((e) => e.isDirectory())) {
-    out[kind.name] = (readdirSync(join(store, kind.name), { recursive: true, encoding: 'utf8' }) as string[]).filter((f) => /^[0-9a-f]{2}\/[0-9a-f]{64}$/.test(f)).map((f) => join(store, kind.name, f));
+    out[kind.name] = (readdirSync(join(store, kind.name), { recursive: true, encoding: 'utf8' }) as string[]).filter((f) => /^[0-9a-f]\/[0-9a-f]{64}$/.test(f)).map((f) => join(store, kind.name, f));
   }
   return out;
 }

@@ -129,8 +129,10 @@ describe('loadAndAnalyse with the store', () => {
   const dir = join(tmp, 'study');
   const cache = join(tmp, 'cache');
   let parsed = 0;
-  const run = (withStore: boolean) => {
-    const got = loadAndAnalyse(dir, { sourceDateEpoch: 1_700_000_000 }, withStore ? new Store(cache, 'test') : undefined);
+  const run = async (withStore: boolean) => {
+    const store = withStore ? new Store(cache, 'test') : undefined;
+    const got = loadAndAnalyse(dir, { sourceDateEpoch: 1_700_000_000 }, store);
+    await store?.flush();
     expect(got.results).toBeDefined();
     parsed = got.parsedBytes;
     // results.json as the build writes it is JSON.stringify of the results.
@@ -152,26 +154,26 @@ describe('loadAndAnalyse with the store', () => {
   };
   /** Edit a reading of `name`: the results change, and the build with the cache gives those of a build without. */
   const editAndCompare = async (name: string) => {
-    const before = run(false);
+    const before = await run(false);
     const size = editReading(name);
-    const fresh = run(false);
+    const fresh = await run(false);
     expect(fresh).not.toBe(before);
-    expect(run(true)).toBe(fresh);
+    expect(await run(true)).toBe(fresh);
     return { size, fresh };
   };
 
   it('cold, warm (all files left out) and after one file changed: the results of a build without cache', async () => {
     writeStudy(dir, made);
-    const reference = run(false);
-    expect(run(true)).toBe(reference);
-    expect(run(true)).toBe(reference);
+    const reference = await run(false);
+    expect(await run(true)).toBe(reference);
+    expect(await run(true)).toBe(reference);
     expect(parsed).toBe(0);
     // One turnover reading of a variant edited: its file is read, and the files holding rows of
     // its batches (stored per assay and batch), but not every file.
     const { size, fresh } = await editAndCompare('turnover-part2.csv');
     expect(parsed).toBeGreaterThanOrEqual(size);
     expect(parsed).toBeLessThan(Object.values(made.files).reduce((n, t) => n + Buffer.byteLength(t), 0));
-    expect(run(true)).toBe(fresh);
+    expect(await run(true)).toBe(fresh);
     expect(parsed).toBe(0);
   }, 180_000);
 
@@ -206,8 +208,8 @@ describe('loadAndAnalyse with the store', () => {
     manifest.variants.push({ hgvs: `p.${newLabel}` });
     manifest.files.push({ path: 'turnover-new.csv', kind: 'turnover' });
     writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
-    const fresh = run(false);
-    expect(run(true)).toBe(fresh);
+    const fresh = await run(false);
+    expect(await run(true)).toBe(fresh);
     expect(parsed).toBe(Buffer.byteLength(text));
 
     // The old label now names the new variant (and the new label the old one): the same bytes
@@ -218,15 +220,17 @@ describe('loadAndAnalyse with the store', () => {
     manifest.variants[at] = { ...manifest.variants[at], label: newLabel };
     manifest.variants[manifest.variants.length - 1] = { hgvs: `p.${newLabel}`, label: oldLabel };
     writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
-    const swapped = run(false);
+    const swapped = await run(false);
     expect(swapped).not.toBe(fresh);
-    expect(run(true)).toBe(swapped);
+    expect(await run(true)).toBe(swapped);
   }, 180_000);
 
-  it('the demo study (one unit excluded in its manifest): the same results cold and warm', () => {
+  it('the demo study (one unit excluded in its manifest): the same results cold and warm', async () => {
     const demo = fileURLToPath(new URL('../../data-demo/', import.meta.url));
     const store = () => new Store(join(tmp, 'demo-cache'), 'test');
-    const cold = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, store());
+    const first = store();
+    const cold = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, first);
+    await first.flush();
     const warm = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, store());
     expect(cold.results!.units.filter((u) => u.excluded).length).toBe(1);
     expect(warm.parsedBytes).toBe(0);

@@ -15,11 +15,12 @@ const root = mkdtempSync(join(tmpdir(), 'myofolio-store-'));
 afterAll(() => rmSync(root, { recursive: true, force: true }));
 
 describe('Store', () => {
-  it('gives back what was put under a key, and nothing under another key or fingerprint', () => {
+  it('gives back what was put under a key, and nothing under another key or fingerprint', async () => {
     const store = new Store(join(root, 'a'), 'f1');
     const key = store.key('units', ['B1', 1]);
     expect(key).toMatch(/^[0-9a-f]{64}$/);
     store.put('units', key, 'payload');
+    await store.flush();
     expect(store.get('units', key)?.toString()).toBe('payload');
     expect(store.get('units', store.key('units', ['B1', 2]))).toBeUndefined();
     const other = new Store(join(root, 'a'), 'f2');
@@ -56,37 +57,41 @@ describe('Store', () => {
     }],
   ];
   for (const [what, damage] of damages) {
-    it(`an entry ${what} is discarded, counted and not served; a new put is served again`, () => {
+    it(`an entry ${what} is discarded, counted and not served; a new put is served again`, async () => {
       const store = new Store(join(root, 'damage'), 'f');
       const key = store.key('svg', what);
       store.put('svg', key, 'x'.repeat(100));
+      await store.flush();
       const file = store.path('svg', key);
       damage(file);
       expect(store.get('svg', key)).toBeUndefined();
       expect(store.counts.discarded).toEqual([file]);
       expect(existsSync(file)).toBe(false);
       store.put('svg', key, 'x'.repeat(100));
+      await store.flush();
       expect(store.get('svg', key)?.toString()).toBe('x'.repeat(100));
     });
   }
 
-  it('an unreadable entry is discarded (when not run as root, which reads everything)', () => {
+  it('an unreadable entry is discarded (when not run as root, which reads everything)', async () => {
     const store = new Store(join(root, 'unreadable'), 'f');
     const key = store.key('svg', 1);
     store.put('svg', key, 'svg');
+    await store.flush();
     const file = store.path('svg', key);
     execFileSync('chmod', ['000', file]);
     const asRoot = process.getuid?.() === 0;
     expect(store.get('svg', key)?.toString()).toBe(asRoot ? 'svg' : undefined);
   });
 
-  it('prunes entries unused for CACHE.keepDays, at most once per CACHE.pruneEveryHours, and nothing else', () => {
+  it('prunes entries unused for CACHE.keepDays, at most once per CACHE.pruneEveryHours, and nothing else', async () => {
     const dir = join(root, 'prune');
     const store = new Store(dir, 'f');
     const old = store.key('units', 'old');
     const fresh = store.key('units', 'fresh');
     store.put('units', old, 'o');
     store.put('units', fresh, 'f');
+    await store.flush();
     const foreign = join(dir, 'units', 'notes.txt');
     writeFileSync(foreign, 'mine');
     const longAgo = new Date(Date.now() - (CACHE.keepDays + 1) * 24 * 3600 * 1000);
@@ -101,10 +106,11 @@ describe('Store', () => {
     expect(store.prune(Date.now() + CACHE.pruneEveryHours * 3600 * 1000 + 1000)).toBe(1);
   });
 
-  it('a hit marks an entry used a day or more ago as used now', () => {
+  it('a hit marks an entry used a day or more ago as used now', async () => {
     const store = new Store(join(root, 'mark'), 'f');
     const key = store.key('svg', 'm');
     store.put('svg', key, 's');
+    await store.flush();
     const twoDays = new Date(Date.now() - 2 * 24 * 3600 * 1000);
     utimesSync(store.path('svg', key), twoDays, twoDays);
     store.get('svg', key);
