@@ -4,7 +4,8 @@
  *   Study ──each active module's rows by batch──▶ key per (module, batch): the study settings and,
  *         for every file holding rows of that batch, its path, SHA-256, how it was read (kind,
  *         settings, manifest entry), the variant labels it resolved and its row count in the batch
- *         ──hit──▶ the batch's units (v8 serialisation: exact numbers, NaN and −0 kept)
+ *         ──hit──▶ the batch's units (v8 serialisation: exact numbers, NaN and −0 kept), each with
+ *                  the SHA-256 of its JSON (what the charts of a unit are kept under)
  *         ──miss─▶ module.analyse on a study holding only the missed batches' rows ──▶ stored
  *         ──merge, in the order module.analyse(study) gives──▶ UnitResult[]
  *
@@ -18,6 +19,7 @@
  * digests' rows per batch; a batch that is not stored and has rows in such a file is answered
  * with `needRows` (those files), and the caller loads them and asks again.
  */
+import { createHash } from 'node:crypto';
 import { deserialize, serialize } from 'node:v8';
 import { hasRows, unitsInOrder } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
@@ -76,8 +78,8 @@ export type StoredAnalysis =
   | {
       units: UnitResult[];
       counts: { analysed: number; stored: number };
-      /** Store key of each (assay, batch) entry, by `${assay}\0${batch}`: what each of its units is made from. */
-      entries: Map<string, string>;
+      /** With a store: SHA-256 of each unit's JSON as analysed, in the order of `units`. */
+      digests?: string[];
     }
   | { needRows: string[] };
 
@@ -92,7 +94,7 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
   if (!store || active.some((m) => !ASSAYS.includes(m))) {
     if (omitted.size > 0) return { needRows: [...omitted.keys()] };
     const units = active.flatMap((m) => m.analyse(study));
-    return { units, counts: { analysed: new Set(units.map((u) => `${u.assay}\0${u.batch}`)).size, stored: 0 }, entries: new Map() };
+    return { units, counts: { analysed: new Set(units.map((u) => `${u.assay}\0${u.batch}`)).size, stored: 0 } };
   }
   // How the loader read each file: kind, settings, its manifest entry as given, the labels it resolved.
   const entries = new Map<string, unknown>();
@@ -103,7 +105,7 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
   const files = new Map(study.files.map((f) => [f.path, [f.path, f.sha256, f.kind, f.settings, entries.get(f.path) ?? null, f.variantLabels ?? null]]));
 
   const found: UnitResult[] = [];
-  const entryKeys = new Map<string, string>();
+  const digestOf = new Map<UnitResult, string>();
   const needRows = new Set<string>();
   const missed: Array<{ m: AssayModule; batches: Map<string, string> }> = [];
   let stored = 0;
@@ -120,11 +122,11 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
     const mine = new Map<string, string>();
     for (const [batch, perFile] of perBatch) {
       const key = store.key('units', [m.id, batch, study.settings, [...perFile].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([path, n]) => [files.get(path) ?? path, n])]);
-      entryKeys.set(`${m.id}\0${batch}`, key);
       const hit = store.get('units', key);
-      const units = hit ? unitsFrom(hit, m.id, batch) : undefined;
-      if (units) {
-        found.push(...units);
+      const entry = hit ? entryFrom(hit, m.id, batch) : undefined;
+      if (entry) {
+        entry.units.forEach((u, i) => digestOf.set(u, entry.digests[i] as string));
+        found.push(...entry.units);
         stored++;
         continue;
       }
@@ -146,22 +148,30 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
     }
     const { omitted: _left, ...whole } = study;
     const units = m.analyse({ ...whole, rows: rows as Study['rows'] });
+    for (const u of units) digestOf.set(u, unitDigest(u));
     for (const [batch, key] of batches) {
       // A batch whose rows give no unit (e.g. only NADH actin-only wells) is stored empty.
-      store.put('units', key, serialize(units.filter((u) => u.batch === batch)));
+      const mine = units.filter((u) => u.batch === batch);
+      store.put('units', key, serialize({ units: mine, digests: mine.map((u) => digestOf.get(u)) }));
       analysed++;
     }
     found.push(...units);
   }
   const units = active.flatMap((m) => analyseOrder(study, m, found.filter((u) => u.assay === m.id)));
-  return { units, counts: { analysed, stored }, entries: entryKeys };
+  return { units, counts: { analysed, stored }, digests: units.map((u) => digestOf.get(u) as string) };
 }
 
-/** A stored entry's units, if it holds what this key was made for (a list of this module's units of this batch). */
-function unitsFrom(bytes: Buffer, assay: string, batch: string): UnitResult[] | undefined {
+/** SHA-256 (hex) of a unit's JSON. */
+export function unitDigest(u: UnitResult): string {
+  return createHash('sha256').update(JSON.stringify(u)).digest('hex');
+}
+
+/** A stored entry, if it holds what this key was made for: this module's units of this batch, each with a digest. */
+function entryFrom(bytes: Buffer, assay: string, batch: string): { units: UnitResult[]; digests: string[] } | undefined {
   try {
-    const units = deserialize(bytes) as UnitResult[];
-    return Array.isArray(units) && units.every((u) => u && u.assay === assay && u.batch === batch) ? units : undefined;
+    const entry = deserialize(bytes) as { units: UnitResult[]; digests: string[] };
+    const ok = Array.isArray(entry?.units) && Array.isArray(entry.digests) && entry.digests.length === entry.units.length;
+    return ok && entry.units.every((u) => u && u.assay === assay && u.batch === batch) && entry.digests.every((d) => typeof d === 'string') ? entry : undefined;
   } catch {
     return undefined;
   }

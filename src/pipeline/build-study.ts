@@ -23,13 +23,14 @@ import { chartsFromModules } from '../charts/assay-charts.js';
 import { renderSvg } from '../charts/render.js';
 import { resultsCsv } from '../results/csv.js';
 import { writeJsonStreamed } from '../results/json.js';
-import type { StudyResults } from '../results/types.js';
+import type { StudyResults, UnitResult } from '../results/types.js';
 import { buildSite } from '../site/build-site.js';
 import { type LoadReuse, loadStudy } from '../study/load.js';
 import { readStudyFolder } from '../study/read-folder.js';
 import type { FileDigest, Issue } from '../study/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { analyseUnits } from './analyse-units.js';
+import { COLLECT_AFTER_PARSED_BYTES, HEAVY_PAGES_PER_RUN, collectGarbage } from './collect-garbage.js';
 import { installedFingerprint } from './fingerprint.js';
 import { type RemovePrevious, planOutput, makeStaging, swapIn } from './output.js';
 import { Store, storeDirFor } from './store.js';
@@ -105,7 +106,7 @@ function fileReadings(store: Store, mustRead: ReadonlySet<string>): LoadReuse {
  * (their stored readings stand in for them); if a batch they hold turns out not to be stored,
  * they are read after all, in a second pass.
  */
-export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'sourceDateEpoch' | 'onPhase'>, store?: Store, kinds: ReadonlySet<StoreKind> = new Set(['file', 'units'])): { issues: Issue[]; results?: StudyResults; parsedBytes: number; entries?: Map<string, string> } {
+export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'sourceDateEpoch' | 'onPhase'>, store?: Store, kinds: ReadonlySet<StoreKind> = new Set(['file', 'units'])): { issues: Issue[]; results?: StudyResults; parsedBytes: number; unitDigests?: Map<UnitResult, string> } {
   const fileStore = kinds.has('file') && kinds.has('units') ? store : undefined;
   const phase = options.onPhase ?? (() => {});
   let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir);
@@ -135,7 +136,10 @@ export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'so
     }
     const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units });
     results.issues = issues;
-    return { issues, results, parsedBytes, entries: got.entries };
+    // analyseStudy copies the units in their order (marking exclusions): each copy takes its original's digest.
+    const digests = got.digests;
+    const unitDigests = digests ? new Map(results.units.map((u, i) => [u, digests[i] as string])) : undefined;
+    return { issues, results, parsedBytes, ...(unitDigests ? { unitDigests } : {}) };
   }
 }
 
@@ -151,11 +155,12 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
     return notes;
   };
   const kinds = new Set<StoreKind>(options.storeKinds ?? ['file', 'units', 'svg', 'block']);
-  const { issues, results, entries } = loadAndAnalyse(studyDir, options, store, kinds);
-  if (!results) {
-    await store?.flush();
-    return { ok: false, issues, notes: withStoreNote() };
-  }
+  const { issues, results, unitDigests, parsedBytes } = loadAndAnalyse(studyDir, options, store, kinds);
+  // A heavy build (much CSV parsed: a cold build) collects its dead rows now, and writes its
+  // pages in smaller runs, collecting after each (see src/pipeline/collect-garbage.ts).
+  const heavy = parsedBytes >= COLLECT_AFTER_PARSED_BYTES;
+  if (heavy) collectGarbage();
+  if (!results) return { ok: false, issues, notes: withStoreNote() };
   const tag = String(process.pid);
   const staging = makeStaging(plan.out, tag);
   try {
@@ -165,7 +170,8 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
       chartsFor: chartsFromModules(results, ASSAYS),
       sourceDateEpoch: options.sourceDateEpoch,
       ...(store && kinds.has('svg') ? { render: storedRender(store, charts) } : {}),
-      ...(store && kinds.has('block') ? { block: storedBlock(store, charts, entries), blockRender: countedDraw(renderSvg, charts) } : {}),
+      ...(store && kinds.has('block') ? { block: storedBlock(store, charts, unitDigests), blockRender: countedDraw(renderSvg, charts) } : {}),
+      ...(heavy ? { pagesPerRun: HEAVY_PAGES_PER_RUN, afterRun: collectGarbage } : {}),
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
     });
     phase('write');
@@ -175,13 +181,10 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
     writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
     writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
     const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
-    await store?.flush();
     store?.prune();
     return { ok: true, issues, out: plan.out, pages: site.pages, charts, results, notes: withStoreNote(), ...(movedAside ? { movedAside } : {}) };
   } catch (err) {
     rmSync(staging, { recursive: true, force: true });
     throw err;
-  } finally {
-    await store?.flush();
   }
 }

@@ -10,13 +10,11 @@
  * checked on reading against the hash in its header: an entry that is not a regular file (a FIFO,
  * a device, a link), cannot be read, is truncated or has other bytes is discarded, counted and
  * recomputed by the caller; it is never served and never stops a build. Entries are written under
- * a temporary name and renamed, so a reader never sees half an entry; a build waits for its
- * writes before it ends (flush). Entries not used for
+ * a temporary name and renamed, so a reader never sees half an entry. Entries not used for
  * CACHE.keepDays are removed (prune), at most once per CACHE.pruneEveryHours.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, constants, fstatSync, lstatSync, mkdirSync, openSync, readFileSync, readdirSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
-import { rename, rm, writeFile } from 'node:fs/promises';
+import { closeSync, constants, fstatSync, lstatSync, mkdirSync, openSync, readFileSync, readdirSync, renameSync, rmSync, statSync, utimesSync, writeFileSync, writeSync } from 'node:fs';
 import { homedir } from 'node:os';
 import { isAbsolute, join, relative, resolve } from 'node:path';
 import { CACHE } from '../defaults.js';
@@ -70,7 +68,6 @@ export class Store {
   readonly dir: string;
   readonly counts: StoreCounts = { hits: 0, misses: 0, discarded: [] };
   private readonly made = new Set<string>();
-  private readonly writing: Array<Promise<unknown>> = [];
 
   constructor(dir: string, readonly fingerprint: string) {
     this.dir = resolve(dir);
@@ -114,35 +111,29 @@ export class Store {
     return payload;
   }
 
-  /**
-   * Store a payload under a key. Written in the background (libuv's thread pool), so that the
-   * build goes on meanwhile; `flush` waits for every write. Best effort: a store that cannot be
-   * written is not an error.
-   */
+  /** Store a payload under a key (best effort: a store that cannot be written is not an error). */
   put(kind: string, key: string, payload: Uint8Array | string): void {
     const file = this.path(kind, key);
     const bytes = typeof payload === 'string' ? Buffer.from(payload, 'utf8') : payload;
     const header = `${MAGIC} ${STORE_FORMAT} ${createHash('sha256').update(bytes).digest('hex')} ${bytes.byteLength}\n`;
     const tmp = `${file}.tmp-${process.pid}-${Math.random().toString(36).slice(2)}`;
-    const sub = join(file, '..');
     try {
+      const sub = join(file, '..');
       if (!this.made.has(sub)) {
         mkdirSync(sub, { recursive: true });
         this.made.add(sub);
       }
+      const fd = openSync(tmp, 'w');
+      try {
+        writeSync(fd, header);
+        writeSync(fd, bytes);
+      } finally {
+        closeSync(fd);
+      }
+      renameSync(tmp, file);
     } catch {
-      return;
+      rmSync(tmp, { force: true });
     }
-    this.writing.push(
-      writeFile(tmp, Buffer.concat([Buffer.from(header, 'ascii'), bytes]))
-        .then(() => rename(tmp, file))
-        .catch(() => rm(tmp, { force: true }).catch(() => undefined)),
-    );
-  }
-
-  /** Wait until every entry put so far is written (or given up). */
-  async flush(): Promise<void> {
-    while (this.writing.length > 0) await Promise.all(this.writing.splice(0));
   }
 
   /** Remove what is at an entry's path (it is ours: the store folder is myofolio's) and count it. */

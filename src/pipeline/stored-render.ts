@@ -8,9 +8,9 @@
  * - storedBlock: a variant's assay chart (SVG, description, numbers table) is kept under the hash
  *   of what it is drawn from (module, variant label, title and the unit results it shows), so that
  *   a rebuild does not even build the specs of the charts whose units are unchanged: building and
- *   hashing thousands of specs was most of a rebuild's time. A unit stands in the key as the store
- *   key of the (assay, batch) entry it came from, its variant and unit names and its exclusion
- *   (all a unit is made from: analyseStudy only marks exclusions), or else as the SHA-256 of its JSON.
+ *   hashing thousands of specs was most of a rebuild's time. A unit stands in the key as the
+ *   SHA-256 of its JSON as analysed (kept with it in the store: src/pipeline/analyse-units.ts) and
+ *   its exclusion (analyseStudy only marks exclusions), or else as the SHA-256 of its JSON now.
  * The store's fingerprint covers the code and the vega and vega-lite versions.
  */
 import { createHash } from 'node:crypto';
@@ -64,12 +64,12 @@ function unitDigest(u: UnitResult): string {
 
 /**
  * A block function for buildSite that finds assay chart blocks by their inputs, or makes and keeps
- * them. `entries`: the store key of each (assay, batch) entry the units came from (analyseUnits).
+ * them. `digests`: SHA-256 of each unit's JSON as analysed, before exclusions were marked.
  */
-export function storedBlock(store: Store, counts: ChartCounts, entries: ReadonlyMap<string, string> = new Map()): BlockFn {
+export function storedBlock(store: Store, counts: ChartCounts, digests: ReadonlyMap<UnitResult, string> = new Map()): BlockFn {
   const unitKey = (u: UnitResult) => {
-    const entry = entries.get(`${u.assay}\0${u.batch}`);
-    return entry === undefined ? `unit:${unitDigest(u)}` : `entry:${JSON.stringify([entry, u.variant, u.unit, u.excluded ?? null])}`;
+    const analysed = digests.get(u);
+    return analysed === undefined ? `unit:${unitDigest(u)}` : `analysed:${JSON.stringify([analysed, u.excluded ?? null])}`;
   };
   return async (inputs, make) => {
     const parts = JSON.stringify(inputs, (_k, v: unknown) => (isUnit(v) ? unitKey(v) : v));

@@ -37,6 +37,10 @@ export interface BuildSiteOptions {
   /** Assay chart blocks by their inputs (the build's store), and the renderer of their charts; see VariantPagesOptions. */
   block?: BlockFn;
   blockRender?: RenderFn;
+  /** Variant pages per Eleventy run (default VARIANT_BATCH). */
+  pagesPerRun?: number;
+  /** Called after each run of variant pages (the build collects garbage there when it is heavy). */
+  afterRun?: () => void;
   /** Progress: ('charts', variant pages done, total) while rendering, then ('pages', 0, 1) and ('pages', 1, 1) around Eleventy. */
   onProgress?: (phase: string, done: number, total: number) => void;
 }
@@ -46,8 +50,8 @@ const configPath = fileURLToPath(new URL('../../.eleventy.js', import.meta.url))
 const variantTemplate = join(templatesDir, 'variant.njk');
 
 /**
- * Variant pages built and written per Eleventy run: each run compiles the templates again, and
- * one batch's pages and SVGs are in memory at a time, so this bounds the build's memory.
+ * Variant pages built and written per Eleventy run (default): each run compiles the templates
+ * again, and one run's pages and SVGs are in memory at a time, so this bounds the build's memory.
  */
 export const VARIANT_BATCH = 250;
 
@@ -171,9 +175,11 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     ...(progress ? { onVariant: (d: number) => progress('charts', d, total) } : {}),
   });
   let pages = 0;
-  for (let i = 0; i < results.variants.length; i += VARIANT_BATCH) {
-    const batch = await build(results.variants.slice(i, i + VARIANT_BATCH));
+  const perRun = options.pagesPerRun ?? VARIANT_BATCH;
+  for (let i = 0; i < results.variants.length; i += perRun) {
+    const batch = await build(results.variants.slice(i, i + perRun));
     pages += await runEleventy(variantTemplate, outDir, { ...variantSite, variants: batch });
+    options.afterRun?.();
   }
   progress?.('pages', 0, 1);
   pages += await runEleventy(templatesDir, outDir, { ...frame, ...(await studyCharts(results, options.render)) });

@@ -132,7 +132,6 @@ describe('loadAndAnalyse with the store', () => {
   const run = async (withStore: boolean) => {
     const store = withStore ? new Store(cache, 'test') : undefined;
     const got = loadAndAnalyse(dir, { sourceDateEpoch: 1_700_000_000 }, store);
-    await store?.flush();
     expect(got.results).toBeDefined();
     parsed = got.parsedBytes;
     // results.json as the build writes it is JSON.stringify of the results.
@@ -230,7 +229,6 @@ describe('loadAndAnalyse with the store', () => {
     const store = () => new Store(join(tmp, 'demo-cache'), 'test');
     const first = store();
     const cold = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, first);
-    await first.flush();
     const warm = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, store());
     expect(cold.results!.units.filter((u) => u.excluded).length).toBe(1);
     expect(warm.parsedBytes).toBe(0);

@@ -20,7 +20,6 @@ describe('Store', () => {
     const key = store.key('units', ['B1', 1]);
     expect(key).toMatch(/^[0-9a-f]{64}$/);
     store.put('units', key, 'payload');
-    await store.flush();
     expect(store.get('units', key)?.toString()).toBe('payload');
     expect(store.get('units', store.key('units', ['B1', 2]))).toBeUndefined();
     const other = new Store(join(root, 'a'), 'f2');
@@ -61,14 +60,12 @@ describe('Store', () => {
       const store = new Store(join(root, 'damage'), 'f');
       const key = store.key('svg', what);
       store.put('svg', key, 'x'.repeat(100));
-      await store.flush();
       const file = store.path('svg', key);
       damage(file);
       expect(store.get('svg', key)).toBeUndefined();
       expect(store.counts.discarded).toEqual([file]);
       expect(existsSync(file)).toBe(false);
       store.put('svg', key, 'x'.repeat(100));
-      await store.flush();
       expect(store.get('svg', key)?.toString()).toBe('x'.repeat(100));
     });
   }
@@ -77,7 +74,6 @@ describe('Store', () => {
     const store = new Store(join(root, 'unreadable'), 'f');
     const key = store.key('svg', 1);
     store.put('svg', key, 'svg');
-    await store.flush();
     const file = store.path('svg', key);
     execFileSync('chmod', ['000', file]);
     const asRoot = process.getuid?.() === 0;
@@ -91,7 +87,6 @@ describe('Store', () => {
     const fresh = store.key('units', 'fresh');
     store.put('units', old, 'o');
     store.put('units', fresh, 'f');
-    await store.flush();
     const foreign = join(dir, 'units', 'notes.txt');
     writeFileSync(foreign, 'mine');
     const longAgo = new Date(Date.now() - (CACHE.keepDays + 1) * 24 * 3600 * 1000);
@@ -110,7 +105,6 @@ describe('Store', () => {
     const store = new Store(join(root, 'mark'), 'f');
     const key = store.key('svg', 'm');
     store.put('svg', key, 's');
-    await store.flush();
     const twoDays = new Date(Date.now() - 2 * 24 * 3600 * 1000);
     utimesSync(store.path('svg', key), twoDays, twoDays);
     store.get('svg', key);
