@@ -14,21 +14,16 @@ export const INPUT = {
   maxFileBytes: 64 * 1024 * 1024,
 } as const;
 
-/** The build caches in the user's cache folder (src/build/cache-prune.ts). */
+/** The store in the user's cache folder (src/pipeline/store.ts). */
 export const CACHE = {
   /**
-   * Days a cache entry (chart, chart block, page, unit analysis, file digest) is kept without a build
-   * using it: a study rebuilt at least monthly keeps its rebuilds fast; entries of old code versions
-   * and retired studies go after it.
+   * Days a store entry (a file's reading, a batch's units, a chart) is kept without a build using
+   * it: a study rebuilt at least monthly keeps its rebuilds fast; entries of old code versions and
+   * retired studies go after it.
    */
   keepDays: 30,
-  /** Hours between two prunings of one cache folder: each walks every entry (about 0.15 s for the 7,400 files of a 1,000-variant study). */
+  /** Hours between two prunings of the store: each walks every entry. */
   pruneEveryHours: 24,
-  /**
-   * Hours within which a kept page and its chart blocks, once marked as used, are not marked again
-   * (6 file writes per page: about 0.1 s of a 1,000-variant rebuild); far below keepDays.
-   */
-  markAgainHours: 24,
 } as const;
 
 /** Nonlinear least squares (src/numeric/nls.ts). */

@@ -11,7 +11,6 @@
  *
  * No I/O, no clock: the build time comes in as an argument.
  */
-import { carryUnitDigest } from '../results/unit-digest.js';
 import { groupBy, hasRows } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
@@ -39,7 +38,7 @@ export interface AnalyseOptions {
   builtAt: string;
   /** Restrict to these assay modules (default: the registry). */
   assays?: readonly AssayModule[];
-  /** Per-unit results computed elsewhere (e.g. src/analysis/parallel.ts); default: each module's analyse(). */
+  /** Per-unit results computed elsewhere (e.g. from the store: src/pipeline/analyse-units.ts); default: each module's analyse(). */
   units?: readonly UnitResult[];
 }
 
@@ -84,10 +83,6 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
     const e = study.exclusions.find((x) => matchesExclusion(u, x, variants));
     if (e) u.excluded = e.reason;
   }
-  // A copy left as it was has its original's JSON, and so its content digest (chart cache keys).
-  options.units?.forEach((u, i) => {
-    if (units[i].excluded === u.excluded) carryUnitDigest(u, units[i]);
-  });
 
   // 2. Normalise to paired WT and score metrics.
   const { bands, source: bandSource } = resolveBands(study);

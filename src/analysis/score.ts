@@ -17,7 +17,7 @@
  */
 import type { AssayCall, FunctionCall, MetricCall, MetricComparison, MetricDef } from '../results/types.js';
 import type { DiseaseDirection } from '../study/types.js';
-import { fmt, fmtEffect, fmtP } from './format.js';
+import { fmt, fmtEffect, fmtP } from '../results/format.js';
 
 export function metricCall(
   effect: number | null,

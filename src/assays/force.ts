@@ -218,7 +218,6 @@ export const force: AssayModule = {
   inputs: ['force-pca'],
   metrics: FORCE_METRICS,
   analyse: analyseForce,
-  independentUnits: true,
   chart: forceChart,
   methods: [
     `Per preparation, all tension readings at all pCa values (replicates included) are fitted together with ${hillForcePca.formula} by Levenberg–Marquardt nonlinear least squares; start values come from a grid scan of pCa50 and nH with passive and Fmax solved linearly at each grid point.`,

@@ -471,7 +471,6 @@ export const motility: AssayModule = {
   inputs: ['motility-tracks', 'motility-velocities'],
   metrics: MOTILITY_METRICS,
   analyse: analyseMotility,
-  independentUnits: true,
   chart: motilityChart,
   methods: [
     `From centroid tracks, a filament is immobile when its net displacement over the whole track, divided by the elapsed time, is below ${ASSAY.motilityImmobileUmS} µm/s (setting motilityImmobileUmS); this net rate carries centroid localisation noise only once, whereas summed frame-to-frame steps make a stuck filament look as if it moves at about σ·√π/Δt. A moving filament's velocity is the path length along its centroids sampled about every ${ASSAY.motilityStrideS} s (setting motilityStrideS), divided by the time between the first and last sampled frame: path length follows curved gliding paths, and steps of about a second are long compared with the noise.`,

@@ -437,7 +437,6 @@ export const turnover: AssayModule = {
   inputs: ['turnover'],
   metrics: TURNOVER_METRICS,
   analyse: analyseTurnover,
-  independentUnits: true,
   chart: turnoverChart,
   methods: [
     `Each chase trace is fitted with ${exponentialDouble.formula} and with ${exponentialSingle.formula} by Levenberg–Marquardt nonlinear least squares, time as recorded so that amplitudes refer to t = 0.`,

@@ -23,14 +23,6 @@ export interface AssayModule {
   metrics: MetricDef[];
   /** Per-unit analysis: rows → one UnitResult per (variant, unit). Pure: no I/O. */
   analyse(study: Study): UnitResult[];
-  /**
-   * True when each unit's result depends only on its own rows (variant, unit, batch) and the
-   * study's and its file's settings, not on other rows of its batch. The analysis cache then
-   * keeps such a module's units one by one (src/build/analysis-cache.ts), so a changed unit does
-   * not need the rest of its batch read again. Leave it unset when a unit reads its batch (the
-   * ATPase from NADH traces subtracts the actin-only wells of the batch).
-   */
-  independentUnits?: boolean;
   /** The variant-report chart: the variant's data and fits beside paired WT. */
   chart(input: AssayChartInput): ChartSpec;
   /** Methods-page text: model, formula, how technical replicates are summarised, flags. */

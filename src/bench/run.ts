@@ -1,27 +1,29 @@
 /**
- * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--baseline] [--modes cold,warm] [--warm-runs 1]
+ * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--modes plain,cold,warm] [--warm-runs 3]
  * [--keep] [--filaments 300] [--turnover-points 400]`.
  *
  * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
- * (src/bench/synthetic.ts) to os.tmpdir(), then builds it
- *   cold  — empty chart and analysis caches,
- *   warm  — after one variant's velocities changed (its one file rewritten in place, as a lab
- *           would correct it), with the caches of the cold build; with --warm-runs N, N such
- *           rebuilds one after another, each for another variant, and their median (one rebuild's
- *           time varies by some 20% on a small shared machine),
- *   batch — after a new batch was added (one new variant with WT, every assay, in new files, and
- *           the variant declared in the manifest: addBatchInFolder), with the caches of the builds before,
- *   serial — (with --baseline) one thread, no caches: the path before the pools existed,
- * each in its own child process, so every peak-memory figure belongs to one build, through
- * buildStudy as the CLI runs it. Phases: load (read + loadStudy), analyse (units per batch
- * through the analysis cache and workers, then analyseStudy), charts (every variant page: its
- * charts drawn, the pages written by Eleventy in runs; the study-level charts drawn meanwhile),
- * pages (the study-level pages by Eleventy), write (results.json/csv + swap). Studies above 2,000 variants
- * are written slice by slice, and their builds get a heap of three quarters of the machine's memory.
- * Printed per phase: wall time, CPU time (process.cpuUsage(): user + system of the whole process,
- * worker threads included) and peak RSS (the OS high-water mark, process.resourceUsage().maxRSS,
- * cumulative over the build, so a phase shows the peak up to its end). Then a bare Eleventy build
- * of as many trivial pages, the floor for the pages phase. Figures only; nothing is asserted.
+ * (src/bench/synthetic.ts) to os.tmpdir(), then builds it through buildStudy, as the CLI does:
+ *   plain — one thread, no store: the baseline every other figure is set beside,
+ *   cold  — the default build with an empty store,
+ *   warm  — the default build after one variant's velocities changed (its one file rewritten in
+ *           place, as a lab would correct it), with the store of the builds before; with
+ *           --warm-runs N, N such rebuilds, each for another variant, and their median,
+ *   warm-no-…      — the same rebuild with a kind of store entry left out (after one build in that
+ *                    mode, not measured, so that the store holds what such a store would):
+ *   warm-no-file   — without the stored file readings (every file parsed),
+ *   warm-no-units  — the same rebuild without stored units (every batch fitted, every file parsed),
+ *   warm-no-block  — the same rebuild without assay charts stored by their units (their specs built
+ *                    and hashed; SVGs still found by spec),
+ *   warm-no-charts — the same rebuild without any stored chart (every chart drawn),
+ *   …-default-heap — any of these with V8's default young generation (src/pipeline/young-generation.ts),
+ *   batch — after a new batch was added (one new variant with WT, every assay, in new files),
+ * each in its own child process, so every peak-memory figure belongs to one build. Phases: load
+ * (read + check), analyse (units + analyseStudy), charts (variant pages: charts drawn, pages
+ * written by Eleventy in runs), pages (the study-level pages), write (results.json/csv + swap).
+ * Printed per phase: wall time, CPU time (process.cpuUsage()) and peak RSS (the OS high-water mark,
+ * process.resourceUsage().maxRSS, so a phase shows the peak up to its end); then a table of the
+ * builds side by side. Figures only; nothing is asserted.
  */
 import { execFileSync, spawn } from 'node:child_process';
 import { mkdirSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
@@ -29,7 +31,8 @@ import { availableParallelism, tmpdir, totalmem } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
-import { buildStudy } from '../build/build-study.js';
+import { type StoreKind, buildStudy } from '../pipeline/build-study.js';
+import { enlargeYoungGeneration } from '../pipeline/young-generation.js';
 import { addBatchInFolder, changeOneVariantInFolder, syntheticStudy, writeStudy, writeSyntheticStudy } from './synthetic.js';
 
 interface PhaseFigure {
@@ -44,7 +47,7 @@ interface BuildFigures {
   mode: string;
   phases: PhaseFigure[];
   pages: number;
-  charts: { rendered: number; cached: number };
+  charts: { rendered: number; stored: number };
   outMB: number;
   /** Size of downloads/results.json. */
   resultsMB?: number;
@@ -91,28 +94,31 @@ function duMB(dir: string): number {
   }
 }
 
-/**
- * One build of a study folder by buildStudy (src/build/build-study.ts), the path the CLI takes,
- * timed phase by phase from its progress callbacks (child process).
- */
-async function buildOnce(studyDir: string, outDir: string, cacheDir: string, mode: string, size: number): Promise<BuildFigures> {
-  const serial = mode === 'serial';
+/** The store's kinds of entry a mode leaves out (src/pipeline/build-study.ts, BuildOptions.storeKinds). */
+const STORE_KINDS: Record<string, ReadonlyArray<StoreKind>> = {
+  'warm-no-file': ['units', 'svg', 'block'],
+  'warm-no-units': ['svg', 'block'],
+  'warm-no-block': ['file', 'units', 'svg'],
+  'warm-no-charts': ['file', 'units'],
+};
+
+/** One build of a study folder by buildStudy (src/pipeline/build-study.ts), timed phase by phase (child process). */
+async function buildOnce(studyDir: string, outDir: string, storeDir: string, mode: string, size: number): Promise<BuildFigures> {
   const m = meter();
   let chartsDone = false;
+  const kinds = STORE_KINDS[mode];
   const outcome = await buildStudy(studyDir, outDir, {
     force: true,
     sourceDateEpoch: 1_740_787_200,
-    workers: serial ? 0 : 'auto',
-    chartCache: serial ? false : join(cacheDir, 'charts'),
-    analysisCache: serial ? false : join(cacheDir, 'analysis'),
-    // As the CLI does: the previous site is deleted by a process of its own, after this one.
+    store: mode === 'plain' ? false : storeDir,
+    ...(kinds ? { storeKinds: kinds } : {}),
     removePrevious: 'background',
-    onPhase: (phase) => {
+    onPhase: (phase: string) => {
       if (phase === 'analyse') m.lap('load');
       else if (phase === 'pages') m.lap('analyse');
       else if (phase === 'write') m.lap('pages');
     },
-    onProgress: (phase) => {
+    onProgress: (phase: string) => {
       if (phase === 'pages' && !chartsDone) {
         chartsDone = true;
         m.lap('charts');
@@ -122,7 +128,7 @@ async function buildOnce(studyDir: string, outDir: string, cacheDir: string, mod
   if (!outcome.ok) throw new Error(`study has errors: ${JSON.stringify(outcome.issues.slice(0, 3))}`);
   m.lap('write');
   const resultsMB = statSync(join(outcome.out as string, 'downloads', 'results.json')).size / 1e6;
-  return { size, mode, phases: m.phases, pages: outcome.pages ?? 0, charts: outcome.charts ?? { rendered: 0, cached: 0 }, outMB: duMB(outcome.out as string), resultsMB };
+  return { size, mode, phases: m.phases, pages: outcome.pages ?? 0, charts: outcome.charts ?? { rendered: 0, stored: 0 }, outMB: duMB(outcome.out as string), resultsMB };
 }
 
 /** Bare Eleventy: `n` trivial pages from one paginated template (the floor for the pages phase). */
@@ -155,11 +161,9 @@ function child(childArgs: string[], bigHeap = false): Promise<BuildFigures | Pha
   return new Promise((resolve, reject) => {
     // The heap limit V8 picks (about 4 GB here) is too small for the rows of a 10,000-variant study:
     // those builds get three quarters of the machine's memory, as the README tells users to do.
-    // Given in NODE_OPTIONS, not as an argument: worker threads may not be given a V8 flag, and
-    // startWorker gives them this process's arguments without '--import tsx' (src/charts/pool.ts).
     const heap = bigHeap ? `--max-old-space-size=${Math.floor((totalmem() / 2 ** 20) * 0.75)}` : '';
     const env = heap ? { ...process.env, NODE_OPTIONS: [process.env.NODE_OPTIONS, heap].filter(Boolean).join(' ') } : process.env;
-    const p = spawn(process.execPath, ['--import', 'tsx', here, ...childArgs], { stdio: ['ignore', 'pipe', 'inherit'], env });
+    const p = spawn(process.execPath, [here, ...childArgs], { stdio: ['ignore', 'pipe', 'inherit'], env });
     let out = '';
     p.stdout.on('data', (d: Buffer) => (out += d.toString()));
     p.on('exit', (code, signal) => {
@@ -177,7 +181,7 @@ function printBuild(b: BuildFigures): void {
   const total = b.phases.reduce((s, p) => s + p.wallS, 0);
   const cpu = b.phases.reduce((s, p) => s + p.cpuS, 0);
   const peak = Math.max(...b.phases.map((p) => p.peakMB));
-  process.stdout.write(`\n${b.size} variants, ${b.mode}: ${f1(total)} s wall, ${f1(cpu)} s CPU, peak RSS ${Math.round(peak)} MB, ${b.pages} pages, charts drawn ${b.charts.rendered} / from cache ${b.charts.cached}, output ${Math.round(b.outMB)} MB (results.json ${b.resultsMB === undefined ? '—' : f1(b.resultsMB)} MB)\n`);
+  process.stdout.write(`\n${b.size} variants, ${b.mode}: ${f1(total)} s wall, ${f1(cpu)} s CPU, peak RSS ${Math.round(peak)} MB, ${b.pages} pages, charts drawn ${b.charts.rendered} / from the store ${b.charts.stored}, output ${Math.round(b.outMB)} MB (results.json ${b.resultsMB === undefined ? '—' : f1(b.resultsMB)} MB)\n`);
   process.stdout.write('  phase      wall s    CPU s   peak MB   ms/variant\n');
   for (const p of b.phases) {
     process.stdout.write(`  ${p.phase.padEnd(9)} ${f2(p.wallS).padStart(7)} ${f2(p.cpuS).padStart(8)} ${String(Math.round(p.peakMB)).padStart(9)} ${f1((p.wallS * 1000) / b.size).padStart(12)}\n`);
@@ -186,6 +190,8 @@ function printBuild(b: BuildFigures): void {
 
 async function main(): Promise<void> {
   if (flag('--child')) {
+    // As the command line does (src/cli/myofolio.ts), unless the build is measured without it.
+    if (!flag('--default-heap')) enlargeYoungGeneration();
     const kind = value('--child');
     const size = Number(value('--size'));
     const fig =
@@ -199,6 +205,7 @@ async function main(): Promise<void> {
   const root = join(tmpdir(), 'myofolio-bench');
   process.stdout.write(`myofolio scale benchmark: sizes ${sizes.join(', ')}; ${availableParallelism()} cores; Node ${process.version}; work folder ${root}\n`);
   process.stdout.write(`Study per size: 3 units per variant over 2 batches of ~20 variants, 3 WT units per batch; ATPase 8 [actin] × 3 wells (1 in 5 variants as NADH traces), ${value('--filaments') ?? 300} filament velocities per unit (1 in 5 variants as 30 tracks × 25 frames), 10 pCa points, ${value('--turnover-points') ?? 400}-point turnover traces.\n`);
+  const summary: BuildFigures[] = [];
   for (const size of sizes) {
     const base = join(root, String(size));
     const studyDir = join(base, 'study');
@@ -221,17 +228,22 @@ async function main(): Promise<void> {
     const entries = manifest.files as Array<{ path: string }>;
     const inputMB = entries.reduce((n, e) => n + statSync(join(studyDir, e.path)).size, 0) / 1e6;
     process.stdout.write(`\n== ${size} variants: study written in ${f1((performance.now() - t) / 1000)} s (${f1(inputMB)} MB of CSV in ${entries.length} files${sliced ? ', made in slices of 500 variants' : ''})\n`);
-    const modes: string[] = value('--modes')?.split(',') ?? (flag('--baseline') ? ['serial', 'cold', 'warm', 'batch'] : ['cold', 'warm', 'batch']);
+    const modes: string[] = value('--modes')?.split(',') ?? ['plain', 'cold', 'warm'];
     const warmRuns = Math.max(1, Number(value('--warm-runs') ?? 1));
-    const runs = modes.flatMap((m) => (m === 'warm' ? Array<string>(warmRuns).fill('warm') : [m]));
+    const runs = modes.flatMap((m) => (m.startsWith('warm') ? Array<string>(warmRuns).fill(m) : [m]));
     // Variants that are not calibration controls (controls are i % 25 = 0 or 1, and a control's
     // change may move the calibration, and with it every report), from the middle on.
     const changeable = Array.from({ length: size }, (_, i) => i).filter((i) => i % 25 === 2);
     const middle = changeable.indexOf(Math.floor(size / 2 / 25) * 25 + 2);
-    const warmWall: number[] = [];
+    let changed = 0;
     for (const mode of runs) {
-      if (mode === 'warm') {
-        const i = changeable[(Math.max(0, middle) + warmWall.length) % changeable.length];
+      if (STORE_KINDS[mode]) {
+        // The store as this mode fills it: one build in this mode first (not measured), so that
+        // the rebuild measured below finds what such a store would hold.
+        await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced);
+      }
+      if (mode.startsWith('warm')) {
+        const i = changeable[(Math.max(0, middle) + changed++) % changeable.length] as number;
         const label = (manifest.variants as Array<{ hgvs?: string }>)[1 + i].hgvs!.replace(/^p\./, '');
         // As a lab would: the one file holding that variant's velocities is rewritten, the others
         // are left as they are (same bytes, same inode and times).
@@ -239,23 +251,41 @@ async function main(): Promise<void> {
       } else if (mode === 'batch') addBatchInFolder(studyDir, manifest);
       t = performance.now();
       try {
-        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced)) as BuildFigures;
+        const heap = mode.endsWith('-default-heap') ? ['--default-heap'] : [];
+        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir, ...heap], sliced)) as BuildFigures;
         printBuild(fig);
-        if (mode === 'warm') warmWall.push(fig.phases.reduce((sum, p) => sum + p.wallS, 0));
+        summary.push(fig);
       } catch (err) {
         process.stdout.write(`\n${size} variants, ${mode}: ${(err as Error).message} after ${f1((performance.now() - t) / 1000)} s\n`);
       }
-    }
-    if (warmWall.length > 1) {
-      const sorted = [...warmWall].sort((a, b) => a - b);
-      const mid = sorted.length / 2;
-      const median = sorted.length % 2 === 1 ? sorted[Math.floor(mid)] : (sorted[mid - 1] + sorted[mid]) / 2;
-      process.stdout.write(`\n${size} variants, warm, ${warmWall.length} rebuilds (another variant each): median ${f1(median)} s wall (${sorted.map(f1).join(', ')} s)\n`);
     }
     const pages = size + 10;
     const floor = (await child(['--child', 'floor', '--size', String(pages)])) as PhaseFigure;
     process.stdout.write(`\nbare Eleventy, ${pages} trivial pages: ${f2(floor.wallS)} s wall, ${f2(floor.cpuS)} s CPU, peak RSS ${Math.round(floor.peakMB)} MB\n`);
     if (!flag('--keep')) rmSync(base, { recursive: true, force: true });
+  }
+  printSummary(summary);
+}
+
+const median = (xs: number[]) => {
+  const s = [...xs].sort((a, b) => a - b);
+  const mid = Math.floor(s.length / 2);
+  return s.length % 2 === 1 ? (s[mid] as number) : ((s[mid - 1] as number) + (s[mid] as number)) / 2;
+};
+
+/** One row per size and mode (the median of repeated rebuilds), the plain build first. */
+function printSummary(builds: BuildFigures[]): void {
+  process.stdout.write('\nSummary (wall and CPU seconds of the whole build; peak RSS; repeated rebuilds: median, with each run)\n');
+  process.stdout.write('  variants  mode            wall s    CPU s   peak MB   charts drawn / stored\n');
+  const keys = [...new Set(builds.map((b) => `${b.size}\0${b.mode}`))];
+  for (const key of keys) {
+    const runs = builds.filter((b) => `${b.size}\0${b.mode}` === key);
+    const first = runs[0] as BuildFigures;
+    const walls = runs.map((b) => b.phases.reduce((s, p) => s + p.wallS, 0));
+    const cpus = runs.map((b) => b.phases.reduce((s, p) => s + p.cpuS, 0));
+    const peak = Math.max(...runs.flatMap((b) => b.phases.map((p) => p.peakMB)));
+    const each = runs.length > 1 ? `  (${walls.map(f1).join(', ')} s)` : '';
+    process.stdout.write(`  ${String(first.size).padStart(8)}  ${first.mode.padEnd(14)} ${f1(median(walls)).padStart(7)} ${f1(median(cpus)).padStart(8)} ${String(Math.round(peak)).padStart(9)}   ${first.charts.rendered} / ${first.charts.stored}${each}\n`);
   }
 }
 

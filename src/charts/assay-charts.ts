@@ -3,9 +3,7 @@
  * This file adapts modules to the site's `chartsFor` callback and turns any spec's inline data
  * into a table, so the numbers behind an assay chart are readable without the picture.
  */
-import { unitDigest } from '../results/unit-digest.js';
-import { createHash } from 'node:crypto';
-import type { AssayModule, ChartSpec } from '../assays/types.js';
+import type { AssayChartInput, AssayModule, ChartSpec } from '../assays/types.js';
 import type { StudyResults, UnitResult } from '../results/types.js';
 import { type DataTable, fmt } from './chart-def.js';
 
@@ -13,13 +11,11 @@ import { type DataTable, fmt } from './chart-def.js';
 export interface AssayChart {
   assay: string;
   title: string;
-  spec: ChartSpec;
-  description?: string;
-  /**
-   * Content key of everything the chart is drawn from (module, variant label, every unit result
-   * it shows): equal keys give equal specs for the same code. Lets a cache skip building the spec.
-   */
-  inputKey?: string;
+  /** The spec, built when first read: a chart found in the store by its inputs never builds it. */
+  readonly spec: ChartSpec;
+  readonly description?: string;
+  /** What the chart is drawn from (the module's chart() input): equal inputs give equal specs for the same code. */
+  inputs: AssayChartInput;
 }
 
 export type ChartsFor = (variantId: string) => AssayChart[] | Promise<AssayChart[]>;
@@ -54,16 +50,13 @@ export function chartsFromModules(results: StudyResults, modules: ReadonlyArray<
       const batches = [...new Set(variantUnits.map((u) => u.batch))];
       // WT units in results order (as the former scan gave them), whatever the order of the batches.
       const wtUnits = batches.length === 1 ? (wtByBatch.get(JSON.stringify([m.id, batches[0]])) ?? []) : resultsOrder(results, batches.flatMap((b) => wtByBatch.get(JSON.stringify([m.id, b])) ?? []));
-      // The spec is built when first read: a cache that knows inputKey may never need it.
+      const inputs: AssayChartInput = { variantLabel: v.short, variantUnits, wtUnits };
       let spec: ChartSpec | undefined;
-      const build = () => (spec ??= m.chart({ variantLabel: v.short, variantUnits, wtUnits }));
-      const inputKey = createHash('sha256')
-        .update(JSON.stringify([m.id, v.short, variantUnits.map(unitDigest), wtUnits.map(unitDigest)]))
-        .digest('hex');
+      const build = () => (spec ??= m.chart(inputs));
       const chart: AssayChart = {
         assay: m.id,
         title: `${m.label}: ${v.short} beside paired WT`,
-        inputKey,
+        inputs,
         get spec() {
           return build();
         },

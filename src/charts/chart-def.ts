@@ -1,5 +1,5 @@
 /** What every study-level chart builder returns: a spec plus the words and numbers that go with it. */
-import { fmtP as formatP } from '../analysis/format.js';
+import { fmtP as formatP } from '../results/format.js';
 import type { ChartSpec } from '../assays/types.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
 
@@ -33,7 +33,7 @@ export function fmt(x: number | null | undefined, digits = 3): string {
 }
 
 /**
- * q and p values in tables and charts: as in the results' sentences (src/analysis/format.ts: 2
+ * q and p values in tables and charts: as in the results' sentences (src/results/format.ts: 2
  * significant figures, '< 0.001' below 0.001), with '—' for none. One rule, so that a report's
  * table and its downloads never show one q value two ways. Example: fmtP(0.01234) → '0.012'.
  */

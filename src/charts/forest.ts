@@ -3,7 +3,6 @@
  * its WT-like band. Ratio metrics (variant/WT) share a log axis with a reference line at 1;
  * difference metrics (variant − WT) get their own linear panel with a reference line at 0.
  */
-import { createHash } from 'node:crypto';
 import { groupBy } from '../assays/assay-common.js';
 import type { MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
 import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel, shortMetricLabel } from './chart-def.js';
@@ -84,30 +83,6 @@ function comparisonsOf(results: StudyResults, variantId: string): MetricComparis
     comparisonsByVariant.set(results, index);
   }
   return index.get(variantId) ?? [];
-}
-
-/** JSON of the study's assay and metric definitions (the plot's labels come from them), once per results object. */
-const assaysJson = new WeakMap<StudyResults, string>();
-
-/**
- * Content key of everything the picture and description of forestChart(results, variant, name)
- * are made from: the name, the drawn fields of the variant's comparisons (metric, scale, effect,
- * CI, band, call) and the study's assay and metric definitions (SHA-256, hex). Equal keys give
- * equal SVGs and descriptions for the same code, so a cache can find them without building the
- * spec. The table (forestTable) also shows q values, which move with every other variant's p
- * value (Benjamini–Hochberg): it is not covered, and is made afresh. Undefined when forestChart
- * gives null (no estimable comparison).
- */
-export function forestInputKey(results: StudyResults, variant: VariantResult, name: string): string | undefined {
-  const comps = comparisonsOf(results, variant.id);
-  if (!comps.some((c) => c.effect !== null && Number.isFinite(c.effect))) return undefined;
-  let assays = assaysJson.get(results);
-  if (assays === undefined) {
-    assays = JSON.stringify(results.assays);
-    assaysJson.set(results, assays);
-  }
-  const drawn = comps.map((c) => [c.assay, c.metric, c.scale, c.effect, c.ciLow, c.ciHigh, c.band, c.call]);
-  return createHash('sha256').update(JSON.stringify(['forest', variant.id, name, drawn])).update('\0').update(assays).digest('hex');
 }
 
 /** Title of a variant's forest plot. */

@@ -10,7 +10,7 @@
  * the chart key: the same chart always gives the same bytes.
  */
 import { createHash } from 'node:crypto';
-import { compile, version as vegaLiteVersion } from 'vega-lite';
+import { compile } from 'vega-lite';
 import * as vega from 'vega';
 import type { ChartSpec } from '../assays/types.js';
 
@@ -26,47 +26,16 @@ export interface RenderOptions {
   description?: string;
 }
 
-/**
- * Version of the SVG post-processing in this file. Bump it when renderSvg's output changes for
- * the same spec (the chart cache keys on it together with the vega and vega-lite versions).
- */
-export const RENDER_VERSION = 2;
-
-/** Renderer identity for cache keys: post-processing version and library versions. */
-export const RENDERER_ID = `myofolio-render-${RENDER_VERSION}/vega-${vega.version}/vega-lite-${vegaLiteVersion}`;
-
-/** Canonical JSON: object keys sorted, so equal specs give equal strings (reference form, slow). */
-export function canonicalSlow(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonicalSlow).join(',')}]`;
+/** Canonical JSON: object keys sorted (undefined values left out), so equal specs give equal strings. */
+export function canonical(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`;
   if (value && typeof value === 'object') {
     const entries = Object.entries(value as Record<string, unknown>)
       .filter(([, v]) => v !== undefined)
       .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalSlow(v)}`).join(',')}}`;
+    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonical(v)}`).join(',')}}`;
   }
   return JSON.stringify(value) ?? 'null';
-}
-
-const INDEX_LIKE = /^(?:0|[1-9][0-9]*)$/;
-
-/**
- * Canonical JSON, same string as canonicalSlow but through JSON.stringify with a key-sorting
- * replacer (5–10× faster on large specs). Objects with array-index-like keys (which
- * Object.fromEntries would reorder) fall back to the slow form.
- */
-export function canonical(value: unknown): string {
-  let fallback = false;
-  const out = JSON.stringify(value, function (_k, v: unknown) {
-    if (v && typeof v === 'object' && !Array.isArray(v)) {
-      const keys = Object.keys(v as object).sort();
-      if (keys.some((k) => INDEX_LIKE.test(k))) fallback = true;
-      const o: Record<string, unknown> = {};
-      for (const k of keys) o[k] = (v as Record<string, unknown>)[k];
-      return o;
-    }
-    return v;
-  });
-  return fallback || out === undefined ? canonicalSlow(value) : out;
 }
 
 /**
@@ -221,202 +190,63 @@ export function splitSpec(spec: ChartSpec): { shape: ChartSpec; datasets: unknow
   return { shape, datasets, title, signals };
 }
 
-/** A shape's vega runtime, and a View of it kept for the next chart of that shape (see drawRaw). */
-interface Shape {
-  runtime: ReturnType<typeof vega.parse>;
-  view?: vega.View;
-  /** True while a chart is being drawn on `view` (charts drawn concurrently in one thread each get a View of their own). */
-  busy: boolean;
-}
-
-/** Shapes by canonical JSON, per thread; bounded, least recently used dropped first. */
-const shapes = new Map<string, Shape>();
-/** Shapes kept per thread: a study has a handful (one per assay chart and forest-plot height). */
+/** Vega runtimes of shapes by canonical JSON, per process; least recently used dropped first. */
+const runtimes = new Map<string, ReturnType<typeof vega.parse>>();
+/** Shapes kept: a study has a handful (one per assay chart and forest-plot height). */
 const MAX_SHAPES = 64;
-/**
- * Rows of data above which a chart's View is not kept for the next chart of its shape: it would
- * hold the chart's data and marks until then, and study-level charts that large are drawn once
- * per build. A variant's largest assay chart (400-point turnover traces of 3 units and 3 WT
- * units) has 2,400.
- */
-const KEEP_VIEW_MAX_ROWS = 5000;
-/**
- * Views kept per thread, of the shapes drawn most recently. Every kept View holds its last
- * chart's data and marks, and the worker's heap grows with them. Measured on the 1,000-variant
- * benchmark, cold (2 cores; CPU time of the whole build, peak memory of the page phase):
- * none 184–216 s; 2 168 s, 1.42 GB; 3 157–160 s, 1.41–1.44 GB; 4 166 s, 1.53 GB;
- * 6 176 s, 1.57 GB; one per shape (up to 64) peaked at 1.82 GB.
- */
-const MAX_KEPT_VIEWS = 3;
-/** Shapes holding a kept View, least recently drawn first. */
-const keptViews: Shape[] = [];
-/** Shapes compiled, charts drawn, and charts drawn on a kept View, in this thread (for tests and the benchmark). */
-export const shapeStats = { compiled: 0, drawn: 0, reused: 0 };
 
 /**
- * The vega runtime of a shape: compiled by vega-lite and parsed by vega once per thread, with
- * the title text (if the spec has a title) drawn from the signal TITLE_SIGNAL, so that one
- * runtime serves every chart of that shape.
+ * The vega runtime of a shape: compiled by vega-lite and parsed by vega once, with the title text
+ * (if the spec has a title) drawn from the signal TITLE_SIGNAL, so that one runtime serves every
+ * chart of that shape.
  */
-function shapeFor(shape: ChartSpec): Shape {
-  const hasTitle = shape.title !== undefined;
-  const shapeKey = canonical(shape);
-  const hit = shapes.get(shapeKey);
+function runtimeFor(shape: ChartSpec): ReturnType<typeof vega.parse> {
+  const key = canonical(shape);
+  const hit = runtimes.get(key);
   if (hit) {
-    // Refresh its place in the insertion order (least recently used goes first).
-    shapes.delete(shapeKey);
-    shapes.set(shapeKey, hit);
+    runtimes.delete(key);
+    runtimes.set(key, hit);
     return hit;
   }
   const vg = compile(withFont(shape) as never).spec as Record<string, unknown>;
-  if (hasTitle) {
+  if (shape.title !== undefined) {
     const t = vg.title as Record<string, unknown> | string;
     vg.title = typeof t === 'string' ? { text: { signal: TITLE_SIGNAL } } : { ...t, text: { signal: TITLE_SIGNAL } };
     vg.signals = [...((vg.signals as unknown[]) ?? []), { name: TITLE_SIGNAL, value: '' }];
   }
-  const entry: Shape = { runtime: vega.parse(vg as never), busy: false };
-  shapeStats.compiled++;
-  shapes.set(shapeKey, entry);
-  if (shapes.size > MAX_SHAPES) {
-    const oldest = shapes.keys().next().value as string;
-    const dropped = shapes.get(oldest);
-    shapes.delete(oldest);
-    if (dropped) {
-      const at = keptViews.indexOf(dropped);
-      if (at >= 0) keptViews.splice(at, 1);
-      if (dropped.view && !dropped.busy) dropped.view.finalize();
-    }
-  }
-  return entry;
-}
-
-/** A scenegraph node as far as orderGuideItems reads it. */
-interface SceneNode {
-  marktype?: string;
-  role?: string;
-  items?: Array<SceneNode & { datum?: { index?: unknown } }>;
+  const runtime = vega.parse(vg as never);
+  runtimes.set(key, runtime);
+  if (runtimes.size > MAX_SHAPES) runtimes.delete(runtimes.keys().next().value as string);
+  return runtime;
 }
 
 /**
- * Put the items of axis and legend marks (ticks, grid lines, labels, legend entries) in the order
- * of their data's `index`, the order in which vega generates them. A View drawn for the first
- * time has them in that order already. A kept View does not: vega keeps the items whose value
- * is the same as in the previous chart and appends the new ones, so the SVG's element order
- * (not the picture) would depend on which charts were drawn before. Sorting (stable; the extra
- * tick of a binned axis, index −1, goes last as vega makes it) gives the first-draw order.
+ * Vega's raw SVG for a spec: its shape's runtime (compiled and parsed once) in a new View, given
+ * this chart's datasets, title and parameter values through the View's public API (data, signal),
+ * then finalised. Compiling and parsing is most of a chart's time, and charts of a study share a
+ * handful of shapes. Tests draw charts this way and compiled on their own (drawRawDirect): same bytes.
  */
-function orderGuideItems(node: SceneNode): void {
-  const items = node.items;
-  if (!items) return;
-  const role = node.role ?? '';
-  if (node.marktype && (role.startsWith('axis-') || role.startsWith('legend-')) && items.length > 1 && items.every((i) => typeof i.datum?.index === 'number')) {
-    const at = (i: (typeof items)[number]) => {
-      const k = i.datum?.index as number;
-      return k < 0 ? Infinity : k;
-    };
-    items.sort((a, b) => at(a) - at(b));
-  }
-  for (const item of items) orderGuideItems(item);
-}
-
-/**
- * Vega's expression code generator with its compiled functions kept per thread. Every new View
- * compiles each expression and encoder of its runtime with `Function(...)`; charts of one shape
- * compile the same code again and again. The compiled function depends on its code only (vega
- * binds it to the View's own function table afterwards), so it is compiled once per code and
- * bound per View. Generators called with a context without functions return unbound functions.
- */
-// runtimeContext and Dataflow are exported by vega but missing from its type declarations.
-const vegaRuntime = vega as unknown as { runtimeContext: (df: unknown, transforms: object, functions?: object, expr?: object) => { expr: unknown }; Dataflow: new () => unknown };
-const defaultCodegen = vegaRuntime.runtimeContext(new vegaRuntime.Dataflow(), {}).expr as Record<string, (...a: unknown[]) => unknown> & { codegen: unknown };
-const compiledCode = new Map<string, (...a: unknown[]) => unknown>();
-const MAX_COMPILED = 20_000;
-function memoised(kind: string, key: (e: never) => string) {
-  const generate = defaultCodegen[kind];
-  return (ctx: { functions?: object } | undefined, e: never) => {
-    const k = `${kind}\u0000${key(e)}`;
-    let fn = compiledCode.get(k);
-    if (!fn) {
-      fn = generate({}, e) as (...a: unknown[]) => unknown;
-      if (compiledCode.size >= MAX_COMPILED) compiledCode.clear();
-      compiledCode.set(k, fn);
-    }
-    return ctx && ctx.functions ? fn.bind(ctx.functions) : fn;
-  };
-}
-const exprCode = (e: { code: string }) => e.code;
-const sharedCodegen = {
-  operator: memoised('operator', exprCode),
-  parameter: memoised('parameter', exprCode),
-  event: memoised('event', exprCode),
-  handler: memoised('handler', exprCode),
-  encode: memoised('encode', (e: { marktype: string; channels: Record<string, { code: string }> }) => `${e.marktype}\u0000${Object.entries(e.channels).map(([n, c]) => `${n}\u0000${c.code}`).join('\u0000')}`),
-  codegen: defaultCodegen.codegen,
-};
-
-/**
- * Vega's raw SVG for a spec: its shape's runtime (compiled once) with this chart's data, title and
- * parameter values. The View of the previous chart of the shape is kept and given the new values
- * (all of them: a shape fixes which datasets and signals a chart sets), which saves building its
- * dataflow again (about a quarter of a chart's time); `resize()` makes vega lay the view out
- * again for the new content, and orderGuideItems restores the element order a new View gives.
- * Tests draw every chart of a built site on kept Views, in two orders, against drawRawDirect.
- */
-async function drawRaw(spec: ChartSpec): Promise<string> {
+export async function drawRaw(spec: ChartSpec): Promise<string> {
   const { shape, datasets, title, signals } = splitSpec(spec);
   // The title's text travels as a signal value; its other parameters (if any) stay in the shape.
   const params = title && typeof title === 'object' && !Array.isArray(title) ? (title as Record<string, unknown>) : undefined;
   const titleText = params ? params.text : title;
   // An empty title draws nothing whichever way it is compiled: leave it out of the shape.
   const hasTitle = titleText !== undefined && titleText !== null && titleText !== '';
-  const entry = shapeFor(hasTitle ? { ...shape, title: params ? { ...params, text: 'T' } : 'T' } : shape);
-  const keep = datasets.reduce((n, d) => n + d.length, 0) <= KEEP_VIEW_MAX_ROWS;
-  const kept = keep && !entry.busy ? entry.view : undefined;
-  const view = kept ?? new vega.View(entry.runtime, { renderer: 'none', expr: sharedCodegen } as never);
-  const mine = keep && !entry.busy;
-  if (mine) entry.busy = true;
-  let ok = false;
+  const runtime = runtimeFor(hasTitle ? { ...shape, title: params ? { ...params, text: 'T' } : 'T' } : shape);
+  const view = new vega.View(runtime, { renderer: 'none' });
   try {
     datasets.forEach((values, i) => view.data(`${DATA_PREFIX}${i}`, values as never));
     if (hasTitle) view.signal(TITLE_SIGNAL, titleText);
     for (const [name, value] of signals) view.signal(name, value);
-    if (kept) {
-      view.resize();
-      shapeStats.reused++;
-    }
     await view.runAsync();
-    orderGuideItems((view.scenegraph() as unknown as { root: SceneNode }).root);
-    shapeStats.drawn++;
-    const svg = await view.toSVG();
-    ok = true;
-    return svg;
+    return await view.toSVG();
   } finally {
-    if (mine) entry.busy = false;
-    if (mine && ok) {
-      // The View drawn on is the kept one, or a new one where none was kept.
-      entry.view = view;
-      const at = keptViews.indexOf(entry);
-      if (at >= 0) keptViews.splice(at, 1);
-      keptViews.push(entry);
-      if (keptViews.length > MAX_KEPT_VIEWS) {
-        const oldest = keptViews.shift() as Shape;
-        if (!oldest.busy) {
-          oldest.view?.finalize();
-          oldest.view = undefined;
-        }
-      }
-    } else {
-      // Not kept (another chart holds the kept View, the chart is large, or drawing failed).
-      if (entry.view === view) entry.view = undefined;
-      view.finalize();
-    }
+    view.finalize();
   }
 }
 
-/**
- * Vega's raw SVG for a spec compiled and parsed on its own, without shapes: the reference that
- * the shape path (drawRaw) must reproduce byte for byte (tests/site/charts.test.ts).
- */
+/** Vega's raw SVG for a spec compiled and parsed on its own: the reference drawRaw must equal. */
 export async function drawRawDirect(spec: ChartSpec): Promise<string> {
   const view = new vega.View(vega.parse(compile(withFont(spec) as never).spec), { renderer: 'none' });
   try {
@@ -425,9 +255,6 @@ export async function drawRawDirect(spec: ChartSpec): Promise<string> {
     view.finalize();
   }
 }
-
-/** Vega's raw SVG through the shape cache (what renderSvg draws, before post-processing). */
-export const drawRawShared = drawRaw;
 
 /** Render a Vega-Lite spec to an SVG string with role="img", <title> and <desc>, and stable ids. */
 export async function renderSvg(spec: ChartSpec, options: RenderOptions = {}): Promise<string> {

@@ -14,13 +14,6 @@ export interface ChartBlock {
   description: string;
   svg: string;
   table: DataTable;
-  /**
-   * Entry key of the chart block in the cache, when the page was built with its blocks left
-   * to load (VariantPagesOptions.lazyBlocks): then svg, description and table stay empty until
-   * `fill` is awaited. The key stands for them in a page's cache key.
-   */
-  blockKey?: string;
-  fill?: () => Promise<void>;
 }
 
 export interface CallView {
@@ -38,12 +31,20 @@ export function metricCall(call: MetricCall): CallView {
   return { call, glyph: METRIC_CALL_STYLE[call]?.glyph ?? '?', cls: `call-${slug(call)}` };
 }
 
-/** Renders one chart to SVG; a pooled and cached one comes from createChartRenderer (src/charts/pool.ts). */
+/** Renders one chart to SVG: renderSvg, or the build's render through the store (src/pipeline/stored-render.ts). */
 export type RenderFn = (spec: ChartSpec, options: RenderOptions) => Promise<string>;
 
+/** What a chart block shows besides its id and title. */
+export type BlockContent = Pick<ChartBlock, 'svg' | 'description' | 'table'>;
+
 /**
- * Render chart definitions to blocks, in order (deterministic). All charts of the list are
- * handed to the renderer at once, so a pooled renderer draws them in parallel.
+ * A chart block found by what it is drawn from (`inputs`: any JSON value), or made by `make` and
+ * kept: the build's store (src/pipeline/stored-render.ts). Without one, every block is made.
+ */
+export type BlockFn = (inputs: unknown, make: () => Promise<BlockContent>) => Promise<BlockContent>;
+
+/**
+ * Render chart definitions to blocks, in order (deterministic).
  */
 export async function renderBlocks(defs: Array<ChartDef | null>, render: RenderFn = renderSvg): Promise<ChartBlock[]> {
   const present = defs.filter((d): d is ChartDef => d !== null);
@@ -53,7 +54,7 @@ export async function renderBlocks(defs: Array<ChartDef | null>, render: RenderF
 
 /**
  * Map over items with at most `limit` calls in flight; results in input order.
- * Bounds memory (specs and SVGs of only `limit` items are alive at once) while keeping a pool busy.
+ * Bounds memory: specs and SVGs of only `limit` items are alive at once.
  */
 export async function mapLimit<T, R>(items: readonly T[], limit: number, fn: (item: T, index: number) => Promise<R>): Promise<R[]> {
   const out = new Array<R>(items.length);

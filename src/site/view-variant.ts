@@ -1,14 +1,12 @@
 /** Data for the index table and the per-variant reports. */
 import { type ChartsFor, drawnSpec, specTable } from '../charts/assay-charts.js';
 import { fmt, fmtCi, fmtP, variantNames } from '../charts/chart-def.js';
-import { forestChart, forestInputKey, forestTable, forestTitle } from '../charts/forest.js';
+import { forestChart, forestTable } from '../charts/forest.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
-import { type CalibrationView, type CallView, type ChartBlock, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
+import { type CalibrationView, type CallView, type ChartBlock, type BlockFn, type FlagView, type RenderFn, flagView, functionCall, lineRanges, mapLimit, metricCall, renderBlocks } from './view-common.js';
 import { fmtCalibration } from './view-study.js';
 import { PATHS, slug } from './paths.js';
 import { groupBy } from '../assays/assay-common.js';
-import type { ChartRenderer } from '../charts/pool.js';
-import { blockEntryKey } from '../charts/cache.js';
 
 export interface IndexRow {
   id: string;
@@ -58,8 +56,6 @@ export interface VariantPage {
   evidence: { level: string; scope: string; sentence: string; calibration: CalibrationView | null };
   prev: { name: string; href: string } | null;
   next: { name: string; href: string } | null;
-  /** With qSlots: the q texts of the page's slots, in order (not enumerable, so not in the page's JSON). */
-  qFills?: string[];
 }
 
 /** Comparisons and units of each variant, in results order (one pass instead of a scan per variant). */
@@ -109,21 +105,11 @@ const unitsLabel = (results: StudyResults, assay: string, metric: string) =>
 export interface VariantPagesOptions {
   /** Chart renderer (default: renderSvg in this thread, no cache). */
   render?: RenderFn;
-  /** Cache of assay chart blocks by input key (ChartRenderer.block); without it every chart is built and drawn. */
-  block?: ChartRenderer['block'];
-  /**
-   * Leave the assay chart blocks that have a cache key unloaded (ChartBlock.blockKey and fill):
-   * a page found in a page cache then never reads or draws its charts. Needs `block`.
-   */
-  lazyBlocks?: boolean;
-  /**
-   * Put a slot (qSlot(n)) in the page wherever a q value is shown, and the q texts in the page's
-   * `qFills` (not enumerable): q values move with every other variant's p values
-   * (Benjamini–Hochberg), so a page kept whole (src/site/build-site.ts) is keyed without them and
-   * gets them filled in as it is written out.
-   */
-  qSlots?: boolean;
-  /** Variants whose pages are built at once (default 8): bounds memory, keeps a pool busy. */
+  /** Assay chart blocks found by their inputs (the build's store), so that an unchanged chart's spec is never built. */
+  block?: BlockFn;
+  /** Renderer of the charts inside such blocks (the block is kept whole, its SVG need not be kept again); default `render`. */
+  blockRender?: RenderFn;
+  /** Variants whose pages are built at once (default 8). */
   concurrency?: number;
   /** Called after each variant page: (done, total). */
   onVariant?: (done: number, total: number) => void;
@@ -142,47 +128,13 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
   const position = new Map(results.variants.map((v, i) => [v.id, i]));
   const link = (q: VariantResult | undefined) => (q ? { name: names.get(q.id) ?? q.short, href: PATHS.variant(slugs.get(q.id) as string) } : null);
   let done = 0;
-  /**
-   * The variant's forest plot, as the assay charts: from the block cache by its inputs when there
-   * is one (left to load with lazyBlocks), else built and drawn.
-   */
-  const forestBlock = async (v: VariantResult, name: string, q: (text: string) => string): Promise<ChartBlock | null> => {
-    // The table shows q values, which the block's key does not cover: it is made afresh.
-    const made = forestTable(results, v);
-    const qCol = made.columns.indexOf('q');
-    const table = { ...made, rows: made.rows.map((row) => row.map((cell, i) => (i === qCol ? q(String(cell)) : cell))) };
-    const drawn = async (draw: RenderFn | undefined) => {
-      const b = (await renderBlocks([forestChart(results, v, name)], draw))[0];
-      return b ? { ...b, table } : null;
-    };
-    const inputKey = options.block ? forestInputKey(results, v, name) : undefined;
-    if (!options.block || inputKey === undefined) return drawn(render);
-    const key = `forest:${v.id}`;
-    const title = forestTitle(name);
-    return cachedBlock(options.block, `chart-${slug(key)}`, title, [inputKey, key, title], async (draw) => {
-      const b = (await drawn(draw)) as ChartBlock;
-      return { svg: b.svg, description: b.description, table: b.table };
-    }, table);
-  };
-  /**
-   * A chart block from the block cache by its key parts, or made: left to load (blockKey and
-   * fill) with lazyBlocks, so that a page found in the page cache never reads or draws it.
-   * `table`, when given, is shown instead of the block's (whose key does not cover it).
-   */
-  const cachedBlock = async (block: ChartRenderer['block'], id: string, title: string, parts: string[], make: Parameters<ChartRenderer['block']>[1], table?: ChartBlock['table']): Promise<ChartBlock> => {
-    const own = table ? { table } : {};
-    if (options.lazyBlocks) {
-      const chart: ChartBlock = { id, title, description: '', svg: '', table: table ?? { columns: [], rows: [] }, blockKey: blockEntryKey(parts) };
-      // Not enumerable: the page's JSON (its cache key) holds the block key only.
-      Object.defineProperty(chart, 'fill', { enumerable: false, value: async () => Object.assign(chart, await block(parts, make), own) });
-      return chart;
-    }
-    return { id, title, ...(await block(parts, make)), ...own };
+  /** The variant's forest plot, with its table of effects and q values. */
+  const forestBlock = async (v: VariantResult, name: string): Promise<ChartBlock | null> => {
+    const b = (await renderBlocks([forestChart(results, v, name)], render))[0];
+    return b ? { ...b, table: forestTable(results, v) } : null;
   };
   return (subset) => mapLimit(subset, options.concurrency ?? 8, async (v): Promise<VariantPage> => {
     const name = names.get(v.id) ?? v.short;
-    const qFills: string[] = [];
-    const q = options.qSlots ? (text: string) => qSlot(qFills.push(text) - 1) : (text: string) => text;
     const extra = chartsFor ? await chartsFor(v.id) : [];
     const myComps = idx.comps(v.id);
     const myUnits = idx.units(v.id);
@@ -197,15 +149,13 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
           .filter((c) => c.assay === a.id)
           .map(async (c, i): Promise<ChartBlock> => {
             const key = `assay:${v.id}:${a.id}:${i}`;
-            const make = async (draw: RenderFn | undefined) => {
+            const make = async () => {
               const description = c.description ?? `${c.title}. The variant's data and fitted curves beside the WT of the same batches; the values are in the table below.`;
-              const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], draw);
-              return { svg: b.svg, description: b.description, table: b.table };
+              const [b] = await renderBlocks([{ key, title: c.title, description, spec: drawnSpec(c.spec), table: specTable(c.spec) }], options.block ? (options.blockRender ?? render) : render);
+              return { svg: b!.svg, description: b!.description, table: b!.table };
             };
-            const id = `chart-${slug(key)}`;
-            // A chart whose inputs are unchanged comes whole from the block cache: no spec is built.
-            if (options.block && c.inputKey) return cachedBlock(options.block, id, c.title, [c.inputKey, key, c.title], make);
-            return { id, title: c.title, ...(await make(render)) };
+            const content = options.block ? await options.block(['assay-chart', a.id, key, c.title, c.inputs], make) : await make();
+            return { id: `chart-${slug(key)}`, title: c.title, ...content };
           }),
       );
       assays.push({
@@ -222,7 +172,7 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
             scale: c.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',
             effect: fmt(c.effect),
             ci: fmtCi(c.ciLow, c.ciHigh),
-            q: q(fmtP(c.q)),
+            q: fmtP(c.q),
             n: `${c.nVariantUnits} / ${c.nWtUnits}`,
             batches: c.batches.join(', '),
             call: metricCall(c.call),
@@ -256,7 +206,7 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
       lines.set(s.file, list);
     }
     const cal = results.calibration.find((c) => c.scope === v.evidence.scope);
-    const forest = await forestBlock(v, name, q);
+    const forest = await forestBlock(v, name);
     options.onVariant?.(++done, results.variants.length);
     const page: VariantPage = {
       path: PATHS.variant(slugs.get(v.id) as string),
@@ -275,16 +225,6 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
       prev: link(results.variants[(position.get(v.id) as number) - 1]),
       next: link(results.variants[(position.get(v.id) as number) + 1]),
     };
-    // Not enumerable: the page's JSON (its cache key) holds the slots only.
-    if (options.qSlots) Object.defineProperty(page, 'qFills', { enumerable: false, value: qFills });
     return page;
   });
-}
-
-/** Start of a q-value slot in a variant page (see VariantPagesOptions.qSlots); ASCII that HTML escaping leaves as it is. */
-export const Q_SLOT_STEM = 'myofolio-q-7f-';
-
-/** The slot of the n-th q text of a page: Q_SLOT_STEM, n in decimal, '~'. */
-export function qSlot(n: number): string {
-  return `${Q_SLOT_STEM}${n}~`;
 }

@@ -6,12 +6,10 @@
  * strict number parsing, unit conversion, row-schema validation, variant lookup,
  * plausibility warnings → duplicate observations.
  *
- * Speed (a study of 100+ MB is read row by row while it is parsed, see createRowReader):
- * everything that depends only on the header (unit factors, column slots, the compiled
- * row-schema pre-check of row-check.ts, the typed-row builder) is resolved once per file;
- * per row, values live in one reused array; ajv runs only on rows the pre-check rejects, to
- * word their errors; repeated texts share one string; duplicate keys go into a reused
- * typed-array hash index instead of a key string per row.
+ * A study of 100+ MB is read row by row while it is parsed (see createRowReader): everything
+ * that depends only on the header (unit factors, column slots, the compiled row-schema pre-check
+ * of row-check.ts) is resolved once per file; per row, values live in one reused array; ajv runs
+ * only on rows the pre-check rejects, to word their errors; repeated texts share one string.
  */
 import type { ErrorObject } from 'ajv';
 import type { CsvTable } from './csv.js';
@@ -96,8 +94,6 @@ function detach(s: string): string {
 export class StringPool {
   private readonly ids = new Map<string, number>();
   readonly strings: string[] = [];
-  /** Duplicate-key index, reused by each file in turn (its arrays stay allocated). */
-  readonly keys = new KeyIndex();
   /** Id of a text, adding it when new. */
   id(s: string): number {
     const got = this.ids.get(s);
@@ -107,104 +103,6 @@ export class StringPool {
     this.strings.push(kept);
     this.ids.set(kept, id);
     return id;
-  }
-}
-
-const f64 = new Float64Array(1);
-const i32 = new Int32Array(f64.buffer);
-
-/**
- * Index of observation keys for duplicate detection, without a key string per row. A key is a
- * list of parts, each a string id, a number or missing; two keys are equal exactly when their
- * JSON texts are (missing ≠ any value; all non-finite numbers alike, as JSON writes them null;
- * 0 = −0). Method: open addressing (linear probing) on a hash of the parts (FNV-1a style
- * multiply-xor over their 32-bit words), all in typed arrays that are reused from file to file,
- * so a file of many rows allocates no key objects.
- */
-class KeyIndex {
-  private width = 0;
-  private count = 0;
-  private values = new Float64Array(0);
-  /** 0 value, 1 missing, 2 non-finite number. */
-  private flags = new Uint8Array(0);
-  private lines = new Int32Array(0);
-  private hashes = new Int32Array(0);
-  /** Entry index + 1 per slot; 0 is empty. Size a power of two, at least twice the entries. */
-  private table = new Int32Array(0);
-
-  /** Start a new file whose keys have `width` parts. */
-  reset(width: number): void {
-    this.width = width;
-    this.count = 0;
-    if (this.table.length === 0) this.resize(1024);
-    else this.table.fill(0);
-  }
-
-  /** First line with the same key as `parts` (flags as above), or -1 after recording `line`. */
-  firstOrAdd(parts: Float64Array, flags: Uint8Array, line: number): number {
-    const w = this.width;
-    let h = 0x811c9dc5;
-    for (let k = 0; k < w; k++) {
-      const f = flags[k];
-      if (f === 0) {
-        f64[0] = parts[k] === 0 ? 0 : parts[k];
-        h = Math.imul(h ^ i32[0], 0x01000193);
-        h = Math.imul(h ^ i32[1], 0x01000193);
-      } else h = Math.imul(h ^ (f + 0x9e3779b9), 0x01000193);
-    }
-    h ^= h >>> 15;
-    const mask = this.table.length - 1;
-    let slot = h & mask;
-    for (let e = this.table[slot]; e !== 0; e = this.table[slot]) {
-      const i = e - 1;
-      if (this.hashes[i] === h) {
-        let same = true;
-        for (let k = 0, o = i * w; k < w; k++, o++) {
-          if (this.flags[o] !== flags[k] || (flags[k] === 0 && this.values[o] !== parts[k])) {
-            same = false;
-            break;
-          }
-        }
-        if (same) return this.lines[i];
-      }
-      slot = (slot + 1) & mask;
-    }
-    const i = this.count++;
-    if (i * w + w > this.values.length || i >= this.lines.length) this.growEntries(i + 1);
-    this.values.set(parts, i * w);
-    this.flags.set(flags, i * w);
-    this.lines[i] = line;
-    this.hashes[i] = h;
-    this.table[slot] = i + 1;
-    if (this.count * 2 > this.table.length) this.resize(this.table.length * 2);
-    return -1;
-  }
-
-  private growEntries(need: number): void {
-    const cap = Math.max(need * 2, 1024);
-    const values = new Float64Array(cap * Math.max(this.width, 1));
-    values.set(this.values.subarray(0, Math.min(this.values.length, values.length)));
-    const flags = new Uint8Array(values.length);
-    flags.set(this.flags.subarray(0, Math.min(this.flags.length, flags.length)));
-    const lines = new Int32Array(cap);
-    lines.set(this.lines.subarray(0, Math.min(this.lines.length, cap)));
-    const hashes = new Int32Array(cap);
-    hashes.set(this.hashes.subarray(0, Math.min(this.hashes.length, cap)));
-    this.values = values;
-    this.flags = flags;
-    this.lines = lines;
-    this.hashes = hashes;
-  }
-
-  private resize(size: number): void {
-    const table = new Int32Array(size);
-    const mask = size - 1;
-    for (let i = 0; i < this.count; i++) {
-      let slot = this.hashes[i] & mask;
-      while (table[slot] !== 0) slot = (slot + 1) & mask;
-      table[slot] = i + 1;
-    }
-    this.table = table;
   }
 }
 
@@ -220,19 +118,6 @@ function joinKey(parts: Array<string | number>): string {
   let nuls = 0;
   for (let i = joined.indexOf('\0'); i >= 0; i = joined.indexOf('\0', i + 1)) nuls++;
   return nuls === parts.length - 1 ? joined : JSON.stringify(parts);
-}
-
-type RowFactory = (variant: string, unit: string, batch: string, file: string, line: number, vals: ReadonlyArray<unknown>) => Record<string, unknown>;
-
-/**
- * A function that builds a typed row with every field at once (one object literal, so every row
- * of a file has one shape and its fields live in the object), for rows where every field has a
- * value. Field names come from the row schemas (x-field); undefined if one is not a plain name.
- */
-function rowFactory(fields: readonly string[], slots: readonly number[]): RowFactory | undefined {
-  if (!fields.every((f) => /^[A-Za-z_$][A-Za-z0-9_$]*$/.test(f) && !['variant', 'unit', 'batch', 'at'].includes(f))) return undefined;
-  const body = fields.map((f, k) => `, ${f}: vals[${slots[k]}]`).join('');
-  return new Function('variant', 'unit', 'batch', 'file', 'line', 'vals', `return { variant, unit, batch, at: { file, line }${body} };`) as RowFactory;
 }
 
 /** Feeds one file's CSV rows, header first, and collects the typed rows. */
@@ -389,10 +274,9 @@ export function createRowReader<K extends InputKind>(
     const keyColumns = cat.rowKey.filter((k) => byName.has(k));
     const keySlots = keyColumns.map((k) => slotOf(k)!);
     const keyComplete = cat.rowKey.every((k) => byName.has(k) || (k === 'frame' && byName.has('time')) || (k === 'time' && byName.has('frame')));
-    const keyIndex = keyComplete ? pool.keys : undefined;
-    keyIndex?.reset(keySlots.length);
-    const keyValues = new Float64Array(keySlots.length);
-    const keyFlags = new Uint8Array(keySlots.length);
+    /** First line of each observation key (see observationKey), when the file has every key column. */
+    const firstByKey = keyComplete ? new Map<string, number>() : undefined;
+    const keyParts: string[] = new Array(keySlots.length).fill('');
     const firstByRow = new Map<string, number>();
     const crossSectionWarned = new Set<string>();
     const rows = out.rows as unknown as Record<string, unknown>[];
@@ -426,7 +310,6 @@ export function createRowReader<K extends InputKind>(
     const areaSlot = slotOf('area');
     const computedTension = kind === 'force-pca' && !byName.has('tension') ? CATALOGUE['force-pca'].columns.find((c) => c.name === 'tension')!.plausible! : undefined;
     const cellAt = (c: ResolvedColumn, line: number): SourceRef => ({ file, line, column: c.def.name, col: c.index + 1 });
-    const makeRow = rowFactory(fieldNames, fieldSlots);
     const vals: Array<string | number | undefined> = new Array(n).fill(undefined);
     const ids = new Int32Array(n);
     const lastText: Array<string | undefined> = new Array(n).fill(undefined);
@@ -542,16 +425,10 @@ export function createRowReader<K extends InputKind>(
       // Typed row: fields in column order, each set once (no deletes, so rows keep one shape).
       const unit = (unitSlot === undefined ? undefined : (vals[unitSlot] as string | undefined)) ?? '';
       const batch = vals[batchSlot!] as string;
-      let complete = true;
-      for (let k = 0; k < fieldSlots.length; k++) if (vals[fieldSlots[k]] === undefined) complete = false;
-      let typed: Record<string, unknown>;
-      if (complete && makeRow) typed = makeRow(variantId, unit, batch, file, line, vals);
-      else {
-        typed = { variant: variantId, unit, batch, at: { file, line } };
-        for (let k = 0; k < fieldSlots.length; k++) {
-          const v = vals[fieldSlots[k]];
-          if (v !== undefined) typed[fieldNames[k]] = v;
-        }
+      const typed: Record<string, unknown> = { variant: variantId, unit, batch, at: { file, line } };
+      for (let k = 0; k < fieldSlots.length; k++) {
+        const v = vals[fieldSlots[k]];
+        if (v !== undefined) typed[fieldNames[k]] = v;
       }
       if (kind === 'motility-tracks') {
         if (typed.timeS === undefined) typed.timeS = (vals[frameSlot!] as number) * spec.frameIntervalS!;
@@ -588,21 +465,18 @@ export function createRowReader<K extends InputKind>(
       }
 
       // Duplicates.
-      if (keyIndex) {
+      if (firstByKey) {
+        // Two keys are equal exactly when their JSON texts are: texts by their pool id, numbers
+        // as JSON writes them (every non-finite number as null, −0 as 0), a missing cell apart.
         for (let k = 0; k < keySlots.length; k++) {
           const j = keySlots[k];
           const v = vals[j];
-          if (v === undefined) keyFlags[k] = 1;
-          else if (kindOf[j] === 0) {
-            keyFlags[k] = 0;
-            keyValues[k] = ids[j];
-          } else if (Number.isFinite(v)) {
-            keyFlags[k] = 0;
-            keyValues[k] = v as number;
-          } else keyFlags[k] = 2;
+          keyParts[k] = v === undefined ? '-' : kindOf[j] === 0 ? `s${ids[j]}` : Number.isFinite(v) ? String(v) : 'null';
         }
-        const first = keyIndex.firstOrAdd(keyValues, keyFlags, line);
-        if (first >= 0) {
+        const key = keyParts.join('\0');
+        const first = firstByKey.get(key);
+        if (first === undefined) firstByKey.set(key, line);
+        else {
           issues.push(issue(MSG.duplicateKey(first, keyColumns.map((k, i) => `${k} ${vals[keySlots[i]] ?? ''}`).join(', ')), { file, line }));
           return;
         }

@@ -169,7 +169,7 @@ export interface InputFile {
   /**
    * SHA-256 of the variant labels the file's rows use, each with the variant it resolved to
    * (see variantFacts in src/study/load.ts): with `sha256` and `settings`, what the file's rows
-   * depend on. Set by loadStudy; the analysis cache keys on it.
+   * depend on. Set by loadStudy; the store's unit entries key on it (src/pipeline/analyse-units.ts).
    */
   variantLabels?: string;
 }
@@ -219,8 +219,8 @@ export interface Study {
   /** Rows of every input file, by kind, in manifest file order (except the files in `omitted`). */
   rows: Partial<RowsByKind>;
   /**
-   * Input files whose rows were left out of `rows` because a cache already holds the analysis of
-   * every batch they touch (see loadAndAnalyse in src/build/build-study.ts), with what the study needs of them
+   * Input files whose rows were left out of `rows` because the store already holds the analysis of
+   * every batch they touch (see loadAndAnalyse in src/pipeline/build-study.ts), with what the study needs of them
    * instead. Absent (or empty) in a study loaded whole.
    */
   omitted?: ReadonlyMap<string, FileDigest>;
@@ -231,7 +231,7 @@ export interface Study {
 
 /**
  * What one input file gives the study besides its rows: enough to check the study across files,
- * key the per-batch analysis cache and order units, without the rows (src/study/load.ts).
+ * key the store's per-batch units and order units, without the rows (src/study/load.ts).
  */
 export interface FileDigest {
   kind: InputKind;

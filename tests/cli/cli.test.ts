@@ -119,11 +119,11 @@ describe('myofolio CLI', () => {
   });
 
   it('the launcher runs under node and sets the exit code', () => {
-    const out = execFileSync(process.execPath, [join(REPO, 'src/cli/myofolio.js'), '--version'], { encoding: 'utf8' });
+    const out = execFileSync(process.execPath, [join(REPO, 'dist/cli/myofolio.js'), '--version'], { encoding: 'utf8' });
     expect(out.trim()).toMatch(/^\d+\.\d+\.\d+/);
     let code = 0;
     try {
-      execFileSync(process.execPath, [join(REPO, 'src/cli/myofolio.js'), 'nonsense'], { encoding: 'utf8', stdio: 'pipe' });
+      execFileSync(process.execPath, [join(REPO, 'dist/cli/myofolio.js'), 'nonsense'], { encoding: 'utf8', stdio: 'pipe' });
     } catch (e) {
       code = (e as { status: number }).status;
     }

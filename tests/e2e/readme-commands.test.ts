@@ -8,7 +8,7 @@ import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 
-const launcher = path.resolve('src/cli/myofolio.js');
+const launcher = path.resolve('dist/cli/myofolio.js');
 
 describe('README usage commands', () => {
   it('init, check and build a starter study as the README shows', () => {
@@ -16,7 +16,7 @@ describe('README usage commands', () => {
     const commands = readme
       .split('\n')
       .map((l) => l.trim())
-      .filter((l) => l.startsWith('node src/cli/myofolio.js '))
+      .filter((l) => l.startsWith('node dist/cli/myofolio.js '))
       .map((l) => l.replace(/\s+#.*$/, '').split(/\s+/).slice(2));
     expect(commands.map((c) => c[0])).toEqual(['init', 'check', 'build']);
     const dir = mkdtempSync(path.join(os.tmpdir(), 'myofolio-readme-'));

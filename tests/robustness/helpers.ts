@@ -11,7 +11,7 @@ import { main } from '../../src/cli/main.js';
 
 export const REPO = join(import.meta.dirname, '../..');
 export const DEMO = join(REPO, 'data-demo');
-export const LAUNCHER = join(REPO, 'src/cli/myofolio.js');
+export const LAUNCHER = join(REPO, 'dist/cli/myofolio.js');
 
 /** A fresh temporary folder (remove with rmSync(..., { recursive: true }) in afterAll). */
 export function tempRoot(tag: string): string {

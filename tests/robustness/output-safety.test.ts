@@ -7,8 +7,8 @@
 import { existsSync, mkdirSync, readdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
 import { basename, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { buildStudy } from '../../src/build/build-study.js';
-import { OUTPUT_MARKER, cleanStale } from '../../src/cli/output.js';
+import { buildStudy } from '../../src/pipeline/build-study.js';
+import { OUTPUT_MARKER, cleanStale } from '../../src/pipeline/output.js';
 import { CRASH, cleanup, copyDemo, hashTree, runCli, spawnChild, tempRoot } from './helpers.js';
 
 const root = tempRoot('output');

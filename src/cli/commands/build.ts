@@ -2,11 +2,11 @@
 import { existsSync, readdirSync, statSync } from 'node:fs';
 import { getHeapStatistics } from 'node:v8';
 import { isAbsolute, join, relative } from 'node:path';
-import { buildStudy } from '../../build/build-study.js';
+import { buildStudy } from '../../pipeline/build-study.js';
+import { OutputError } from '../../pipeline/output.js';
 import { MANIFEST_NAME } from '../../study/schemas.js';
-import type { Command, Io } from '../main.js';
+import type { Command, Io } from '../command.js';
 import { CLI } from '../messages.js';
-import { OutputError } from '../output.js';
 import { createProgress, type ProgressStream } from '../progress.js';
 import { formatIssue, sortIssues } from './check.js';
 
@@ -72,7 +72,7 @@ export function memoryWarning(dir: string, heapLimit: number): string {
   const mb = Math.ceil(need / 2 ** 20 / 1024) * 1024;
   return (
     `myofolio build: warning: this study has ${gb(bytes)} GB of CSV and may need about ${gb(need)} GB of memory, more than Node's heap limit of ${gb(heapLimit)} GB here; ` +
-    `if the build stops with "JavaScript heap out of memory", run it as NODE_OPTIONS=--max-old-space-size=${mb} node src/cli/myofolio.js build … (on a machine with that much free memory).\n`
+    `if the build stops with "JavaScript heap out of memory", run it as NODE_OPTIONS=--max-old-space-size=${mb} node dist/cli/myofolio.js build … (on a machine with that much free memory).\n`
   );
 }
 
@@ -109,6 +109,7 @@ export const command: Command = {
         removePrevious: 'background',
       });
       progress.done();
+      for (const note of outcome.notes) io.stderr.write(`myofolio build: note: ${note}\n`);
       for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i)}\n`);
       if (!outcome.ok) {
         const errors = outcome.issues.filter((i) => i.severity === 'error').length;

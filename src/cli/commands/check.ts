@@ -6,7 +6,7 @@ import { MSG, issue } from '../../study/messages.js';
 import { readStudyFolder } from '../../study/read-folder.js';
 import { MANIFEST_NAME } from '../../study/schemas.js';
 import type { Issue } from '../../study/types.js';
-import { singleFolderArgument, type Command, type Io } from '../main.js';
+import { singleFolderArgument, type Command, type Io } from '../command.js';
 import { CLI } from '../messages.js';
 
 /** One issue as `file:line:col: severity: message — fix` (JSON path instead of line for the manifest). */

@@ -2,7 +2,7 @@
 import { existsSync, mkdirSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { starterFiles } from '../../study/templates.js';
-import { singleFolderArgument, type Command, type Io } from '../main.js';
+import { singleFolderArgument, type Command, type Io } from '../command.js';
 import { CLI } from '../messages.js';
 
 export const command: Command = {

@@ -1,6 +1,6 @@
 /**
- * Files whose batches are all in the analysis cache are not parsed on a rebuild: their digests
- * stand in for their rows (src/study/load.ts, src/build/analysis-cache.ts). Whatever is left out,
+ * Files whose batches are all in the store are not parsed on a rebuild: their stored readings
+ * stand in for their rows (src/study/load.ts, src/pipeline/analyse-units.ts). Whatever is left out,
  * the issues, the study's description of its files and the analysis must be exactly those of a
  * study read whole. Study: the benchmark generator's (synthetic, invented values).
  */
@@ -11,13 +11,11 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { syntheticStudy, writeStudy } from '../../src/bench/synthetic.js';
-import { loadAndAnalyse } from '../../src/build/build-study.js';
+import { loadAndAnalyse } from '../../src/pipeline/build-study.js';
+import { Store } from '../../src/pipeline/store.js';
 import { type ParsedDigest, labelsResolveAlike, loadStudy, variantFacts } from '../../src/study/load.js';
 import type { FileDigest } from '../../src/study/types.js';
-import type { UnitResult } from '../../src/results/types.js';
-import { computeUnitDigest, unitDigest } from '../../src/results/unit-digest.js';
 import { writeJsonStreamed } from '../../src/results/json.js';
-import { rawJsonOf } from '../../src/results/raw-json.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'myofolio-load-reuse-'));
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
@@ -127,33 +125,20 @@ describe('loadStudy with digests', () => {
   });
 });
 
-const digestsOf = (units: UnitResult[], f: (u: UnitResult) => string) => units.map(f);
-
-describe('loadAndAnalyse with the analysis cache', () => {
+describe('loadAndAnalyse with the store', () => {
   const dir = join(tmp, 'study');
   const cache = join(tmp, 'cache');
   let parsed = 0;
-  let textPlots = 0;
-  let textFits = 0;
-  /** Units with a fit or metricSe that is neither text nor one JSON cannot hold (a null in its text). */
-  let parsedParts = 0;
-  let unitCount = 0;
-  const run = async (analysisCache: string | false) => {
-    const got = await loadAndAnalyse(dir, { analysisCache, workers: 0, sourceDateEpoch: 1_700_000_000 });
+  const run = async (withStore: boolean) => {
+    const store = withStore ? new Store(cache, 'test') : undefined;
+    const got = loadAndAnalyse(dir, { sourceDateEpoch: 1_700_000_000 }, store);
     expect(got.results).toBeDefined();
     parsed = got.parsedBytes;
-    // results.json as the build writes it (plots of cached units copied from their stored text,
-    // before anything parses them) is JSON.stringify of the results.
+    // results.json as the build writes it is JSON.stringify of the results.
     const file = join(tmp, 'results.json');
     writeJsonStreamed(file, got.results as never);
     const written = readFileSync(file, 'utf8');
-    // Digests remembered for units (from the cache, carried through analyseStudy) are their digests.
-    expect(digestsOf(got.results!.units, unitDigest)).toEqual(digestsOf(got.results!.units, computeUnitDigest));
     expect(written === `${JSON.stringify(got.results)}\n`).toBe(true);
-    textPlots = got.results!.units.filter((u) => rawJsonOf(u.plot) !== undefined).length;
-    textFits = got.results!.units.filter((u) => rawJsonOf(u.fit) !== undefined).length;
-    parsedParts = got.results!.units.filter((u) => [u.fit, u.metricSe].some((v) => v !== undefined && rawJsonOf(v) === undefined && !JSON.stringify(v).includes('null'))).length;
-    unitCount = got.results!.units.length;
     // SHA-256 of the results JSON: a failure then prints two hashes, not two copies of the results.
     return createHash('sha256').update(written).digest('hex');
   };
@@ -172,26 +157,22 @@ describe('loadAndAnalyse with the analysis cache', () => {
     const size = editReading(name);
     const fresh = await run(false);
     expect(fresh).not.toBe(before);
-    expect(await run(cache)).toBe(fresh);
+    expect(await run(true)).toBe(fresh);
     return { size, fresh };
   };
 
   it('cold, warm (all files left out) and after one file changed: the results of a build without cache', async () => {
     writeStudy(dir, made);
     const reference = await run(false);
-    expect(await run(cache)).toBe(reference);
-    expect(await run(cache)).toBe(reference);
+    expect(await run(true)).toBe(reference);
+    expect(await run(true)).toBe(reference);
     expect(parsed).toBe(0);
-    // Every unit came from the cache with its plot as text (its plot has no null), and so did
-    // every fit and metricSe whose JSON has no null.
-    expect(textPlots).toBe(unitCount);
-    expect(textFits).toBeGreaterThan(0);
-    expect(parsedParts).toBe(0);
-    // One turnover reading of a variant edited: turnover units are cached one by one, so only its
-    // file is read, although its batches have units in other files.
+    // One turnover reading of a variant edited: its file is read, and the files holding rows of
+    // its batches (stored per assay and batch), but not every file.
     const { size, fresh } = await editAndCompare('turnover-part2.csv');
-    expect(parsed).toBe(size);
-    expect(await run(cache)).toBe(fresh);
+    expect(parsed).toBeGreaterThanOrEqual(size);
+    expect(parsed).toBeLessThan(Object.values(made.files).reduce((n, t) => n + Buffer.byteLength(t), 0));
+    expect(await run(true)).toBe(fresh);
     expect(parsed).toBe(0);
   }, 180_000);
 
@@ -227,7 +208,7 @@ describe('loadAndAnalyse with the analysis cache', () => {
     manifest.files.push({ path: 'turnover-new.csv', kind: 'turnover' });
     writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
     const fresh = await run(false);
-    expect(await run(cache)).toBe(fresh);
+    expect(await run(true)).toBe(fresh);
     expect(parsed).toBe(Buffer.byteLength(text));
 
     // The old label now names the new variant (and the new label the old one): the same bytes
@@ -240,17 +221,17 @@ describe('loadAndAnalyse with the analysis cache', () => {
     writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
     const swapped = await run(false);
     expect(swapped).not.toBe(fresh);
-    expect(await run(cache)).toBe(swapped);
+    expect(await run(true)).toBe(swapped);
   }, 180_000);
 
-  it('the demo study (one unit excluded in its manifest): remembered unit digests are the units\' digests, cold and warm', async () => {
-    const demoCache = join(tmp, 'demo-cache');
+  it('the demo study (one unit excluded in its manifest): the same results cold and warm', async () => {
     const demo = fileURLToPath(new URL('../../data-demo/', import.meta.url));
-    for (let pass = 0; pass < 2; pass++) {
-      const got = await loadAndAnalyse(demo, { analysisCache: demoCache, workers: 0, sourceDateEpoch: 1_700_000_000 });
-      const units = got.results!.units;
-      expect(units.filter((u) => u.excluded).length).toBe(1);
-      expect(digestsOf(units, unitDigest)).toEqual(digestsOf(units, computeUnitDigest));
-    }
+    const store = () => new Store(join(tmp, 'demo-cache'), 'test');
+    const first = store();
+    const cold = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, first);
+    const warm = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, store());
+    expect(cold.results!.units.filter((u) => u.excluded).length).toBe(1);
+    expect(warm.parsedBytes).toBe(0);
+    expect(JSON.stringify(warm.results)).toBe(JSON.stringify(cold.results));
   }, 180_000);
 });

@@ -1,0 +1,190 @@
+/**
+ * buildStudy: the I/O shell around the pure pipeline, in one thread.
+ *
+ *   study folder ──readStudyFolder──▶ files (bytes, SHA-256)            src/study/read-folder.ts
+ *                ──loadStudy───────▶ Study | issues                     src/study/load.ts (pure)
+ *                ──analyseUnits────▶ UnitResult[] (per assay × batch, through the store)
+ *                ──analyseStudy────▶ StudyResults                       src/analysis/analyse-study.ts (pure)
+ *                ──buildSite───────▶ pages + SVG charts (through the store) src/site/build-site.ts
+ *                ──downloads───────▶ results.json, results.csv
+ *                ──swapIn──────────▶ output folder (atomic rename; the last good output survives a failure)
+ *
+ * The store (src/pipeline/store.ts) keeps a file's reading, a module's units of a batch, each
+ * chart's SVG and each variant's assay charts by the units they draw; a rebuild parses only the files whose batches changed, fits only those batches and
+ * draws only the charts whose specs changed. Returns issues as data; the CLI decides what to print
+ * and the exit code.
+ */
+import { deserialize, serialize } from 'node:v8';
+import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { analyseStudy } from '../analysis/analyse-study.js';
+import { ASSAYS } from '../assays/registry.js';
+import { chartsFromModules } from '../charts/assay-charts.js';
+import { renderSvg } from '../charts/render.js';
+import { resultsCsv } from '../results/csv.js';
+import { writeJsonStreamed } from '../results/json.js';
+import type { StudyResults, UnitResult } from '../results/types.js';
+import { buildSite } from '../site/build-site.js';
+import { type LoadReuse, loadStudy } from '../study/load.js';
+import { readStudyFolder } from '../study/read-folder.js';
+import type { FileDigest, Issue } from '../study/types.js';
+import { TOOL_VERSION } from '../version.js';
+import { analyseUnits } from './analyse-units.js';
+import { COLLECT_AFTER_PARSED_BYTES, HEAVY_PAGES_PER_RUN, collectGarbage } from './collect-garbage.js';
+import { installedFingerprint } from './fingerprint.js';
+import { type RemovePrevious, planOutput, makeStaging, swapIn } from './output.js';
+import { Store, storeDirFor } from './store.js';
+import { type ChartCounts, countedDraw, storedBlock, storedRender } from './stored-render.js';
+
+export interface BuildOptions {
+  force?: boolean;
+  /** Seconds since the epoch for the build time stamp (SOURCE_DATE_EPOCH); default now. */
+  sourceDateEpoch?: number;
+  /** Progress callback (phase name); the CLI prints it. */
+  onPhase?: (phase: string) => void;
+  /** Finer progress within a phase: (phase, done, total). */
+  onProgress?: (phase: string, done: number, total: number) => void;
+  /**
+   * Store folder, or false for none. Default: $XDG_CACHE_HOME/myofolio, else ~/.cache/myofolio
+   * (src/pipeline/store.ts). A folder inside the study folder is refused: the default is used.
+   */
+  store?: string | false;
+  /**
+   * Which kinds of store entry are used (default all): 'file' (a file's reading, so unchanged
+   * files need not be parsed), 'units' (a module's units of a batch), 'svg' (a chart by its spec),
+   * 'block' (a variant's assay chart by its units). For the benchmark, which measures what each earns.
+   */
+  storeKinds?: ReadonlyArray<StoreKind>;
+  /** Fingerprint of what computes the stored entries (default: this installation's, src/pipeline/fingerprint.ts). */
+  fingerprint?: string;
+  /** How the previous output is removed after the swap (see src/pipeline/output.ts); default 'now'. The CLI removes it in the background. */
+  removePrevious?: RemovePrevious;
+}
+
+export type StoreKind = 'file' | 'units' | 'svg' | 'block';
+
+export interface BuildOutcome {
+  ok: boolean;
+  issues: Issue[];
+  out?: string;
+  pages?: number;
+  /** Charts drawn and charts served from the store. */
+  charts?: ChartCounts;
+  results?: StudyResults;
+  movedAside?: string;
+  /** One-line notes for the user (a refused cache folder, damaged store entries discarded). */
+  notes: string[];
+}
+
+/** The store a build uses, and the note about its folder if it had to be changed. */
+export function openStore(studyDir: string, options: Pick<BuildOptions, 'store' | 'fingerprint'>): { store?: Store; note?: string } {
+  if (options.store === false) return {};
+  const { dir, note } = storeDirFor(studyDir, options.store);
+  return { ...(dir !== false ? { store: new Store(dir, options.fingerprint ?? installedFingerprint()) } : {}), ...(note ? { note } : {}) };
+}
+
+/** The loader's file readings kept in the store, under keys that include the fingerprint. */
+function fileReadings(store: Store, mustRead: ReadonlySet<string>): LoadReuse {
+  return {
+    context: store.fingerprint,
+    get(key, file) {
+      if (mustRead.has(file)) return undefined;
+      const bytes = store.get('file', store.key('file', key));
+      if (!bytes) return undefined;
+      try {
+        const digest = deserialize(bytes) as FileDigest;
+        return digest && typeof digest === 'object' && Array.isArray(digest.issues) && Array.isArray(digest.unitRows) ? digest : undefined;
+      } catch {
+        return undefined;
+      }
+    },
+  };
+}
+
+/**
+ * Read, check and analyse. With a store, files whose batches are all stored are not parsed
+ * (their stored readings stand in for them); if a batch they hold turns out not to be stored,
+ * they are read after all, in a second pass.
+ */
+export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'sourceDateEpoch' | 'onPhase'>, store?: Store, kinds: ReadonlySet<StoreKind> = new Set(['file', 'units'])): { issues: Issue[]; results?: StudyResults; parsedBytes: number; unitDigests?: Map<UnitResult, string> } {
+  const fileStore = kinds.has('file') && kinds.has('units') ? store : undefined;
+  const phase = options.onPhase ?? (() => {});
+  let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir);
+  phase('check');
+  const mustRead = new Set<string>();
+  /** Bytes of the files parsed (not left out), over all passes. */
+  let parsedBytes = 0;
+  const epoch = options.sourceDateEpoch;
+  const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
+  for (let pass = 0; ; pass++) {
+    const loaded = loadStudy(folder as ReturnType<typeof readStudyFolder>, fileStore ? { reuse: fileReadings(fileStore, mustRead) } : {});
+    for (const f of loaded.study?.files ?? []) if (!loaded.study?.omitted?.has(f.path)) parsedBytes += (folder as ReturnType<typeof readStudyFolder>).files.get(f.path)?.length ?? 0;
+    // The files' bytes are needed again only if some files were left out: else they can go now.
+    if (!loaded.study?.omitted) folder = undefined;
+    for (const d of loaded.digests ?? []) {
+      fileStore?.put('file', fileStore.key('file', d.key), serialize(d.digest));
+      mustRead.add(d.path);
+    }
+    const issues = loaded.issues;
+    if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues, parsedBytes };
+    if (pass === 0) phase('analyse');
+    const got = analyseUnits(loaded.study, ASSAYS, kinds.has('units') ? store : undefined);
+    if ('needRows' in got) {
+      // Only files left out are asked for, and those join mustRead: the next pass reads them.
+      got.needRows.forEach((p) => mustRead.add(p));
+      continue;
+    }
+    const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units });
+    results.issues = issues;
+    // analyseStudy copies the units in their order (marking exclusions): each copy takes its original's digest.
+    const digests = got.digests;
+    const unitDigests = digests ? new Map(results.units.map((u, i) => [u, digests[i] as string])) : undefined;
+    return { issues, results, parsedBytes, ...(unitDigests ? { unitDigests } : {}) };
+  }
+}
+
+export async function buildStudy(studyDir: string, outDir: string, options: BuildOptions = {}): Promise<BuildOutcome> {
+  const phase = options.onPhase ?? (() => {});
+  phase('read');
+  const plan = planOutput(studyDir, outDir, options.force ?? false);
+  const { store, note } = openStore(studyDir, options);
+  const notes = note ? [note] : [];
+  const withStoreNote = () => {
+    const damaged = store?.counts.discarded.length ?? 0;
+    if (damaged > 0) notes.push(`${damaged} damaged cache ${damaged === 1 ? 'entry was' : 'entries were'} discarded and computed again (cache folder ${store?.dir}).`);
+    return notes;
+  };
+  const kinds = new Set<StoreKind>(options.storeKinds ?? ['file', 'units', 'svg', 'block']);
+  const { issues, results, unitDigests, parsedBytes } = loadAndAnalyse(studyDir, options, store, kinds);
+  // A heavy build (much CSV parsed: a cold build) collects its dead rows now, and writes its
+  // pages in smaller runs, collecting after each (see src/pipeline/collect-garbage.ts).
+  const heavy = parsedBytes >= COLLECT_AFTER_PARSED_BYTES;
+  if (heavy) collectGarbage();
+  if (!results) return { ok: false, issues, notes: withStoreNote() };
+  const tag = String(process.pid);
+  const staging = makeStaging(plan.out, tag);
+  try {
+    phase('pages');
+    const charts: ChartCounts = { rendered: 0, stored: 0 };
+    const site = await buildSite(results, staging, {
+      chartsFor: chartsFromModules(results, ASSAYS),
+      sourceDateEpoch: options.sourceDateEpoch,
+      ...(store && kinds.has('svg') ? { render: storedRender(store, charts) } : {}),
+      ...(store && kinds.has('block') ? { block: storedBlock(store, charts, unitDigests), blockRender: countedDraw(renderSvg, charts) } : {}),
+      ...(heavy ? { pagesPerRun: HEAVY_PAGES_PER_RUN, afterRun: collectGarbage } : {}),
+      ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+    });
+    phase('write');
+    const downloads = path.join(staging, 'downloads');
+    mkdirSync(downloads, { recursive: true });
+    // Streamed: the same bytes as JSON.stringify(results) + '\n', without one string of the whole file.
+    writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
+    writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
+    const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
+    store?.prune();
+    return { ok: true, issues, out: plan.out, pages: site.pages, charts, results, notes: withStoreNote(), ...(movedAside ? { movedAside } : {}) };
+  } catch (err) {
+    rmSync(staging, { recursive: true, force: true });
+    throw err;
+  }
+}
