@@ -46,8 +46,18 @@ export const FIT = {
 export const STATS = {
   /** Confidence level of effect intervals. */
   confidenceLevel: 0.95,
-  /** q value below which an effect counts as significant (manifest: thresholds.qThreshold). */
+  /**
+   * Adjusted p value (q) of the minimum-effect test below which an effect is called beyond its band,
+   * increased or decreased (manifest: thresholds.qThreshold). Also bounds the chance that a variant
+   * with no effect beyond any band is called abnormal overall (src/analysis/score.ts).
+   */
   qThreshold: 0.05,
+  /**
+   * Level of the two one-sided tests below which an effect is called within WT range, i.e. its 90%
+   * interval lies inside the band (manifest: thresholds.equivalenceAlpha). 0.05 is the usual level
+   * of equivalence testing (Schuirmann 1987, J Pharmacokinet Biopharm 15:657).
+   */
+  equivalenceAlpha: 0.05,
 } as const;
 
 /**
@@ -56,12 +66,17 @@ export const STATS = {
  * Common practice, no source: 0.8–1.25 (±20–25%, symmetric on the log scale) for rates, velocities
  * and force is a band many labs use informally. pCa50 ±0.1 is the same size on the calcium axis:
  * a shift of 0.1 pCa units is a 10^0.1 = 1.26-fold change in [Ca²⁺] at half activation. Fractions
- * (immobile filaments, slow turnover phase) use ±0.10 absolute.
+ * (immobile filaments, slow turnover phase) use ±0.10 absolute. kcat/KM, a quotient of two fitted
+ * values, takes the KM band. Basal rate and passive tension lie near zero and are compared as
+ * differences in their own units: ±0.01 s⁻¹ (about a third of a typical WT basal rate of
+ * 0.02–0.04 s⁻¹) and ±1 kPa (about half a typical passive tension); typical values from memory
+ * (REFERENCES.md §6 [M]), bands common practice, no source. Both are reported only, never in calls.
  */
 export const BANDS: Record<string, [number, number]> = {
   'atpase.kcat': [0.8, 1.25],
   'atpase.km': [0.67, 1.5],
-  'atpase.basal': [0.67, 1.5],
+  'atpase.kcatOverKm': [0.67, 1.5],
+  'atpase.basal': [-0.01, 0.01],
   'motility.velocity': [0.8, 1.25],
   'motility.medianVelocity': [0.8, 1.25],
   'motility.p95Velocity': [0.8, 1.25],
@@ -69,7 +84,7 @@ export const BANDS: Record<string, [number, number]> = {
   'force.fmax': [0.8, 1.25],
   'force.pCa50': [-0.1, 0.1],
   'force.nH': [0.8, 1.25],
-  'force.passive': [0.67, 1.5],
+  'force.passive': [-1, 1],
   'turnover.slowFraction': [-0.1, 0.1],
   'turnover.kFast': [0.67, 1.5],
   'turnover.kSlow': [0.67, 1.5],

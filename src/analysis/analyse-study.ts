@@ -28,8 +28,8 @@ import type {
   VariantResult,
 } from '../results/types.js';
 import type { Exclusion, Study, Variant } from '../study/types.js';
-import { normaliseAssay } from './normalise.js';
-import { assayCall, variantCall } from './score.js';
+import { compareAssay } from './normalise.js';
+import { assayCall, callComparisons, combiningRule, variantCall } from './score.js';
 import { wtControlCharts } from './control-charts.js';
 
 export interface AnalyseOptions {
@@ -42,11 +42,16 @@ export interface AnalyseOptions {
   units?: readonly UnitResult[];
 }
 
+/** The comparison and decision methods, stated on the methods page and in results.json. */
 export const COMPARISON_METHOD =
-  'Batch-stratified linear model (randomised block design: batch as block, variant vs WT as treatment; Montgomery, Design and Analysis of Experiments, ch. 4): ' +
-  'the effect is the weighted mean of within-batch differences of means (log scale for ratio metrics), weights n_variant·n_WT/(n_variant + n_WT); ' +
-  'residual variance from within-group and between-batch scatter on N − B − 1 degrees of freedom; t interval and two-sided t test; ' +
-  'Benjamini–Hochberg q values across variants within each metric (Benjamini & Hochberg 1995). n is the number of biological units.';
+  'Each variant is compared with WT of the same batches on biological-unit values (natural log for ratio metrics, own units for difference metrics): ' +
+  'y = μ_batch + δ·[variant] + ε, with a residual variance of its own for the variant and for WT (randomised block design, batches as blocks; ' +
+  'generalised least squares fitted by restricted maximum likelihood, as R nlme::gls with varIdent, Pinheiro & Bates 2000 §5.2). ' +
+  'WT units of batches without the variant inform WT’s variance only. The 95% interval uses Satterthwaite’s degrees of freedom (Satterthwaite 1946; Giesbrecht & Burns 1985); ' +
+  'with one variant unit, or no batch with two WT units, one pooled variance is used instead and the row says so. With one batch the comparison is Welch’s t test. ' +
+  'Each effect is tested against its WT-like band: a minimum-effect test that it lies beyond the nearer edge (Murphy & Myors 1999), its p values adjusted by Benjamini–Hochberg across the study’s test variants (Benjamini & Hochberg 1995; known controls are outside that family, each scored as if added to it) ' +
+  'and, for primary metrics, by Holm across the variant’s primary metrics (Holm 1979); and two one-sided tests that it lies inside the band (Schuirmann 1987). ' +
+  'n is the number of biological units (preparations); technical replicates are summarised within their unit first.';
 
 function matchesExclusion(u: UnitResult, e: Exclusion, variants: Variant[]): boolean {
   if (e.assay && e.assay !== u.assay) return false;
@@ -84,15 +89,14 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
     if (e) u.excluded = e.reason;
   }
 
-  // 2. Normalise to paired WT and score metrics.
+  // 2. Normalise to paired WT: effects, intervals and band tests for every metric.
   const { bands, source: bandSource } = resolveBands(study);
-  const normOptions = {
+  const compareOptions = {
     confidenceLevel: STATS.confidenceLevel,
-    qThreshold,
     bands,
     variants: variants.map((v) => ({ id: v.id, isWT: v.isWT })),
   };
-  let comparisons = modules.flatMap((m) => normaliseAssay(m.id, m.metrics, units, normOptions));
+  let comparisons = modules.flatMap((m) => compareAssay(m.id, m.metrics, units, compareOptions));
   if (study.thresholds.bandsFromBenignControls) {
     const benign = new Set(variants.filter((v) => v.control && v.control.class.includes('benign')).map((v) => v.id));
     for (const m of modules) {
@@ -111,13 +115,31 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
         }
       }
     }
-    comparisons = modules.flatMap((m) => normaliseAssay(m.id, m.metrics, units, normOptions));
+    comparisons = modules.flatMap((m) => compareAssay(m.id, m.metrics, units, compareOptions));
   }
 
-  // 3. WT control charts (Westgard); rejected batches flag the variants compared in them.
+  // 3. WT control charts (Westgard); a comparison made in a rejected batch carries the flag.
   const controlCharts: ControlChart[] = modules.flatMap((m) => wtControlCharts(m, units, variants, study.thresholds.wtBaselines));
+  for (const chart of controlCharts) {
+    if (chart.rejectedBatches.length === 0) continue;
+    for (const c of comparisons) {
+      if (c.assay !== chart.assay || c.metric !== chart.metric) continue;
+      const rejected = c.batches.filter((b) => chart.rejectedBatches.includes(b));
+      if (rejected.length === 0) continue;
+      const rules = [...new Set(chart.points.filter((p) => rejected.includes(p.batch)).flatMap((p) => p.rules).filter((r) => r !== '1-2s'))];
+      c.flags.push({
+        code: 'wt-qc-rejected',
+        severity: 'warning',
+        message: `Compared in batch ${rejected.join(', ')}, whose WT ${c.metric} values broke Westgard rule${rules.length === 1 ? '' : 's'} ${rules.join(', ')}: the batch's WT may be out of control.`,
+      });
+    }
+  }
 
-  // 4. Assay and variant calls.
+  // 4. Calls: multiplicity across test variants and across each variant's primary metrics; then assay and variant calls.
+  const equivalenceAlpha = study.thresholds.equivalenceAlpha ?? STATS.equivalenceAlpha;
+  const defs = new Map(modules.flatMap((m) => m.metrics.map((d) => [`${m.id}.${d.id}`, d] as const)));
+  const controlIds = new Set(variants.filter((v) => v.control && !v.isWT).map((v) => v.id));
+  comparisons = callComparisons(comparisons, defs, { qThreshold, equivalenceAlpha, controls: controlIds });
   const labels: Record<string, string> = Object.fromEntries(modules.map((m) => [m.id, m.label]));
   const assayCalls: AssayCall[] = [];
   const comparisonsByVariant = groupBy(comparisons, (c) => c.variant);
@@ -213,6 +235,8 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
     },
     settings: {
       qThreshold,
+      equivalenceAlpha,
+      combiningRule: combiningRule(qThreshold, equivalenceAlpha),
       bands,
       bandSource,
       comparisonMethod: COMPARISON_METHOD,

@@ -1,56 +1,154 @@
 /**
- * Scoring: metric comparison → metric call → assay call → variant call, and the
- * readout used for calibration. Rules (DESIGN.md §6), applied the same way every time:
+ * Scoring: metric comparisons → metric calls → assay calls → variant call, and the readout used for
+ * calibration. Rules (DESIGN.md §6), applied the same way every time, with errors bounded against
+ * the WT-like band rather than against "no change":
  *
- * - Metric: effect outside the WT-like band and q < qThreshold → increased/decreased;
- *   95% CI entirely inside the band → within WT range; no estimate → not estimable;
+ * - Metric: increased / decreased when the minimum-effect test shows the effect beyond the nearer
+ *   band edge (`q` below qThreshold; src/stats/band-tests.ts); within WT range when two one-sided
+ *   tests show it inside the band (p below equivalenceAlpha, i.e. the 90% interval inside the band);
+ *   no estimate → not estimable; otherwise indeterminate.
+ * - Multiplicity (`callComparisons`): per metric, Benjamini–Hochberg across the study's test
+ *   variants (known controls are outside that family: each control's q is its p adjusted as if it
+ *   were added to the test variants, so controls are scored exactly as a test variant would be and
+ *   change no test variant's q); then, for primary metrics, Holm's step-down across the variant's
+ *   primary metrics of every assay. A variant with no effect beyond any band is called abnormal with
+ *   probability at most the threshold: Holm needs only that each null q be no smaller than uniform,
+ *   and a q is never below its p.
+ * - Assay (primary metrics only), each changed metric mapped through its hyper direction: changes
+ *   both ways → mixed; one way → that direction (even if another primary metric is indeterminate:
+ *   the measured change stands, and the sentence names the rest); all within → within WT range;
  *   otherwise indeterminate.
- * - Assay (primary metrics only), each changed metric mapped through its hyper direction:
- *   changes both ways → mixed; changes one way → that direction (even if another primary
- *   metric is indeterminate: the measured change stands, and the sentence names the rest);
- *   all within WT range → within WT range; otherwise indeterminate.
- * - Variant (across measured assays): the same rule over assay calls, with 'mixed' assays
- *   counting as changes both ways.
- * - Readout for calibration, by the study's disease direction: the abnormal readout is a
- *   change in that direction ('either': any change, mixed included); within WT range is
- *   normal; anything else (indeterminate, the opposite direction) is not counted.
+ * - Variant (across measured assays): the same rule over assay calls (COMBINING_RULE). "Within WT
+ *   range" overall needs every primary metric shown inside its band: an intersection–union test,
+ *   at the equivalence level with no adjustment (Berger 1982, Technometrics 24:295).
+ * - Readout for calibration, by the study's disease direction: the abnormal readout is a change in
+ *   that direction ('either': any change, mixed included); within WT range is normal; anything else
+ *   (indeterminate, the opposite direction) is not counted.
  */
 import type { AssayCall, FunctionCall, MetricCall, MetricComparison, MetricDef } from '../results/types.js';
+import { benjaminiHochberg } from '../stats/bh.js';
+import { tQuantile } from '../stats/distributions.js';
+import { holm } from '../stats/holm.js';
 import type { DiseaseDirection } from '../study/types.js';
 import { fmt, fmtEffect, fmtP } from '../results/format.js';
 
-export function metricCall(
-  effect: number | null,
-  ciLow: number | null,
-  ciHigh: number | null,
-  q: number | null,
-  band: [number, number],
-  qThreshold: number,
-): MetricCall {
-  if (effect === null || !Number.isFinite(effect)) return 'not estimable';
-  const [lo, hi] = band;
-  if ((effect < lo || effect > hi) && q !== null && q < qThreshold) return effect > hi ? 'increased' : 'decreased';
-  if (ciLow !== null && ciHigh !== null && ciLow >= lo && ciHigh <= hi) return 'within WT range';
+export interface CallOptions {
+  /** Adjusted p (q) below which an effect beyond the band is called. */
+  qThreshold: number;
+  /** TOST p below which an effect is called within WT range. */
+  equivalenceAlpha: number;
+  /** Ids of the known controls (scored, but outside the test variants' Benjamini–Hochberg family). */
+  controls: ReadonlySet<string>;
+}
+
+/** The rule that combines metrics and assays into the overall call, stated on every report. */
+export function combiningRule(qThreshold: number, equivalenceAlpha: number): string {
+  return (
+    `Overall call: hypercontractile or hypocontractile when at least one primary metric of a measured assay lies beyond its WT-like band in that direction ` +
+    `(minimum-effect test, q < ${fmt(qThreshold, 2)} after Benjamini–Hochberg across the study's test variants and Holm across this variant's primary metrics); ` +
+    `mixed when primary metrics point both ways; within WT range when every primary metric of every measured assay lies inside its band ` +
+    `(two one-sided tests, p < ${fmt(equivalenceAlpha, 2)}); otherwise indeterminate. ` +
+    `For a variant with no effect beyond any band, the chance of an abnormal overall call is at most ${fmt(qThreshold, 2)}.`
+  );
+}
+
+/** The call of one comparison from its adjusted beyond-band q and its equivalence p. */
+export function metricCall(c: Pick<MetricComparison, 'effect' | 'q' | 'pWithin' | 'band'>, options: Omit<CallOptions, 'controls'>): MetricCall {
+  if (c.effect === null || !Number.isFinite(c.effect)) return 'not estimable';
+  if (c.q !== null && c.q < options.qThreshold) return c.effect > (c.band[0] + c.band[1]) / 2 ? 'increased' : 'decreased';
+  if (c.pWithin !== null && c.pWithin < options.equivalenceAlpha) return 'within WT range';
   return 'indeterminate';
 }
 
-/** One sentence stating the numbers behind a metric call. */
-export function metricSentence(c: MetricComparison, def: MetricDef, qThreshold: number): string {
-  const what = c.scale === 'ratio' ? `${def.label} variant/WT` : `${def.label} variant − WT`;
-  if (c.effect === null) {
-    return `${what}: not estimable (${c.nVariantUnits} variant and ${c.nWtUnits} WT units with a value).`;
+/**
+ * Adjust and call every comparison of the study (all assays at once), then write its sentence.
+ * `defs` maps `<assay>.<metric>` to its definition. Returns new objects; the input is not changed.
+ */
+export function callComparisons(
+  comparisons: readonly MetricComparison[],
+  defs: ReadonlyMap<string, MetricDef>,
+  options: CallOptions,
+): MetricComparison[] {
+  const out = comparisons.map((c) => ({ ...c, flags: [...c.flags] }));
+  // 1. Benjamini–Hochberg per metric across test variants; each control as if added to them.
+  const families = new Map<string, MetricComparison[]>();
+  for (const c of out) {
+    const key = `${c.assay}.${c.metric}`;
+    const list = families.get(key);
+    if (list) list.push(c);
+    else families.set(key, [c]);
   }
-  const ci = c.ciLow === null ? 'no 95% CI (too few units for a residual variance)' : `95% CI ${fmtEffect(c.ciLow, c.scale)} to ${fmtEffect(c.ciHigh, c.scale)}`;
+  for (const family of families.values()) {
+    const tests = family.filter((c) => !options.controls.has(c.variant));
+    const testP = tests.map((c) => c.pBeyond);
+    benjaminiHochberg(testP).forEach((q, i) => (tests[i]!.q = q));
+    for (const c of family) {
+      if (!options.controls.has(c.variant)) continue;
+      c.q = c.pBeyond === null ? null : benjaminiHochberg([...testP, c.pBeyond])[testP.length] ?? null;
+    }
+  }
+  // 2. Holm across each variant's primary metrics.
+  const primaryByVariant = new Map<string, MetricComparison[]>();
+  for (const c of out) {
+    if (!defs.get(`${c.assay}.${c.metric}`)?.primary) continue;
+    const list = primaryByVariant.get(c.variant);
+    if (list) list.push(c);
+    else primaryByVariant.set(c.variant, [c]);
+  }
+  for (const list of primaryByVariant.values()) {
+    holm(list.map((c) => c.q)).forEach((q, i) => (list[i]!.q = q));
+  }
+  // 3. Calls and sentences.
+  for (const c of out) {
+    const def = defs.get(`${c.assay}.${c.metric}`);
+    if (!def) throw new Error(`No metric definition for ${c.assay}.${c.metric}.`);
+    c.call = metricCall(c, options);
+    c.sentence = metricSentence(c, def, options, primaryByVariant.get(c.variant)?.length ?? 0);
+  }
+  return out;
+}
+
+/** An absolute value with its unit, e.g. '6.52 s⁻¹'. */
+function withUnit(x: number | null, unit: string): string {
+  return unit === '' ? fmt(x) : `${fmt(x)} ${unit}`;
+}
+
+/** One sentence stating the numbers behind a metric call. */
+export function metricSentence(c: MetricComparison, def: MetricDef, options: Omit<CallOptions, 'controls'>, primaryCount: number): string {
+  const what = c.scale === 'ratio' ? `${def.label} variant/WT` : `${def.label} variant − WT`;
+  const flagNote = c.flags.filter((f) => f.severity !== 'info').map((f) => f.message);
+  const caveats = flagNote.length > 0 ? ` Caveats: ${flagNote.join(' ')}` : '';
+  if (c.effect === null) {
+    return `${what}: not estimable (${c.nVariantUnits} variant and ${c.nWtUnits} WT preparations).${caveats}`;
+  }
+  const means =
+    c.variantMean !== null && c.wtMean !== null
+      ? `; variant ${withUnit(c.variantMean, c.unit)}, WT ${withUnit(c.wtMean, c.unit)} (${c.scale === 'ratio' ? 'geometric means' : 'means'} of the preparations compared)`
+      : '';
+  const ci = c.ciLow === null ? 'no 95% CI (too few preparations for a variance)' : `95% CI ${fmtEffect(c.ciLow, c.scale)} to ${fmtEffect(c.ciHigh, c.scale)}`;
   const band = `WT-like band ${fmtEffect(c.band[0], c.scale)} to ${fmtEffect(c.band[1], c.scale)}`;
-  const n = `${c.nVariantUnits} variant vs ${c.nWtUnits} WT units, ${c.batches.length} batch${c.batches.length === 1 ? '' : 'es'}`;
-  const reason: Record<MetricCall, string> = {
-    increased: `outside the band and q < ${fmt(qThreshold, 2)}`,
-    decreased: `outside the band and q < ${fmt(qThreshold, 2)}`,
-    'within WT range': 'the whole interval lies inside the band',
-    indeterminate: 'neither clearly outside the band nor with its interval inside it',
-    'not estimable': 'no estimate',
-  };
-  return `${what} ${fmtEffect(c.effect, c.scale)} (${ci}; q = ${fmtP(c.q)}; ${n}); ${band}: ${c.call}, ${reason[c.call]}.`;
+  const n = `${c.nVariantUnits} variant vs ${c.nWtUnits} WT preparations, ${c.batches.length} batch${c.batches.length === 1 ? '' : 'es'}`;
+  const adjust = def.primary && primaryCount > 1 ? `, adjusted across test variants and this variant's ${primaryCount} primary metrics` : ', adjusted across test variants';
+  const q = `q = ${fmtP(c.q)} for an effect beyond the band${adjust}`;
+  let reason: string;
+  switch (c.call) {
+    case 'increased':
+    case 'decreased':
+      reason = `the effect lies beyond the band's ${c.call === 'increased' ? 'upper' : 'lower'} edge (${q})`;
+      break;
+    case 'within WT range': {
+      const t = c.se !== null && c.df !== null ? tQuantile(1 - options.equivalenceAlpha, c.df) : NaN;
+      const analysis = c.scale === 'ratio' ? Math.log(c.effect) : c.effect;
+      const lo = c.scale === 'ratio' ? Math.exp(analysis - t * (c.se ?? NaN)) : analysis - t * (c.se ?? NaN);
+      const hi = c.scale === 'ratio' ? Math.exp(analysis + t * (c.se ?? NaN)) : analysis + t * (c.se ?? NaN);
+      const level = Math.round((1 - 2 * options.equivalenceAlpha) * 100);
+      reason = `the ${level}% interval ${fmtEffect(lo, c.scale)} to ${fmtEffect(hi, c.scale)} lies inside the band (two one-sided tests, p = ${fmtP(c.pWithin)})`;
+      break;
+    }
+    default:
+      reason = `the data show the effect neither beyond the band (${q}) nor inside it (two one-sided tests, p = ${fmtP(c.pWithin)})`;
+  }
+  return `${what} ${fmtEffect(c.effect, c.scale)} (${ci}${means}; ${n}); ${band}: ${c.call}, ${reason}.${caveats}`;
 }
 
 type Direction = 'hyper' | 'hypo';
@@ -81,8 +179,8 @@ function combine(directions: Direction[], allWithin: boolean, any: boolean): Fun
 export function assayCall(
   assay: string,
   variant: string,
-  comparisons: MetricComparison[],
-  metrics: MetricDef[],
+  comparisons: readonly MetricComparison[],
+  metrics: readonly MetricDef[],
   direction: DiseaseDirection,
 ): AssayCall {
   const primary = metrics.filter((m) => m.primary);
@@ -100,16 +198,13 @@ export function assayCall(
     parts.push(`${m.label} ${c.call}${c.effect === null ? '' : ` (${fmtEffect(c.effect, c.scale)})`}`);
   }
   const call = combine(dirs, allWithin, any);
-  const sentence =
-    call === 'not measured'
-      ? 'Not measured in this assay.'
-      : `${capitalise(call)}: ${parts.join('; ')}.`;
+  const sentence = call === 'not measured' ? 'Not measured in this assay.' : `${capitalise(call)}: ${parts.join('; ')}.`;
   return { assay, variant, call, sentence, readout: readoutOf(call, direction) };
 }
 
-/** Variant call across assays. */
+/** Variant call across assays (COMBINING_RULE: the same rule over the assay calls). */
 export function variantCall(
-  assayCalls: AssayCall[],
+  assayCalls: readonly AssayCall[],
   labels: Record<string, string>,
   direction: DiseaseDirection,
 ): { call: FunctionCall; sentence: string; readout: 'abnormal' | 'normal' | null } {

@@ -21,6 +21,11 @@ import { groupEncoding, unitChart } from './chart-common.js';
 import { nadhToRates } from './nadh.js';
 import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
 
+/** Unit flags that make kcat and KM extrapolations: such a unit does not enter their comparison (src/analysis/normalise.ts). */
+const EXTRAPOLATED = ['km-above-range'] as const;
+/** Unit flags that qualify the fitted values: counted on the comparison rows. */
+const QUALIFIERS = ['too-few-points', 'poorly-determined', 'nadh-too-few-readings', 'nadh-no-background'] as const;
+
 const METRICS: MetricDef[] = [
   {
     id: 'kcat',
@@ -30,6 +35,8 @@ const METRICS: MetricDef[] = [
     hyper: 'up',
     primary: true,
     description: 'Maximal actin-activated rate per head above basal, from the fitted curve.',
+    excludeFlagged: EXTRAPOLATED,
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'km',
@@ -39,17 +46,47 @@ const METRICS: MetricDef[] = [
     hyper: 'none',
     primary: false,
     description: 'Actin concentration at half-maximal activation.',
+    excludeFlagged: EXTRAPOLATED,
+    carryFlags: QUALIFIERS,
+  },
+  {
+    id: 'kcatOverKm',
+    label: 'kcat/KM (initial slope)',
+    unit: 'µM⁻¹·s⁻¹',
+    scale: 'ratio',
+    hyper: 'none',
+    primary: false,
+    description:
+      'Slope of the rate against actin at low actin: kcat/KM from the fitted curve. It stays well determined when KM lies above the actin range, where kcat and KM alone are extrapolations.',
+    carryFlags: ['too-few-points', 'nadh-too-few-readings', 'nadh-no-background'],
   },
   {
     id: 'basal',
     label: 'Basal rate',
     unit: 's⁻¹',
-    scale: 'ratio',
+    scale: 'difference',
     hyper: 'none',
     primary: false,
-    description: 'Rate per head without actin (the fitted v0).',
+    description: 'Rate per head without actin (the fitted v0), compared as a difference in s⁻¹: it lies near zero, where ratios are unstable, and a fit may put it below zero.',
+    carryFlags: ['too-few-points', 'nadh-too-few-readings', 'nadh-no-background'],
   },
 ];
+
+/**
+ * kcat/KM of a fit with its standard error by the delta method, using the fit's correlation of
+ * kcat and KM: Var(r) = r²·(se_k²/k² + se_K²/K² − 2·ρ·se_k·se_K/(k·K)).
+ * @example kcatOverKmOf(fit with kcat 5 (SE 0.5), KM 50 (SE 10), correlation 0.9) // → { estimate: 0.1, se: 0.0118 }
+ */
+export function kcatOverKmOf(fit: FitResult): { estimate: number; se: number | null } {
+  const iK = fit.parameters.findIndex((p) => p.name === 'kcat');
+  const iM = fit.parameters.findIndex((p) => p.name === 'km');
+  const k = fit.parameters[iK]!;
+  const m = fit.parameters[iM]!;
+  const r = k.estimate / m.estimate;
+  const rho = fit.correlation[iK]?.[iM] ?? NaN;
+  const v = r * r * ((k.se / k.estimate) ** 2 + (m.se / m.estimate) ** 2 - (2 * rho * k.se * m.se) / (k.estimate * m.estimate));
+  return { estimate: r, se: Number.isFinite(v) && v >= 0 ? Math.sqrt(v) : null };
+}
 
 /** Fit one unit's rates; flags per DESIGN.md §4. */
 export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omit<UnitResult, 'assay' | 'variant' | 'unit' | 'batch' | 'source'> {
@@ -59,8 +96,8 @@ export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omi
   const concentrations = new Set(x).size;
   const maxActin = Math.max(...x);
   const fit: FitResult = fitCurve(michaelisMentenBasal, x, y);
-  const metrics: Record<string, number | null> = { kcat: null, km: null, basal: null };
-  const metricSe: Record<string, number | null> = { kcat: null, km: null, basal: null };
+  const metrics: Record<string, number | null> = { kcat: null, km: null, kcatOverKm: null, basal: null };
+  const metricSe: Record<string, number | null> = { kcat: null, km: null, kcatOverKm: null, basal: null };
   if (concentrations < minPoints) {
     flags.push({
       code: 'too-few-points',
@@ -72,19 +109,22 @@ export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omi
     flags.push({
       code: 'not-converged',
       severity: 'warning',
-      message: `The Michaelis–Menten fit did not converge (${fit.stopReason}); kcat, KM and basal are not reported for this unit.`,
+      message: `The Michaelis–Menten fit did not converge (${fit.stopReason}); kcat, KM, kcat/KM and basal are not reported for this unit.`,
     });
   } else {
     for (const p of fit.parameters) {
       metrics[p.name] = p.estimate;
       metricSe[p.name] = Number.isFinite(p.se) ? p.se : null;
     }
+    const slope = kcatOverKmOf(fit);
+    metrics.kcatOverKm = slope.estimate;
+    metricSe.kcatOverKm = slope.se;
     const km = metrics.km as number;
     if (km > maxActin) {
       flags.push({
         code: 'km-above-range',
         severity: 'warning',
-        message: `KM (${km.toPrecision(3)} µM) is above the highest actin concentration measured (${maxActin} µM): kcat is an extrapolation.`,
+        message: `KM (${km.toPrecision(3)} µM) is above the highest actin concentration measured (${maxActin} µM): kcat and KM are extrapolations.`,
       });
     }
     flags.push(...relativeSeFlags(fit, FIT.maxRelativeSe, { kcat: 'kcat', km: 'KM', basal: 'basal rate' }, ['kcat', 'km']));
@@ -137,7 +177,8 @@ export const atpase: AssayModule = {
   chart,
   methods: [
     `Per protein preparation, all wells at all actin concentrations are fitted together with ${michaelisMentenBasal.formula} by Levenberg–Marquardt nonlinear least squares; wells are technical replicates and do not count as n.`,
-    `A preparation with fewer than ${ASSAY.atpaseMinPoints} actin concentrations is flagged; KM above the highest actin concentration is flagged because kcat is then extrapolated; a parameter whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value is flagged as poorly determined; a fit that does not converge reports no values and is flagged, never dropped.`,
+    'kcat/KM, the initial slope of the curve, is reported beside kcat and KM (standard error by the delta method from the fit’s covariance): it stays well determined when KM lies above the actin range. The basal rate is compared as a difference in s⁻¹ (it lies near zero and a fit may put it below zero).',
+    `A preparation with fewer than ${ASSAY.atpaseMinPoints} actin concentrations is flagged; KM above the highest actin concentration is flagged because kcat and KM are then extrapolations: such a WT preparation is left out of the kcat and KM comparisons, and a variant with such a preparation gets no kcat or KM comparison (not estimable, with the reason), while its kcat/KM is compared as usual; a parameter whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value is flagged as poorly determined; a fit that does not converge reports no values and is flagged, never dropped.`,
     `Raw NADH-coupled traces: the initial rate is the least-squares slope of A340 over the first ${ASSAY.nadhWindowS} s, converted with ε340 = ${ASSAY.nadhEpsilon340} M⁻¹cm⁻¹ and the path length (one NADH oxidised per ATP hydrolysed), minus the actin-only background of the same batch and actin concentration, divided by the myosin head concentration.`,
   ],
 };

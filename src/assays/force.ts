@@ -21,6 +21,11 @@ import { groupEncoding, unitChart } from './chart-common.js';
 import { groupUnits, relativeSeFlags } from './assay-common.js';
 import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
 
+/** Unit flags that make the Hill parameters extrapolations or meaningless: such a unit does not enter their comparison. */
+const EXTRAPOLATED = ['pca50-out-of-range', 'force-no-activation'] as const;
+/** Unit flags that qualify the fitted values: counted on the comparison rows. */
+const QUALIFIERS = ['too-few-points', 'poorly-determined'] as const;
+
 export const FORCE_METRICS: MetricDef[] = [
   {
     id: 'fmax',
@@ -30,6 +35,8 @@ export const FORCE_METRICS: MetricDef[] = [
     hyper: 'up',
     primary: true,
     description: 'Maximal calcium-activated tension above passive, from the fitted Hill curve (kPa = mN/mm²).',
+    excludeFlagged: EXTRAPOLATED,
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'pCa50',
@@ -39,6 +46,8 @@ export const FORCE_METRICS: MetricDef[] = [
     hyper: 'up',
     primary: true,
     description: 'pCa at half-maximal activation; a positive difference from WT is calcium sensitisation.',
+    excludeFlagged: EXTRAPOLATED,
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'nH',
@@ -48,15 +57,18 @@ export const FORCE_METRICS: MetricDef[] = [
     hyper: 'none',
     primary: false,
     description: 'Steepness of the force–pCa relation (cooperativity of activation).',
+    excludeFlagged: EXTRAPOLATED,
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'passive',
     label: 'Passive tension',
     unit: 'kPa',
-    scale: 'ratio',
+    scale: 'difference',
     hyper: 'none',
     primary: false,
-    description: 'Fitted tension at low calcium (high pCa).',
+    description: 'Fitted tension at low calcium (high pCa), compared as a difference in kPa: it lies near zero, where ratios are unstable, and a fit may put it below zero.',
+    carryFlags: ['too-few-points'],
   },
 ];
 
@@ -221,7 +233,8 @@ export const force: AssayModule = {
   chart: forceChart,
   methods: [
     `Per preparation, all tension readings at all pCa values (replicates included) are fitted together with ${hillForcePca.formula} by Levenberg–Marquardt nonlinear least squares; start values come from a grid scan of pCa50 and nH with passive and Fmax solved linearly at each grid point.`,
-    'Repeated readings at a pCa are technical replicates: they inform that preparation’s curve, and the preparation is the unit counted in the comparison with WT. Fmax (ratio scale, increase hypercontractile) and pCa50 (difference scale, increase = calcium sensitisation, hypercontractile) are primary; nH and passive tension are reported only.',
+    'Repeated readings at a pCa are technical replicates: they inform that preparation’s curve, and the preparation is the unit counted in the comparison with WT. Fmax (ratio scale, increase hypercontractile) and pCa50 (difference scale, increase = calcium sensitisation, hypercontractile) are primary; nH (ratio) and passive tension (difference in kPa, as it lies near zero) are reported only.',
+    'A preparation whose pCa50 lies outside the measured pCa range, or whose fitted Fmax is not positive, gives extrapolated or meaningless Hill parameters: such a WT preparation is left out of the Fmax, pCa50 and nH comparisons, and a variant with such a preparation gets no comparison of them (not estimable, with the reason).',
     `Flags: fewer than ${ASSAY.forceMinPoints} distinct pCa values (setting forceMinPoints); a fit that does not converge (shown, with no values); pCa50 outside the measured pCa range; a standard error above ${FIT.maxRelativeSe * 100}% of Fmax or nH, or of [Ca²⁺]50 (ln 10 × SE of pCa50); a fitted Fmax that is not positive. Passive tension is not checked for relative error because it is often close to zero.`,
     'Charts show normalised force (F − Fpassive)/Fmax, each preparation normalised by its own fit, with pCa decreasing to the right.',
   ],

@@ -22,6 +22,9 @@ import { tracksToFilaments } from './motility-tracks.js';
 import type { FilamentVelocity } from './motility-tracks.js';
 import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
 
+/** Unit flags that qualify the motility values: counted on the comparison rows. */
+const QUALIFIERS = ['motility-too-few-filaments', 'motility-high-immobile-fraction', 'motility-invalid-velocity', 'motility-duplicate-frames'] as const;
+
 export const MOTILITY_METRICS: MetricDef[] = [
   {
     id: 'velocity',
@@ -31,6 +34,7 @@ export const MOTILITY_METRICS: MetricDef[] = [
     hyper: 'up',
     primary: true,
     description: 'Arithmetic mean of the velocities of the filaments at or above the immobile threshold.',
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'medianVelocity',
@@ -40,6 +44,7 @@ export const MOTILITY_METRICS: MetricDef[] = [
     hyper: 'up',
     primary: false,
     description: 'Median of the moving filaments’ velocities; less sensitive to a few fast or stuttering filaments.',
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'p95Velocity',
@@ -49,6 +54,7 @@ export const MOTILITY_METRICS: MetricDef[] = [
     hyper: 'up',
     primary: false,
     description: '95th percentile (type 7, as R) of the moving filaments’ velocities: the speed of the fastest filaments.',
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'fractionImmobile',
@@ -59,6 +65,7 @@ export const MOTILITY_METRICS: MetricDef[] = [
     primary: false,
     description:
       'Immobile filaments over all analysed filaments. Reported, not used in calls: it depends strongly on preparation quality (dead heads), so its direction says little about the variant’s mechanism.',
+    carryFlags: QUALIFIERS,
   },
 ];
 

@@ -3,17 +3,21 @@
  *
  *   rows ──group by unit, then trace──▶ (t, F) of one trace
  *        ──fit single and double exponential + offset──▶ choose (F test, rate ratio, amplitudes)
+ *        ──one phase only: refit with the other phase's rate fixed at the batch's WT rate──▶
  *        ──▶ per trace: slow fraction, kFast, kSlow ──mean over traces──▶ UnitResult
  *
  * Traces are technical replicates of their protein preparation: each is fitted on its own
- * and the unit's metrics are the mean of its traces' metrics. Pure: no I/O.
+ * and the unit's metrics are the mean of its traces' metrics. A unit's result depends on the
+ * WT traces of its batch (their rates tell which phase a one-phase trace shows), so the module
+ * analyses a batch at a time. Pure: no I/O.
  */
 import { ASSAY, FIT } from '../defaults.js';
 import { extraSumOfSquaresF } from '../numeric/compare.js';
 import { exponentialDouble, slowFraction } from '../numeric/models/exponential-double.js';
+import { exponentialDoubleFixedRate } from '../numeric/models/exponential-double-fixed.js';
 import { exponentialSingle } from '../numeric/models/exponential-single.js';
 import { fitCurve } from '../numeric/nls.js';
-import type { FitResult } from '../numeric/types.js';
+import type { CurveModel, FitResult } from '../numeric/types.js';
 import type { Flag, MetricDef, UnitResult } from '../results/types.js';
 import type { SourceRef, Study, TurnoverRow } from '../study/types.js';
 import { mean, se } from '../stats/descriptive.js';
@@ -22,6 +26,9 @@ import type { SettingsBag } from './assay-common.js';
 import { GROUP_COLOURS, brokenPaths } from './chart-common.js';
 import { groupUnits, relativeSeFlags } from './assay-common.js';
 import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
+
+/** Unit flags that qualify the turnover values: counted on the comparison rows. */
+const QUALIFIERS = ['one-phase-trace', 'window-too-short', 'not-converged', 'no-reference-rates'] as const;
 
 export const TURNOVER_METRICS: MetricDef[] = [
   {
@@ -33,6 +40,7 @@ export const TURNOVER_METRICS: MetricDef[] = [
     primary: true,
     description:
       'Slow amplitude over the sum of fast and slow amplitudes: the share of heads in the slow (super-relaxed) state. Fewer slow heads means more heads available, counted as hypercontractile.',
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'kFast',
@@ -42,6 +50,7 @@ export const TURNOVER_METRICS: MetricDef[] = [
     hyper: 'none',
     primary: false,
     description: 'Rate constant of the fast phase of nucleotide release.',
+    carryFlags: QUALIFIERS,
   },
   {
     id: 'kSlow',
@@ -51,6 +60,7 @@ export const TURNOVER_METRICS: MetricDef[] = [
     hyper: 'none',
     primary: false,
     description: 'Rate constant of the slow phase of nucleotide release.',
+    carryFlags: QUALIFIERS,
   },
 ];
 
@@ -72,7 +82,8 @@ export function turnoverSettings(...bags: SettingsBag[]): TurnoverSettings {
 
 /** One trace's fits, the model chosen and its metrics. */
 export interface TraceResult {
-  model: 'double' | 'single' | 'none';
+  /** 'one-phase': single exponential chosen, then refitted with the other rate fixed (resolveOnePhase). */
+  model: 'double' | 'single' | 'one-phase' | 'none';
   /** The fit chosen (double, or single as the fall-back); absent when neither converged. */
   fit?: FitResult;
   single: FitResult;
@@ -86,6 +97,8 @@ export interface TraceResult {
   /** Rate of the single-exponential fall-back (reported in notes only). */
   kSingle: number | null;
   durationS: number;
+  /** With model 'one-phase': which phase's rate was fixed, and at what (s⁻¹). */
+  fixedRate?: { phase: 'slow' | 'fast'; rate: number };
   flags: Flag[];
 }
 
@@ -178,12 +191,96 @@ export function fitTurnoverTrace(
   }
   const k = param(single, 'k');
   flags.push({
-    code: 'phases-not-separated',
+    code: 'one-phase-trace',
     severity: 'warning',
-    message: `${label}: ${reason}; a single exponential (k = ${k.toPrecision(3)} s⁻¹) was used, so the slow fraction, kFast and kSlow are not estimable for this trace.`,
+    message: `${label}: ${reason}; one phase (k = ${k.toPrecision(3)} s⁻¹) was resolved.`,
     at,
   });
   return { ...base, model: 'single', fit: single, reason, slowFraction: null, slowFractionSe: null, kFast: null, kSlow: null, kSingle: k, flags };
+}
+
+/** WT rates of a batch against which a one-phase trace is placed. */
+export interface ReferenceRates {
+  kFast: number;
+  kSlow: number;
+  /** Where they come from, in words (e.g. 'geometric means of 6 WT traces of batch B1'). */
+  source: string;
+}
+
+/**
+ * Give a one-phase trace (model 'single') a slow fraction, by a stated rule.
+ *
+ * Rule: the resolved rate k is the fast phase when k ≥ √(kFast·kSlow) of the batch's WT traces (the
+ * geometric midpoint of the two WT rates), else the slow phase. The trace is then refitted with
+ * both phases and the other phase's rate fixed at the WT rate (src/numeric/models/exponential-double-fixed.ts):
+ * the other phase's amplitude, which may come out near zero or negative, and so the slow fraction
+ * Aslow/(Afast + Aslow) and its standard error (delta method) come from the data. A trace with no
+ * slow phase thus gives a slow fraction near 0, one with only a slow phase near 1, each with its
+ * uncertainty, instead of no value. The free rate is that phase's rate; the fixed one is not reported.
+ * Without reference rates, or when the refit does not converge, the trace keeps no values and a flag says why.
+ * @example resolveOnePhase(traceOfOnlyFastPhase, t, y, { kFast: 0.03, kSlow: 0.0034, … }) // → slowFraction ≈ 0, kFast ≈ 0.03
+ */
+export function resolveOnePhase(
+  trace: TraceResult,
+  timeS: readonly number[],
+  fluorescence: readonly number[],
+  reference: ReferenceRates | null,
+  label = 'trace',
+  at?: SourceRef,
+): TraceResult {
+  if (trace.model !== 'single' || trace.kSingle === null) return trace;
+  if (!reference) {
+    return {
+      ...trace,
+      flags: [
+        ...trace.flags,
+        {
+          code: 'no-reference-rates',
+          severity: 'warning',
+          message: `${label}: the batch has no WT trace with two resolved phases, so the one phase cannot be placed; the trace gives no slow fraction.`,
+          at,
+        },
+      ],
+    };
+  }
+  const isFast = trace.kSingle >= Math.sqrt(reference.kFast * reference.kSlow);
+  const fixedRate = isFast ? reference.kSlow : reference.kFast;
+  const fit = fitCurve(exponentialDoubleFixedRate(isFast ? 'slow' : 'fast', fixedRate), timeS, fluorescence);
+  const which = isFast ? 'fast' : 'slow';
+  const other = isFast ? 'slow' : 'fast';
+  if (!fit.converged) {
+    return {
+      ...trace,
+      flags: [
+        ...trace.flags,
+        {
+          code: 'not-converged',
+          severity: 'warning',
+          message: `${label}: the refit with the ${other} rate fixed at WT's ${fixedRate.toPrecision(3)} s⁻¹ did not converge (${fit.stopReason}); the trace gives no slow fraction.`,
+          at,
+        },
+      ],
+    };
+  }
+  const sf = slowFraction(fit);
+  const free = param(fit, isFast ? 'kFast' : 'kSlow');
+  const message =
+    `${label}: ${trace.reason}; the one resolved phase (k = ${trace.kSingle.toPrecision(3)} s⁻¹) is taken as the ${which} phase, ` +
+    `${isFast ? 'at or above' : 'below'} √(kFast·kSlow) = ${Math.sqrt(reference.kFast * reference.kSlow).toPrecision(3)} s⁻¹ of WT (${reference.source}); ` +
+    `refitted with the ${other} rate fixed at WT's ${fixedRate.toPrecision(3)} s⁻¹: slow fraction ${sf.estimate.toFixed(3)}` +
+    (Number.isFinite(sf.se) ? ` ± ${sf.se.toFixed(3)} (SE)` : '') +
+    '.';
+  return {
+    ...trace,
+    model: 'one-phase',
+    fit,
+    fixedRate: { phase: isFast ? 'slow' : 'fast', rate: fixedRate },
+    slowFraction: sf.estimate,
+    slowFractionSe: Number.isFinite(sf.se) ? sf.se : null,
+    kFast: isFast ? free : null,
+    kSlow: isFast ? null : free,
+    flags: [...trace.flags.filter((f) => f.code !== 'one-phase-trace'), { code: 'one-phase-trace', severity: 'warning', message, at }],
+  };
 }
 
 /**
@@ -215,64 +312,101 @@ function plotValue(x: number): number {
   return Number.isFinite(x) ? Number(x.toPrecision(7)) : x;
 }
 
+/** The curve model of a trace's chosen fit. */
+function modelOf(trace: TraceResult): CurveModel {
+  if (trace.model === 'double') return exponentialDouble;
+  if (trace.model === 'one-phase' && trace.fixedRate) return exponentialDoubleFixedRate(trace.fixedRate.phase, trace.fixedRate.rate);
+  return exponentialSingle;
+}
+
 /**
  * Normalised fluorescence of a trace: (F − c)/(F̂(t_first) − c) from the chosen fit
  * (offset c, fitted value at the first time), so each fitted trace falls from 1 to 0.
  * Without a fit: (F − F_last)/(F_first − F_last) with the readings themselves.
  * @example normaliser(doubleFitWithOffset120AndAmplitude500, t, y)(300.2) // → 0.36035 (t = 60 s of the REFERENCES.md §6 curve)
  */
-function normaliser(trace: TraceResult, t: number[], y: number[]): (value: number) => number {
+function normaliser(trace: TraceResult, t: readonly number[], y: readonly number[]): (value: number) => number {
   if (trace.fit) {
     const p = trace.fit.parameters.map((q) => q.estimate);
-    const model = trace.model === 'double' ? exponentialDouble : exponentialSingle;
     const c = param(trace.fit, 'offset');
-    const top = model.f(Math.min(...t), p) - c;
+    const top = modelOf(trace).f(Math.min(...t), p) - c;
     return (v) => (v - c) / top;
   }
-  const first = y[t.indexOf(Math.min(...t))];
-  const last = y[t.indexOf(Math.max(...t))];
+  const first = y[t.indexOf(Math.min(...t))]!;
+  const last = y[t.indexOf(Math.max(...t))]!;
   return (v) => (v - last) / (first - last);
 }
 
+/** One trace's readings in time order with its free fit (fitTurnoverTrace). */
+export interface FittedTrace {
+  trace: string;
+  t: number[];
+  y: number[];
+  at: SourceRef;
+  result: TraceResult;
+}
+
+/** Fit every trace of one unit on its own (`fitTurnoverTrace`), in order of first appearance. */
+export function fitUnitTraces(rows: readonly TurnoverRow[], settings: TurnoverSettings): FittedTrace[] {
+  return [...groupBy(rows, (r) => r.trace).values()].map((traceRows) => {
+    const sorted = [...traceRows].sort((a, b) => a.timeS - b.timeS);
+    const t = sorted.map((r) => r.timeS);
+    const y = sorted.map((r) => r.fluorescence);
+    const first = sorted[0]!;
+    return { trace: first.trace, t, y, at: first.at, result: fitTurnoverTrace(t, y, settings, `Trace ${first.trace}`, first.at) };
+  });
+}
+
 /**
- * Analyse one unit's traces: fit each (`fitTurnoverTrace`), then the unit's slow fraction,
- * kFast and kSlow are the arithmetic means over the traces where they are estimable;
- * their SE is the fit's SE with one trace and the standard error of the mean across traces
- * with several. nTechnical = number of traces.
- * @example analyseTurnoverUnit(rowsOfTracesWithSlowFractions0.2And0.4AndOneSinglePhase, settings)
- *   // → metrics.slowFraction ≈ 0.3, nTechnical 3, modelNote 'double exponential in 2 of 3 trace(s); …'
+ * WT reference rates of a batch: the geometric means of kFast and of kSlow over its WT traces with
+ * two resolved phases; null when it has none.
+ * @example referenceRates([wtTraceWithRates(0.03, 0.0034), wtTraceWithRates(0.033, 0.0031)], 'B1') // → { kFast: 0.0315, kSlow: 0.00325, … }
  */
-export function analyseTurnoverUnit(
-  rows: readonly TurnoverRow[],
-  settings: TurnoverSettings,
+export function referenceRates(wtTraces: readonly FittedTrace[], batch: string): ReferenceRates | null {
+  const double = wtTraces.filter((f) => f.result.model === 'double' && f.result.kFast !== null && f.result.kSlow !== null);
+  if (double.length === 0) return null;
+  const geo = (xs: number[]) => Math.exp(xs.reduce((s, x) => s + Math.log(x), 0) / xs.length);
+  return {
+    kFast: geo(double.map((f) => f.result.kFast as number)),
+    kSlow: geo(double.map((f) => f.result.kSlow as number)),
+    source: `geometric means of ${double.length} WT trace${double.length === 1 ? '' : 's'} of batch ${batch}`,
+  };
+}
+
+/**
+ * Summarise one unit from its fitted traces: one-phase traces are first resolved against the
+ * batch's WT rates (`resolveOnePhase`); the unit's slow fraction, kFast and kSlow are then the
+ * arithmetic means over the traces where they are estimable; their SE is the fit's SE with one
+ * trace and the standard error of the mean across traces with several. Every trace that gives no
+ * value keeps a flag saying why. nTechnical = number of traces.
+ * @example summariseTurnoverUnit(tracesWithSlowFractions0.2And0.4, reference) // → metrics.slowFraction ≈ 0.3, nTechnical 2
+ */
+export function summariseTurnoverUnit(
+  fitted: readonly FittedTrace[],
+  reference: ReferenceRates | null,
 ): Pick<UnitResult, 'metrics' | 'metricSe' | 'fit' | 'modelNote' | 'flags' | 'nTechnical' | 'plot'> {
-  const traces = [...groupBy(rows, (r) => r.trace).values()];
   const flags: Flag[] = [];
   const points: Array<Record<string, number | string>> = [];
   const curve: Array<Record<string, number | string>> = [];
   const results: TraceResult[] = [];
-  for (const traceRows of traces) {
-    const sorted = [...traceRows].sort((a, b) => a.timeS - b.timeS);
-    const t = sorted.map((r) => r.timeS);
-    const y = sorted.map((r) => r.fluorescence);
-    const name = `Trace ${sorted[0].trace}`;
-    const result = fitTurnoverTrace(t, y, settings, name, sorted[0].at);
+  for (const f of fitted) {
+    const result = resolveOnePhase(f.result, f.t, f.y, reference, `Trace ${f.trace}`, f.at);
     results.push(result);
     flags.push(...result.flags);
+    const { t, y, trace } = f;
     const norm = normaliser(result, t, y);
-    const trace = sorted[0].trace;
     const every = Math.max(1, Math.ceil(t.length / MAX_PLOTTED_READINGS));
     for (let i = 0; i < t.length; i += every) {
-      const value = norm(y[i]);
+      const value = norm(y[i]!);
       // One object literal per shape (no property added later), same keys in the same order.
       // Raw fluorescence only when the reading cannot be normalised (it is in the input file).
-      points.push(Number.isFinite(value) ? { trace, time: t[i], normFluorescence: plotValue(value) } : { trace, time: t[i], fluorescence: y[i] });
+      points.push(Number.isFinite(value) ? { trace, time: t[i]!, normFluorescence: plotValue(value) } : { trace, time: t[i]!, fluorescence: y[i]! });
     }
     if (result.fit) {
       const p = result.fit.parameters.map((q) => q.estimate);
-      const model = result.model === 'double' ? exponentialDouble : exponentialSingle;
-      const t0 = t[0];
-      const t1 = t[t.length - 1];
+      const model = modelOf(result);
+      const t0 = t[0]!;
+      const t1 = t[t.length - 1]!;
       for (let i = 0; i < CURVE_POINTS; i++) {
         const time = plotValue(curveTime(t0, t1, i, CURVE_POINTS));
         curve.push({ trace, model: result.model, time, normFluorescence: plotValue(norm(model.f(time, p))) });
@@ -290,24 +424,38 @@ export function analyseTurnoverUnit(
     const values = estimable.map((r) => r[id] as number);
     metrics[id] = values.length > 0 ? mean(values) : null;
     // One trace: the fit's SE; several: the standard error of the mean across traces.
-    metricSe[id] = values.length === 1 ? seOf(estimable[0]) : values.length > 1 ? se(values) : null;
+    metricSe[id] = values.length === 1 ? seOf(estimable[0]!) : values.length > 1 ? se(values) : null;
   }
-  const nDouble = results.filter((r) => r.model === 'double').length;
-  const nSingle = results.filter((r) => r.model === 'single').length;
-  const modelNote =
-    nDouble === results.length
-      ? undefined
-      : `double exponential in ${nDouble} of ${results.length} trace(s); single exponential in ${nSingle} (phases not separated)` +
-        (results.length - nDouble - nSingle > 0 ? `; no converged fit in ${results.length - nDouble - nSingle}` : '');
+  const count = (model: TraceResult['model']) => results.filter((r) => r.model === model).length;
+  const nDouble = count('double');
+  const parts = [
+    `double exponential in ${nDouble} of ${results.length} trace(s)`,
+    count('one-phase') > 0 ? `one phase resolved in ${count('one-phase')} (the other phase's rate fixed at WT's)` : '',
+    count('single') > 0 ? `one phase that could not be placed in ${count('single')} (no value)` : '',
+    count('none') > 0 ? `no converged fit in ${count('none')} (no value)` : '',
+  ].filter((x) => x !== '');
+  const modelNote = nDouble === results.length ? undefined : parts.join('; ');
   return {
     metrics,
     metricSe,
-    fit: results.length === 1 ? results[0].fit : undefined,
+    fit: results.length === 1 ? results[0]!.fit : undefined,
     ...(modelNote ? { modelNote } : {}),
     flags,
     nTechnical: results.length,
     plot: { points, curve },
   };
+}
+
+/**
+ * Analyse one unit's traces on their own: fit each, then summarise with the given WT reference
+ * rates (none: one-phase traces then give no value, with a flag).
+ */
+export function analyseTurnoverUnit(
+  rows: readonly TurnoverRow[],
+  settings: TurnoverSettings,
+  reference: ReferenceRates | null = null,
+): Pick<UnitResult, 'metrics' | 'metricSe' | 'fit' | 'modelNote' | 'flags' | 'nTechnical' | 'plot'> {
+  return summariseTurnoverUnit(fitUnitTraces(rows, settings), reference);
 }
 
 function seOfParam(r: TraceResult, name: string): number | null {
@@ -320,12 +468,28 @@ function fileSettings(study: Study, file: string | undefined): SettingsBag {
   return study.files.find((f) => f.path === file)?.settings;
 }
 
-/** Per-unit analysis of a study's single-turnover traces. */
+/**
+ * Per-unit analysis of a study's single-turnover traces, a batch at a time: every trace is fitted,
+ * the batch's WT traces give the reference rates (`referenceRates`), and each unit is summarised
+ * with them.
+ */
 export function analyseTurnover(study: Study): UnitResult[] {
-  return groupUnits(study.rows.turnover ?? []).map((g) => {
-    const settings = turnoverSettings(study.settings, fileSettings(study, g.rows[0].at.file));
-    return { assay: 'turnover', variant: g.variant, unit: g.unit, batch: g.batch, ...analyseTurnoverUnit(g.rows, settings), source: g.source };
-  });
+  const wt = new Set(study.variants.filter((v) => v.isWT).map((v) => v.id));
+  const groups = groupUnits(study.rows.turnover ?? []);
+  const fitted = groups.map((g) => fitUnitTraces(g.rows, turnoverSettings(study.settings, fileSettings(study, g.rows[0]!.at.file))));
+  const references = new Map<string, ReferenceRates | null>();
+  for (const batch of new Set(groups.map((g) => g.batch))) {
+    const wtTraces = groups.flatMap((g, i) => (g.batch === batch && wt.has(g.variant) ? fitted[i]! : []));
+    references.set(batch, referenceRates(wtTraces, batch));
+  }
+  return groups.map((g, i) => ({
+    assay: 'turnover',
+    variant: g.variant,
+    unit: g.unit,
+    batch: g.batch,
+    ...summariseTurnoverUnit(fitted[i]!, references.get(g.batch) ?? null),
+    source: g.source,
+  }));
 }
 
 const num3 = (x: number | null | undefined) => (typeof x === 'number' && Number.isFinite(x) ? String(Number(x.toPrecision(3))) : '—');
@@ -440,9 +604,10 @@ export const turnover: AssayModule = {
   chart: turnoverChart,
   methods: [
     `Each chase trace is fitted with ${exponentialDouble.formula} and with ${exponentialSingle.formula} by Levenberg–Marquardt nonlinear least squares, time as recorded so that amplitudes refer to t = 0.`,
-    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${ASSAY.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${ASSAY.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), both amplitudes are positive, and both rates and both amplitudes have a standard error of at most ${FIT.maxRelativeSe * 100}% of their value (a spurious split of one phase into two fits the data but leaves them loose). Otherwise the phases are not separated: the single exponential is used, the trace is flagged, and its slow fraction, fast rate and slow rate are not estimable (one rate cannot be assigned to either phase).`,
+    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${ASSAY.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${ASSAY.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), both amplitudes are positive, and both rates and both amplitudes have a standard error of at most ${FIT.maxRelativeSe * 100}% of their value (a spurious split of one phase into two fits the data but leaves them loose). Otherwise only one phase is resolved and the trace is flagged.`,
+    'A one-phase trace is placed by a stated rule: its rate is the fast phase when it is at least √(kFast·kSlow) of the WT traces of the same batch (geometric means over WT traces with two resolved phases), else the slow phase. It is then refitted with both phases and the other phase’s rate fixed at WT’s: the other amplitude is estimated from the data (it may come out near zero or below), so a trace with no slow phase gives a slow fraction near 0, and one with only a slow phase near 1, each with its standard error. A batch with no such WT trace leaves one-phase traces without a value, flagged.',
     'Slow-phase fraction = Aslow/(Afast + Aslow) (Sarkar et al., Sci Adv 2020), with its standard error by the delta method.',
-    'Traces are technical replicates: each preparation’s metrics are the means of its traces’ estimable metrics, and the preparation is the unit counted in the comparison with WT. The slow fraction is primary (difference scale; a decrease, more heads available, counts as hypercontractile); fast and slow rates are reported only.',
-    `Flags: phases not separated; a trace shorter than ${ASSAY.turnoverMinSlowTimeConstants} slow-phase time constant(s) 1/kSlow (setting turnoverMinSlowTimeConstants); a rate or slow amplitude whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value; no converged fit.`,
+    'Traces are technical replicates: each preparation’s metrics are the means of its traces’ estimable metrics (a trace left without a value is named in a flag on the preparation and on the comparison), and the preparation is the unit counted in the comparison with WT. The slow fraction is primary (difference scale; a decrease, more heads available, counts as hypercontractile); fast and slow rates are reported only.',
+    `Flags: one phase resolved; no WT reference rates in the batch; a trace shorter than ${ASSAY.turnoverMinSlowTimeConstants} slow-phase time constant(s) 1/kSlow (setting turnoverMinSlowTimeConstants); a rate or slow amplitude whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value; no converged fit.`,
   ],
 };

@@ -25,6 +25,14 @@ export interface MetricDef {
   /** Primary metrics drive the assay call; others are reported only. */
   primary: boolean;
   description: string;
+  /**
+   * Unit flag codes that make a unit's value of this metric an extrapolation (e.g. 'km-above-range'
+   * for kcat and KM). A WT unit with one leaves the comparison, named in a flag; a variant unit with
+   * one makes the variant's comparison not estimable, with the reason (src/analysis/normalise.ts).
+   */
+  excludeFlagged?: readonly string[];
+  /** Unit flag codes that qualify this metric's unit values: counted on the comparison row and named in its sentence. */
+  carryFlags?: readonly string[];
 }
 
 export interface Flag {
@@ -61,21 +69,39 @@ export interface UnitResult {
 export type MetricCall = 'increased' | 'decreased' | 'within WT range' | 'indeterminate' | 'not estimable';
 export type FunctionCall = 'hypercontractile' | 'hypocontractile' | 'within WT range' | 'mixed' | 'indeterminate' | 'not measured';
 
-/** One variant's metric compared with paired WT. */
+/** One variant's metric compared with paired WT (src/analysis/normalise.ts, src/analysis/score.ts). */
 export interface MetricComparison {
   assay: string;
   metric: string;
   variant: string;
   scale: MetricScale;
+  /** The metric's canonical unit (MetricDef.unit), for the absolute values. */
+  unit: string;
   /** Ratio (variant/WT) for ratio metrics, difference (variant − WT) for difference metrics. */
   effect: number | null;
+  /** 95% interval of the effect, on the effect's scale. */
   ciLow: number | null;
   ciHigh: number | null;
-  p: number | null;
-  q: number | null;
+  /** Standard error on the analysis scale (natural log for ratio metrics). */
+  se: number | null;
+  /** Degrees of freedom of the interval and tests (Satterthwaite with separate variances). */
   df: number | null;
+  /** 'separate': a residual variance per group; 'pooled': one for both (src/analysis/paired-effect.ts). */
+  variance: 'separate' | 'pooled' | null;
+  /** Minimum-effect test that the effect lies beyond the band (src/stats/band-tests.ts). */
+  pBeyond: number | null;
+  /**
+   * pBeyond adjusted: Benjamini–Hochberg across the study's test variants (a control as if added to
+   * them), then, for primary metrics, Holm across the variant's primary metrics. Decides increased/decreased.
+   */
+  q: number | null;
+  /** Two one-sided tests that the effect lies inside the band. Decides within WT range. */
+  pWithin: number | null;
   nVariantUnits: number;
   nWtUnits: number;
+  /** Means of the units that entered, in the metric's unit: geometric for ratio metrics, arithmetic for differences. */
+  variantMean: number | null;
+  wtMean: number | null;
   batches: string[];
   band: [number, number];
   call: MetricCall;
@@ -177,6 +203,9 @@ export interface StudyResults {
   };
   settings: {
     qThreshold: number;
+    equivalenceAlpha: number;
+    /** The rule that combines metric and assay calls into the overall call (src/analysis/score.ts). */
+    combiningRule: string;
     bands: Record<string, [number, number]>;
     bandSource: Record<string, string>;
     comparisonMethod: string;

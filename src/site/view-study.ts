@@ -1,4 +1,5 @@
 /** Data for the study-level pages: assays, residue map, cross-assay comparison, methods, provenance. */
+import { METHOD_CHANGES } from '../analysis/method-changes.js';
 import { fmt } from '../charts/chart-def.js';
 import { effectsChart } from '../charts/effects.js';
 import { leveyJenningsChart } from '../charts/levey-jennings.js';
@@ -98,7 +99,11 @@ export function methodsData(results: StudyResults) {
     assays: results.assays,
     bands,
     qThreshold: results.settings.qThreshold,
+    equivalenceAlpha: results.settings.equivalenceAlpha,
+    equivalenceLevel: Math.round((1 - 2 * results.settings.equivalenceAlpha) * 100),
+    combiningRule: results.settings.combiningRule,
     comparisonMethod: results.settings.comparisonMethod,
+    changes: METHOD_CHANGES,
     evidenceCap: results.settings.evidenceCap ?? '',
     direction: results.study.direction,
     thresholds: ODDSPATH_THRESHOLDS,

@@ -1,9 +1,9 @@
 /**
- * Seeded pseudo-random numbers, so that simulations and bootstraps are reproducible.
+ * Seeded pseudo-random numbers, so that simulations are reproducible.
  *
  * Uniforms: mulberry32 (Tommy Ettinger, 2017, public domain; a 32-bit state generator
  * with period 2³² that passes gjrand and PractRand to moderate sizes), giving multiples
- * of 2⁻³² in [0, 1). Good enough for simulation tests and bootstraps here; not for
+ * of 2⁻³² in [0, 1). Good enough for simulation tests here; not for
  * cryptography and not for streams longer than ~10⁸ draws.
  * Normal deviates: Box–Muller transform (Box & Muller 1958, Ann Math Stat 29:610), both
  * deviates of each pair used.

@@ -192,8 +192,10 @@ export interface ThresholdOverrides {
   bands?: Record<string, [number, number]>;
   /** Derive bands from benign controls instead of defaults. */
   bandsFromBenignControls?: boolean;
-  /** Significance level for q values. */
+  /** Level for the adjusted beyond-band q values (increased/decreased calls). */
   qThreshold?: number;
+  /** Level of the two one-sided tests (within WT range calls). */
+  equivalenceAlpha?: number;
   /** Cap on the functional evidence level (e.g. 'moderate'), set by expert-panel rules. */
   evidenceCap?: 'supporting' | 'moderate' | 'strong' | 'very strong';
   /** Lab-declared long-term WT mean and SD per metric key `<assay>.<metric>` (canonical units), for the Westgard charts. */

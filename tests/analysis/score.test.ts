@@ -1,23 +1,24 @@
 import { describe, expect, it } from 'vitest';
-import { assayCall, metricCall, readoutOf, variantCall } from '../../src/analysis/score.js';
+import { assayCall, callComparisons, metricCall, readoutOf, variantCall } from '../../src/analysis/score.js';
 import type { MetricComparison, MetricDef } from '../../src/results/types.js';
+import { benjaminiHochberg } from '../../src/stats/bh.js';
 
 // The scoring rules are ours (DESIGN.md §6; common practice, no source): these tests pin each branch.
 const band: [number, number] = [0.8, 1.25];
+const OPTIONS = { qThreshold: 0.05, equivalenceAlpha: 0.05 };
 
 describe('metricCall', () => {
   it.each([
-    // effect, ciLow, ciHigh, q, expected
-    [1.5, 1.3, 1.7, 0.01, 'increased'],
-    [0.6, 0.5, 0.7, 0.01, 'decreased'],
-    [1.5, 0.9, 2.5, 0.2, 'indeterminate'], // outside band but not significant
-    [1.2, 1.1, 1.3, 0.001, 'indeterminate'], // significant but inside the band, CI crosses it
-    [1.0, 0.9, 1.1, 0.9, 'within WT range'],
-    [1.0, 0.8, 1.25, 0.9, 'within WT range'], // CI on the band edges counts as inside
-    [1.0, null, null, null, 'indeterminate'], // no interval
-    [null, null, null, null, 'not estimable'],
-  ] as const)('effect %s CI [%s, %s] q %s → %s', (effect, lo, hi, q, expected) => {
-    expect(metricCall(effect, lo, hi, q, band, 0.05)).toBe(expected);
+    // effect, q (beyond band), pWithin (TOST), expected
+    [1.5, 0.01, 0.99, 'increased'],
+    [0.6, 0.01, 0.99, 'decreased'],
+    [1.5, 0.2, 0.9, 'indeterminate'], // outside the band but not shown beyond it
+    [1.2, 0.6, 0.2, 'indeterminate'], // inside the band but not shown inside it
+    [1.0, 0.9, 0.01, 'within WT range'],
+    [1.0, null, null, 'indeterminate'], // no interval
+    [null, null, null, 'not estimable'],
+  ] as const)('effect %s q %s pWithin %s → %s', (effect, q, pWithin, expected) => {
+    expect(metricCall({ effect, q, pWithin, band }, OPTIONS)).toBe(expected);
   });
 });
 
@@ -27,12 +28,41 @@ const defs: MetricDef[] = [
   { id: 'km', label: 'KM', unit: 'µM', scale: 'ratio', hyper: 'none', primary: false, description: '' },
 ];
 
-function comp(metric: string, call: MetricComparison['call'], effect = 1): MetricComparison {
+function comp(metric: string, call: MetricComparison['call'], effect = 1, variant = 'v', pBeyond: number | null = null): MetricComparison {
   return {
-    assay: 'a', metric, variant: 'v', scale: metric === 'srx' ? 'difference' : 'ratio', effect, ciLow: null, ciHigh: null,
-    p: null, q: null, df: null, nVariantUnits: 3, nWtUnits: 6, batches: ['b1'], band, call, sentence: '', flags: [],
+    assay: 'a', metric, variant, scale: metric === 'srx' ? 'difference' : 'ratio', unit: '', effect, ciLow: null, ciHigh: null,
+    se: null, df: null, variance: null, pBeyond, q: null, pWithin: null, nVariantUnits: 3, nWtUnits: 6,
+    variantMean: null, wtMean: null, batches: ['b1'], band: metric === 'srx' ? [-0.1, 0.1] : band, call, sentence: '', flags: [],
   };
 }
+
+describe('callComparisons (multiplicity)', () => {
+  const defsMap = new Map(defs.map((d) => [`a.${d.id}`, d]));
+  it('adjusts by Benjamini–Hochberg across test variants only; each control as if added to them', () => {
+    const tests = [0.001, 0.02, 0.03, 0.5].map((p, i) => comp('km', 'not estimable', 2, `t${i}`, p));
+    const control = comp('km', 'not estimable', 2, 'c1', 0.004);
+    const out = callComparisons([...tests, control], defsMap, { ...OPTIONS, controls: new Set(['c1']) });
+    // Test variants: as if the control were not there.
+    const bh = benjaminiHochberg([0.001, 0.02, 0.03, 0.5]);
+    out.slice(0, 4).forEach((c, i) => expect(c.q).toBeCloseTo(bh[i]!, 12));
+    // The control: its p within the test family plus itself.
+    expect(out[4]!.q).toBeCloseTo(benjaminiHochberg([0.001, 0.02, 0.03, 0.5, 0.004])[4]!, 12);
+  });
+
+  it('adjusts primary metrics by Holm across the variant’s primary metrics, after Benjamini–Hochberg', () => {
+    // One test variant: BH leaves each p as it is; Holm over its two primary metrics doubles the smaller.
+    const out = callComparisons(
+      [comp('kcat', 'not estimable', 1.5, 'v', 0.03), comp('srx', 'not estimable', -0.2, 'v', 0.04), comp('km', 'not estimable', 2, 'v', 0.03)],
+      defsMap,
+      { ...OPTIONS, controls: new Set() },
+    );
+    expect(out[0]!.q).toBeCloseTo(0.06, 12);
+    expect(out[1]!.q).toBeCloseTo(0.06, 12);
+    expect(out[2]!.q).toBeCloseTo(0.03, 12); // KM is not primary: BH only
+    expect(out.map((c) => c.call)).toEqual(['indeterminate', 'indeterminate', 'increased']);
+    expect(out[0]!.sentence).toContain("this variant's 2 primary metrics");
+  });
+});
 
 describe('assayCall', () => {
   it('maps a metric whose hyper direction is down: decreased slow fraction is hypercontractile', () => {

@@ -30,7 +30,8 @@ describe('assay modules agree with the metric keys of src/defaults.ts', () => {
     expect(dir(force, 'fmax')).toMatchObject({ scale: 'ratio', hyper: 'up', primary: true });
     expect(dir(force, 'pCa50')).toMatchObject({ scale: 'difference', hyper: 'up', primary: true });
     expect(dir(force, 'nH')).toMatchObject({ scale: 'ratio', hyper: 'none' });
-    expect(dir(force, 'passive')).toMatchObject({ scale: 'ratio', hyper: 'none' });
+    // Passive tension lies near zero: compared as a difference in kPa (issue 19).
+    expect(dir(force, 'passive')).toMatchObject({ scale: 'difference', hyper: 'none', primary: false, unit: 'kPa' });
     expect(dir(turnover, 'slowFraction')).toMatchObject({ scale: 'difference', hyper: 'down', primary: true });
     expect(dir(turnover, 'kFast')).toMatchObject({ scale: 'ratio', hyper: 'none' });
     expect(dir(turnover, 'kSlow')).toMatchObject({ scale: 'ratio', hyper: 'none' });

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { ASSAY, FIT } from '../../src/defaults.js';
-import { fitTurnoverTrace, turnover, turnoverSettings, analyseTurnoverUnit } from '../../src/assays/turnover.js';
+import { fitTurnoverTrace, resolveOnePhase, turnover, turnoverSettings, analyseTurnoverUnit } from '../../src/assays/turnover.js';
 import type { TurnoverRow } from '../../src/study/types.js';
 import { mean } from '../../src/stats/descriptive.js';
 import { at, expectChartCompiles, makeStudy, normalSource } from './helpers.js';
@@ -52,8 +52,9 @@ describe('fitTurnoverTrace', () => {
     expect(r.kSingle!).toBeCloseTo(0.02, 3); // known truth of the simulation
     expect(r.slowFraction).toBeNull();
     expect(r.kFast).toBeNull();
-    const flag = r.flags.find((f) => f.code === 'phases-not-separated')!;
-    expect(flag.message).toContain('not estimable');
+    const flag = r.flags.find((f) => f.code === 'one-phase-trace')!;
+    expect(flag.message).toContain('one phase (k = ');
+    expect(flag.message).toContain(' s⁻¹) was resolved');
   });
 
   it('falls back when the rates are closer than turnoverMinRateRatio, even if the F test favours two phases', () => {
@@ -145,8 +146,70 @@ describe('turnover: recovery of known truth from seeded noisy traces', () => {
     expect(r.fit).toBeUndefined();
     expect(r.metrics.slowFraction as number).toBeCloseTo(0.3, 1.5); // mean of 0.2 and 0.4 (known truth)
     expect(r.modelNote).toContain('double exponential in 2 of 3');
-    expect(r.flags.filter((f) => f.code === 'phases-not-separated')).toHaveLength(1);
-    expect(r.flags.find((f) => f.code === 'phases-not-separated')!.message).toContain('Trace C');
+    expect(r.modelNote).toContain('one phase that could not be placed in 1 (no value)');
+    // No WT in the study: the one-phase trace cannot be placed, and says so.
+    expect(r.flags.filter((f) => f.code === 'one-phase-trace')).toHaveLength(1);
+    expect(r.flags.find((f) => f.code === 'one-phase-trace')!.message).toContain('Trace C');
+    expect(r.flags.find((f) => f.code === 'no-reference-rates')!.message).toContain('Trace C');
+  });
+});
+
+describe('turnover: one-phase traces placed against the batch’s WT rates', () => {
+  const REFERENCE = { kFast: 0.03, kSlow: 0.0034, source: 'test reference (REFERENCES.md §6 WT rates)' };
+
+  it('gives a trace with no slow phase a slow fraction near 0, with its standard error', () => {
+    // Known truth: one fast phase at the WT fast rate, no slow phase.
+    const normal = normalSource(4242);
+    const t = times(1800, 10);
+    const y = t.map((s) => 100 * Math.exp(-0.03 * s) + 20 + normal(0, 0.6));
+    const free = fitTurnoverTrace(t, y, SETTINGS, 'Trace N');
+    expect(free.model).toBe('single');
+    const r = resolveOnePhase(free, t, y, REFERENCE, 'Trace N');
+    expect(r.model).toBe('one-phase');
+    expect(r.fixedRate).toEqual({ phase: 'slow', rate: 0.0034 });
+    // Tolerance: the slow amplitude's SE at 0.6% noise is well below 0.01 of the total (delta method, this fit).
+    expect(Math.abs(r.slowFraction!)).toBeLessThan(0.02);
+    expect(r.slowFractionSe!).toBeGreaterThan(0);
+    expect(r.slowFractionSe!).toBeLessThan(0.02);
+    expect(r.kFast!).toBeCloseTo(0.03, 3);
+    expect(r.kSlow).toBeNull();
+    expect(r.flags.find((f) => f.code === 'one-phase-trace')!.message).toContain('taken as the fast phase');
+  });
+
+  it('gives a trace with only a slow phase a slow fraction near 1', () => {
+    const normal = normalSource(99);
+    const t = times(1800, 10);
+    const y = t.map((s) => 100 * Math.exp(-0.0034 * s) + 20 + normal(0, 0.6));
+    const r = resolveOnePhase(fitTurnoverTrace(t, y, SETTINGS), t, y, REFERENCE);
+    expect(r.model).toBe('one-phase');
+    expect(r.fixedRate).toEqual({ phase: 'fast', rate: 0.03 });
+    expect(Math.abs(r.slowFraction! - 1)).toBeLessThan(0.02);
+    expect(r.kSlow!).toBeCloseTo(0.0034, 4);
+  });
+
+  it('takes the reference from the WT traces of the same batch (geometric means) and uses it for the variant', () => {
+    const normal = normalSource(1234);
+    const t = times(1800, 10);
+    const rows = [
+      ...traceRows('wt', 'w1', 'b1', 'A', t, t.map((s) => decay(s, 0.35, 0.03, 0.0034, 100, 20) + normal(0, 0.3))),
+      ...traceRows('wt', 'w2', 'b1', 'A', t, t.map((s) => decay(s, 0.35, 0.033, 0.0031, 100, 20) + normal(0, 0.3))),
+      ...traceRows('v1', 'p1', 'b1', 'A', t, t.map((s) => 100 * Math.exp(-0.03 * s) + 20 + normal(0, 0.3))),
+      // Batch b2 has no WT: its one-phase trace stays without a value, flagged.
+      ...traceRows('v1', 'p2', 'b2', 'A', t, t.map((s) => 100 * Math.exp(-0.03 * s) + 20 + normal(0, 0.3))),
+    ];
+    const study = makeStudy({ turnover: rows });
+    study.variants = [
+      { id: 'wt', gene: 'X', isWT: true, hgvs: 'WT', short: 'WT', label: 'wt', at: at('study.json', 1) },
+      { id: 'v1', gene: 'X', isWT: false, hgvs: 'v1', short: 'v1', label: 'v1', at: at('study.json', 1) },
+    ];
+    const units = turnover.analyse(study);
+    const p1 = units.find((u) => u.unit === 'p1')!;
+    const p2 = units.find((u) => u.unit === 'p2')!;
+    expect(Math.abs(p1.metrics.slowFraction as number)).toBeLessThan(0.02);
+    const message = p1.flags.find((f) => f.code === 'one-phase-trace')!.message;
+    expect(message).toContain('geometric means of 2 WT traces of batch b1');
+    expect(p2.metrics.slowFraction).toBeNull();
+    expect(p2.flags.map((f) => f.code)).toContain('no-reference-rates');
   });
 });
 

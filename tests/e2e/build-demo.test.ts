@@ -7,6 +7,7 @@ import { describe, expect, it, beforeAll } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, readdirSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { METHOD_CHANGES } from '../../src/analysis/method-changes.js';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { main } from '../../src/cli/main.js';
 import { RESULTS_CSV_COLUMNS } from '../../src/results/csv.js';
@@ -47,7 +48,27 @@ describe('myofolio build data-demo', () => {
     }
     const flags = new Set(results.units.flatMap((u) => u.flags.map((f) => f.code)));
     expect(flags.has('km-above-range')).toBe(true);
-    expect(flags.has('phases-not-separated')).toBe(true);
+    expect(flags.has('one-phase-trace')).toBe(true);
+    // The extrapolated KM reaches the comparison: E333V's kcat is not compared, and its row says why.
+    const kcat = results.comparisons.find((c) => c.metric === 'kcat' && results.variants.find((v) => v.id === c.variant)?.short === 'E333V')!;
+    expect(kcat.effect).toBeNull();
+    expect(kcat.flags.map((f) => f.code)).toContain('km-above-range');
+  });
+
+  it('the overall calls the method change notes give for the demo are the demo’s calls', () => {
+    const results = JSON.parse(readFileSync(path.join(out, 'downloads/results.json'), 'utf8')) as StudyResults;
+    const newest = METHOD_CHANGES[0]!;
+    let checked = 0;
+    for (const line of newest.demoCalls) {
+      // Lines of the form "L236S: hypercontractile → indeterminate …" (overall calls); assay-level lines name their assay first.
+      const call = '(hypercontractile|hypocontractile|mixed|within WT range|indeterminate)';
+      const m = new RegExp(`^([A-Z]\\d+[A-Z]): ${call} → ${call}\\b`).exec(line);
+      if (!m) continue;
+      const v = results.variants.find((x) => x.short === m[1])!;
+      expect(v.overall.call, line).toBe(m[3]);
+      checked++;
+    }
+    expect(checked).toBeGreaterThanOrEqual(3);
   });
 
   it('results.json is valid against schemas/results.schema.json', () => {

@@ -5,7 +5,7 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { normaliseAssay } from '../../src/analysis/normalise.js';
+import { compareAssay } from '../../src/analysis/normalise.js';
 import type { MetricDef, UnitResult } from '../../src/results/types.js';
 import { parseCsv } from '../../src/study/csv.js';
 import { loadStudy } from '../../src/study/load.js';
@@ -152,8 +152,8 @@ describe('normaliser properties', () => {
       metrics: { kcat: s.kcat, shift: s.shift }, flags: [], nTechnical: 1, plot: { points: [] }, source: [],
       ...(s.excluded ? { excluded: s.excluded } : {}),
     }));
-    const out = normaliseAssay('atpase', metrics, units, {
-      confidenceLevel: 0.95, qThreshold: 0.05,
+    const out = compareAssay('atpase', metrics, units, {
+      confidenceLevel: 0.95,
       bands: { 'atpase.kcat': [0.8, 1.25], 'atpase.shift': [-0.1, 0.1] },
       variants: [{ id: 'WT', isWT: true }, { id: 'A', isWT: false }, { id: 'B', isWT: false }],
     });
@@ -169,7 +169,7 @@ describe('normaliser properties', () => {
           const scaled = (x: number | null) => (x === null ? NaN : row.scale === 'ratio' ? (x > 0 ? Math.log(x) : NaN) : x);
           const notEstimable = mine.filter((u) => !Number.isFinite(scaled(u.metrics[row.metric])));
           const flagText = row.flags.map((f) => f.message).join(' | ');
-          if (notEstimable.length > 0) expect(flagText).toContain(`${notEstimable.length} of ${mine.length} variant units`);
+          if (notEstimable.length > 0) expect(flagText).toContain(`${notEstimable.length} of ${mine.length} variant preparations`);
           expect(row.nVariantUnits).toBeLessThanOrEqual(mine.length - notEstimable.length);
         }
       }),
@@ -188,7 +188,7 @@ describe('normaliser properties', () => {
           const finite = mine.filter((u) => Number.isFinite(scaled(u.metrics[row.metric])));
           const notEstimable = mine.length - finite.length;
           const flagText = row.flags.map((f) => f.message).join(' | ');
-          if (notEstimable > 0) expect(flagText).toContain(`${notEstimable} of ${mine.length} variant units`);
+          if (notEstimable > 0) expect(flagText).toContain(`${notEstimable} of ${mine.length} variant preparations`);
           const unpaired = row.flags.find((f) => f.code === 'batch-without-wt')?.message ?? '';
           const inUnpaired = finite.filter((u) => new RegExp(`Batch [^.]*\\b${u.batch}\\b`).test(unpaired)).length;
           expect(row.nVariantUnits + inUnpaired, `${row.variant} ${row.metric}: ${finite.length} finite units; flags: ${flagText}`).toBe(finite.length);

@@ -106,16 +106,16 @@ describe('assay unit charts (ATPase, force)', () => {
 
   it('list each preparation and its metrics in the numbers table, and draw WT and variant curves apart', async () => {
     const unit = (variant: string, unitId: string, kcat: number) => ({
-      assay: 'atpase', variant, unit: unitId, batch: 'B1', metrics: { kcat, km: 20.123, basal: 0.0456 }, flags: [], nTechnical: 24, source: [],
+      assay: 'atpase', variant, unit: unitId, batch: 'B1', metrics: { kcat, km: 20.123, kcatOverKm: kcat / 20.123, basal: 0.0456 }, flags: [], nTechnical: 24, source: [],
       plot: { points: [{ actin: 10, rate: kcat / 3 }], curve: [0, 50, 100].map((actin) => ({ actin, rate: (kcat * actin) / (20 + actin) })) },
     });
     const spec = atpase.chart({ variantLabel: 'X9Y', variantUnits: [unit('v', 'v-1', 5.55555)], wtUnits: [unit('wt', 'wt-1', 4), unit('wt', 'wt-2', 4.2)] } as never);
     const table = specTable(spec);
     expect(table.columns.slice(0, 4)).toEqual(['Group', 'Preparation', 'Batch', 'Readings']);
     expect(table.rows).toEqual([
-      ['WT', 'wt-1', 'B1', '24', '4', '20.1', '0.0456'],
-      ['WT', 'wt-2', 'B1', '24', '4.2', '20.1', '0.0456'],
-      ['X9Y', 'v-1', 'B1', '24', '5.56', '20.1', '0.0456'],
+      ['WT', 'wt-1', 'B1', '24', '4', '20.1', '0.199', '0.0456'],
+      ['WT', 'wt-2', 'B1', '24', '4.2', '20.1', '0.209', '0.0456'],
+      ['X9Y', 'v-1', 'B1', '24', '5.56', '20.1', '0.276', '0.0456'],
     ]);
     expect(sig3(null)).toBe('—');
     // 3 curves of 3 points, 2 breaks (between WT preparations and before the variant's).

@@ -1,12 +1,9 @@
 /**
- * Seeded generator and percentile bootstrap. Expected values: properties of the uniform and
- * normal distributions (mean 1/2, variance 1/12; mean 0, SD 1) within sampling error,
- * and the normal-theory interval mean ± 1.96·SE for a bootstrap of a mean (Efron &
- * Tibshirani 1993, ch. 13: the percentile interval approaches it for a symmetric statistic).
+ * Seeded generator. Expected values: properties of the uniform and normal distributions
+ * (mean 1/2, variance 1/12; mean 0, SD 1) within sampling error.
  */
 import { describe, expect, it } from 'vitest';
 import { createRandom } from '../../src/stats/random.js';
-import { percentileBootstrap } from '../../src/stats/bootstrap.js';
 import { mean, sd, variance } from '../../src/stats/descriptive.js';
 
 describe('createRandom', () => {
@@ -39,26 +36,5 @@ describe('createRandom', () => {
     const counts = [0, 0, 0, 0];
     for (let i = 0; i < 40_000; i++) counts[random.integer(4)]++;
     for (const c of counts) expect(Math.abs(c - 10_000)).toBeLessThan(400);
-  });
-});
-
-describe('percentileBootstrap', () => {
-  const random = createRandom(11);
-  const sample = Array.from({ length: 50 }, () => random.normal(10, 2));
-  it('is reproducible for a seed', () => {
-    expect(percentileBootstrap(sample, mean, { seed: 5 })).toEqual(percentileBootstrap(sample, mean, { seed: 5 }));
-  });
-  it('interval of a mean of 50 normal values is close to mean ± 1.96·SE (within 15% of the half-width)', () => {
-    const r = percentileBootstrap(sample, mean, { seed: 5, replicates: 4000 });
-    const half = 1.959964 * (sd(sample) / Math.sqrt(50));
-    expect(r.estimate).toBeCloseTo(mean(sample), 12);
-    expect(Math.abs(r.low - (r.estimate - half))).toBeLessThan(0.15 * half);
-    expect(Math.abs(r.high - (r.estimate + half))).toBeLessThan(0.15 * half);
-    expect(r.replicates).toBe(4000);
-  });
-  it('drops and counts non-finite replicate statistics', () => {
-    const r = percentileBootstrap([1, 2], (s) => (s[0] === s[1] ? NaN : 1), { seed: 1, replicates: 200 });
-    expect(r.dropped + r.replicates).toBe(200);
-    expect(r.dropped).toBeGreaterThan(0);
   });
 });

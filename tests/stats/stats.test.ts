@@ -1,15 +1,12 @@
 /**
- * Statistics against published values. Sources per check: REFERENCES.md §3 (Welch on
- * R datasets::sleep; Benjamini & Hochberg 1995 example; Fieller examples from the DCSTATS
- * README), SciPy 1.17 where named (computed from the same inputs), R values quoted by
- * simple-statistics' docs for var(1:10).
+ * Statistics against published values. Sources per check: REFERENCES.md §3 (Benjamini &
+ * Hochberg 1995 example), R values quoted by simple-statistics' docs for var(1:10). Welch's test
+ * on R's sleep data is checked where it is used: the comparison model with one batch
+ * (tests/analysis/paired-effect.test.ts).
  */
 import { describe, expect, it } from 'vitest';
 import { mean, median, quantile, sd, se, variance } from '../../src/stats/descriptive.js';
-import { studentTTest, welchTTest } from '../../src/stats/ttest.js';
 import { benjaminiHochberg } from '../../src/stats/bh.js';
-import { fiellerInterval } from '../../src/stats/fieller.js';
-import { logRatioInterval } from '../../src/stats/logratio.js';
 import tQuantileLib from '@stdlib/stats-base-dists-t-quantile';
 import { tQuantile } from '../../src/stats/distributions.js';
 import { fTestPSanity } from './helpers.js';
@@ -35,28 +32,6 @@ describe('descriptive', () => {
   });
 });
 
-const sleep1 = [0.7, -1.6, -0.2, -1.2, -0.1, 3.4, 3.7, 0.8, 0.0, 2.0];
-const sleep2 = [1.9, 0.8, 1.1, 0.1, -0.1, 4.4, 5.5, 1.6, 4.6, 3.4];
-
-describe('t tests on R datasets::sleep', () => {
-  it('Welch: t −1.860813, df 17.776474, p 0.079394, CI −3.3654832 to 0.2054832 (REFERENCES.md §3 [V]/[C])', () => {
-    const r = welchTTest(sleep1, sleep2);
-    expect(r.t).toBeCloseTo(-1.860813, 6);
-    expect(r.df).toBeCloseTo(17.776474, 6);
-    expect(r.p).toBeCloseTo(0.079394, 6);
-    expect(r.ciLow).toBeCloseTo(-3.3654832, 6);
-    expect(r.ciHigh).toBeCloseTo(0.2054832, 6);
-    expect(r.difference).toBeCloseTo(-1.58, 12);
-  });
-  it('Student: t −1.8608135, df 18, p 0.0791867, CI −3.3638740 to 0.2038740 (SciPy ttest_ind equal_var = True)', () => {
-    const r = studentTTest(sleep1, sleep2);
-    expect(r.t).toBeCloseTo(-1.8608135, 6);
-    expect(r.df).toBe(18);
-    expect(r.p).toBeCloseTo(0.0791867, 6);
-    expect(r.ciLow).toBeCloseTo(-3.363874, 6);
-    expect(r.ciHigh).toBeCloseTo(0.203874, 6);
-  });
-});
 
 describe('Benjamini–Hochberg (REFERENCES.md §3 [V], as R p.adjust BH)', () => {
   const p = [0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.324, 0.4262, 0.5719, 0.6528, 0.759, 1.0];
@@ -76,45 +51,6 @@ describe('Benjamini–Hochberg (REFERENCES.md §3 [V], as R p.adjust BH)', () =>
     expect(q[0]).toBeCloseTo(1, 10);
     expect(q[2]).toBeCloseTo(0.035625, 7);
     expect(q[4]).toBeCloseTo(0.0015, 7);
-  });
-});
-
-describe("Fieller's interval (REFERENCES.md §3)", () => {
-  it('worked example [V]: a 14, b 7, SEa 3, SEb 2, df 10, 90% → g 0.268164, 1.051413 to 4.414296', () => {
-    const r = fiellerInterval({ numerator: 14, seNumerator: 3, denominator: 7, seDenominator: 2, df: 10, level: 0.9 });
-    expect(r.bounded).toBe(true);
-    // The source rounds t to 1.812461, so agreement is to ~6 significant digits.
-    expect(relative(r.g, 0.268164)).toBeLessThan(5e-6);
-    expect(relative(r.low, 1.051413)).toBeLessThan(2e-6);
-    expect(relative(r.high, 4.414296)).toBeLessThan(2e-6);
-  });
-  it.each([
-    [0.9, 1.54, 2.64],
-    [0.95, 1.46, 2.83],
-    [0.99, 1.27, 3.36],
-  ])('second example [V, C]: means 14 (SD 3) and 7 (SD 2), n 6 each, df 10, %d → %d to %d', (level, low, high) => {
-    const r = fiellerInterval({ numerator: 14, seNumerator: 3 / Math.sqrt(6), denominator: 7, seDenominator: 2 / Math.sqrt(6), df: 10, level });
-    expect(r.low).toBeCloseTo(low, 2);
-    expect(r.high).toBeCloseTo(high, 2);
-  });
-  it('g ≥ 1: no bounded interval', () => {
-    // g = 1.959964²·4/1 > 1: denominator 1 with SE 2 (constructed).
-    const r = fiellerInterval({ numerator: 14, seNumerator: 3, denominator: 1, seDenominator: 2, df: Infinity, level: 0.95 });
-    expect(r.bounded).toBe(false);
-    expect(r.low).toBe(-Infinity);
-    expect(r.high).toBe(Infinity);
-  });
-});
-
-describe('log-ratio interval (delta method)', () => {
-  it('a 14, b 7, SEa 3, SEb 2, normal 95% → 0.9931834 to 4.0274536 (SciPy norm.ppf, computed from REFERENCES.md §3 Fieller inputs)', () => {
-    const r = logRatioInterval({ numerator: 14, seNumerator: 3, denominator: 7, seDenominator: 2, df: Infinity, level: 0.95 });
-    expect(r.seLog).toBeCloseTo(0.3571429, 7);
-    expect(r.low).toBeCloseTo(0.9931834, 6);
-    expect(r.high).toBeCloseTo(4.0274536, 6);
-  });
-  it('non-positive inputs give NaN limits', () => {
-    expect(logRatioInterval({ numerator: -1, seNumerator: 1, denominator: 2, seDenominator: 1, df: 5, level: 0.95 }).low).toBeNaN();
   });
 });
 
