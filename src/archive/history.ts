@@ -1,0 +1,418 @@
+/**
+ * The archive's history: every variant measured in any study, its latest call, and, per metric,
+ * one row per study and release, with whether the studies agree. Pure: StudyResults in, plain data
+ * out, for the archive's home page, gene pages and variant history pages.
+ *
+ *   entries (each study's current build, and each release of a study, labelled as such)
+ *     1. order: by the study's last date, then study id, then releases by date and number, the
+ *        current build after its study's releases
+ *     2. gather: per variant identity (gene + HGVS, identity.ts; never the wild type) its rows
+ *     3. per study, the latest entry counts (its current build, else its latest release); a study
+ *        whose latest entry no longer lists the variant has withdrawn it
+ *     4. concordance over the counted studies, per metric and overall (concordance.ts)
+ *     5. latest call: from the latest counted study; for a variant withdrawn everywhere, its last
+ *        released row, marked withdrawn
+ *     6. per gene, per study summaries
+ */
+import type { ControlClass } from '../study/types.js';
+import type { EvidenceLevel, FunctionCall, MetricCall, MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
+import { judgeScope, judgeVariant, type Agreement, type Concordance, type ScopeAgreement } from './concordance.js';
+import { compareVariants, variantKey, variantsByKey } from './identity.js';
+import { compareReleaseIds, releaseName, type ReleaseRef } from './release.js';
+import { rangeText } from './words.js';
+
+/** One analysis of a study: its current build, or one of its releases. */
+export interface ArchiveEntry {
+  /** Study id in archive.json. */
+  studyId: string;
+  title: string;
+  /** The study's dates (YYYY-MM-DD). */
+  dates: string[];
+  results: StudyResults;
+  /** Present when this entry is a frozen release rather than the current build. */
+  release?: ReleaseRef;
+}
+
+/** Where a history row comes from: the study's current build, or a frozen release of it. */
+export type RowOrigin = 'current build' | 'release';
+
+/** Which analysis a row was read from. */
+export interface EntryRef {
+  studyId: string;
+  studyTitle: string;
+  /** The study's last date, '' when it gives none. */
+  studyDate: string;
+  origin: RowOrigin;
+  release?: ReleaseRef;
+  /** The study's id for this variant (for links into the study's own site). */
+  variantId: string;
+  /** How pages name the row: 'Panel 2025 (2025-03-10)', plus ', the release of 2026-03-02' for a release. */
+  label: string;
+}
+
+/** One study's (or release's) comparison of one metric with paired WT. */
+export interface MetricRow extends EntryRef {
+  effect: number | null;
+  ciLow: number | null;
+  ciHigh: number | null;
+  scale: MetricScale;
+  unit: string;
+  band: [number, number];
+  call: MetricCall;
+  q: number | null;
+  nVariantUnits: number;
+  nWtUnits: number;
+  sentence: string;
+}
+
+export interface MetricHistory {
+  /** '<assay>.<metric>'. */
+  key: string;
+  assay: string;
+  metric: string;
+  /** Labels from the latest entry that has the metric. */
+  label: string;
+  assayLabel: string;
+  unit: string;
+  /** Scales the rows use; two scales cannot share one axis (a method change, src/analysis/method-changes.ts). */
+  scales: MetricScale[];
+  /** In archive order (see the module comment). */
+  rows: MetricRow[];
+  agreement: ScopeAgreement['status'];
+  /** Things a reader must know before comparing the rows (different scales, different bands). */
+  notes: string[];
+}
+
+export interface OverallRow extends EntryRef {
+  call: FunctionCall;
+  sentence: string;
+  evidence: EvidenceLevel;
+  evidenceSentence: string;
+  /** Known class when the study used the variant as a calibration control. */
+  control?: ControlClass;
+}
+
+export interface LatestCall extends EntryRef {
+  call: FunctionCall;
+  evidence: EvidenceLevel;
+  /** True when no study's latest analysis lists the variant: this is its last released call. */
+  withdrawn: boolean;
+}
+
+export interface VariantHistory {
+  /** '<gene>:<hgvs>' (identity.ts). */
+  key: string;
+  gene: string;
+  hgvs: string;
+  short: string;
+  residue?: number;
+  domain?: string;
+  /** Every study that measured the variant in any of its analyses, in archive order. */
+  studies: Array<{ studyId: string; title: string; date: string; withdrawn: boolean }>;
+  overall: OverallRow[];
+  metrics: MetricHistory[];
+  concordance: Concordance;
+  latest: LatestCall;
+  notes: string[];
+}
+
+export interface GeneVariantSummary {
+  key: string;
+  hgvs: string;
+  short: string;
+  residue?: number;
+  domain?: string;
+  /** Studies that measured it (any analysis). */
+  studies: number;
+  latest: LatestCall;
+  concordance: Agreement;
+}
+
+export interface GeneHistory {
+  symbol: string;
+  variants: GeneVariantSummary[];
+}
+
+export interface StudySummary {
+  studyId: string;
+  title: string;
+  dates: string[];
+  genes: string[];
+  synthetic: boolean;
+  /** From the study's latest entry (current build, else latest release). */
+  origin: RowOrigin;
+  toolVersion: string;
+  /** Variants other than WT. */
+  variants: number;
+  /** Overall calls of those variants, in a fixed order, zero counts left out. */
+  calls: Array<{ call: FunctionCall; count: number }>;
+  releases: ReleaseRef[];
+  latestRelease?: ReleaseRef;
+  /** Keys of this study's variants whose history is discordant. */
+  discordant: string[];
+}
+
+export interface ArchiveHistory {
+  studies: StudySummary[];
+  genes: GeneHistory[];
+  variants: VariantHistory[];
+  /** Keys of discordant variants, for the home page. */
+  discordant: string[];
+  /** True when any entry's data is synthetic. */
+  synthetic: boolean;
+}
+
+const CALL_ORDER: readonly FunctionCall[] = ['hypercontractile', 'hypocontractile', 'mixed', 'within WT range', 'indeterminate', 'not measured'];
+
+function lastDate(dates: readonly string[]): string {
+  return dates.reduce((a, b) => (b > a ? b : a), '');
+}
+
+/** Archive order of entries (step 1). */
+export function compareEntries(a: ArchiveEntry, b: ArchiveEntry): number {
+  const da = lastDate(a.dates);
+  const db = lastDate(b.dates);
+  if (da !== db) return da < db ? -1 : 1;
+  if (a.studyId !== b.studyId) return a.studyId < b.studyId ? -1 : 1;
+  if (!a.release || !b.release) return (a.release ? 0 : 1) - (b.release ? 0 : 1);
+  return compareReleaseIds(a.release.id, b.release.id);
+}
+
+function entryName(e: ArchiveEntry): string {
+  const date = lastDate(e.dates);
+  return `${e.title}${date ? ` (${date})` : ''}`;
+}
+
+function entryRef(e: ArchiveEntry, variantId: string): EntryRef {
+  return {
+    studyId: e.studyId,
+    studyTitle: e.title,
+    studyDate: lastDate(e.dates),
+    origin: e.release ? 'release' : 'current build',
+    ...(e.release ? { release: e.release } : {}),
+    variantId,
+    label: e.release ? `${entryName(e)}, ${releaseName(e.release)}` : entryName(e),
+  };
+}
+
+function checkEntries(entries: readonly ArchiveEntry[]): void {
+  const seen = new Set<string>();
+  for (const e of entries) {
+    const id = `${e.studyId}\u0000${e.release?.id ?? ''}`;
+    if (seen.has(id)) {
+      throw new Error(
+        e.release
+          ? `buildHistory: release '${e.release.id}' of study '${e.studyId}' is given twice; pass each release once.`
+          : `buildHistory: study '${e.studyId}' has two current builds; pass one current build per study.`,
+      );
+    }
+    seen.add(id);
+  }
+}
+
+interface Found {
+  entry: ArchiveEntry;
+  variant: VariantResult;
+  comparisons: MetricComparison[];
+}
+
+function labelsOf(results: StudyResults): Map<string, { label: string; assayLabel: string; unit: string }> {
+  const out = new Map<string, { label: string; assayLabel: string; unit: string }>();
+  for (const a of results.assays) for (const m of a.metrics) out.set(`${a.id}.${m.id}`, { label: m.label, assayLabel: a.label, unit: m.unit });
+  return out;
+}
+
+/** Build the archive's history from every entry (each study's current build and each release). */
+export function buildHistory(entries: readonly ArchiveEntry[]): ArchiveHistory {
+  checkEntries(entries);
+  // 1. Order.
+  const ordered = [...entries].sort(compareEntries);
+  const latestOfStudy = new Map<string, ArchiveEntry>();
+  for (const e of ordered) latestOfStudy.set(e.studyId, e);
+
+  // 2. Gather per variant identity.
+  const found = new Map<string, Found[]>();
+  const labels = new Map<ArchiveEntry, ReturnType<typeof labelsOf>>();
+  for (const e of ordered) {
+    labels.set(e, labelsOf(e.results));
+    const byVariant = new Map<string, MetricComparison[]>();
+    for (const c of e.results.comparisons) byVariant.set(c.variant, [...(byVariant.get(c.variant) ?? []), c]);
+    for (const [key, variant] of variantsByKey(e.results)) {
+      found.set(key, [...(found.get(key) ?? []), { entry: e, variant, comparisons: byVariant.get(variant.id) ?? [] }]);
+    }
+  }
+
+  const variants: VariantHistory[] = [];
+  for (const [key, rows] of found) variants.push(variantHistory(key, rows, latestOfStudy, labels));
+  variants.sort(compareVariants);
+  const byKey = new Map(variants.map((v) => [v.key, v]));
+  const discordant = variants.filter((v) => v.concordance.status === 'discordant').map((v) => v.key);
+
+  // 6. Per gene, per study.
+  const genes = new Map<string, GeneVariantSummary[]>();
+  for (const v of variants) {
+    genes.set(v.gene, [
+      ...(genes.get(v.gene) ?? []),
+      {
+        key: v.key,
+        hgvs: v.hgvs,
+        short: v.short,
+        ...(v.residue !== undefined ? { residue: v.residue } : {}),
+        ...(v.domain !== undefined ? { domain: v.domain } : {}),
+        studies: v.studies.length,
+        latest: v.latest,
+        concordance: v.concordance.status,
+      },
+    ]);
+  }
+  const studies: StudySummary[] = [];
+  for (const [studyId, latest] of latestOfStudy) {
+    const releases = ordered.filter((e) => e.studyId === studyId && e.release).map((e) => e.release!);
+    const own = [...variantsByKey(latest.results).values()];
+    const counts = new Map<FunctionCall, number>();
+    for (const v of own) counts.set(v.overall.call, (counts.get(v.overall.call) ?? 0) + 1);
+    studies.push({
+      studyId,
+      title: latest.title,
+      dates: latest.dates,
+      genes: latest.results.study.genes.map((g) => g.symbol),
+      synthetic: latest.results.study.synthetic,
+      origin: latest.release ? 'release' : 'current build',
+      toolVersion: latest.results.tool.version,
+      variants: own.length,
+      calls: CALL_ORDER.filter((c) => counts.has(c)).map((call) => ({ call, count: counts.get(call)! })),
+      releases,
+      ...(releases.length ? { latestRelease: releases[releases.length - 1] } : {}),
+      discordant: own.map((v) => variantKey(v)).filter((k) => byKey.get(k)?.concordance.status === 'discordant'),
+    });
+  }
+  return {
+    studies,
+    genes: [...genes].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([symbol, vs]) => ({ symbol, variants: vs })),
+    variants,
+    discordant,
+    synthetic: ordered.some((e) => e.results.study.synthetic),
+  };
+}
+
+function variantHistory(
+  key: string,
+  rows: readonly Found[],
+  latestOfStudy: ReadonlyMap<string, ArchiveEntry>,
+  labels: ReadonlyMap<ArchiveEntry, Map<string, { label: string; assayLabel: string; unit: string }>>,
+): VariantHistory {
+  // 3. Per study, the latest entry counts.
+  const counted = rows.filter((r) => latestOfStudy.get(r.entry.studyId) === r.entry);
+  const countedIds = new Set(counted.map((r) => r.entry.studyId));
+  const studyIds = [...new Set(rows.map((r) => r.entry.studyId))];
+  const withdrawnIds = studyIds.filter((id) => !countedIds.has(id));
+  const nameOf = (id: string) => entryName(latestOfStudy.get(id)!);
+
+  const overall: OverallRow[] = rows.map((r) => ({
+    ...entryRef(r.entry, r.variant.id),
+    call: r.variant.overall.call,
+    sentence: r.variant.overall.sentence,
+    evidence: r.variant.evidence.level,
+    evidenceSentence: r.variant.evidence.sentence,
+    ...(r.variant.control ? { control: r.variant.control.class } : {}),
+  }));
+
+  // Metrics in order of first appearance, reading the latest entries first (their order of assays).
+  const metricKeys: string[] = [];
+  for (const r of [...rows].reverse()) for (const c of r.comparisons) if (!metricKeys.includes(`${c.assay}.${c.metric}`)) metricKeys.push(`${c.assay}.${c.metric}`);
+  const scopes: ScopeAgreement[] = [
+    judgeScope('overall', 'overall call', counted.map((r) => ({ studyId: r.entry.studyId, studyName: entryName(r.entry), call: r.variant.overall.call }))),
+  ];
+  const metrics: MetricHistory[] = metricKeys.map((mk) => {
+    const metricRows: MetricRow[] = [];
+    let names: { label: string; assayLabel: string; unit: string } | undefined;
+    for (const r of rows) {
+      const c = r.comparisons.find((x) => `${x.assay}.${x.metric}` === mk);
+      if (!c) continue;
+      names = labels.get(r.entry)!.get(mk) ?? names;
+      metricRows.push({
+        ...entryRef(r.entry, r.variant.id),
+        effect: c.effect,
+        ciLow: c.ciLow,
+        ciHigh: c.ciHigh,
+        scale: c.scale,
+        unit: c.unit,
+        band: c.band,
+        call: c.call,
+        q: c.q,
+        nVariantUnits: c.nVariantUnits,
+        nWtUnits: c.nWtUnits,
+        sentence: c.sentence,
+      });
+    }
+    const [assay, ...rest] = mk.split('.');
+    const metric = rest.join('.');
+    const label = names?.label ?? metric;
+    const assayLabel = names?.assayLabel ?? assay;
+    const scopeLabel = `${label} (${assayLabel})`;
+    const countedRows = metricRows.filter((m) => countedIds.has(m.studyId) && latestOfStudy.get(m.studyId)!.release?.id === m.release?.id);
+    const scope = judgeScope(mk, scopeLabel, countedRows.map((m) => ({ studyId: m.studyId, studyName: nameOf(m.studyId), call: m.call })));
+    scopes.push(scope);
+    const scales = [...new Set(metricRows.map((m) => m.scale))];
+    const notes: string[] = [];
+    if (scales.length > 1) {
+      notes.push(
+        `The rows compare ${label} on different scales (${scales.map((s) => `${s}: ${joinRows(metricRows.filter((m) => m.scale === s))}`).join('; ')}), after a change of method; their effects cannot share one axis, but their calls can be compared.`,
+      );
+    }
+    const bands = new Map<string, MetricRow[]>();
+    for (const m of metricRows) {
+      const t = rangeText(m.band[0], m.band[1], m.scale);
+      bands.set(t, [...(bands.get(t) ?? []), m]);
+    }
+    if (bands.size > 1) {
+      notes.push(`The WT-like bands differ between rows (${[...bands].map(([t, ms]) => `${t} in ${joinRows(ms)}`).join('; ')}); each call is made against its own study's band.`);
+    }
+    return { key: mk, assay, metric, label, assayLabel, unit: names?.unit ?? metricRows[0].unit, scales, rows: metricRows, agreement: scope.status, notes };
+  });
+
+  // 4. Concordance over the counted studies.
+  const concordance = judgeVariant(
+    scopes,
+    counted.map((r) => ({ studyId: r.entry.studyId, studyName: entryName(r.entry) })),
+    withdrawnIds.map(nameOf),
+  );
+
+  // 5. Latest call.
+  const latestRow = counted.length ? counted[counted.length - 1] : rows[rows.length - 1];
+  const latest: LatestCall = {
+    ...entryRef(latestRow.entry, latestRow.variant.id),
+    call: latestRow.variant.overall.call,
+    evidence: latestRow.variant.evidence.level,
+    withdrawn: counted.length === 0,
+  };
+
+  const notes: string[] = [];
+  const controlIn = rows.filter((r) => r.variant.control);
+  if (controlIn.length && controlIn.length < rows.length) {
+    const ids = [...new Set(controlIn.map((r) => r.entry.studyId))];
+    notes.push(`A calibration control in ${ids.map(nameOf).join(' and ')} (known class ${controlIn[0].variant.control!.class}), where its calls calibrate the assays and carry no evidence level of their own.`);
+  }
+  const info = latestRow.variant;
+  return {
+    key,
+    gene: info.gene,
+    hgvs: info.hgvs,
+    short: info.short,
+    ...(info.residue !== undefined ? { residue: info.residue } : {}),
+    ...(info.domain !== undefined ? { domain: info.domain } : {}),
+    studies: studyIds.map((id) => {
+      const e = latestOfStudy.get(id)!;
+      return { studyId: id, title: e.title, date: lastDate(e.dates), withdrawn: !countedIds.has(id) };
+    }),
+    overall,
+    metrics,
+    concordance,
+    latest,
+    notes,
+  };
+}
+
+function joinRows(rows: readonly EntryRef[]): string {
+  return rows.map((r) => r.label).join(', ');
+}
