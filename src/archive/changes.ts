@@ -16,7 +16,8 @@
 import { fmtEffect } from '../analysis/format.js';
 import type { EvidenceLevel, FunctionCall, MetricCall, MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
 import { variantKey, variantsByKey } from './identity.js';
-import { reasonsFor, studyReasons, variantFiles, type ChangeKind, type ChangeReason } from './reasons.js';
+import { pushTo } from './maps.js';
+import { reasonsFor, studyReasons, variantFileIndex, type ChangeKind, type ChangeReason } from './reasons.js';
 import { releaseName, type ReleaseRef } from './release.js';
 import { capitalise, joinAnd, rangeText } from './words.js';
 
@@ -184,12 +185,14 @@ export function compareWithRelease(studyId: string, current: StudyResults, relea
   const since = `${releaseName(release)} (note: ${release.note})`;
   const group = (cs: readonly MetricComparison[]) => {
     const m = new Map<string, MetricComparison[]>();
-    for (const c of cs) m.set(c.variant, [...(m.get(c.variant) ?? []), c]);
+    for (const c of cs) pushTo(m, c.variant, c);
     return m;
   };
   const comparisonsNow = group(current.comparisons);
   const comparisonsThen = group(released.comparisons);
   const ref = (key: string) => metricRef(key, current, released);
+  const filesNow = variantFileIndex(current);
+  const filesThen = variantFileIndex(released);
 
   // 2. Per variant.
   const now = variantsByKey(current);
@@ -200,7 +203,7 @@ export function compareWithRelease(studyId: string, current: StudyResults, relea
   for (const key of keys) {
     const a = then.get(key);
     const b = now.get(key);
-    const files = new Set([...(a ? variantFiles(released, a.id) : []), ...(b ? variantFiles(current, b.id) : [])]);
+    const files = new Set([...(a ? filesThen(a.id) : []), ...(b ? filesNow(b.id) : [])]);
     const drafts: Draft[] = [];
     if (a && !b) {
       drafts.push({
@@ -255,8 +258,8 @@ export function compareWithRelease(studyId: string, current: StudyResults, relea
     count('new') ? `${count('new')} new` : '',
   ].filter(Boolean);
   const counts = variants.length
-    ? `Since ${since}: ${joinAnd(parts)}; ${unchanged} unchanged (same overall call and evidence level, every estimate inside its released 95% CI).`
-    : `No call changed since ${since}: every variant has the same overall call and evidence level, and every estimate lies inside its released 95% CI.`;
+    ? `Since ${since}: ${joinAnd(parts)}; ${unchanged} unchanged (same overall call and evidence level, no estimate outside its released 95% CI).`
+    : `No call changed since ${since}: every variant has the same overall call and evidence level, and no estimate lies outside its released 95% CI.`;
   const caveats = reasons.find((r) => r.kind === 'caveats-changed');
   const summary = caveats ? `${counts} ${capitalise(caveats.text)} since the release.` : counts;
   return {

@@ -23,6 +23,7 @@
  */
 import type { FunctionCall, MetricCall } from '../results/types.js';
 import { joinAnd } from './words.js';
+import { pushTo } from './maps.js';
 
 export type Agreement = 'discordant' | 'concordant' | 'inconclusive' | 'single study';
 
@@ -105,7 +106,7 @@ export function judgeScope(scope: string, label: string, calls: readonly ScopeCa
  */
 export function describeCalls(calls: ReadonlyArray<Pick<ScopeCall, 'studyName' | 'call'>>): string {
   const groups = new Map<string, string[]>();
-  for (const c of calls) groups.set(c.call, [...(groups.get(c.call) ?? []), c.studyName]);
+  for (const c of calls) pushTo(groups, c.call, c.studyName);
   return [...groups].map(([call, names]) => `${call} in ${joinAnd(names)}`).join(', but ');
 }
 

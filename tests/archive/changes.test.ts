@@ -37,7 +37,7 @@ describe('nothing changed', () => {
     expect(cmp.unchanged).toBe(3);
     expect(cmp.reasons).toEqual([]);
     expect(cmp.summary).toBe(
-      'No call changed since the release of 2026-03-02 (note: sent to the cardiogenetics clinic): every variant has the same overall call and evidence level, and every estimate lies inside its released 95% CI.',
+      'No call changed since the release of 2026-03-02 (note: sent to the cardiogenetics clinic): every variant has the same overall call and evidence level, and no estimate lies outside its released 95% CI.',
     );
   });
 });
@@ -77,7 +77,7 @@ describe('a corrected CSV after a release', () => {
 
   it('leaves variants whose calls and estimates held unlisted, and counts them', () => {
     expect(cmp.unchanged).toBe(2);
-    expect(cmp.summary).toBe(`Since the release of 2026-03-02 (note: sent to the cardiogenetics clinic): 1 variant changed; 2 unchanged (same overall call and evidence level, every estimate inside its released 95% CI).`);
+    expect(cmp.summary).toBe(`Since the release of 2026-03-02 (note: sent to the cardiogenetics clinic): 1 variant changed; 2 unchanged (same overall call and evidence level, no estimate outside its released 95% CI).`);
     expect(changeLines(cmp)[1]).toBe(`R403Q (ZZMYO9 p.Arg403Gln): ${cmp.variants[0].sentence}`);
     expect(changeFor(cmp, { gene: 'ZZMYO9', hgvs: 'p.Arg403Gln' })?.status).toBe('changed');
     expect(changeFor(cmp, { gene: 'ZZMYO9', hgvs: 'p.Glu500Lys' })).toBeUndefined();
