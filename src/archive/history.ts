@@ -134,6 +134,7 @@ export interface GeneHistory {
   variants: GeneVariantSummary[];
 }
 
+/** One study for the archive's home page; `ArchiveHistory.studies` lists them oldest first (archive order). */
 export interface StudySummary {
   studyId: string;
   title: string;
@@ -185,9 +186,9 @@ function entryName(e: ArchiveEntry): string {
 }
 
 /**
- * The EntryRef fields followed by a row's own fields, written out as one object literal: spreading
- * an EntryRef into each row made V8 add the row's fields one by one to a cloned object, which cost
- * about 90% of the history of a 10,000-variant archive.
+ * A row: the EntryRef fields, then the row's own fields assigned onto them. Not written as a spread
+ * of an EntryRef into the row's literal: V8 builds such spread-then-extended objects slowly, and a
+ * history makes one row per variant, metric and analysis. `release` is undefined for a current build.
  */
 function entryRef<T extends object>(e: ArchiveEntry, variantId: string, fields: T): EntryRef & T {
   return Object.assign(

@@ -42,9 +42,11 @@ export type ChangeKind = 'overall-call' | 'evidence-level' | 'estimate' | 'prese
 
 /**
  * Which reasons can move which kind of change. An estimate and its interval do not depend on the
- * bands, the q threshold, the direction or the calibration; a call does not depend on the
- * calibration; an evidence level depends on all of them. Caveats and descriptive manifest fields
- * (title, genes, dates…) change no number and are listed for the study only.
+ * bands, the q threshold, the direction, the calibration or the other variants; a call does not
+ * depend on the calibration, but does on the other test variants (q values are adjusted across them
+ * by Benjamini–Hochberg, and controls are outside that family, so adding a variant or a control can
+ * move another variant's call); an evidence level depends on all of them. Caveats and descriptive
+ * manifest fields (title, genes, dates…) change no number and are listed for the study only.
  */
 const AFFECTS: Record<ReasonKind, readonly ChangeKind[]> = {
   'file-added': ['overall-call', 'evidence-level', 'estimate', 'presence'],
@@ -56,8 +58,8 @@ const AFFECTS: Record<ReasonKind, readonly ChangeKind[]> = {
   'settings-changed': ['overall-call', 'evidence-level', 'estimate'],
   'thresholds-changed': ['overall-call', 'evidence-level'],
   'direction-changed': ['evidence-level'],
-  'variants-changed': ['presence'],
-  'controls-changed': ['evidence-level'],
+  'variants-changed': ['overall-call', 'evidence-level', 'presence'],
+  'controls-changed': ['overall-call', 'evidence-level'],
   'calibration-changed': ['evidence-level'],
   'method-changed': ['overall-call', 'evidence-level', 'estimate'],
   'tool-version': ['overall-call', 'evidence-level', 'estimate'],

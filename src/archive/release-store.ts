@@ -196,7 +196,8 @@ export async function createRelease(
         resultsSha256,
         existingIds: await existingIds(archiveDir, request.studyId),
       });
-      if (!made.record) return { issues: made.problems.map((p) => issue(p.text, where(RELEASE_RECORD_FILE, `/${p.field}`))) };
+      // The field names the request's part at fault (date, note, caveats/<i>), under the study's releases folder.
+      if (!made.record) return { issues: made.problems.map((p) => issue(p.text, where(parentRel, `/${p.field}`))) };
       const record = made.record;
       const paths = releasePaths(request.studyId, record.id);
       const recordFile = path.join(tmp, RELEASE_RECORD_FILE);

@@ -155,6 +155,21 @@ describe('reasons other than data', () => {
     );
   });
 
+  it('a variant made a calibration control: its evidence level changes, with that reason', () => {
+    // A control's readout calibrates the assays and carries no evidence level of its own (src/analysis/analyse-study.ts).
+    const current = study({ variants: [R403Q, withVariant(E500K, { control: 'benign' }), D600N] });
+    const e = compareWithRelease('panel', current, study(), RELEASE).variants.find((v) => v.short === 'E500K')!;
+    expect(e.sentence).toBe(`Changed ${SINCE}: evidence level was BS3 supporting, now none; reason: E500K (ZZMYO9) became a benign calibration control.`);
+  });
+
+  it('a changed variant list can explain another variant’s call (q values are adjusted across the test variants)', () => {
+    const current = study({ variants: [withVariant(R403Q, { overall: 'indeterminate' }), D600N], manifest: { ...MANIFEST, variants: ['WT', 'R403Q', 'D600N'] } });
+    const cmp = compareWithRelease('panel', current, study(), RELEASE);
+    const r = cmp.variants.find((v) => v.short === 'R403Q')!;
+    expect(r.changes[0].reasons.map((x) => x.text)).toEqual(['the variant list in the manifest changed']);
+    expect(cmp.variants.find((v) => v.short === 'E500K')?.status).toBe('withdrawn');
+  });
+
   it('a new tool version that compares a metric on another scale says the estimate cannot be set against the released CI', () => {
     const spec = (basal: [number, number, number]) => withVariant(R403Q, { metrics: { 'atpase.kcat': [1.38, 1.21, 1.55, 'increased'], 'atpase.basal': [...basal, 'indeterminate'] } });
     const released = study({ scales: { 'atpase.basal': 'ratio' }, variants: [spec([1.2, 0.9, 1.6]), E500K, D600N] });

@@ -79,7 +79,7 @@ describe('createRelease', () => {
     const dir = archiveDir();
     const out = await createRelease(dir, { ...request(bytesOf(v1()), '2026-02-30'), note: '' });
     expect(out.release).toBeUndefined();
-    expect(out.issues.map((i) => `${i.code} ${i.at.file} ${i.at.jsonPath}`)).toEqual(['release.date release.json /date', 'release.note release.json /note']);
+    expect(out.issues.map((i) => `${i.code} ${i.at.file} ${i.at.jsonPath}`)).toEqual(['release.date releases/panel /date', 'release.note releases/panel /note']);
     expect(readdirSync(path.join(dir, 'releases', 'panel'))).toEqual([]);
     const notResults = await createRelease(dir, request(new TextEncoder().encode('{"hello": 1}')));
     expect(notResults.issues[0].code).toBe('release.results-schema');
