@@ -163,6 +163,8 @@ export async function createRelease(
   const parentRel = `${RELEASES_DIR}/${request.studyId}`;
   let tmp: string | undefined;
   try {
+    // The archive folder must exist already (it holds archive.json); only releases/<study>/ is made here.
+    if (!(await stat(archiveDir)).isDirectory()) throw Object.assign(new Error('the archive folder is not a folder'), { code: 'ENOTDIR' });
     await mkdir(parent, { recursive: true });
     tmp = await mkdtemp(path.join(parent, INCOMPLETE_PREFIX));
     const results = path.join(tmp, RELEASE_RESULTS_FILE);

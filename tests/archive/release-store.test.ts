@@ -84,6 +84,9 @@ describe('createRelease', () => {
     const notResults = await createRelease(dir, request(new TextEncoder().encode('{"hello": 1}')));
     expect(notResults.issues[0].code).toBe('release.results-schema');
     expect(readdirSync(path.join(dir, 'releases', 'panel'))).toEqual([]);
+    const noArchive = await createRelease(path.join(dir, 'missing'), request(bytesOf(v1())));
+    expect(noArchive.issues.map((i) => i.code)).toEqual(['release.write-failed']);
+    expect(existsSync(path.join(dir, 'missing'))).toBe(false);
     const badId = await createRelease(dir, { ...request(bytesOf(v1())), studyId: '../escape' });
     expect(badId.issues[0].code).toBe('release.study-id');
     expect(existsSync(path.join(dir, 'escape'))).toBe(false);
