@@ -13,7 +13,7 @@
  *        withdrawn (released, not in the current build: still listed) · new (not released)
  *   3. each change with the reasons that can move that kind of change (reasonsFor), and its sentence
  */
-import { fmtEffect } from '../analysis/format.js';
+import { fmtEffect } from '../results/format.js';
 import type { EvidenceLevel, FunctionCall, MetricCall, MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
 import { variantKey, variantsByKey } from './identity.js';
 import { pushTo } from './maps.js';

@@ -3,7 +3,7 @@
  * sentences format them (src/analysis/format.ts), so that a change line reads like the report it
  * is printed on. Pure.
  */
-import { fmtEffect } from '../analysis/format.js';
+import { fmtEffect } from '../results/format.js';
 import type { MetricScale } from '../results/types.js';
 
 /**
