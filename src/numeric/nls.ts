@@ -397,15 +397,9 @@ export function fitCurve(
   return finish(stop, converged, iterations);
 }
 
-/** t(0.5 + level/2, df) for the parameter intervals, remembered per df (a pure function of df). */
-const tCache = new Map<number, number>();
+/** t(0.5 + level/2, df) for the parameter intervals. */
 function tCritical(df: number): number {
-  let t = tCache.get(df);
-  if (t === undefined) {
-    t = tQuantile(0.5 + FIT.confidenceLevel / 2, df);
-    if (tCache.size < 10000) tCache.set(df, t);
-  }
-  return t;
+  return tQuantile(0.5 + FIT.confidenceLevel / 2, df);
 }
 
 /**
