@@ -6,6 +6,7 @@
  * Pure.
  */
 import type { ReleaseComparison } from '../archive/changes.js';
+import { describeCalls } from '../archive/concordance.js';
 import type { ArchiveHistory, GeneHistory, VariantHistory } from '../archive/history-types.js';
 import type { ArchiveManifest, ArchiveStudyRef } from '../archive/manifest.js';
 import { releaseName, releasePaths, type ReleaseRecord } from '../archive/release.js';
@@ -295,6 +296,15 @@ function changesPage(s: BuiltStudy, report: ReturnType<typeof reportLinks>): Cha
   };
 }
 
+/** The first contradiction of a discordant variant, for the home page (its history page has them all). */
+export function discordanceInBrief(v: VariantHistory): string {
+  const found = v.concordance.disagreements.filter((d) => d.kind !== 'different changes');
+  const first = found.find((d) => d.scope === 'overall') ?? found[0];
+  if (!first) return v.concordance.sentence;
+  const more = found.length - 1;
+  return `${first.label} ${describeCalls(first.calls)}${more ? `; and ${more} metric${more === 1 ? '' : 's'} more` : ''}.`;
+}
+
 /** Every page of the archive site. */
 export function archivePages(manifest: ArchiveManifest, history: ArchiveHistory, studies: readonly BuiltStudy[], toolVersion: string): ArchivePages {
   const report = reportLinks(studies);
@@ -328,7 +338,7 @@ export function archivePages(manifest: ArchiveManifest, history: ArchiveHistory,
         id: s.studyId,
         title: s.title,
         href: ARCHIVE_PATHS.study(s.studyId),
-        dates: s.dates.join(', '),
+        dates: s.dates.length > 1 ? `${[...s.dates].sort()[0]} to ${[...s.dates].sort()[s.dates.length - 1]}` : (s.dates[0] ?? ''),
         genes: s.genes.map((g) => ({ symbol: g, href: ARCHIVE_PATHS.gene(g) })),
         variants: s.variants,
         calls: s.calls.map((x) => ({ ...functionCall(x.call), count: x.count })),
@@ -342,7 +352,7 @@ export function archivePages(manifest: ArchiveManifest, history: ArchiveHistory,
     }),
     discordant: history.variants
       .filter((v) => discordantKeys.has(v.key))
-      .map((v) => ({ name: `${v.gene} ${v.hgvs} (${v.short})`, href: ARCHIVE_PATHS.history(v.gene, v.hgvs), sentence: v.concordance.sentence })),
+      .map((v) => ({ name: `${v.gene} ${v.hgvs} (${v.short})`, href: ARCHIVE_PATHS.history(v.gene, v.hgvs), sentence: discordanceInBrief(v) })),
     genes: history.genes.map((g) => ({ symbol: g.symbol, href: ARCHIVE_PATHS.gene(g.symbol), variants: g.variants.length, discordant: g.variants.filter((v) => v.concordance === 'discordant').length })),
   };
   return { frame, home, genes, histories, changes };
