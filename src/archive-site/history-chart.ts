@@ -26,9 +26,27 @@ export function rowName(r: MetricRow): string {
   return `${r.studyTitle}${r.studyDate ? ` (${r.studyDate})` : ''}\n${r.release ? releaseName(r.release) : 'current build'}`;
 }
 
-function panel(rows: Row[], order: string[], scale: MetricScale, calls: string[]) {
+/** A chart constant computed from the data: a top-level parameter, referenced as { expr: name }. */
+interface Param {
+  name: string;
+  value: unknown;
+}
+
+/**
+ * One panel. Its axis range and ticks depend on the numbers, so they are parameters (pushed onto
+ * `params`), not literals: charts with the same rows (studies) and calls then share one shape,
+ * compiled once (src/charts/render.ts), as the study's own forest plots do.
+ */
+function panel(rows: Row[], order: string[], scale: MetricScale, calls: string[], params: Param[]) {
   const log = scale === 'ratio';
-  const fitted = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
+  const fitted0 = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
+  params.push({ name: `${scale}Domain`, value: fitted0.scale.domain });
+  const axis: Record<string, unknown> = { ...fitted0.axis };
+  if (Array.isArray(fitted0.axis.values)) {
+    axis.values = { expr: `${scale}Ticks` };
+    params.push({ name: `${scale}Ticks`, value: fitted0.axis.values });
+  }
+  const fitted = { scale: { ...fitted0.scale, domain: { expr: `${scale}Domain` } }, axis };
   const y = { field: 'row', type: 'nominal', sort: order, title: null, axis: { labelLimit: 720, labelExpr: "split(datum.label, '\\n')", labelLineHeight: 14, labelOffset: -7 } };
   const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
   const x = (field: string) => ({ field, type: 'quantitative', scale: fitted.scale, axis: fitted.axis, title: xTitle });
@@ -76,14 +94,16 @@ export function historyChart(variantName: string, m: MetricHistory): ChartDef | 
   const toRow = (r: MetricRow & { effect: number }): Row => ({ row: rowName(r), effect: r.effect, lo: r.ciLow, hi: r.ciHigh, bandLo: r.band[0], bandHi: r.band[1], call: r.call });
   const calls = [...new Set(estimable.map((r) => r.call))];
   const scales: MetricScale[] = (['ratio', 'difference'] as const).filter((s) => estimable.some((r) => r.scale === s));
+  const params: Param[] = [];
   const panels = scales.map((s) => {
     const rows = estimable.filter((r) => r.scale === s).map(toRow);
-    return panel(rows, rows.map((r) => r.row), s, calls);
+    return panel(rows, rows.map((r) => r.row), s, calls, params);
   });
   const title = `${m.label} (${m.assayLabel}) of ${variantName}, study by study`;
   const spec = {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     title,
+    params,
     vconcat: panels,
     spacing: 18,
     resolve: { scale: { color: 'shared', shape: 'shared' }, legend: { color: 'shared', shape: 'shared' } },
