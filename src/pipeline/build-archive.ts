@@ -33,7 +33,7 @@ import { TOOL_VERSION } from '../version.js';
 import { readArchive, studyDirOf, studyInputKey, studyReleases, underStudy } from './archive-input.js';
 import { type BuildOptions, buildStudy, openStore } from './build-study.js';
 import { installedFingerprint } from './fingerprint.js';
-import { makeStaging, planOutput, swapIn } from './output.js';
+import { OutputError, makeStaging, planOutput, swapIn } from './output.js';
 import { type ChartCounts, storedRender } from './stored-render.js';
 
 /** The record of a build in its output folder, for the next build. */
@@ -132,11 +132,22 @@ function siteArchive(manifest: ArchiveManifest, ref: ArchiveStudyRef, comparison
   };
 }
 
+/** planOutput for an archive folder: the same rules, worded for an archive. */
+function planArchiveOutput(archiveDir: string, outDir: string, force: boolean): ReturnType<typeof planOutput> {
+  try {
+    return planOutput(archiveDir, outDir, force);
+  } catch (err) {
+    if (!(err instanceof OutputError)) throw err;
+    const word = (t: string) => t.replace(/the study folder/g, 'the archive folder').replace(/study folder/g, 'archive folder').replace(/contain the study/g, 'contain the archive');
+    throw new OutputError(word(err.message), word(err.fix));
+  }
+}
+
 export async function buildArchive(archiveDir: string, outDir: string, options: ArchiveBuildOptions = {}): Promise<ArchiveBuildOutcome> {
   const phase = options.onPhase ?? (() => {});
   const failed = (issues: Issue[], notes: string[] = []): ArchiveBuildOutcome => ({ ok: false, issues, notes, studies: [], comparisons: [] });
   phase('read');
-  const plan = planOutput(archiveDir, outDir, options.force ?? false);
+  const plan = planArchiveOutput(archiveDir, outDir, options.force ?? false);
   const read = readArchive(archiveDir);
   if (!read.manifest) return failed(read.issues);
   const manifest = read.manifest;
