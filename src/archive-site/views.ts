@@ -215,7 +215,8 @@ function historyPage(v: VariantHistory, studies: readonly BuiltStudy[], report: 
       label: m.label,
       assayLabel: m.assayLabel,
       unit: m.unit,
-      agreement: AGREEMENT_WORDS[m.agreement] ?? m.agreement,
+      // With one study counted, a metric has nothing to be compared with (its release rows are not compared).
+      agreement: v.concordance.status === 'single study' ? AGREEMENT_WORDS['single study'] : (AGREEMENT_WORDS[m.agreement] ?? m.agreement),
       discordant: m.agreement === 'discordant',
       notes: m.notes,
       chart: historyChart(name, m),
