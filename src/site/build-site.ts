@@ -21,6 +21,7 @@ import Eleventy from '@11ty/eleventy';
 import type { ChartsFor } from '../charts/assay-charts.js';
 import type { StudyResults } from '../results/types.js';
 import { PATHS, uniqueSlugs } from './paths.js';
+import { type SiteArchive, archiveFrame, withArchiveNotes } from './archive-links.js';
 import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
 import type { FunctionCall, VariantResult } from '../results/types.js';
 import { type BlockFn, type RenderFn, STANDARD_CAVEATS, functionCall } from './view-common.js';
@@ -43,6 +44,8 @@ export interface BuildSiteOptions {
   afterRun?: () => void;
   /** Progress: ('charts', variant pages done, total) while rendering, then ('pages', 0, 1) and ('pages', 1, 1) around Eleventy. */
   onProgress?: (phase: string, done: number, total: number) => void;
+  /** When the study is built inside an archive: links back to it and the variants' change lines (src/site/archive-links.ts). */
+  archive?: SiteArchive;
 }
 
 const templatesDir = fileURLToPath(new URL('../../templates/', import.meta.url));
@@ -88,7 +91,7 @@ export function dataRowsHtml(rows: ReadonlyArray<ReadonlyArray<unknown>> | undef
  * from this alone (tests/site/variant-site-data.test.ts checks the templates read nothing else).
  */
 export function variantSiteData(site: ReturnType<typeof studyFrame>) {
-  return { study: site.study, tool: site.tool, builtAt: site.builtAt, standardCaveats: site.standardCaveats, legend: site.legend, nav: site.nav, paths: site.paths };
+  return { study: site.study, tool: site.tool, builtAt: site.builtAt, standardCaveats: site.standardCaveats, legend: site.legend, nav: site.nav, paths: site.paths, archive: site.archive };
 }
 
 /** The site data without charts and without variant pages: known before any chart is drawn. */
@@ -116,6 +119,7 @@ function studyFrame(results: StudyResults, options: BuildSiteOptions, slugs: Map
     legend: (Object.keys(FUNCTION_CALL_STYLE) as FunctionCall[]).map(functionCall),
     nav,
     paths: PATHS,
+    archive: archiveFrame(options.archive),
     assayList: results.assays.map((a) => ({ id: a.id, label: a.label })),
     index: {
       rows,
@@ -177,7 +181,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
   let pages = 0;
   const perRun = options.pagesPerRun ?? VARIANT_BATCH;
   for (let i = 0; i < results.variants.length; i += perRun) {
-    const batch = await build(results.variants.slice(i, i + perRun));
+    const batch = withArchiveNotes(await build(results.variants.slice(i, i + perRun)), options.archive);
     pages += await runEleventy(variantTemplate, outDir, { ...variantSite, variants: batch });
     options.afterRun?.();
   }
