@@ -6,7 +6,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyseStudy } from '../../src/analysis/analyse-study.js';
-import { atpase } from '../../src/assays/atpase.js';
+import { atpase } from '../../src/assays/atpase/module.js';
+import type { AtpaseRateRow } from '../../src/assays/atpase/inputs.js';
 import type { UnitResult } from '../../src/results/types.js';
 import type { Exclusion, Study, Variant } from '../../src/study/types.js';
 
@@ -24,7 +25,7 @@ function study(variants: Variant[], exclusions: Exclusion[] = []): Study {
   return {
     title: 't', lab: 'l', dates: [], synthetic: true, genes: [], variants, direction: 'hypercontractile',
     thresholds: {}, exclusions, caveats: [], settings: {}, files: [],
-    rows: { 'atpase-rates': [{ variant: 'WT', unit: 'x', batch: 'b', actinUM: 0, ratePerS: 0, at }] },
+    rows: { 'atpase-rates': [{ variant: 'WT', unit: 'x', batch: 'b', actinUM: 0, ratePerS: 0, at } as AtpaseRateRow] },
     manifestRaw: {}, manifestSha256: '0'.repeat(64),
   };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { kcatOverKmOf } from '../../src/assays/atpase.js';
+import { kcatOverKmOf } from '../../src/assays/atpase/module.js';
 import type { FitResult } from '../../src/numeric/types.js';
 
 describe('kcatOverKmOf (delta method)', () => {

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { BANDS } from '../../src/defaults.js';
-import { force } from '../../src/assays/force.js';
-import { motility } from '../../src/assays/motility.js';
-import { turnover } from '../../src/assays/turnover.js';
+import { BANDS } from '../../src/assays/assembled.js';
+import { force } from '../../src/assays/force/module.js';
+import { motility } from '../../src/assays/motility/module.js';
+import { turnover } from '../../src/assays/turnover/module.js';
 
 // The metric keys the brief and src/defaults.ts (BANDS) fix for these assays (common practice, no source).
 const EXPECTED: Record<string, string[]> = {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { ASSAY } from '../../src/defaults.js';
-import { a340SlopeToTurnoverUMS, nadhMethods, nadhToRates, wellInitialRate } from '../../src/assays/nadh.js';
-import type { NadhRow } from '../../src/study/types.js';
+import { ATPASE_SETTINGS as SETTINGS } from '../../src/assays/atpase/settings.js';
+import { a340SlopeToTurnoverUMS, nadhMethods, nadhToRates, wellInitialRate } from '../../src/assays/atpase/nadh.js';
+import type { NadhRow } from '../../src/assays/atpase/inputs.js';
 import { at, normalSource } from './helpers.js';
 
 let line = 2;
@@ -32,7 +32,7 @@ describe('A340 slope → ATP turnover', () => {
   it('matches the REFERENCES.md §6 check value', () => {
     // REFERENCES.md §6 [C]: ΔA340 = −0.010 per min over a 1 cm path → 0.026795 µM/s
     // (computed from Horecker & Kornberg 1948 inputs: 0.010/60 s⁻¹ ÷ 6220 M⁻¹cm⁻¹ × 1e6).
-    expect(a340SlopeToTurnoverUMS(-0.01 / 60, 1, ASSAY.nadhEpsilon340)).toBeCloseTo(0.026795, 6);
+    expect(a340SlopeToTurnoverUMS(-0.01 / 60, 1, SETTINGS.nadhEpsilon340)).toBeCloseTo(0.026795, 6);
     // Half the path length doubles the turnover (Beer–Lambert; computed from the same inputs): 0.053591 µM/s.
     expect(a340SlopeToTurnoverUMS(-0.01 / 60, 0.5, 6220)).toBeCloseTo(0.0535906, 6);
   });
@@ -115,7 +115,7 @@ describe('nadhToRates', () => {
     const noise = normalSource(42);
     const truth = [0.5, 1, 2, 4]; // s⁻¹ per head, invented
     const heads = 0.05;
-    const eps = ASSAY.nadhEpsilon340;
+    const eps = SETTINGS.nadhEpsilon340;
     const rows: NadhRow[] = [];
     truth.forEach((k, i) => {
       // rate per head k → turnover k·heads µM/s → dA340/dt = −k·heads·1e-6·ε·path per s
@@ -134,7 +134,7 @@ describe('nadhToRates', () => {
 
   it('states the conversion in its methods sentences', () => {
     const text = nadhMethods().join(' ');
-    expect(text).toContain(`${ASSAY.nadhWindowS} s`);
-    expect(text).toContain(`${ASSAY.nadhEpsilon340}`);
+    expect(text).toContain(`${SETTINGS.nadhWindowS} s`);
+    expect(text).toContain(`${SETTINGS.nadhEpsilon340}`);
   });
 });

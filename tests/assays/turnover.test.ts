@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { ASSAY, FIT } from '../../src/defaults.js';
-import { fitTurnoverTrace, resolveOnePhase, turnover, turnoverSettings, analyseTurnoverUnit } from '../../src/assays/turnover.js';
-import type { TurnoverRow } from '../../src/study/types.js';
+import { TURNOVER_SETTINGS } from '../../src/assays/turnover/settings.js';
+import { FIT } from '../../src/defaults.js';
+import { fitTurnoverTrace, resolveOnePhase, turnover, turnoverSettings, analyseTurnoverUnit } from '../../src/assays/turnover/module.js';
+import type { TurnoverRow } from '../../src/assays/turnover/inputs.js';
 import { mean } from '../../src/stats/descriptive.js';
 import { at, expectChartCompiles, makeStudy, normalSource } from './helpers.js';
 
@@ -58,13 +59,13 @@ describe('fitTurnoverTrace', () => {
   });
 
   it('falls back when the rates are closer than turnoverMinRateRatio, even if the F test favours two phases', () => {
-    // Rates 0.02 and 0.008 s⁻¹ (ratio 2.5 < ASSAY.turnoverMinRateRatio = 3), nearly noiseless: the F test alone would keep two.
+    // Rates 0.02 and 0.008 s⁻¹ (ratio 2.5 < TURNOVER_SETTINGS.turnoverMinRateRatio = 3), nearly noiseless: the F test alone would keep two.
     const normal = normalSource(2718);
     const t = times(1500, 5);
     const y = t.map((s) => decay(s, 0.5, 0.02, 0.008, 100, 5) + normal(0, 0.01));
     const r = fitTurnoverTrace(t, y, SETTINGS);
     expect(r.double.converged).toBe(true);
-    expect(param(r.double, 'kFast') / param(r.double, 'kSlow')).toBeLessThan(ASSAY.turnoverMinRateRatio);
+    expect(param(r.double, 'kFast') / param(r.double, 'kSlow')).toBeLessThan(TURNOVER_SETTINGS.turnoverMinRateRatio);
     expect(r.model).toBe('single');
     expect(r.reason).toContain('rates differ by a factor');
     // and with the ratio rule relaxed to 2, the same trace keeps both phases and recovers the truth
@@ -84,7 +85,7 @@ describe('fitTurnoverTrace', () => {
   });
 
   it('flags a window too short for the slow phase', () => {
-    // 1/kSlow = 294 s; the trace ends at 240 s (< ASSAY.turnoverMinSlowTimeConstants = 1 time constant).
+    // 1/kSlow = 294 s; the trace ends at 240 s (< TURNOVER_SETTINGS.turnoverMinSlowTimeConstants = 1 time constant).
     const normal = normalSource(5);
     const t = times(240, 1);
     const y = t.map((s) => decay(s, 0.3, 0.05, 0.0034, 100, 0) + normal(0, 0.005));
@@ -227,9 +228,9 @@ describe('turnover chart and methods', () => {
 
   it('states the selection rule and thresholds from src/defaults.ts', () => {
     const text = turnover.methods.join(' ');
-    expect(text).toContain(`p < ${ASSAY.turnoverFTestAlpha}`);
-    expect(text).toContain(`${ASSAY.turnoverMinRateRatio} times`);
-    expect(text).toContain(`${ASSAY.turnoverMinSlowTimeConstants} slow-phase`);
+    expect(text).toContain(`p < ${TURNOVER_SETTINGS.turnoverFTestAlpha}`);
+    expect(text).toContain(`${TURNOVER_SETTINGS.turnoverMinRateRatio} times`);
+    expect(text).toContain(`${TURNOVER_SETTINGS.turnoverMinSlowTimeConstants} slow-phase`);
     expect(text).toContain(`${FIT.maxRelativeSe * 100}%`);
   });
 });
