@@ -99,9 +99,7 @@ const TIE_BAND = 1e-3;
  * power of ten, so it is the double nearest to the decimal — what Number() of the string
  * gives. The product |v|·10^s is off by at most ~2e-4 from the exact value, so whenever it
  * lies within TIE_BAND of a rounding tie, or n does not have 12 digits, or |s| > 22, the
- * function falls back to toPrecision itself. About three times faster than toPrecision
- * (measured on Node 20), which took a fifth of the force–pCa module's time and more for
- * 400-point traces. Equality with toPrecision is tested on random values of every
+ * function falls back to toPrecision itself. Equality with toPrecision is tested on random values of every
  * magnitude and on constructed ties (tests/assays/round-for-plot.test.ts).
  * @example roundForPlot(0.1 + 0.2) // → 0.3
  */

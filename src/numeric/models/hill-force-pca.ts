@@ -17,8 +17,8 @@
  * local optima in about 1 in 300 noisy synthetic fits); it is made cheap by forming
  * 10^(nH·(pCa − pCa50)) from one exponential per pCa50 and point (powerOf).
  * Numerics: 1/(1 + 10^z) is evaluated as 10^(−z)/(1 + 10^(−z)) for z > 0, so a steep
- * curve never overflows to Infinity/Infinity; 10^u is computed as exp(u·ln 10) (about five
- * times faster than Math.pow here, same value to ~1e-15 relative).
+ * curve never overflows to Infinity/Infinity; 10^u is computed as exp(u·ln 10) (the same
+ * value as Math.pow to ~1e-15 relative).
  * @example hillForcePca.f(5.8, [2, 30, 5.8, 3]) // → 17 (passive + fmax/2)
  */
 import type { CurveModel } from '../types.js';
