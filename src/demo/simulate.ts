@@ -4,7 +4,7 @@
  * scenario gives byte-identical files. Used by the demo (generate-demo.ts) and meant for
  * benchmarks and recovery tests with known truth.
  *
- * Models (DESIGN.md §4): ATPase v = basal + kcat·[A]/(KM + [A]); NADH A340 falls at
+ * Models: ATPase v = basal + kcat·[A]/(KM + [A]); NADH A340 falls at
  * v·[heads]·ε340·path (ε340 = the ATPase setting nadhEpsilon340); motility filaments move at the unit's
  * velocity or are immobile; force F = Fpassive + Fmax/(1 + 10^(nH·(pCa − pCa50)));
  * single turnover F(t) = offset + A·((1 − fs)·e^(−kfast·t) + fs·e^(−kslow·t)).

@@ -1,8 +1,7 @@
 /**
  * analyseStudy plumbing on constructed unit results (no fitting): exclusions, Westgard
  * rejections flagging the variants compared in a batch, calibration counts from control calls.
- * The numbers are constructed for each branch (no external source needed: these are our rules,
- * DESIGN.md §6–7).
+ * The numbers are constructed for each branch (no external source needed: these are our rules).
  */
 import { describe, expect, it } from 'vitest';
 import { analyseStudy } from '../../src/analysis/analyse-study.js';
@@ -91,7 +90,7 @@ describe('analyseStudy on constructed units', () => {
     expect(r.variants.find((v) => v.id === 'P1')!.evidence.level).toBe('none');
     const x = r.variants.find((v) => v.id === 'X')!;
     expect(x.overall.readout).toBe('abnormal');
-    // 2P + 2B with perfect separation, pseudo-count pair: OddsPath = nP·(nB+1)/(nP+1) = 2·3/3 = 2.0 (REFERENCES.md §4 closed form) → no evidence.
+    // 2P + 2B with perfect separation, pseudo-count pair: OddsPath = nP·(nB+1)/(nP+1) = 2·3/3 = 2.0 (closed form of Brnich et al. 2020) → no evidence.
     expect(r.calibration.find((c) => c.scope === 'overall')!.oddsPathAbnormal).toBeCloseTo(2.0, 12);
     expect(x.evidence.level).toBe('none');
   });

@@ -4,7 +4,7 @@
  * single-turnover chase traces) and go through the same unit fits, comparison and calls as a real
  * study (analyseStudy). Designs follow the demo (src/demo/scenario.ts): 3 batches, WT in every
  * batch, each variant's units in two batches. Magnitudes are typical published values
- * (REFERENCES.md §6 [M]); noise levels are invented for the test, as in the demo.
+ * (from memory); noise levels are invented for the test, as in the demo.
  */
 import { analyseStudy } from '../../src/analysis/analyse-study.js';
 import type { StudyResults } from '../../src/results/types.js';

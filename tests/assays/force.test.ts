@@ -7,7 +7,7 @@ import type { ForceRow } from '../../src/assays/force/inputs.js';
 import { mean, sd } from '../../src/stats/descriptive.js';
 import { at, expectChartCompiles, makeStudy, normalSource } from './helpers.js';
 
-/** Invented "true" fibre (typical magnitudes, REFERENCES.md §6 [M]): passive 2 kPa, Fmax 30 kPa, pCa50 5.8, nH 3. */
+/** Invented "true" fibre (typical magnitudes, from memory): passive 2 kPa, Fmax 30 kPa, pCa50 5.8, nH 3. */
 const TRUTH = [2, 30, 5.8, 3];
 const PCA = [9.0, 6.5, 6.2, 6.0, 5.9, 5.8, 5.7, 5.6, 5.4, 5.0, 4.5];
 
@@ -24,7 +24,7 @@ function fibre(variant: string, unit: string, batch: string, truth: number[], pC
 
 describe('force: normalised force and curve', () => {
   it('puts the 10%, 50% and 90% points where the Hill check values say', () => {
-    // REFERENCES.md §6 [C]: F(pCa50) is half-maximal; 10% and 90% at pCa50 ± log10(9)/nH (nH = 3: ±0.3181).
+    // Computed from the Hill equation [C]: F(pCa50) is half-maximal; 10% and 90% at pCa50 ± log10(9)/nH (nH = 3: ±0.3181).
     const pCas = [...PCA, 5.8 + 0.3181, 5.8 - 0.3181];
     const r = analyseForceUnit(fibre('wt', 'f1', 'b1', TRUTH, pCas), SETTINGS.forceMinPoints);
     expect(r.fit!.converged).toBe(true);

@@ -22,8 +22,8 @@ function traceRows(variant: string, unit: string, batch: string, trace: string, 
 }
 
 describe('fitTurnoverTrace', () => {
-  it('recovers the REFERENCES.md §6 double exponential exactly from noiseless data', () => {
-    // REFERENCES.md §6 [C]: amplitude 1, slow fraction 0.30, k_fast 0.030 s⁻¹, k_slow 0.0034 s⁻¹, offset 0 →
+  it('recovers the double-exponential check curve exactly from noiseless data', () => {
+    // Computed from the model [C]: amplitude 1, slow fraction 0.30, k_fast 0.030 s⁻¹, k_slow 0.0034 s⁻¹, offset 0 →
     // 1.0000, 0.36035, 0.10826, 0.014066 at t = 0, 60, 300, 900 s. Here scaled by 500 with offset 120 (invented):
     // normalised fluorescence must reproduce the published check values.
     const t = [...new Set([...times(1800, 10), 60, 300, 900])].sort((a, b) => a - b);
@@ -104,7 +104,7 @@ function param(fit: { parameters: { name: string; estimate: number }[] }, name: 
 
 describe('turnover: recovery of known truth from seeded noisy traces', () => {
   it('recovers slow fraction and rates per unit as the mean over traces', () => {
-    // Known truth (WT-like, REFERENCES.md §6: kfast 0.030, kslow 0.0034 s⁻¹; slow fraction 0.30 invented).
+    // Known truth (WT-like, Sarkar et al. 2020: kfast 0.030, kslow 0.0034 s⁻¹; slow fraction 0.30 invented).
     const normal = normalSource(8080);
     const t = times(1800, 4);
     const rows: TurnoverRow[] = [];
@@ -156,7 +156,7 @@ describe('turnover: recovery of known truth from seeded noisy traces', () => {
 });
 
 describe('turnover: one-phase traces placed against the batch’s WT rates', () => {
-  const REFERENCE = { kFast: 0.03, kSlow: 0.0034, source: 'test reference (REFERENCES.md §6 WT rates)' };
+  const REFERENCE = { kFast: 0.03, kSlow: 0.0034, source: 'test reference (Sarkar et al. 2020 WT rates)' };
 
   it('gives a trace with no slow phase a slow fraction near 0, with its standard error', () => {
     // Known truth: one fast phase at the WT fast rate, no slow phase.

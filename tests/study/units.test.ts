@@ -18,7 +18,7 @@ const SI_CASES: [Quantity, string, number][] = [
   ['time', 'min', 60],
   ['time', 'ms', 1e-3],
   ['time', 'h', 3600],
-  ['tension', 'mN/mm2', 1], // 1e-3 N / 1e-6 m² = 1e3 Pa = 1 kPa (REFERENCES.md §6)
+  ['tension', 'mN/mm2', 1], // 1e-3 N / 1e-6 m² = 1e3 Pa = 1 kPa (SI Brochure 2019)
   ['tension', 'mN/mm²', 1],
   ['tension', 'kN/m2', 1],
   ['tension', 'Pa', 1e-3],

@@ -61,7 +61,7 @@ export const ATPASE_METRICS: MetricDef[] = [
  * informally; KM, a fitted half-saturation concentration, takes 0.67–1.5; kcat/KM, a quotient of
  * two fitted values, takes the KM band. The basal rate lies near zero and is compared as a
  * difference in s⁻¹: ±0.01 s⁻¹ is about a third of a typical WT basal rate of 0.02–0.04 s⁻¹
- * (typical value from memory, REFERENCES.md §6 [M]; band common practice, no source). It is
+ * (typical value from memory; band common practice, no source). It is
  * reported only, never in calls.
  */
 export const ATPASE_BANDS: Record<string, [number, number]> = {

@@ -39,7 +39,7 @@ export function kcatOverKmOf(fit: FitResult): { estimate: number; se: number | n
   return { estimate: r, se: Number.isFinite(v) && v >= 0 ? Math.sqrt(v) : null };
 }
 
-/** Fit one unit's rates; flags per DESIGN.md §4. */
+/** Fit one unit's rates, with its flags. */
 export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omit<UnitResult, 'assay' | 'variant' | 'unit' | 'batch' | 'source'> {
   const x = rows.map((r) => r.actinUM);
   const y = rows.map((r) => r.ratePerS);

@@ -43,7 +43,7 @@ export interface WellRate {
  * ATP turnover (µM/s) from an A340 slope, by Beer–Lambert: c = A/(ε·l), so
  * d[NADH]/dt = (dA340/dt)/(ε340·l) in M/s; turnover = −d[NADH]/dt, times 1e6 for µM/s.
  * Source: ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948, J Biol Chem 175:385).
- * @example a340SlopeToTurnoverUMS(-0.010 / 60, 1, 6220) // → 0.026795 (REFERENCES.md §6)
+ * @example a340SlopeToTurnoverUMS(-0.010 / 60, 1, 6220) // → 0.026795 (computed with ε340 = 6220 M⁻¹cm⁻¹, Horecker & Kornberg 1948)
  */
 export function a340SlopeToTurnoverUMS(slopePerS: number, pathCm: number, epsilonPerMPerCm: number): number {
   return (-slopePerS / (epsilonPerMPerCm * pathCm)) * 1e6;

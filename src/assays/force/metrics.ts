@@ -61,7 +61,7 @@ export const FORCE_METRICS: MetricDef[] = [
  * informally. pCa50 ±0.1 is the same size on the calcium axis: a shift of 0.1 pCa units is a
  * 10^0.1 = 1.26-fold change in [Ca²⁺] at half activation. Passive tension lies near zero and is
  * compared as a difference in kPa: ±1 kPa is about half a typical passive tension (typical value
- * from memory, REFERENCES.md §6 [M]; band common practice, no source). It is reported only,
+ * from memory; band common practice, no source). It is reported only,
  * never in calls.
  */
 export const FORCE_BANDS: Record<string, [number, number]> = {

@@ -88,7 +88,7 @@ function param(fit: FitResult, name: string): number {
  * A trace shorter than turnoverMinSlowTimeConstants/kSlow is flagged (slow phase not
  * followed long enough).
  * Source: model and slow fraction as in Hooijman, Stewart & Cooke 2011, Biophys J
- * 100:1969, and Sarkar et al., Sci Adv 2020 (REFERENCES.md §6).
+ * 100:1969, and Sarkar et al., Sci Adv 2020.
  * @example fitTurnoverTrace(t, 0.7·e^(−0.03t) + 0.3·e^(−0.0034t) sampled 0–1800 s, settings)
  *   // → { model: 'double', slowFraction: 0.30, kFast: 0.030, kSlow: 0.0034, … }
  */
@@ -288,7 +288,7 @@ function modelOf(trace: TraceResult): CurveModel {
  * Normalised fluorescence of a trace: (F − c)/(F̂(t_first) − c) from the chosen fit
  * (offset c, fitted value at the first time), so each fitted trace falls from 1 to 0.
  * Without a fit: (F − F_last)/(F_first − F_last) with the readings themselves.
- * @example normaliser(doubleFitWithOffset120AndAmplitude500, t, y)(300.2) // → 0.36035 (t = 60 s of the REFERENCES.md §6 curve)
+ * @example normaliser(doubleFitWithOffset120AndAmplitude500, t, y)(300.2) // → 0.36035 (t = 60 s of the double-exponential check curve: slow fraction 0.30, 0.030 and 0.0034 s⁻¹, computed)
  */
 function normaliser(trace: TraceResult, t: readonly number[], y: readonly number[]): (value: number) => number {
   if (trace.fit) {

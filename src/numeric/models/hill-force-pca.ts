@@ -7,7 +7,7 @@
  *  - pCa50: pCa at half-maximal activation (higher = more calcium-sensitive);
  *  - nH: Hill coefficient, steepness (cooperativity).
  * Check points: F(pCa50) = Fpassive + Fmax/2; 10% and 90% of Fmax at pCa50 ± log10(9)/nH
- * (REFERENCES.md §6).
+ * (computed from the Hill equation).
  *
  * Source: Hill 1910, J Physiol 40:iv–vii; the pCa form as in e.g. Moss 1992, Circ Res 70:865.
  * Bounds: nH ≥ 0. Start rule: pCa50 scanned every 0.05 from (lowest pCa − 0.5) to
