@@ -77,7 +77,7 @@ export interface Exclusion {
   at: SourceRef;
 }
 
-/** Lab-set thresholds; each field overrides the default in src/defaults.ts when present. */
+/** Lab-set thresholds; each field overrides its default (src/defaults.ts; bands: each assay's metrics.ts) when present. */
 export interface ThresholdOverrides {
   /** Per metric key `<assay>.<metric>`: WT-like band [low, high] on the metric's own scale (ratio or difference). */
   bands?: Record<string, [number, number]>;
