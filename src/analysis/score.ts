@@ -1,6 +1,6 @@
 /**
  * Scoring: metric comparisons → metric calls → assay calls → variant call, and the readout used for
- * calibration. Rules (DESIGN.md §6), applied the same way every time, with errors bounded against
+ * calibration. Rules, applied the same way every time, with errors bounded against
  * the WT-like band rather than against "no change":
  *
  * - Metric: increased / decreased when the minimum-effect test shows the effect beyond the nearer

@@ -1,6 +1,6 @@
 /**
- * WT-like band of a metric derived from the benign controls' effects (DESIGN.md §6: "or derived
- * from the benign controls when the lab asks").
+ * WT-like band of a metric derived from the benign controls' effects (when the lab asks for it:
+ * manifest thresholds.bandsFromBenignControls).
  */
 import { CALIBRATION } from '../defaults.js';
 import { mean, sd } from '../stats/descriptive.js';

@@ -7,7 +7,7 @@
  * Sources: Levey S, Jennings ER, Am J Clin Pathol 1950;20:1059–1066 (chart of control values
  * in run order with lines at the mean and ±1, ±2, ±3 SD, the SD being the long-term sample SD);
  * Westgard JO, Barry PL, Hunt MR, Groth T, Clin Chem 1981;27:493–501 (the multirule
- * procedure). REFERENCES.md §5.
+ * procedure).
  */
 import type { ControlChart, WestgardPoint } from '../results/types.js';
 
@@ -89,7 +89,7 @@ function allOnSameSide(z: number[], from: number, to: number, limit: number): bo
 /**
  * Westgard multirule QC of control values in run order.
  *
- * Method (Westgard et al. 1981, Clin Chem 27:493; REFERENCES.md §5), z = (value − mean)/SD with
+ * Method (Westgard et al. 1981, Clin Chem 27:493), z = (value − mean)/SD with
  * the established mean and SD; "beyond" is strict (a value exactly at 2 SD is not beyond it):
  * - 1-2s: |z| > 2, warning only;
  * - 1-3s: |z| > 3, reject;
@@ -166,7 +166,7 @@ function fmt(x: number): string {
  * With no declared baseline and fewer than two values (or no spread), mean and SD are null,
  * no point is judged and `points` is empty; the baseline text says why.
  * A declared SD that is not positive throws RangeError (from {@link westgard}).
- * Sources: Levey & Jennings 1950; Westgard et al. 1981 (REFERENCES.md §5).
+ * Sources: Levey & Jennings 1950; Westgard et al. 1981.
  *
  * @example
  * controlChart('atpase', 'kcat', [{ batch: 'B1', value: 5 }, { batch: 'B2', value: 7 }]).sd // → 1.4142 (sample SD of 5 and 7)

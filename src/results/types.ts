@@ -5,7 +5,7 @@
  * that depend on iteration order.
  */
 import type { FitResult } from '../numeric/types.js';
-import type { ControlClass, DiseaseDirection, Domain, Issue, SourceRef } from '../study/types.js';
+import type { ControlClass, DiseaseDirection, Domain, Issue, SourceRef } from './source.js';
 
 /** Comparison scale of a metric: ratio metrics are compared on the log scale. */
 export type MetricScale = 'ratio' | 'difference';

@@ -2,15 +2,9 @@
  * Starter files for `myofolio init`, generated from the row schemas: one CSV per input
  * kind with a comment line per column and the header, and a manifest listing them. Pure.
  */
-import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME } from './schemas.js';
+import { CATALOGUE, INPUT_KINDS, KIND_DEFS, MANIFEST_NAME } from './schemas.js';
 import type { InputKind } from './types.js';
 import { UNITS, unitChoices } from './units.js';
-
-/** Columns a template shows: all but the second of each alternative pair and force-only helpers. */
-const TEMPLATE_SKIP: Partial<Record<InputKind, string[]>> = {
-  'motility-tracks': ['frame'],
-  'force-pca': ['force', 'area'],
-};
 
 /** The header cell of a column in templates: name plus its canonical unit. */
 export function templateHeader(kind: InputKind, name: string): string {
@@ -21,7 +15,8 @@ export function templateHeader(kind: InputKind, name: string): string {
 /** CSV template text of one input kind. */
 export function csvTemplate(kind: InputKind): string {
   const cat = CATALOGUE[kind];
-  const cols = cat.columns.filter((c) => !(TEMPLATE_SKIP[kind] ?? []).includes(c.name));
+  // All columns but those the kind leaves out of templates (the second of an alternative pair, helpers).
+  const cols = cat.columns.filter((c) => !(KIND_DEFS[kind]?.templateSkip ?? []).includes(c.name));
   const lines = [`# ${cat.title}. ${cat.description}`, '# Lines starting with # are comments. One row per observation; delete these comments if you like.'];
   for (const c of cols) {
     const units = c.quantity ? ` Units: ${unitChoices(c.quantity).join(', ')}${c.pixels ? ', px' : ''}.` : '';

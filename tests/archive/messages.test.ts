@@ -1,4 +1,4 @@
-/** The archive's message catalogue: every message says what is wrong and how to fix it (STYLE.md habit 9). */
+/** The archive's message catalogue: every message says what is wrong and how to fix it (a habit of all our catalogues). */
 import { describe, expect, it } from 'vitest';
 import { ARCHIVE_MSG } from '../../src/archive/messages.js';
 

@@ -1,6 +1,6 @@
 /**
- * Variant pages are rendered from variantSiteData(site) alone (and kept in the page cache under
- * a key of that data): every `site.<field>` the variant template, its layout and its macros
+ * Variant pages are rendered from variantSiteData(site) alone (Eleventy is given only that
+ * data): every `site.<field>` the variant template, its layout and its macros
  * read must be in it, or the field would silently render empty.
  */
 import { readFileSync } from 'node:fs';

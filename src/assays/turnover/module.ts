@@ -11,58 +11,23 @@
  * WT traces of its batch (their rates tell which phase a one-phase trace shows), so the module
  * analyses a batch at a time. Pure: no I/O.
  */
-import { ASSAY, FIT } from '../defaults.js';
-import { extraSumOfSquaresF } from '../numeric/compare.js';
-import { exponentialDouble, slowFraction } from '../numeric/models/exponential-double.js';
-import { exponentialDoubleFixedRate } from '../numeric/models/exponential-double-fixed.js';
-import { exponentialSingle } from '../numeric/models/exponential-single.js';
-import { fitCurve } from '../numeric/nls.js';
-import type { CurveModel, FitResult } from '../numeric/types.js';
-import type { Flag, MetricDef, UnitResult } from '../results/types.js';
-import type { SourceRef, Study, TurnoverRow } from '../study/types.js';
-import { mean, se } from '../stats/descriptive.js';
-import { assaySetting, groupBy } from './assay-common.js';
-import type { SettingsBag } from './assay-common.js';
-import { GROUP_COLOURS, brokenPaths } from './chart-common.js';
-import { groupUnits, relativeSeFlags } from './assay-common.js';
-import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
-
-/** Unit flags that qualify the turnover values: counted on the comparison rows. */
-const QUALIFIERS = ['one-phase-trace', 'window-too-short', 'not-converged', 'no-reference-rates'] as const;
-
-export const TURNOVER_METRICS: MetricDef[] = [
-  {
-    id: 'slowFraction',
-    label: 'Slow-phase fraction',
-    unit: '',
-    scale: 'difference',
-    hyper: 'down',
-    primary: true,
-    description:
-      'Slow amplitude over the sum of fast and slow amplitudes: the share of heads in the slow (super-relaxed) state. Fewer slow heads means more heads available, counted as hypercontractile.',
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'kFast',
-    label: 'Fast-phase rate',
-    unit: 's⁻¹',
-    scale: 'ratio',
-    hyper: 'none',
-    primary: false,
-    description: 'Rate constant of the fast phase of nucleotide release.',
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'kSlow',
-    label: 'Slow-phase rate',
-    unit: 's⁻¹',
-    scale: 'ratio',
-    hyper: 'none',
-    primary: false,
-    description: 'Rate constant of the slow phase of nucleotide release.',
-    carryFlags: QUALIFIERS,
-  },
-];
+import { FIT } from '../../defaults.js';
+import { extraSumOfSquaresF } from '../../numeric/compare.js';
+import { exponentialDouble, slowFraction } from '../../numeric/models/exponential-double.js';
+import { exponentialDoubleFixedRate } from '../../numeric/models/exponential-double-fixed.js';
+import { exponentialSingle } from '../../numeric/models/exponential-single.js';
+import { fitCurve } from '../../numeric/nls.js';
+import type { CurveModel, FitResult } from '../../numeric/types.js';
+import type { SourceRef } from '../../results/source.js';
+import type { Flag, UnitResult } from '../../results/types.js';
+import { mean, se } from '../../stats/descriptive.js';
+import { assaySetting, groupBy, rowsOf } from '../assay-common.js';
+import { GROUP_COLOURS, brokenPaths } from '../chart-common.js';
+import { groupUnits, relativeSeFlags } from '../assay-common.js';
+import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
+import { TURNOVER, type TurnoverRow } from './inputs.js';
+import { TURNOVER_BANDS, TURNOVER_METRICS } from './metrics.js';
+import { TURNOVER_SETTINGS as SETTINGS } from './settings.js';
 
 /** Thresholds in force for the turnover analysis. */
 export interface TurnoverSettings {
@@ -71,12 +36,12 @@ export interface TurnoverSettings {
   minSlowTimeConstants: number;
 }
 
-/** Read the turnover settings: later bags (more specific) override earlier ones, then src/defaults.ts. */
+/** Read the turnover settings: later bags (more specific) override earlier ones, then the defaults (settings.ts). */
 export function turnoverSettings(...bags: SettingsBag[]): TurnoverSettings {
   return {
-    fTestAlpha: assaySetting('turnoverFTestAlpha', ...bags),
-    minRateRatio: assaySetting('turnoverMinRateRatio', ...bags),
-    minSlowTimeConstants: assaySetting('turnoverMinSlowTimeConstants', ...bags),
+    fTestAlpha: assaySetting(SETTINGS, 'turnoverFTestAlpha', ...bags),
+    minRateRatio: assaySetting(SETTINGS, 'turnoverMinRateRatio', ...bags),
+    minSlowTimeConstants: assaySetting(SETTINGS, 'turnoverMinSlowTimeConstants', ...bags),
   };
 }
 
@@ -123,7 +88,7 @@ function param(fit: FitResult, name: string): number {
  * A trace shorter than turnoverMinSlowTimeConstants/kSlow is flagged (slow phase not
  * followed long enough).
  * Source: model and slow fraction as in Hooijman, Stewart & Cooke 2011, Biophys J
- * 100:1969, and Sarkar et al., Sci Adv 2020 (REFERENCES.md §6).
+ * 100:1969, and Sarkar et al., Sci Adv 2020.
  * @example fitTurnoverTrace(t, 0.7·e^(−0.03t) + 0.3·e^(−0.0034t) sampled 0–1800 s, settings)
  *   // → { model: 'double', slowFraction: 0.30, kFast: 0.030, kSlow: 0.0034, … }
  */
@@ -323,7 +288,7 @@ function modelOf(trace: TraceResult): CurveModel {
  * Normalised fluorescence of a trace: (F − c)/(F̂(t_first) − c) from the chosen fit
  * (offset c, fitted value at the first time), so each fitted trace falls from 1 to 0.
  * Without a fit: (F − F_last)/(F_first − F_last) with the readings themselves.
- * @example normaliser(doubleFitWithOffset120AndAmplitude500, t, y)(300.2) // → 0.36035 (t = 60 s of the REFERENCES.md §6 curve)
+ * @example normaliser(doubleFitWithOffset120AndAmplitude500, t, y)(300.2) // → 0.36035 (t = 60 s of the double-exponential check curve: slow fraction 0.30, 0.030 and 0.0034 s⁻¹, computed)
  */
 function normaliser(trace: TraceResult, t: readonly number[], y: readonly number[]): (value: number) => number {
   if (trace.fit) {
@@ -464,7 +429,7 @@ function seOfParam(r: TraceResult, name: string): number | null {
 }
 
 /** Settings of the input file a row came from (manifest per-file settings), if any. */
-function fileSettings(study: Study, file: string | undefined): SettingsBag {
+function fileSettings(study: AssayStudy, file: string | undefined): SettingsBag {
   return study.files.find((f) => f.path === file)?.settings;
 }
 
@@ -473,9 +438,9 @@ function fileSettings(study: Study, file: string | undefined): SettingsBag {
  * the batch's WT traces give the reference rates (`referenceRates`), and each unit is summarised
  * with them.
  */
-export function analyseTurnover(study: Study): UnitResult[] {
+export function analyseTurnover(study: AssayStudy): UnitResult[] {
   const wt = new Set(study.variants.filter((v) => v.isWT).map((v) => v.id));
-  const groups = groupUnits(study.rows.turnover ?? []);
+  const groups = groupUnits(rowsOf(study, TURNOVER));
   const fitted = groups.map((g) => fitUnitTraces(g.rows, turnoverSettings(study.settings, fileSettings(study, g.rows[0]!.at.file))));
   const references = new Map<string, ReferenceRates | null>();
   for (const batch of new Set(groups.map((g) => g.batch))) {
@@ -595,19 +560,23 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
   };
 }
 
+export { TURNOVER_METRICS };
+
 export const turnover: AssayModule = {
   id: 'turnover',
   label: 'Single turnover (mant-nucleotide chase)',
-  inputs: ['turnover'],
+  inputs: [TURNOVER],
   metrics: TURNOVER_METRICS,
+  bands: TURNOVER_BANDS,
+  settings: SETTINGS,
   analyse: analyseTurnover,
   chart: turnoverChart,
   methods: [
     `Each chase trace is fitted with ${exponentialDouble.formula} and with ${exponentialSingle.formula} by Levenberg–Marquardt nonlinear least squares, time as recorded so that amplitudes refer to t = 0.`,
-    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${ASSAY.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${ASSAY.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), both amplitudes are positive, and both rates and both amplitudes have a standard error of at most ${FIT.maxRelativeSe * 100}% of their value (a spurious split of one phase into two fits the data but leaves them loose). Otherwise only one phase is resolved and the trace is flagged.`,
+    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${SETTINGS.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${SETTINGS.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), both amplitudes are positive, and both rates and both amplitudes have a standard error of at most ${FIT.maxRelativeSe * 100}% of their value (a spurious split of one phase into two fits the data but leaves them loose). Otherwise only one phase is resolved and the trace is flagged.`,
     'A one-phase trace is placed by a stated rule: its rate is the fast phase when it is at least √(kFast·kSlow) of the WT traces of the same batch (geometric means over WT traces with two resolved phases), else the slow phase. It is then refitted with both phases and the other phase’s rate fixed at WT’s: the other amplitude is estimated from the data (it may come out near zero or below), so a trace with no slow phase gives a slow fraction near 0, and one with only a slow phase near 1, each with its standard error. A batch with no such WT trace leaves one-phase traces without a value, flagged.',
     'Slow-phase fraction = Aslow/(Afast + Aslow) (Sarkar et al., Sci Adv 2020), with its standard error by the delta method.',
     'Traces are technical replicates: each preparation’s metrics are the means of its traces’ estimable metrics (a trace left without a value is named in a flag on the preparation and on the comparison), and the preparation is the unit counted in the comparison with WT. The slow fraction is primary (difference scale; a decrease, more heads available, counts as hypercontractile); fast and slow rates are reported only.',
-    `Flags: one phase resolved; no WT reference rates in the batch; a trace shorter than ${ASSAY.turnoverMinSlowTimeConstants} slow-phase time constant(s) 1/kSlow (setting turnoverMinSlowTimeConstants); a rate or slow amplitude whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value; no converged fit.`,
+    `Flags: one phase resolved; no WT reference rates in the batch; a trace shorter than ${SETTINGS.turnoverMinSlowTimeConstants} slow-phase time constant(s) 1/kSlow (setting turnoverMinSlowTimeConstants); a rate or slow amplitude whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value; no converged fit.`,
   ],
 };
