@@ -82,47 +82,18 @@ export function textWidth(text: string, fontSize: number, bold = false): number 
 interface TextItem {
   fontSize?: number | string;
   fontWeight?: unknown;
-  limit?: number;
-  ellipsis?: string;
-  dir?: string;
 }
 
 /**
- * Vega's truncation of text to `item.limit` px (vega-scenegraph `truncate`), measured with
- * textWidth: the longest prefix that, with the ellipsis, fits under the limit.
- */
-function truncated(text: string, size: number, bold: boolean, item: TextItem): string {
-  const limit = Number(item.limit);
-  const width = (t: string) => textWidth(t, size, bold);
-  if (width(text) < limit) return text;
-  const ellipsis = item.ellipsis || '\u2026';
-  const room = limit - width(ellipsis);
-  let lo = 0;
-  let hi = text.length;
-  if (item.dir === 'rtl') {
-    while (lo < hi) {
-      const mid = (lo + hi) >>> 1;
-      if (width(text.slice(mid)) > room) lo = mid + 1;
-      else hi = mid;
-    }
-    return ellipsis + text.slice(lo);
-  }
-  while (lo < hi) {
-    const mid = 1 + ((lo + hi) >>> 1);
-    if (width(text.slice(0, mid)) < room) lo = mid;
-    else hi = mid - 1;
-  }
-  return text.slice(0, lo) + ellipsis;
-}
-
-/**
- * Width of a vega text item's line as vega's `textMetrics.width(item, text)` is asked for it:
- * font size (vega's default 11), weight and truncation to the item's limit as vega applies them.
+ * Width of one line of a vega text item, as vega's `textMetrics.width(item, text)` hook is asked
+ * for it: font size (vega's default 11) and weight from the item, the text untruncated. Vega
+ * truncates to an item's `limit` itself, measuring with this function (a width that applied the
+ * limit too would always fit, and nothing would be truncated); a truncated item's bounds are then
+ * those of its full text, a little wider than drawn.
  */
 export function vegaTextWidth(item: TextItem, text: unknown): number {
   const size = item.fontSize !== undefined && item.fontSize !== null ? Number(item.fontSize) || 0 : 11;
   const line = text === null || text === undefined ? '' : String(text).trim();
   if (size <= 0 || line === '') return 0;
-  const bold = isBold(item.fontWeight);
-  return textWidth(Number(item.limit) > 0 ? truncated(line, size, bold, item) : line, size, bold);
+  return textWidth(line, size, isBold(item.fontWeight));
 }
