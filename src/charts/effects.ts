@@ -3,7 +3,7 @@
  * against the metric's WT-like band (shaded) and the no-change line (1 for ratios, 0 for differences).
  */
 import type { MetricComparison, StudyResults } from '../results/types.js';
-import { type ChartDef, chartTitle, effectScale, fmt, fmtCi, fmtP, metricLabel, unitSuffix, variantById, variantNames } from './chart-def.js';
+import { type ChartDef, axisTitle, chartTitle, effectScale, fmt, fmtCi, fmtP, metricLabel, unitSuffix, variantById, variantNames } from './chart-def.js';
 import { BAND_FILL, CI_COLOUR, LABEL_COLOUR, METRIC_MARK_STYLE, REFERENCE, callScale, metricMark } from './palette.js';
 
 /** Variants an effects chart labels one row each; larger studies get a ranked plot without names. */
@@ -50,7 +50,7 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
   const { scale: xScale, axis } = effectScale([...rows.flatMap((r) => [r.effect, r.lo, r.hi]), band[0], band[1]], log);
   const label = metricLabel(results, assayId, metricId);
   const xTitle = log ? `${def?.label ?? metricId}: ratio to paired WT (log scale)` : `${def?.label ?? metricId}: difference from paired WT${unitSuffix(def?.unit)}`;
-  const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, axis: { ...axis, titleLimit: EFFECTS_WIDTH }, title: xTitle });
+  const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, axis, title: axisTitle(xTitle, EFFECTS_WIDTH) });
   const calls = [...new Set(rows.map((r) => r.call))];
   const title = `${label}: all variants against paired WT`;
   const legendTitle = 'Metric call (direction it implies)';

@@ -137,7 +137,7 @@ function candidates(req: LabelRequest, w: number, h: number, gap: number, step: 
       }
     }
   } else {
-    const shifts = [0, 0.35, -0.35, 0.7, -0.7, 1, -1];
+    const shifts = [0, 0.35, -0.35, 0.7, -0.7, 1, -1, 1.5, -1.5, 2, -2, 3, -3];
     out.push({ cx: req.x, cy: req.y - near - h / 2, leader: false }, { cx: req.x, cy: req.y + near + h / 2, leader: false });
     for (let d = near; d <= maxDistance; d += step) {
       for (const s of shifts) {
@@ -183,7 +183,8 @@ export function placeLabels(requests: readonly LabelRequest[], options: PlaceOpt
         const x1 = req.x + ((x2 - req.x) * (req.r + 1)) / len;
         const y1 = req.y + ((y2 - req.y) * (req.r + 1)) / len;
         const hits = (b: Box) => segmentHitsBox(x1, y1, x2, y2, b);
-        if (fixed.some((b, i) => i !== index && hits(b))) continue;
+        // Marks that overlap the labelled one cannot be avoided by its leader; others must be.
+        if (fixed.some((b, i) => i !== index && !overlaps(b, own) && hits(b))) continue;
         if (placed.some((p) => hits(p.box) || (p.leader && segmentsCross([x1, y1], [x2, y2], [p.leader.x1, p.leader.y1], [p.leader.x2, p.leader.y2])))) continue;
         leader = { x1, y1, x2, y2 };
       }

@@ -5,7 +5,7 @@
  * as well as colour, and named in the table.
  */
 import type { ControlChart, StudyResults } from '../results/types.js';
-import { type ChartDef, chartTitle, fmt, metricLabel, unitSuffix } from './chart-def.js';
+import { type ChartDef, axisTitle, chartTitle, fmt, metricLabel, unitSuffix } from './chart-def.js';
 import { QC_STATUS_STYLE } from './palette.js';
 import { textWidth } from './text-width.js';
 
@@ -22,6 +22,7 @@ function statusOf(rules: string[]): Status {
 
 /** Width in px of the plot (about 680 px with axis and SD labels: an A4 page at 100%). */
 export const LJ_WIDTH = 560;
+const LJ_HEIGHT = 240;
 /** Largest marker (area, px²); smaller when runs are closer than its width, so markers never overlap. */
 const LJ_MARKER_MAX = 80;
 /** Alternating fills of batch bands. */
@@ -71,7 +72,7 @@ export function leveyJenningsChart(results: StudyResults, cc: ControlChart): Cha
   // Room above the +3 SD line for the batch names.
   const lo = Math.min(mean - 3.6 * sd, ...points.map((p) => p.value - 0.3 * sd));
   const hi = Math.max(mean + 4.4 * sd, ...points.map((p) => p.value + 1.2 * sd));
-  const y = (field: string) => ({ field, type: 'quantitative', scale: { zero: false, nice: false, domain: [lo, hi] }, title: yTitle, axis: { titleLimit: 240 } });
+  const y = (field: string) => ({ field, type: 'quantitative', scale: { zero: false, nice: false, domain: [lo, hi] }, title: axisTitle(yTitle, LJ_HEIGHT) });
   const title = `WT control chart: ${label}`;
   // Batch names are drawn only when each fits its band (else the table and the description name them).
   const namesFit = bands.every((b) => textWidth(b.batch, 10) + 4 <= (b.to - b.from) * spacing);
@@ -79,7 +80,7 @@ export function leveyJenningsChart(results: StudyResults, cc: ControlChart): Cha
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     title: chartTitle(title, LJ_WIDTH + 60),
     width: LJ_WIDTH,
-    height: 240,
+    height: LJ_HEIGHT,
     layer: [
       ...[0, 1].map((f) => ({
         data: { values: bands.filter((b) => b.fill === f) },

@@ -100,29 +100,41 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
       },
     ],
   };
-  // Domain names inside their bars, shortened to fit (left off when even three letters do not fit; the description names every domain).
+  // Domain names inside their bars when they fit, else centred below the bar when that row has room, else left off (the description names every domain).
+  const below: Array<{ x0: number; x1: number }> = [];
   const bars = domains.map((d) => {
-    const room = px(d.end) - px(d.start) - 6;
-    return { name: fitText(d.name, room, DOMAIN_FONT), start: d.start, end: d.end, mid: (d.start + d.end) / 2 };
+    const mid = (d.start + d.end) / 2;
+    const w = textWidth(d.name, DOMAIN_FONT);
+    let row: 'inside' | 'below' | 'none' = 'inside';
+    let cx = px(mid);
+    if (w + 4 > px(d.end) - px(d.start)) {
+      cx = Math.min(Math.max(cx, w / 2), W - w / 2);
+      const span = { x0: cx - w / 2 - 3, x1: cx + w / 2 + 3 };
+      row = below.some((b) => b.x0 < span.x1 && span.x0 < b.x1) ? 'none' : 'below';
+      if (row === 'below') below.push(span);
+    }
+    return { name: d.name, start: d.start, end: d.end, cx: Math.round(cx * 10) / 10, row };
   });
   const barLayer = (fill: string, values: typeof bars) => ({
     data: { values },
     mark: { type: 'rect', stroke: '#5a6570', strokeWidth: 0.6, color: fill },
     encoding: { x: { field: 'start', ...x }, x2: { field: 'end' }, y: { value: 3 }, y2: { value: 27 } },
   });
+  const nameLayer = (row: 'inside' | 'below', y: number) => ({
+    data: { values: bars.filter((b) => b.row === row) },
+    mark: { type: 'text', fontSize: DOMAIN_FONT, color: '#1b2530', baseline: 'middle' },
+    encoding: { x: { field: 'cx', type: 'quantitative', scale: null, axis: null }, y: { value: y }, text: { field: 'name', type: 'nominal' } },
+  });
   const domainPanel = {
     width: W,
-    height: 30,
+    height: below.length > 0 ? 46 : 30,
     layer: [
       barLayer(DOMAIN_FILLS[0], bars.filter((_b, i) => i % 2 === 0)),
       barLayer(DOMAIN_FILLS[1], bars.filter((_b, i) => i % 2 === 1)),
-      {
-        data: { values: bars.filter((b) => b.name !== '') },
-        mark: { type: 'text', fontSize: DOMAIN_FONT, color: '#1b2530', baseline: 'middle' },
-        encoding: { x: { field: 'mid', ...x }, y: { value: 15 }, text: { field: 'name', type: 'nominal' } },
-      },
+      nameLayer('inside', 15),
+      ...(below.length > 0 ? [nameLayer('below', 37)] : []),
       // The axis of the map (ticks at round residue numbers).
-      { data: { values: [{ r: 1 }] }, mark: { type: 'point', opacity: 0 }, encoding: { x: { field: 'r', ...x, axis: { tickCount: 10, format: 'd', titleLimit: W } } } },
+      { data: { values: [{ r: 1 }] }, mark: { type: 'point', opacity: 0 }, encoding: { x: { field: 'r', ...x, axis: { tickCount: 10, format: 'd' } } } },
     ],
   };
   const spec = {
@@ -148,15 +160,3 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
   return { key: `residues:${gene}`, title, description, spec, table };
 }
 
-/**
- * Text shortened with '…' to fit `room` px at `fontSize`, or '' when not even 3 characters and the ellipsis fit.
- * @example fitText('converter', 30, 11) // → '' ; fitText('motor domain', 500, 11) // → 'motor domain'
- */
-export function fitText(text: string, room: number, fontSize: number): string {
-  if (textWidth(text, fontSize) <= room) return text;
-  for (let n = text.length - 1; n >= 3; n--) {
-    const t = `${text.slice(0, n).trimEnd()}…`;
-    if (textWidth(t, fontSize) <= room) return t;
-  }
-  return '';
-}

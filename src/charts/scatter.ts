@@ -6,7 +6,7 @@
  * (src/charts/labels.ts); a label with no room is left off and its variant named in the note.
  */
 import type { FunctionCall, MetricComparison, StudyResults } from '../results/types.js';
-import { type ChartDef, chartTitle, effectScale, fmt, fmtCi, metricLabel, variantById, variantNames } from './chart-def.js';
+import { type ChartDef, axisTitle, chartTitle, effectScale, fmt, fmtCi, metricLabel, variantById, variantNames } from './chart-def.js';
 import { axisPosition, labelLayers, placeLabels } from './labels.js';
 import { BAND_FILL, CI_COLOUR, FUNCTION_CALL_STYLE, LABEL_COLOUR, LEADER_COLOUR, callScale } from './palette.js';
 
@@ -60,8 +60,8 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
   const short = (p: Pick) => results.assays.find((x) => x.id === p.assay)?.metrics.find((m) => m.id === p.metric)?.label ?? p.metric;
   // Axis titles name the metric only (the chart title names the assays): long titles push the plot down.
   const titleOf = (c: MetricComparison, p: Pick) => (c.scale === 'ratio' ? `${short(p)}: ratio to WT (log)` : `${short(p)}: difference from WT`);
-  const X = (field: string) => ({ field, type: 'quantitative', scale: sx.scale, axis: { ...sx.axis, titleLimit: SCATTER_WIDTH }, title: titleOf(first, a) });
-  const Y = (field: string) => ({ field, type: 'quantitative', scale: sy.scale, axis: { ...sy.axis, titleLimit: SCATTER_HEIGHT }, title: titleOf(second, b) });
+  const X = (field: string) => ({ field, type: 'quantitative', scale: sx.scale, axis: sx.axis, title: axisTitle(titleOf(first, a), SCATTER_WIDTH) });
+  const Y = (field: string) => ({ field, type: 'quantitative', scale: sy.scale, axis: sy.axis, title: axisTitle(titleOf(second, b), SCATTER_HEIGHT) });
   const calls = [...new Set(rows.map((r) => r.call))];
   const title = `${la} against ${lb}`;
 

@@ -399,7 +399,7 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
           transform: kind('bin'),
           mark: { type: 'rect' },
           encoding: {
-            x: { field: 'binStart', type: 'quantitative', axis: { title: { signal: 'xTitle' }, titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal' }, scale: { domain: [0, { expr: 'xTop' }], nice: false } },
+            x: { field: 'binStart', type: 'quantitative', axis: { title: { signal: 'xTitle' }, titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal', tickCount: 8, labelFlush: false }, scale: { domain: [0, { expr: 'xTop' }], nice: false } },
             x2: { field: 'binEnd' },
             y: { field: 'share', type: 'quantitative', title: null, scale: { domain: [0, { expr: 'yTop' }], nice: false }, axis: null },
             y2: { field: 'shareLow' },
