@@ -44,7 +44,7 @@ export function groupChannel(prop: 'colour' | 'shape' | 'dash'): Record<string, 
     title: null,
     scale: { domain: ['WT', 'Variant'], range: [pick(GROUP_STYLE.WT), pick(GROUP_STYLE.variant)] },
     // The dash stays out of the legend: vega would draw it round the legend's symbols, blurring them.
-    legend: prop === 'dash' ? null : { labelExpr: `datum.label === 'Variant' ? ${VARIANT_NAME_PARAM} : datum.label`, symbolSize: 70 },
+    legend: prop === 'dash' ? null : { labelExpr: `datum.label === 'Variant' ? ${VARIANT_NAME_PARAM} : datum.label`, symbolSize: 80, symbolOpacity: 1, symbolStrokeWidth: 0 },
   };
 }
 
