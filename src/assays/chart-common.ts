@@ -33,19 +33,38 @@ export function groupParams(input: AssayChartInput): Array<{ name: string; value
 }
 
 /**
- * One group channel (colour, shape or dash) keyed by the `group` field; colour and shape have the
- * same legend settings, so that vega-lite merges them into one legend naming WT and the variant.
+ * One group channel (colour or shape) keyed by the `group` field, both with the same legend
+ * settings, so that vega-lite merges them into one legend naming WT and the variant. Lines get
+ * their colour and dash from groupCurveLayers instead (a dash channel on the same field would
+ * clash with this legend).
  */
-export function groupChannel(prop: 'colour' | 'shape' | 'dash'): Record<string, unknown> {
-  const pick = (s: (typeof GROUP_STYLE)['WT'] | (typeof GROUP_STYLE)['variant']) => (prop === 'colour' ? s.colour : prop === 'shape' ? s.shape : s.dash);
+export function groupChannel(prop: 'colour' | 'shape'): Record<string, unknown> {
   return {
     field: 'group',
     type: 'nominal',
     title: null,
-    scale: { domain: ['WT', 'Variant'], range: [pick(GROUP_STYLE.WT), pick(GROUP_STYLE.variant)] },
-    // The dash stays out of the legend: vega would draw it round the legend's symbols, blurring them.
-    legend: prop === 'dash' ? null : { labelExpr: `datum.label === 'Variant' ? ${VARIANT_NAME_PARAM} : datum.label`, symbolSize: 80, symbolOpacity: 1, symbolStrokeWidth: 0 },
+    scale: { domain: ['WT', 'Variant'], range: prop === 'colour' ? [GROUP_STYLE.WT.colour, GROUP_STYLE.variant.colour] : [GROUP_STYLE.WT.shape, GROUP_STYLE.variant.shape] },
+    legend: { labelExpr: `datum.label === 'Variant' ? ${VARIANT_NAME_PARAM} : datum.label`, symbolSize: 80, symbolOpacity: 1, symbolStrokeWidth: 0 },
   };
+}
+
+/**
+ * Fitted curves as two line layers, WT's (light grey, dashed) and then the variant's (near-black,
+ * solid) over them: each group one broken path (brokenPaths, keyed by `key`), drawn in its order.
+ */
+export function groupCurveLayers(
+  wt: ReadonlyArray<Record<string, unknown>>,
+  variant: ReadonlyArray<Record<string, unknown>>,
+  key: string,
+  x: Record<string, unknown> & { field: string },
+  y: Record<string, unknown> & { field: string },
+  mark: Record<string, unknown> = {},
+): Array<Record<string, unknown>> {
+  return ([['WT', wt], ['variant', variant]] as const).map(([g, rows]) => ({
+    data: { values: brokenPaths(rows, key, x.field, y.field) },
+    mark: { type: 'line', strokeWidth: 1.5, ...mark, color: GROUP_STYLE[g].colour, strokeDash: GROUP_STYLE[g].dash },
+    encoding: { x, y, order: { field: 'seq', type: 'quantitative' } },
+  }));
 }
 
 export function groupEncoding(): Record<string, unknown> {
@@ -98,19 +117,12 @@ export function brokenPaths(rows: ReadonlyArray<Record<string, unknown>>, key: s
 }
 
 /**
- * Points per unit with a fitted curve per unit, variant and WT overlaid, shapes by group.
+ * Points per unit with a fitted curve per unit, variant and WT overlaid (the variant's on top), shapes by group.
  * The numbers table lists each preparation's metrics (the drawn readings and curves are in
  * results.json), not the drawn points.
  */
 export function unitChart(input: AssayChartInput, o: UnitChartOptions): ChartSpec {
   const points = [...flattenUnits(input.wtUnits, 'WT', 'points'), ...flattenUnits(input.variantUnits, 'Variant', 'points')];
-  // Curve keys are group + preparation, so WT and variant curves never join.
-  const curve = brokenPaths(
-    [...flattenUnits(input.wtUnits, 'WT', 'curve'), ...flattenUnits(input.variantUnits, 'Variant', 'curve')].map((r) => ({ ...r, curveKey: `${r.group} ${r.unit}` })),
-    'curveKey',
-    o.x.field,
-    o.y.field,
-  );
   const x = { field: o.x.field, type: 'quantitative', title: o.x.title, scale: { reverse: o.x.reverse ?? false, zero: false } };
   const y = { field: o.y.field, type: 'quantitative', title: o.y.title };
   const table = {
@@ -133,15 +145,12 @@ export function unitChart(input: AssayChartInput, o: UnitChartOptions): ChartSpe
     height: UNIT_CHART_HEIGHT,
     layer: [
       {
-        data: { values: curve },
-        mark: { type: 'line', strokeWidth: 1.5, opacity: 0.85 },
-        encoding: { x, y, order: { field: 'seq', type: 'quantitative' }, strokeDash: groupChannel('dash'), ...o.encodingExtra },
-      },
-      {
         data: { values: points },
         mark: { type: 'point', filled: true, size: 36, opacity: 0.75 },
         encoding: { x, y, shape: groupChannel('shape'), ...o.encodingExtra },
       },
+      // One curve per preparation (keyed by preparation, so two never join), WT's and then the variant's.
+      ...groupCurveLayers(flattenUnits(input.wtUnits, 'WT', 'curve'), flattenUnits(input.variantUnits, 'Variant', 'curve'), 'unit', x, y, { opacity: 0.9 }),
     ],
   };
 }

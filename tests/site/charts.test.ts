@@ -122,10 +122,15 @@ describe('assay unit charts (ATPase, force)', () => {
       ['X9Y', 'v-1', 'B1', '24', '5.56', '20.1', '0.276', '0.0456'],
     ]);
     expect(sig3(null)).toBe('—');
-    // 3 curves of 3 points, 2 breaks (between WT preparations and before the variant's).
-    const curve = (spec.layer as Array<{ data: { values: Array<Record<string, unknown>> } }>)[0].data.values;
-    expect(curve).toHaveLength(11);
-    expect(curve.filter((r) => r.rate === null).map((r) => r.seq)).toEqual([3, 7]);
+    // WT's 2 curves of 3 points in one path with a break between them, then the variant's curve in a layer of its own, drawn over WT's.
+    const layers = spec.layer as Array<{ data: { values: Array<Record<string, unknown>> }; mark: { type: string; color?: string; strokeDash?: number[] } }>;
+    const [wtCurve, variantCurve] = layers.filter((l) => l.mark.type === 'line');
+    expect(wtCurve.data.values).toHaveLength(7);
+    expect(wtCurve.data.values.filter((r) => r.rate === null).map((r) => r.seq)).toEqual([3]);
+    expect(variantCurve.data.values).toHaveLength(3);
+    expect(wtCurve.mark.strokeDash).toEqual([5, 3]);
+    expect(variantCurve.mark.strokeDash).toEqual([1, 0]);
+    expect(layers.indexOf(variantCurve)).toBeGreaterThan(layers.indexOf(wtCurve));
     expect(await renderSvg(drawnSpec(spec), { key: 'atpase-test' })).toMatch(/^<svg/);
   });
 });

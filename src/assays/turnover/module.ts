@@ -22,7 +22,7 @@ import type { SourceRef } from '../../results/source.js';
 import type { Flag, UnitResult } from '../../results/types.js';
 import { mean, se } from '../../stats/descriptive.js';
 import { assaySetting, groupBy, rowsOf } from '../assay-common.js';
-import { UNIT_CHART_HEIGHT, UNIT_CHART_WIDTH, brokenPaths, groupChannel, groupParams } from '../chart-common.js';
+import { UNIT_CHART_HEIGHT, UNIT_CHART_WIDTH, groupChannel, groupCurveLayers, groupParams } from '../chart-common.js';
 import { groupUnits, relativeSeFlags } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { TURNOVER, type TurnoverRow } from './inputs.js';
@@ -536,7 +536,7 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
   const inRange = (r: { time: unknown }) => positive(r) && (r.time as number) >= tMin;
   const points = allPoints.filter(inRange);
   // One broken path per group (see brokenPaths): the same lines as one per trace, far fewer vega operators.
-  const curve = brokenPaths(allCurve.filter(inRange), 'traceKey', 'time', 'normFluorescence');
+  const curve = allCurve.filter(inRange);
   const x = {
     field: 'time',
     type: 'quantitative',
@@ -564,11 +564,14 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
         mark: { type: 'point', filled: true, size: 14, opacity: 0.45 },
         encoding: { x, y, color: groupChannel('colour'), shape: groupChannel('shape') },
       },
-      {
-        data: { values: curve },
-        mark: { type: 'line', strokeWidth: 1.6, interpolate: 'monotone' },
-        encoding: { x, y, color: groupChannel('colour'), order: { field: 'seq', type: 'quantitative' }, strokeDash: groupChannel('dash') },
-      },
+      ...groupCurveLayers(
+        curve.filter((r) => r.group === 'WT'),
+        curve.filter((r) => r.group === 'Variant'),
+        'traceKey',
+        x,
+        y,
+        { strokeWidth: 1.6, interpolate: 'monotone' },
+      ),
     ],
   };
 }
