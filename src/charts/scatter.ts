@@ -68,9 +68,11 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
   // Labels: placed in plot pixels from the same domains vega draws with (nice: false).
   const px = (v: number) => axisPosition(v, sx.scale.domain as [number, number], SCATTER_WIDTH, xLog ? 'log' : 'linear', false);
   const py = (v: number) => axisPosition(v, sy.scale.domain as [number, number], SCATTER_HEIGHT, yLog ? 'log' : 'linear', true);
+  // Within a priority, marks in a crowd first (most neighbours within 40 px): a lone mark finds room anywhere later.
+  const crowd = new Map(rows.map((r) => [r.id, rows.filter((q) => q !== r && Math.hypot(px(q.x) - px(r.x), py(q.y) - py(r.y)) < 40).length]));
   const offered = rows
     .filter((r) => rows.length <= SCATTER_LABEL_ALL_MAX || r.call !== 'within WT range')
-    .sort((p, q) => LABEL_PRIORITY[p.call] - LABEL_PRIORITY[q.call] || (p.name < q.name ? -1 : 1));
+    .sort((p, q) => LABEL_PRIORITY[p.call] - LABEL_PRIORITY[q.call] || (crowd.get(q.id) ?? 0) - (crowd.get(p.id) ?? 0) || (p.name < q.name ? -1 : 1));
   const radius = Math.sqrt(POINT_SIZE) / 2 + 0.5;
   const { placed, unplaced } = placeLabels(
     offered.map((r) => ({ id: r.id, text: r.name, x: px(r.x), y: py(r.y), r: radius, colour: FUNCTION_CALL_STYLE[r.call].colour })),
