@@ -14,7 +14,7 @@ import { scatterCharts } from '../../src/charts/scatter.js';
 import { lineRanges } from '../../src/site/view-common.js';
 import { relLink, rootPrefix, slug, uniqueSlugs } from '../../src/site/paths.js';
 import { XSS, makeFixture } from '../fixtures/results-fixture.js';
-import { turnoverChart } from '../../src/assays/turnover.js';
+import { turnoverChart } from '../../src/assays/turnover/module.js';
 import { FUNCTION_CALL_STYLE, METRIC_CALL_STYLE, METRIC_MARK_STYLE, metricMark } from '../../src/charts/palette.js';
 import { chartTitle } from '../../src/charts/chart-def.js';
 import { textWidth } from '../../src/charts/text-width.js';
