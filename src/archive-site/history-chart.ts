@@ -8,7 +8,8 @@
 import type { MetricHistory, MetricRow } from '../archive/history-types.js';
 import { releaseName } from '../archive/release.js';
 import { type ChartDef, effectScale, fmt, fmtCi } from '../charts/chart-def.js';
-import { BAND_FILL, CI_COLOUR, METRIC_CALL_STYLE, REFERENCE, callScale } from '../charts/palette.js';
+import { assayById } from '../assays/registry.js';
+import { BAND_FILL, CI_COLOUR, METRIC_MARK_STYLE, type MetricMark, REFERENCE, callScale, metricMark } from '../charts/palette.js';
 import type { MetricScale } from '../results/types.js';
 
 interface Row {
@@ -18,7 +19,8 @@ interface Row {
   hi: number | null;
   bandLo: number;
   bandHi: number;
-  call: string;
+  /** The direction the row's call implies (palette.ts metricMark): the same marks as the study's forest plots. */
+  call: MetricMark;
 }
 
 /** How a chart row names its analysis: the study and its date, then the release or 'current build' (two lines). */
@@ -37,7 +39,7 @@ interface Param {
  * `params`), not literals: charts with the same rows (studies) and calls then share one shape,
  * compiled once (src/charts/render.ts), as the study's own forest plots do.
  */
-function panel(rows: Row[], order: string[], scale: MetricScale, calls: string[], params: Param[]) {
+function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMark[], params: Param[]) {
   const log = scale === 'ratio';
   const fitted0 = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
   params.push({ name: `${scale}Domain`, value: fitted0.scale.domain });
@@ -63,8 +65,8 @@ function panel(rows: Row[], order: string[], scale: MetricScale, calls: string[]
         encoding: {
           y,
           x: x('effect'),
-          color: { field: 'call', type: 'nominal', title: 'Metric call', scale: callScale(METRIC_CALL_STYLE, calls as never, 'colour') },
-          shape: { field: 'call', type: 'nominal', title: 'Metric call', scale: callScale(METRIC_CALL_STYLE, calls as never, 'shape') },
+          color: { field: 'call', type: 'nominal', title: 'Metric call (direction it implies)', scale: callScale(METRIC_MARK_STYLE, calls, 'colour') },
+          shape: { field: 'call', type: 'nominal', title: 'Metric call (direction it implies)', scale: callScale(METRIC_MARK_STYLE, calls, 'shape') },
         },
       },
     ],
@@ -91,8 +93,10 @@ export function historyTable(m: MetricHistory): ChartDef['table'] {
 export function historyChart(variantName: string, m: MetricHistory): ChartDef | null {
   const estimable = m.rows.filter((r): r is MetricRow & { effect: number } => r.effect !== null && Number.isFinite(r.effect));
   if (estimable.length === 0) return null;
-  const toRow = (r: MetricRow & { effect: number }): Row => ({ row: rowName(r), effect: r.effect, lo: r.ciLow, hi: r.ciHigh, bandLo: r.band[0], bandHi: r.band[1], call: r.call });
-  const calls = [...new Set(estimable.map((r) => r.call))];
+  // Marked by the direction a change implies, from the metric's definition in the assay registry (as on the study's own charts).
+  const hyper = assayById(m.assay)?.metrics.find((d) => d.id === m.metric)?.hyper ?? 'none';
+  const toRow = (r: MetricRow & { effect: number }): Row => ({ row: rowName(r), effect: r.effect, lo: r.ciLow, hi: r.ciHigh, bandLo: r.band[0], bandHi: r.band[1], call: metricMark(r.call, hyper) });
+  const calls = [...new Set(estimable.map((r) => metricMark(r.call, hyper)))];
   const scales: MetricScale[] = (['ratio', 'difference'] as const).filter((s) => estimable.some((r) => r.scale === s));
   const params: Param[] = [];
   const panels = scales.map((s) => {

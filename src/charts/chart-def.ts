@@ -2,6 +2,7 @@
 import { fmtP as formatP } from '../results/format.js';
 import type { ChartSpec } from '../assays/types.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
+import { textWidth } from './text-width.js';
 
 /** The chart's numbers as a plain table (cells are display strings). */
 export interface DataTable {
@@ -110,4 +111,44 @@ export function effectScale(values: Array<number | null | undefined>, log: boole
   const hi = Math.max(0, ...finite);
   const pad = (hi - lo || 1) * 0.06;
   return { scale: { domain: [lo - pad, hi + pad], nice: false, zero: false }, axis: { tickCount: 6 } };
+}
+
+/** Font size of chart titles (src/charts/render.ts sets it in every chart's config). */
+export const TITLE_FONT_SIZE = 14;
+
+/**
+ * Text broken into lines of at most `maxWidth` px at `fontSize` (bold or not), at spaces; a single
+ * word longer than the width keeps a line of its own. One string when it fits on one line.
+ * @example wrapText('Mean velocity of moving filaments (µm/s)', 150, 12, true) // → ['Mean velocity of', 'moving filaments', '(µm/s)']
+ */
+export function wrapText(text: string, maxWidth: number, fontSize: number, bold: boolean): string | string[] {
+  if (textWidth(text, fontSize, bold) <= maxWidth) return text;
+  const lines: string[] = [];
+  let line = '';
+  for (const word of text.split(' ')) {
+    const next = line ? `${line} ${word}` : word;
+    if (line && textWidth(next, fontSize, bold) > maxWidth) {
+      lines.push(line);
+      line = word;
+    } else line = next;
+  }
+  if (line) lines.push(line);
+  return lines.length === 1 ? lines[0] : lines;
+}
+
+/**
+ * A chart title broken into lines of at most `maxWidth` px (bold, TITLE_FONT_SIZE), so that a long
+ * title does not widen the chart beyond its plot; one string when it fits.
+ * @example chartTitle('Short title', 600) // → 'Short title'
+ */
+export function chartTitle(text: string, maxWidth: number): string | string[] {
+  return wrapText(text, maxWidth, TITLE_FONT_SIZE, true);
+}
+
+/** Font size of axis titles (src/charts/render.ts); axis titles are bold. */
+export const AXIS_TITLE_FONT_SIZE = 12;
+
+/** An axis title broken into lines that fit `length` px (the axis's length), so it is never cut short. */
+export function axisTitle(text: string, length: number): string | string[] {
+  return wrapText(text, length, AXIS_TITLE_FONT_SIZE, true);
 }

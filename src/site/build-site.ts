@@ -20,6 +20,7 @@ import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import type { ChartsFor } from '../charts/assay-charts.js';
 import type { StudyResults } from '../results/types.js';
+import { chartFileWriter } from './chart-files.js';
 import { PATHS, uniqueSlugs } from './paths.js';
 import { type SiteArchive, archiveFrame, withArchiveNotes } from './archive-links.js';
 import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
@@ -180,13 +181,20 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
   });
   let pages = 0;
   const perRun = options.pagesPerRun ?? VARIANT_BATCH;
+  // Every chart also as an SVG file of its own (charts/), each block given its file's path.
+  const chartFiles = chartFileWriter(outDir);
   for (let i = 0; i < results.variants.length; i += perRun) {
     const batch = withArchiveNotes(await build(results.variants.slice(i, i + perRun)), options.archive);
+    for (const page of batch) await chartFiles.write(page.path, page);
     pages += await runEleventy(variantTemplate, outDir, { ...variantSite, variants: batch });
     options.afterRun?.();
   }
   progress?.('pages', 0, 1);
-  pages += await runEleventy(templatesDir, outDir, { ...frame, ...(await studyCharts(results, options.render)) });
+  const charts = await studyCharts(results, options.render);
+  for (const a of charts.assays) await chartFiles.write(a.path, a);
+  await chartFiles.write(PATHS.residues, charts.residues);
+  await chartFiles.write(PATHS.compare, charts.compare);
+  pages += await runEleventy(templatesDir, outDir, { ...frame, ...charts, chartFiles: chartFiles.list() });
   await cp(join(templatesDir, 'assets'), join(outDir, 'assets'), { recursive: true });
   progress?.('pages', 1, 1);
   return { pages };

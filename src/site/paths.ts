@@ -56,6 +56,9 @@ export const PATHS = {
   downloads: 'downloads.html',
   resultsJson: 'downloads/results.json',
   resultsCsv: 'downloads/results.csv',
+  /** Every chart as a standalone SVG (src/site/chart-files.ts). */
+  chartsDir: 'charts',
+  chartSvg: (name: string) => `charts/${name}.svg`,
   css: 'assets/site.css',
   js: 'assets/table.js',
 } as const;

@@ -14,6 +14,8 @@ export interface ChartBlock {
   description: string;
   svg: string;
   table: DataTable;
+  /** Site-relative path of the chart's standalone SVG file, set when it is written (src/site/chart-files.ts). */
+  file?: string;
 }
 
 export interface CallView {

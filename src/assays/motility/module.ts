@@ -391,14 +391,15 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
     },
     spacing: 3,
     spec: {
-      width: 380,
+      // Plot 340 px and the row notes beside it: about 680 px in all, an A4 page at 100%.
+      width: 340,
       height: 30,
       layer: [
         {
           transform: kind('bin'),
           mark: { type: 'rect' },
           encoding: {
-            x: { field: 'binStart', type: 'quantitative', axis: { title: { signal: 'xTitle' }, titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal' }, scale: { domain: [0, { expr: 'xTop' }], nice: false } },
+            x: { field: 'binStart', type: 'quantitative', axis: { title: { signal: 'xTitle' }, titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal', tickCount: 8, labelFlush: false }, scale: { domain: [0, { expr: 'xTop' }], nice: false } },
             x2: { field: 'binEnd' },
             y: { field: 'share', type: 'quantitative', title: null, scale: { domain: [0, { expr: 'yTop' }], nice: false }, axis: null },
             y2: { field: 'shareLow' },
@@ -418,11 +419,12 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
         ...(['noteWT', 'noteVariant'] as const).map((k) => ({
           transform: kind(k),
           mark: { type: 'text', align: 'left', baseline: 'middle', fontSize: 11, color: '#222222', fontWeight: k === 'noteVariant' ? 'bold' : 'normal' },
-          encoding: { text: { field: 'note', type: 'nominal' }, x: { value: 386 }, y: { value: 15 } },
+          encoding: { text: { field: 'note', type: 'nominal' }, x: { value: 346 }, y: { value: 15 } },
         })),
       ],
     },
     resolve: { axis: { x: 'shared' } },
+    config: { legend: { orient: 'bottom', direction: 'horizontal', titleOrient: 'left' } },
   };
 }
 

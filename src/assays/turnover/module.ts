@@ -22,7 +22,7 @@ import type { SourceRef } from '../../results/source.js';
 import type { Flag, UnitResult } from '../../results/types.js';
 import { mean, se } from '../../stats/descriptive.js';
 import { assaySetting, groupBy, rowsOf } from '../assay-common.js';
-import { GROUP_COLOURS, brokenPaths } from '../chart-common.js';
+import { UNIT_CHART_HEIGHT, UNIT_CHART_WIDTH, groupChannel, groupCurveLayers, groupParams } from '../chart-common.js';
 import { groupUnits, relativeSeFlags } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { TURNOVER, type TurnoverRow } from './inputs.js';
@@ -496,10 +496,18 @@ export function thinPerTrace<T extends Record<string, unknown>>(rows: readonly T
   return out;
 }
 
+/** Time ticks of the turnover chart's log axis (s): 1–2–5 steps. */
+const LOG_TIME_TICKS = [0.1, 0.2, 0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500, 1000, 2000, 5000, 10000, 20000, 50000, 100000];
+
 /**
- * Variant-report chart: normalised fluorescence against time, readings as points and each
- * trace's chosen fit as a line; WT and variant told apart by colour, point shape and
- * line dash.
+ * Variant-report chart: normalised fluorescence against time on a log axis, readings as points
+ * and each trace's chosen fit as a line; WT (light grey, dashed, circles) drawn first and the
+ * variant (near-black, solid, crosses) over it, the legend naming the variant. On a log axis the
+ * fast and slow phases each take their own stretch of the chart, so a change in the slow-phase
+ * fraction shows as a different height of the shoulder between them. Readings and curve points
+ * at time 0 (the chase start) cannot sit on a log axis and are not drawn (they are in
+ * results.json); the axis starts at the first fitted-curve time after 0 (the early fall of the
+ * fast phase), or at the latest 20 times before the first later reading.
  */
 export function turnoverChart(input: AssayChartInput): ChartSpec {
   // Readings: at most MAX_CHART_READINGS per trace (every k-th stored reading); curves as stored.
@@ -513,49 +521,57 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
           : { group, unit: `${u.unit} (${u.batch})`, trace: r.trace, time: r.time, normFluorescence: r.normFluorescence },
       );
     });
-  const points = [...flatten(input.wtUnits, 'WT', 'points'), ...flatten(input.variantUnits, 'Variant', 'points')];
+  const positive = (r: { time: unknown }) => typeof r.time === 'number' && r.time > 0;
+  const allPoints = [...flatten(input.wtUnits, 'WT', 'points'), ...flatten(input.variantUnits, 'Variant', 'points')];
+  const allCurve = [...flatten(input.wtUnits, 'WT', 'curve'), ...flatten(input.variantUnits, 'Variant', 'curve')];
+  const times = [...allPoints, ...allCurve].filter(positive).map((r) => r.time as number);
+  // From the first fitted-curve time after the start (the curve's fall from 1 is the fast phase),
+  // but at most 20 times earlier than the first reading after the start.
+  const firstReading = Math.min(...allPoints.filter(positive).map((r) => r.time as number));
+  const firstCurve = Math.min(...allCurve.filter(positive).map((r) => r.time as number));
+  const start = Number.isFinite(firstReading) ? Math.max(Math.min(firstCurve, firstReading / 2), firstReading / 20) : Number.isFinite(firstCurve) ? firstCurve : 1;
+  const tMin = Number(start.toPrecision(3));
+  const tMax = Number((times.length ? Math.max(...times) * 1.05 : 10).toPrecision(3));
+  const ticks = LOG_TIME_TICKS.filter((t) => t >= tMin && t <= tMax);
+  const inRange = (r: { time: unknown }) => positive(r) && (r.time as number) >= tMin;
+  const points = allPoints.filter(inRange);
   // One broken path per group (see brokenPaths): the same lines as one per trace, far fewer vega operators.
-  const curve = brokenPaths([...flatten(input.wtUnits, 'WT', 'curve'), ...flatten(input.variantUnits, 'Variant', 'curve')], 'traceKey', 'time', 'normFluorescence');
-  const x = { field: 'time', type: 'quantitative', title: 'Time after chase (s)' };
-  const y = { field: 'normFluorescence', type: 'quantitative', title: 'Normalised fluorescence' };
-  const color = {
-    field: 'group',
-    type: 'nominal',
-    title: null,
-    scale: { domain: ['WT', 'Variant'], range: [GROUP_COLOURS.WT, GROUP_COLOURS.Variant] },
+  const curve = allCurve.filter(inRange);
+  const x = {
+    field: 'time',
+    type: 'quantitative',
+    title: 'Time after chase (s, log scale)',
+    scale: { type: 'log', domain: { expr: 'timeDomain' }, nice: false },
+    axis: { values: { expr: 'timeTicks' }, format: '~g' },
   };
+  const y = { field: 'normFluorescence', type: 'quantitative', title: 'Normalised fluorescence' };
   return {
     title: `Single turnover: ${input.variantLabel} beside WT of the same batches`,
     description:
       `Fluorescence of each chase trace of ${input.variantLabel} and of WT in the same batches, normalised so that each trace's fit falls from 1 at the first reading to 0 at its plateau, ` +
-      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise). A slower overall decay means a larger slow-phase fraction. Each trace shows at most ${MAX_CHART_READINGS} readings (every k-th reading of longer traces); all readings were fitted.`,
+      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise), against time on a log scale: the fast phase falls first, the slow phase later, and a larger slow-phase fraction shows as a higher shoulder between them. ` +
+      `Each trace shows at most ${MAX_CHART_READINGS} readings (every k-th reading of longer traces) and no reading at time 0; all readings were fitted.`,
     usermeta: {
       table: turnoverTable(input),
     },
-    width: 420,
-    height: 260,
+    // Axis range and ticks depend on the data: parameters, so that every turnover chart has one shape.
+    params: [...groupParams(input), { name: 'timeDomain', value: [tMin, tMax] }, { name: 'timeTicks', value: ticks }],
+    width: UNIT_CHART_WIDTH,
+    height: UNIT_CHART_HEIGHT,
     layer: [
       {
-        data: { values: curve },
-        mark: { type: 'line', strokeWidth: 1.6 },
-        encoding: {
-          x,
-          y,
-          color,
-          order: { field: 'seq', type: 'quantitative' },
-          strokeDash: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: [[4, 3], [1, 0]] } },
-        },
-      },
-      {
         data: { values: points },
-        mark: { type: 'point', filled: true, size: 12, opacity: 0.45 },
-        encoding: {
-          x,
-          y,
-          color,
-          shape: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: ['circle', 'triangle-up'] } },
-        },
+        mark: { type: 'point', filled: true, size: 14, opacity: 0.45 },
+        encoding: { x, y, color: groupChannel('colour'), shape: groupChannel('shape') },
       },
+      ...groupCurveLayers(
+        curve.filter((r) => r.group === 'WT'),
+        curve.filter((r) => r.group === 'Variant'),
+        'traceKey',
+        x,
+        y,
+        { strokeWidth: 1.6, interpolate: 'monotone' },
+      ),
     ],
   };
 }
