@@ -20,6 +20,7 @@ export const FUNCTION_CALL_STYLE: Record<FunctionCall, CallStyle> = {
   mixed: { colour: '#8b3d8f', shape: 'diamond', glyph: '◆' },
   indeterminate: { colour: '#9a7412', shape: 'square', glyph: '■' },
   'not measured': { colour: '#8f8f8f', shape: 'cross', glyph: '○' },
+  reference: { colour: '#3b4a42', shape: 'circle', glyph: '◎' },
 };
 
 export const METRIC_CALL_STYLE: Record<MetricCall, CallStyle> = {
