@@ -23,9 +23,15 @@ export const FUNCTION_CALL_STYLE: Record<FunctionCall, CallStyle> = {
   reference: { colour: '#3b4a42', shape: 'circle', glyph: '◎' },
 };
 
+/**
+ * Metric calls where the metric's disease direction is not at hand: an increase or a decrease is
+ * shown in a neutral teal, never in the hyper or hypo colour, which may be the wrong one (a
+ * decreased slow-phase fraction is hypercontractile). Pages mark metric calls by the direction
+ * they imply (src/site/view-common.ts, metricCall).
+ */
 export const METRIC_CALL_STYLE: Record<MetricCall, CallStyle> = {
-  increased: { colour: '#b3471d', shape: 'triangle-up', glyph: '▲' },
-  decreased: { colour: '#2456a6', shape: 'triangle-down', glyph: '▼' },
+  increased: { colour: '#1f7a72', shape: 'triangle-up', glyph: '△' },
+  decreased: { colour: '#1f7a72', shape: 'triangle-down', glyph: '▽' },
   'within WT range': { colour: '#55636f', shape: 'circle', glyph: '●' },
   indeterminate: { colour: '#9a7412', shape: 'square', glyph: '■' },
   'not estimable': { colour: '#8f8f8f', shape: 'cross', glyph: '○' },
