@@ -83,7 +83,7 @@ export function siteLegend() {
     text: c === 'reference' ? 'reference (WT itself)' : c,
   }));
   const metrics = [
-    { ...metricCall('increased', 'up'), text: 'metric changed towards hypercontractile (up or down, by the metric)' },
+    { ...metricCall('increased', 'up'), text: 'metric changed towards hypercontractile' },
     { ...metricCall('decreased', 'up'), text: 'metric changed towards hypocontractile' },
     { ...metricCall('increased', 'none'), text: 'metric higher than WT, no disease direction' },
     { ...metricCall('decreased', 'none'), text: 'metric lower than WT, no disease direction' },
