@@ -25,6 +25,7 @@ import { resultsCsv } from '../results/csv.js';
 import { writeJsonStreamed } from '../results/json.js';
 import type { StudyResults, UnitResult } from '../results/types.js';
 import { buildSite } from '../site/build-site.js';
+import type { SiteArchive } from '../site/archive-links.js';
 import { type LoadReuse, loadStudy } from '../study/load.js';
 import { readStudyFolder } from '../study/read-folder.js';
 import type { FileDigest, Issue } from '../study/types.js';
@@ -59,6 +60,8 @@ export interface BuildOptions {
   fingerprint?: string;
   /** How the previous output is removed after the swap (see src/pipeline/output.ts); default 'now'. The CLI removes it in the background. */
   removePrevious?: RemovePrevious;
+  /** When the study is built inside an archive: its links and change lines, made from the study's results (src/pipeline/build-archive.ts). */
+  archive?: (results: StudyResults) => SiteArchive;
 }
 
 export type StoreKind = 'file' | 'units' | 'svg' | 'block';
@@ -181,6 +184,7 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
       ...(store && kinds.has('block') ? { block: storedBlock(store, charts, unitDigests), blockRender: countedDraw(renderSvg, charts) } : {}),
       ...(heavy ? { pagesPerRun: HEAVY_PAGES_PER_RUN, afterRun: collectGarbage } : {}),
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+      ...(options.archive ? { archive: options.archive(results) } : {}),
     });
     const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
     store?.prune();

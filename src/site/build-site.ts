@@ -22,6 +22,7 @@ import Eleventy from '@11ty/eleventy';
 import type { ChartsFor } from '../charts/assay-charts.js';
 import { jsonSha256 } from '../results/json.js';
 import type { StudyResults } from '../results/types.js';
+import { type SiteArchive, withArchiveNotes } from './archive-links.js';
 import { uniqueSlugs } from './paths.js';
 import { type SiteFrame, siteFrame, studyCharts, variantSiteData } from './site-data.js';
 import type { BlockFn, RenderFn } from './view-common.js';
@@ -45,6 +46,8 @@ export interface BuildSiteOptions {
   afterRun?: () => void;
   /** Progress: ('charts', variant pages done, total) while rendering, then ('pages', 0, 1) and ('pages', 1, 1) around Eleventy. */
   onProgress?: (phase: string, done: number, total: number) => void;
+  /** When the study is built inside an archive: links back to it and the variants' change lines (src/site/archive-links.ts). */
+  archive?: SiteArchive;
 }
 
 const templatesDir = fileURLToPath(new URL('../../templates/', import.meta.url));
@@ -90,7 +93,11 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
   const total = results.variants.length;
   progress?.('charts', 0, total);
   const resultsSha256 = options.resultsSha256 ?? jsonSha256(results as unknown as Record<string, unknown>);
-  const frame: SiteFrame = siteFrame(results, { resultsSha256, ...(options.sourceDateEpoch !== undefined ? { sourceDateEpoch: options.sourceDateEpoch } : {}) }, slugs);
+  const frame: SiteFrame = siteFrame(
+    results,
+    { resultsSha256, ...(options.sourceDateEpoch !== undefined ? { sourceDateEpoch: options.sourceDateEpoch } : {}), ...(options.archive ? { archive: options.archive } : {}) },
+    slugs,
+  );
   // What the variant templates read of the site besides their page: Eleventy is given only this.
   const variantSite = variantSiteData(frame);
   const build = variantPageBuilder(results, slugs, options.chartsFor, {
@@ -103,7 +110,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
   let pages = 0;
   const perRun = options.pagesPerRun ?? VARIANT_BATCH;
   for (let i = 0; i < results.variants.length; i += perRun) {
-    const batch = await build(results.variants.slice(i, i + perRun));
+    const batch = withArchiveNotes(await build(results.variants.slice(i, i + perRun)), options.archive);
     pages += await runEleventy(variantTemplates, outDir, { ...variantSite, variants: batch });
     options.afterRun?.();
   }

@@ -12,6 +12,7 @@ import { readFileSync } from 'node:fs';
 import { ASSAYS } from '../assays/registry.js';
 import { type ChartsFor, chartsFromModules } from '../charts/assay-charts.js';
 import type { StudyResults } from '../results/types.js';
+import { type SiteArchive, archiveFrame } from './archive-links.js';
 import { PATHS, uniqueSlugs } from './paths.js';
 import { RESEARCH_LINE, type RenderFn, STANDARD_CAVEATS, siteLegend, studyCaveats } from './view-common.js';
 import { assayPages, compareCharts, glossaryData, methodsData, provenanceData, residueCharts } from './view-study.js';
@@ -22,6 +23,8 @@ export interface SiteDataOptions {
   sourceDateEpoch?: number;
   /** SHA-256 of the results.json these pages show (quoted by the single-file reports). */
   resultsSha256: string;
+  /** When the study is built inside an archive (src/site/archive-links.ts). */
+  archive?: SiteArchive;
 }
 
 /** The build time the pages show: SOURCE_DATE_EPOCH when set, else when the results were built. */
@@ -58,6 +61,8 @@ export function siteFrame(results: StudyResults, options: SiteDataOptions, slugs
     legend: siteLegend(),
     nav,
     paths: PATHS,
+    /** The archive the study was built in (base.njk links back to it), or null. */
+    archive: archiveFrame(options.archive),
     assayList: results.assays.map((a) => ({ id: a.id, label: a.label })),
     index: {
       rows,
@@ -92,6 +97,7 @@ export function variantSiteData(site: SiteFrame) {
     legend: site.legend,
     nav: site.nav,
     paths: site.paths,
+    archive: site.archive,
   };
 }
 

@@ -8,6 +8,8 @@ import { MANIFEST_NAME } from '../../study/schemas.js';
 import type { Issue } from '../../study/types.js';
 import { singleFolderArgument, type Command, type Io } from '../command.js';
 import { CLI } from '../messages.js';
+import { runArchiveCheck } from './archive-check.js';
+import { isArchiveFolder } from '../../pipeline/archive-input.js';
 
 /** One issue as `file:line:col: severity: message — fix` (JSON path instead of line for the manifest). */
 export function formatIssue(i: Issue): string {
@@ -30,7 +32,7 @@ export function sortIssues(issues: readonly Issue[], manifestName: string): Issu
 export const command: Command = {
   name: 'check',
   usage: 'check <study-dir>',
-  summary: 'Validate a study folder and list every error and warning.',
+  summary: 'Validate a study folder, or an archive folder, and list every error and warning.',
   async run(args: string[], io: Io): Promise<number> {
     const dir = singleFolderArgument(args, io, this.usage);
     if (dir === null) return 2;
@@ -38,6 +40,7 @@ export const command: Command = {
       io.stderr.write(CLI.cannotRead(args[0], 'no such folder'));
       return 1;
     }
+    if (isArchiveFolder(dir)) return runArchiveCheck(dir, io, { formatIssue, sortIssues });
     if (!existsSync(join(dir, MANIFEST_NAME))) {
       io.stdout.write(`${formatIssue(issue(MSG.manifestMissing(MANIFEST_NAME), { file: MANIFEST_NAME }))}\n`);
       io.stdout.write(CLI.checkSummary(1, 0));
