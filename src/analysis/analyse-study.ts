@@ -188,7 +188,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   const unitsByVariant = groupBy(units, (u) => u.variant);
   const variantResults: VariantResult[] = variants.map((v) => {
     const overall = v.isWT
-      ? { call: 'within WT range' as const, sentence: 'Wild-type reference: every comparison is made against it.', readout: null }
+      ? { call: 'reference' as const, sentence: 'Wild-type reference: each variant is compared with the WT measured in the same batches; WT is not called against itself.', readout: null }
       : overallByVariant.get(v.id)!;
     const flags = variantFlags(v, unitsByVariant.get(v.id) ?? [], comparisonsByVariant.get(v.id) ?? [], controlCharts);
     let evidence: VariantResult['evidence'];

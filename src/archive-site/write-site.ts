@@ -16,7 +16,6 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import { renderSvg } from '../charts/render.js';
-import { dataRowsHtml } from '../site/build-site.js';
 import { type ChartBlock, type RenderFn, renderBlocks } from '../site/view-common.js';
 import type { ArchivePages, ChangesPage, GenePage, HistoryPage, HomePage } from './views.js';
 
@@ -98,7 +97,6 @@ export async function writeArchivePages(
       quietMode: true,
       config(cfg) {
         cfg.addGlobalData('archive', { frame: pages.frame, homes, genes, histories: drawn, changes });
-        cfg.amendLibrary('njk', (env) => env.addFilter('dataRows', dataRowsHtml));
       },
     });
     elev.disableLogger();

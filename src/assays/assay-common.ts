@@ -156,19 +156,30 @@ export function groupUnits<T extends RowBase>(rows: readonly T[]): UnitGroup<T>[
   return groups;
 }
 
-/** Summarise row locations as one line range per file. */
+/**
+ * Summarise row locations as runs of consecutive lines per file (one SourceRef per run), so that a
+ * unit's provenance counts exactly the rows it was made from, even when they are not contiguous.
+ * @example sourceRanges([{ at: { file: 'a.csv', line: 2 } }, { at: { file: 'a.csv', line: 3 } }, { at: { file: 'a.csv', line: 9 } }])
+ * // → [{ file: 'a.csv', line: 2, lineEnd: 3 }, { file: 'a.csv', line: 9 }]
+ */
 export function sourceRanges(rows: readonly { at: SourceRef }[]): SourceRef[] {
-  const byFile = new Map<string, { min: number; max: number }>();
+  const byFile = new Map<string, number[]>();
   for (const { at } of rows) {
-    const line = at.line ?? 0;
-    const r = byFile.get(at.file);
-    if (!r) byFile.set(at.file, { min: line, max: line });
-    else {
-      r.min = Math.min(r.min, line);
-      r.max = Math.max(r.max, line);
+    const list = byFile.get(at.file);
+    if (list) list.push(at.line ?? 0);
+    else byFile.set(at.file, [at.line ?? 0]);
+  }
+  const out: SourceRef[] = [];
+  for (const [file, lines] of byFile) {
+    const sorted = [...new Set(lines)].sort((a, b) => a - b);
+    for (let i = 0; i < sorted.length; ) {
+      let j = i;
+      while (j + 1 < sorted.length && sorted[j + 1] === sorted[j]! + 1) j++;
+      out.push(i === j ? { file, line: sorted[i]! } : { file, line: sorted[i]!, lineEnd: sorted[j]! });
+      i = j + 1;
     }
   }
-  return [...byFile.entries()].map(([file, r]) => (r.min === r.max ? { file, line: r.min } : { file, line: r.min, lineEnd: r.max }));
+  return out;
 }
 
 /** Flag parameters whose standard error exceeds `limit` × |estimate|. */

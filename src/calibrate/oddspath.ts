@@ -12,6 +12,7 @@
  * (ClinGen SVI recommendations). Levels are evidence *ceilings*: they say how
  * strong the assay's readout can be as one line of evidence, never a classification.
  */
+import { fmt } from '../results/format.js';
 import { CALIBRATION } from '../defaults.js';
 import type { Calibration, EvidenceLevel } from '../results/types.js';
 import type { ControlClass } from '../study/types.js';
@@ -155,10 +156,10 @@ export function limitLevel(level: EvidenceLevel, max: Strength): EvidenceLevel {
   return `${level.slice(0, 3)} ${max}` as EvidenceLevel;
 }
 
-/** A number in plain text with three significant digits: 5.8333 → "5.83", 19 → "19". */
+/** An OddsPath in plain text: three significant figures (src/results/format.ts), 5.8333 → "5.83", 19 → "19.0". */
 export function formatOddsPath(x: number): string {
   if (!Number.isFinite(x)) return String(x);
-  return String(Number(x.toPrecision(3)));
+  return fmt(x);
 }
 
 function isPathogenic(c: ControlClass): boolean {

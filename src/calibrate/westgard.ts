@@ -9,6 +9,7 @@
  * Westgard JO, Barry PL, Hunt MR, Groth T, Clin Chem 1981;27:493–501 (the multirule
  * procedure).
  */
+import { fmt } from '../results/format.js';
 import type { ControlChart, WestgardPoint } from '../results/types.js';
 
 /** One WT control value: its batch, an optional run (defaults to the batch) and the value. */
@@ -153,9 +154,6 @@ export function westgard(points: ControlValue[], established: EstablishedBaselin
   return { points: out, rejectedBatches: rejected, warningBatches: warned.filter((b) => !rejected.includes(b)) };
 }
 
-function fmt(x: number): string {
-  return String(Number(x.toPrecision(4)));
-}
 
 /**
  * Levey–Jennings chart of one metric's WT values with Westgard rules.
@@ -183,8 +181,8 @@ export function controlChart(
     established = { mean: baseline.mean, sd: baseline.sd };
     text =
       `Mean ${fmt(baseline.mean)} and SD ${fmt(baseline.sd)} declared by the lab` +
-      (baseline.source ? ` (${baseline.source})` : '') +
-      '; the values of this study are judged against this long-term baseline.';
+      (baseline.source ? `, from: ${baseline.source.trim().replace(/[.;]+$/, '')}` : '') +
+      '. The values of this study are judged against this long-term baseline.';
   } else {
     established = establishedFromValues(batchValues.map((p) => p.value));
     text = established

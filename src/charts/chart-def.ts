@@ -22,32 +22,12 @@ export interface ChartDef {
 }
 
 /**
- * Display form of a number: 3 significant digits, trailing zeros dropped; '—' for null/NaN.
- * Example: fmt(1.23456) → '1.23'; fmt(0.000123456) → '1.23e-4'; fmt(null) → '—'.
+ * The numbers of charts' descriptions and tables: the one formatter of src/results/format.ts
+ * (3 significant figures, the minus sign, '—' for none, intervals 'low to high'; p and q values as
+ * in the results' sentences), so that a chart and its report never show one number two ways.
  */
-export function fmt(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  if (x === 0) return '0';
-  const abs = Math.abs(x);
-  if (abs >= 1e-3 && abs < 1e6) return String(Number(x.toPrecision(digits)));
-  return x.toExponential(digits - 1);
-}
-
-/**
- * q and p values in tables and charts: as in the results' sentences (src/results/format.ts: 2
- * significant figures, '< 0.001' below 0.001), with '—' for none. One rule, so that a report's
- * table and its downloads never show one q value two ways. Example: fmtP(0.01234) → '0.012'.
- */
-export function fmtP(x: number | null | undefined): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  return formatP(x);
-}
-
-/** Interval as 'low–high'. */
-export function fmtCi(lo: number | null, hi: number | null): string {
-  if (lo === null || hi === null || !Number.isFinite(lo) || !Number.isFinite(hi)) return '—';
-  return `${fmt(lo)}–${fmt(hi)}`;
-}
+export { fmt, fmtCi } from '../results/format.js';
+export const fmtP = formatP;
 
 /** Display names of variants, unique within the study (short form, gene-qualified when needed). */
 export function variantNames(results: StudyResults): Map<string, string> {

@@ -44,6 +44,7 @@ export const FUNCTION_CALL_STYLE: Record<FunctionCall, CallStyle> = {
   mixed: { colour: '#8b3d8f', shape: 'diamond', glyph: '◆' },
   indeterminate: INDETERMINATE,
   'not measured': NONE,
+  reference: { colour: '#3b4a42', shape: 'circle', glyph: '◎' },
 };
 
 /** What a metric's call implies, the category its marks and legends show. */

@@ -22,7 +22,7 @@ const LABEL_FONT = 11;
 export const SCATTER_LABEL_ALL_MAX = 60;
 
 /** Labelling order: calls that matter most first, so that a crowd leaves off the least telling labels. */
-const LABEL_PRIORITY: Record<FunctionCall, number> = { hypercontractile: 0, hypocontractile: 0, mixed: 1, indeterminate: 2, 'within WT range': 3, 'not measured': 4 };
+const LABEL_PRIORITY: Record<FunctionCall, number> = { hypercontractile: 0, hypocontractile: 0, mixed: 1, indeterminate: 2, 'within WT range': 3, 'not measured': 4, reference: 5 };
 
 /** The first primary metric of each assay (declaration order), for cross-assay comparison. */
 export function primaryMetrics(results: StudyResults): Pick[] {

@@ -201,7 +201,7 @@ describe('controlChart', () => {
     const chart = controlChart('atpase', 'kcat', values, { mean: 5, sd: 0.2, source: 'WT preparations 2023–2024' });
     expect(chart.mean).toBe(5);
     expect(chart.sd).toBe(0.2);
-    expect(chart.baseline).toContain('declared by the lab (WT preparations 2023–2024)');
+    expect(chart.baseline).toContain('declared by the lab, from: WT preparations 2023–2024. The values');
     // z of 9.0 is (9 − 5)/0.2 = 20 → 1-3s; computed from the inputs
     expect(chart.points[4].rules).toContain('1-3s');
     expect(chart.rejectedBatches).toEqual(['B4']);

@@ -229,7 +229,7 @@ describe('study chart specs', () => {
 describe('formatting and paths (common practice, no source)', () => {
   it('formats numbers', () => {
     expect(fmt(1.23456)).toBe('1.23');
-    expect(fmt(0.000123456)).toBe('1.23e-4');
+    expect(fmt(0.000123456)).toBe('1.23 × 10⁻⁴'); // the one formatter, src/results/format.ts
     expect(fmt(0.00123456)).toBe('0.00123');
     expect(fmt(null)).toBe('—');
     expect(fmtP(0.01234)).toBe('0.012');
