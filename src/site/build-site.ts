@@ -123,7 +123,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
   for (const a of charts.assays) await chartFiles.write(a.path, a);
   await chartFiles.write(PATHS.residues, charts.residues);
   await chartFiles.write(PATHS.compare, charts.compare);
-  pages += await runEleventy(templatesDir, outDir, { ...frame, ...charts, chartFiles: chartFiles.list() });
+  pages += await runEleventy(templatesDir, outDir, { ...frame, ...charts, chartFiles: chartFiles.list(), chartSvgs: [] });
   progress?.('pages', 1, 1);
   return { pages };
 }

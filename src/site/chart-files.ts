@@ -52,36 +52,57 @@ export function standaloneSvg(svg: string): string {
   return `<?xml version="1.0" encoding="UTF-8"?>\n${svg}\n`;
 }
 
+/** A chart file named for the site, with the text it holds. */
+export interface NamedChartFile extends ChartFile {
+  content: string;
+}
+
 /**
- * A writer of chart files into a site folder, for one build: `write(pagePath, data)` writes every
- * chart block in `data` to charts/, sets each block's `file`, and records it; `list()` gives every
- * file written so far, in order.
+ * Names the chart files of one build: `name(pagePath, data)` finds every chart block in `data`,
+ * gives it a unique file under charts/ (`block.file` set), and returns the files with their
+ * text; `list()` gives every file named so far, in order. The build writes them as it goes
+ * (chartFileWriter); Eleventy's own command line renders them from the site data (charts.njk).
  */
-export function chartFileWriter(outDir: string) {
+export function chartFileNamer() {
   const used = new Set<string>();
   const files: ChartFile[] = [];
-  let made = false;
   return {
-    async write(page: string, data: unknown): Promise<void> {
-      const blocks = findBlocks(data);
-      if (blocks.length === 0) return;
-      if (!made) {
-        await mkdir(join(outDir, PATHS.chartsDir), { recursive: true });
-        made = true;
-      }
-      for (const b of blocks) {
+    name(page: string, data: unknown): NamedChartFile[] {
+      return findBlocks(data).map((b) => {
         const base = b.id.replace(/^chart-/, '') || 'chart';
         let name = base;
         for (let i = 2; used.has(name); i++) name = `${base}-${i}`;
         used.add(name);
         const file = PATHS.chartSvg(name);
-        await writeFile(join(outDir, file), standaloneSvg(b.svg));
         b.file = file;
         files.push({ file, title: b.title, page });
-      }
+        return { file, title: b.title, page, content: standaloneSvg(b.svg) };
+      });
     },
     list(): ChartFile[] {
       return files.slice();
     },
+  };
+}
+
+/**
+ * A writer of chart files into a site folder, for one build: `write(pagePath, data)` names every
+ * chart block in `data` (chartFileNamer) and writes its file; `list()` gives every file written
+ * so far, in order.
+ */
+export function chartFileWriter(outDir: string) {
+  const namer = chartFileNamer();
+  let made = false;
+  return {
+    async write(page: string, data: unknown): Promise<void> {
+      const named = namer.name(page, data);
+      if (named.length === 0) return;
+      if (!made) {
+        await mkdir(join(outDir, PATHS.chartsDir), { recursive: true });
+        made = true;
+      }
+      for (const f of named) await writeFile(join(outDir, f.file), f.content);
+    },
+    list: namer.list,
   };
 }

@@ -13,6 +13,7 @@ import { ASSAYS } from '../assays/registry.js';
 import { type ChartsFor, chartsFromModules } from '../charts/assay-charts.js';
 import type { StudyResults } from '../results/types.js';
 import { type SiteArchive, archiveFrame } from './archive-links.js';
+import { chartFileNamer } from './chart-files.js';
 import { PATHS, uniqueSlugs } from './paths.js';
 import { RESEARCH_LINE, type RenderFn, STANDARD_CAVEATS, siteLegend, studyCaveats } from './view-common.js';
 import { assayPages, compareCharts, glossaryData, methodsData, provenanceData, residueCharts } from './view-study.js';
@@ -112,7 +113,17 @@ export async function siteData(results: StudyResults, options: SiteDataOptions &
   const slugs = uniqueSlugs(results.variants.map((v) => v.id));
   const frame = siteFrame(results, options, slugs);
   const build = variantPageBuilder(results, slugs, options.chartsFor, { ...options.pages, builtAt: frame.builtAt });
-  return { ...frame, ...(await studyCharts(results, slugs, options.pages?.render)), variants: await build(results.variants) };
+  const variants = await build(results.variants);
+  const charts = await studyCharts(results, slugs, options.pages?.render);
+  // Chart files named in the order the build writes them (src/site/build-site.ts), rendered by charts.njk.
+  const namer = chartFileNamer();
+  const chartSvgs = [
+    ...variants.flatMap((v) => namer.name(v.path, v)),
+    ...charts.assays.flatMap((a) => namer.name(a.path, a)),
+    ...namer.name(PATHS.residues, charts.residues),
+    ...namer.name(PATHS.compare, charts.compare),
+  ];
+  return { ...frame, ...charts, variants, chartFiles: namer.list(), chartSvgs };
 }
 
 /**
