@@ -2,6 +2,7 @@
  * Vega-Lite building blocks for the per-variant assay charts: the variant's units beside the
  * WT units of the same batches. User text (variant and unit labels) goes in as data values only.
  */
+import { fmt } from '../results/format.js';
 import type { MetricDef, UnitResult } from '../results/types.js';
 import type { AssayChartInput, ChartSpec } from './types.js';
 
@@ -94,11 +95,6 @@ interface UnitChartOptions {
   metrics: readonly MetricDef[];
 }
 
-/** A number to 3 significant digits for tables, '—' when missing. @example sig3(0.123456) // → '0.123' */
-export function sig3(x: number | null | undefined): string {
-  return typeof x === 'number' && Number.isFinite(x) ? String(Number(x.toPrecision(3))) : '—';
-}
-
 /**
  * Curve rows of many preparations as one path per group: rows in their given order, numbered
  * by `seq` (the line's drawing order), with a row whose x and y are null between two
@@ -132,7 +128,7 @@ export function unitChart(input: AssayChartInput, o: UnitChartOptions): ChartSpe
       u.unit,
       u.batch,
       String(u.nTechnical),
-      ...o.metrics.map((m) => sig3(u.metrics[m.id])),
+      ...o.metrics.map((m) => fmt(u.metrics[m.id])),
     ]),
     note: 'The chart draws every reading and each preparation’s fitted curve; both are in results.json (plot of each preparation).',
   };
