@@ -15,7 +15,7 @@
  * and the exit code.
  */
 import { deserialize, serialize } from 'node:v8';
-import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
+import { existsSync, rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
 import { ASSAYS } from '../assays/registry.js';
@@ -34,8 +34,8 @@ import { analyseUnits } from './analyse-units.js';
 import { COLLECT_AFTER_PARSED_BYTES, HEAVY_PAGES_PER_RUN, collectGarbage } from './collect-garbage.js';
 import { installedFingerprint } from './fingerprint.js';
 import { describeFault, openFileLimit } from './faults.js';
-import { OutputError, type RemovePrevious, planOutput, makeStaging, swapIn } from './output.js';
-import { Store, storeDirFor, storeFolderProblem } from './store.js';
+import { OutputError, type RemovePrevious, honourUmask, planOutput, makeStaging, swapIn } from './output.js';
+import { Store, defaultStoreDir, storeDirFor, storeFolderProblem } from './store.js';
 import { type ChartCounts, countedDraw, storedBlock, storedRender } from './stored-render.js';
 
 export interface BuildOptions {
@@ -171,7 +171,10 @@ async function buildOrThrow(studyDir: string, outDir: string, options: BuildOpti
   const phase = options.onPhase ?? (() => {});
   phase('read');
   const { store, note } = openStore(studyDir, options, outDir);
-  const plan = planOutput(studyDir, outDir, options.force ?? false, { ...(options.cwd ? { cwd: options.cwd } : {}), ...(store ? { protect: [{ dir: store.dir, name: "myofolio's cache folder" }] } : {}) });
+  // The cache folder used, and the one asked for if it exists (a build that falls back from it must not move it aside).
+  const asked = options.store === false ? undefined : options.store ?? defaultStoreDir();
+  const caches = [store?.dir, asked !== undefined && existsSync(asked) ? asked : undefined].filter((d): d is string => d !== undefined);
+  const plan = planOutput(studyDir, outDir, options.force ?? false, { ...(options.cwd ? { cwd: options.cwd } : {}), protect: caches.map((dir) => ({ dir, name: "myofolio's cache folder" })) });
   const notes = note ? [note] : [];
   const withStoreNote = () => {
     const damaged = store?.counts.discarded.length ?? 0;
@@ -209,6 +212,7 @@ async function buildOrThrow(studyDir: string, outDir: string, options: BuildOpti
       ...(options.archive ? { archive: options.archive(results) } : {}),
     });
     pages = site.pages;
+    honourUmask(staging);
     movedAside = swapIn(plan, staging, options.removePrevious);
   } catch (err) {
     rmSync(staging, { recursive: true, force: true });

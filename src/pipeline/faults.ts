@@ -6,7 +6,7 @@
  * an AggregateError's `errors`) for a system error code it knows, and returns the message and fix,
  * or undefined for anything else (a fault of myofolio itself, which the caller reports as such).
  */
-import { existsSync, lstatSync, readFileSync, readlinkSync } from 'node:fs';
+import { accessSync, constants, existsSync, lstatSync, readFileSync, readlinkSync } from 'node:fs';
 import { dirname, isAbsolute, join } from 'node:path';
 
 export interface Fault {
@@ -88,7 +88,11 @@ export function describeFault(err: unknown, options: { where?: string; fileLimit
     const known = KNOWN[code];
     const dangling = typeof e.path === 'string' ? danglingTarget(e.path) : undefined;
     if (known && dangling !== undefined) return { code, message: `${e.path} is a symbolic link to ${dangling}, which does not exist.`, fix: 'Remove the link or make what it leads to, or choose another path.' };
+    // Node's recursive mkdir can answer ENOENT for a folder whose parent exists (read-only or
+    // special file systems): the parent tells why.
     if (code === 'ENOENT' && e.syscall === 'mkdir' && typeof e.path === 'string' && existsSync(dirname(e.path))) {
+      const why = writeProblem(dirname(e.path));
+      if (why && KNOWN[why]) return { code: why, message: `${capital(KNOWN[why].what(e.path))}.`, fix: KNOWN[why].fix };
       return { code, message: `The folder ${e.path} cannot be made: the file system holding ${dirname(e.path)} does not allow it.`, fix: 'Choose a folder on an ordinary, writable disk.' };
     }
     if (known) return { code, message: `${capital(known.what(located(e)))}.`, fix: known.fix };
@@ -103,6 +107,16 @@ export function describeFault(err: unknown, options: { where?: string; fileLimit
     }
   }
   return undefined;
+}
+
+/** Why a folder cannot be written (EROFS, EACCES, …), or undefined when it can. */
+function writeProblem(dir: string): string | undefined {
+  try {
+    accessSync(dir, constants.W_OK);
+    return undefined;
+  } catch (err) {
+    return (err as NodeJS.ErrnoException).code;
+  }
 }
 
 /** Where a link that leads nowhere leads, or undefined when `p` is not such a link. */

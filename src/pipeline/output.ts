@@ -24,7 +24,7 @@
  */
 import { spawn } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { lstatSync, mkdirSync, readdirSync, readlinkSync, realpathSync, renameSync, rmSync, rmdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
+import { chmodSync, lstatSync, mkdirSync, readdirSync, readlinkSync, realpathSync, renameSync, rmSync, rmdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { homedir } from 'node:os';
 import path from 'node:path';
 import { makeFolders } from './folders.js';
@@ -138,6 +138,9 @@ export function planOutput(studyDir: string, outDir: string, force: boolean, opt
   const out = path.resolve(outDir);
   const place = placeOf(out);
   const study = path.resolve(studyDir);
+  if (place === path.parse(place).root) {
+    throw new OutputError(`The output folder ${outDir} is the root of the file system.`, 'Choose a new folder for the site, e.g. --out _site; --force does not change this.');
+  }
   // Compare real paths too, so a link cannot lead the output into the study folder.
   if (isInside(out, study) || isInside(place, realPath(study))) {
     throw new OutputError(`The output folder ${outDir} is inside the study folder ${studyDir}.`, 'Choose an output folder outside the study folder, e.g. --out _site; myofolio never writes into a study folder.');
@@ -145,18 +148,17 @@ export function planOutput(studyDir: string, outDir: string, force: boolean, opt
   if (isInside(study, out) || isInside(realPath(study), place)) {
     throw new OutputError(`The output folder ${outDir} contains the study folder ${studyDir}.`, 'Choose an output folder that does not contain the study, e.g. --out _site.');
   }
-  if (place === path.parse(place).root) {
-    throw new OutputError(`The output folder ${outDir} is the root of the file system.`, 'Choose a new folder for the site, e.g. --out _site.');
-  }
   const guarded = [
     { dir: options.cwd ?? process.cwd(), name: 'the working folder' },
     { dir: options.home ?? homedir(), name: 'your home folder' },
     ...(options.protect ?? []),
   ];
+  // Where a link at `out` leads (itself when it is no link): a link to a guarded folder is refused too.
+  const target = realPath(out);
   for (const { dir, name } of guarded) {
     if (!dir) continue;
     const real = realPath(dir);
-    if (out === path.resolve(dir) || place === real) throw new OutputError(`The output folder ${outDir || "''"} is ${name}.`, 'Choose a new folder for the site, e.g. --out _site; --force does not change this.');
+    if (out === path.resolve(dir) || place === real || target === real) throw new OutputError(`The output folder ${outDir || "''"} is ${name}.`, 'Choose a new folder for the site, e.g. --out _site; --force does not change this.');
     if (isInside(path.resolve(dir), out) || isInside(real, place)) throw new OutputError(`The output folder ${outDir} contains ${name} (${dir}).`, 'Choose a new folder for the site, e.g. --out _site; --force does not change this.');
   }
   // Not inside (or the same as) another output's versions folder.
@@ -268,7 +270,7 @@ export function makeStaging(plan: OutputPlan, step: StepHook = () => {}): string
     if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
   }
   step('versions folder');
-  writeFileSync(path.join(plan.versions, VERSIONS_MARKER), 'Versions of the site at the link next to this folder, written by myofolio build. The link leads to one of them; the others are removed by the next build.\n');
+  if (!hasFile(plan.versions, VERSIONS_MARKER)) writeFileSync(path.join(plan.versions, VERSIONS_MARKER), 'Versions of the site at the link next to this folder, written by myofolio build. The link leads to one of them; the others are removed by the next build.\n');
   step('versions marker');
   for (;;) {
     const staging = path.join(plan.versions, `${process.pid}-${hex8()}`);
@@ -279,10 +281,35 @@ export function makeStaging(plan: OutputPlan, step: StepHook = () => {}): string
       throw err;
     }
     step('version folder');
-    writeFileSync(path.join(staging, OUTPUT_MARKER), 'This folder was written by myofolio build and is replaced by the next build.\n');
+    try {
+      writeFileSync(path.join(staging, OUTPUT_MARKER), 'This folder was written by myofolio build and is replaced by the next build.\n');
+    } catch (err) {
+      rmSync(staging, { recursive: true, force: true });
+      throw err;
+    }
     step('version marker');
     return staging;
   }
+}
+
+/**
+ * Give every folder and file of a finished version the modes a new one gets here (0777 and 0666
+ * less the umask, read from the version folder and its marker file, made with those): files copied from the templates
+ * (the assets) would otherwise keep their modes from the installation, whatever the umask.
+ */
+export function honourUmask(staging: string): void {
+  const dirMode = statSync(staging).mode & 0o777;
+  const fileMode = statSync(path.join(staging, OUTPUT_MARKER)).mode & 0o777;
+  const walk = (dir: string) => {
+    for (const e of readdirSync(dir, { withFileTypes: true })) {
+      const full = path.join(dir, e.name);
+      if (e.isDirectory()) {
+        if ((lstatSync(full).mode & 0o777) !== dirMode) chmodSync(full, dirMode);
+        walk(full);
+      } else if (e.isFile() && (lstatSync(full).mode & 0o777) !== fileMode) chmodSync(full, fileMode);
+    }
+  };
+  walk(staging);
 }
 
 /**
