@@ -65,6 +65,11 @@ export interface BuildOptions {
   archive?: (results: StudyResults) => SiteArchive;
   /** The working folder, which the output may neither be nor contain; default process.cwd(). */
   cwd?: string;
+  /**
+   * Write the site as a plain new folder at the output path, without the link and versions
+   * (src/pipeline/output.ts): for a caller that builds it inside its own version and swaps that (the archive).
+   */
+  plainFolder?: boolean;
 }
 
 export type StoreKind = 'file' | 'units' | 'svg' | 'block';
@@ -174,7 +179,7 @@ async function buildOrThrow(studyDir: string, outDir: string, options: BuildOpti
   // The cache folder used, and the one asked for if it exists (a build that falls back from it must not move it aside).
   const asked = options.store === false ? undefined : options.store ?? defaultStoreDir();
   const caches = [store?.dir, asked !== undefined && existsSync(asked) ? asked : undefined].filter((d): d is string => d !== undefined);
-  const plan = planOutput(studyDir, outDir, options.force ?? false, { ...(options.cwd ? { cwd: options.cwd } : {}), protect: caches.map((dir) => ({ dir, name: "myofolio's cache folder" })) });
+  const plan = planOutput(studyDir, outDir, options.force ?? false, { ...(options.cwd ? { cwd: options.cwd } : {}), protect: caches.map((dir) => ({ dir, name: "myofolio's cache folder" })), ...(options.plainFolder ? { plain: true } : {}) });
   const notes = note ? [note] : [];
   const withStoreNote = () => {
     const damaged = store?.counts.discarded.length ?? 0;

@@ -105,6 +105,11 @@ export interface OutputPlan {
   /** The versions folder next to it. */
   versions: string;
   existing: Existing;
+  /**
+   * A plain folder written in place, without a link or versions (the study sites inside an
+   * archive's own version, which the archive build swaps as a whole): `out` must not exist.
+   */
+  plain?: boolean;
 }
 
 export interface PlanOptions {
@@ -114,6 +119,8 @@ export interface PlanOptions {
   home?: string;
   /** Other folders the output may neither be nor contain, with how to name them (e.g. the cache folder). */
   protect?: ReadonlyArray<{ dir: string; name: string }>;
+  /** Write a plain folder in place (see OutputPlan.plain). */
+  plain?: boolean;
 }
 
 /** The versions folder of an output path. */
@@ -160,6 +167,10 @@ export function planOutput(studyDir: string, outDir: string, force: boolean, opt
     const real = realPath(dir);
     if (out === path.resolve(dir) || place === real || target === real) throw new OutputError(`The output folder ${outDir || "''"} is ${name}.`, 'Choose a new folder for the site, e.g. --out _site; --force does not change this.');
     if (isInside(path.resolve(dir), out) || isInside(real, place)) throw new OutputError(`The output folder ${outDir} contains ${name} (${dir}).`, 'Choose a new folder for the site, e.g. --out _site; --force does not change this.');
+  }
+  if (options.plain) {
+    if (lstatOrUndefined(out)) throw new OutputError(`${outDir} already exists.`, 'Build into a new folder.');
+    return { out, versions: versionsOf(out), existing: 'none', plain: true };
   }
   // Not inside (or the same as) another output's versions folder.
   for (let dir = place; ; dir = path.dirname(dir)) {
@@ -261,6 +272,12 @@ export function cleanStale(out: string): string[] {
  * next to the output. Cleans what killed builds left first.
  */
 export function makeStaging(plan: OutputPlan, step: StepHook = () => {}): string {
+  if (plan.plain) {
+    makeFolders(path.dirname(plan.out));
+    mkdirSync(plan.out);
+    writeFileSync(path.join(plan.out, OUTPUT_MARKER), 'This folder was written by myofolio build and is replaced by the next build.\n');
+    return plan.out;
+  }
   cleanStale(plan.out);
   step('cleaned');
   makeFolders(path.dirname(plan.out));
@@ -339,6 +356,7 @@ function removeFolder(dir: string, how: RemovePrevious): void {
  * a foreign folder or link was moved, if any.
  */
 export function swapIn(plan: OutputPlan, staging: string, removePrevious: RemovePrevious = 'now', step: StepHook = () => {}): string | undefined {
+  if (plan.plain) return undefined; // written in place
   const { out, versions } = plan;
   const tmp = path.join(versions, `link-${process.pid}-${hex8()}`);
   // Relative, so the site keeps working when the folder holding both is moved or mounted elsewhere.

@@ -2,7 +2,7 @@
 // test cannot make the machine produce it. MYOFOLIO_TEST_FAULT:
 //   enospc:N  every synchronous write of an .html page after the N-th fails with ENOSPC (a disk
 //             that fills up while Eleventy writes the pages)
-//   never     the copy of the site's assets never finishes (a promise that never settles)
+//   never     the writing of chart files (.svg) never finishes (a promise that never settles)
 import fs from 'node:fs';
 import { syncBuiltinESMExports } from 'node:module';
 
@@ -17,5 +17,8 @@ if (what === 'enospc') {
     return write(...args);
   };
 }
-if (what === 'never') fs.promises.cp = () => new Promise(() => {});
+if (what === 'never') {
+  const write = fs.promises.writeFile;
+  fs.promises.writeFile = (...args) => (String(args[0]).endsWith('.svg') ? new Promise(() => {}) : write(...args));
+}
 syncBuiltinESMExports();

@@ -390,11 +390,15 @@ describe('--out that must never be replaced is refused, even with --force', () =
 describe('faults of the machine', () => {
   withMount('a full disk (tmpfs): exit 1 saying the disk is full; the previous site unchanged; after space is freed the next build succeeds and leaves nothing behind', async () => {
     const disk = join(root, 'disk');
-    mountTmpfs(disk, 'size=16m');
+    // Room for two sites and some: the next build writes its version beside the previous one.
+    const bytes = (dir: string) => Number(execFileSync('du', ['-sbL', dir], { encoding: 'utf8' }).split('\t')[0]);
+    const sizeA = bytes(join(reference, 'a'));
+    const sizeB = bytes(join(reference, 'b'));
+    mountTmpfs(disk, `size=${Math.ceil((2.5 * Math.max(sizeA, sizeB)) / 2 ** 20) + 4}m`);
     const out = join(disk, 'site');
     accepted(cli(['build', studyA, '--out', out]));
     // Free space left for the second build, from none to nearly enough: each level fails at another write.
-    for (const free of [0, 64 * 1024, 512 * 1024, 2 * 2 ** 20, 4 * 2 ** 20 - 256 * 1024]) {
+    for (const free of [0, 64 * 1024, 512 * 1024, Math.round(sizeB / 2), sizeB - 256 * 1024]) {
       const filler = join(disk, 'filler');
       rmSync(filler, { force: true });
       const { bavail, bsize } = statfsSync(disk);
@@ -479,7 +483,7 @@ describe('faults of the machine', () => {
     clean(cli(['init', join(root, 'fd', 'new-study')], { shell: 'ulimit -n 20' }), /myofolio init: Too many open files/);
   }, 180_000);
 
-  it('a promise that never settles (the asset copy injected to hang): exit 1 with a message, not exit 13; the previous site unchanged; the next build cleans up', async () => {
+  it('a promise that never settles (the writing of chart files injected to hang): exit 1 with a message, not exit 13; the previous site unchanged; the next build cleans up', async () => {
     const out = join(root, 'hang', 'site');
     mkdirSync(join(root, 'hang'));
     accepted(cli(['build', studyA, '--out', out]));
