@@ -3,5 +3,5 @@
 import { enlargeYoungGeneration } from '../pipeline/young-generation.js';
 
 enlargeYoungGeneration();
-const { main } = await import('./main.js');
-process.exitCode = await main(process.argv.slice(2), { stdout: process.stdout, stderr: process.stderr, cwd: process.cwd() });
+const { runProcess } = await import('./main.js');
+await runProcess(process.argv.slice(2));

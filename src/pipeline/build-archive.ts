@@ -32,8 +32,9 @@ import type { Issue } from '../study/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { readArchive, studyDirOf, studyInputKey, studyReleases, underStudy } from './archive-input.js';
 import { type BuildOptions, buildStudy, openStore } from './build-study.js';
+import { describeFault, openFileLimit } from './faults.js';
 import { installedFingerprint } from './fingerprint.js';
-import { OutputError, makeStaging, planOutput, swapIn } from './output.js';
+import { OutputError, honourUmask, makeStaging, planOutput, swapIn } from './output.js';
 import { type ChartCounts, storedRender } from './stored-render.js';
 
 /** The record of a build in its output folder, for the next build. */
@@ -143,7 +144,19 @@ function planArchiveOutput(archiveDir: string, outDir: string, force: boolean): 
   }
 }
 
+/** Build an archive's site; a fault of the machine is thrown as an OutputError (src/pipeline/faults.ts), as buildStudy does. */
 export async function buildArchive(archiveDir: string, outDir: string, options: ArchiveBuildOptions = {}): Promise<ArchiveBuildOutcome> {
+  const fileLimit = openFileLimit();
+  try {
+    return await buildArchiveOrThrow(archiveDir, outDir, options);
+  } catch (err) {
+    const fault = err instanceof OutputError ? undefined : describeFault(err, { where: `the output folder ${outDir}`, ...(fileLimit !== undefined ? { fileLimit } : {}) });
+    if (!fault) throw err;
+    throw new OutputError(`${fault.message} Nothing was built; the previous output, if any, is unchanged.`, fault.fix);
+  }
+}
+
+async function buildArchiveOrThrow(archiveDir: string, outDir: string, options: ArchiveBuildOptions): Promise<ArchiveBuildOutcome> {
   const phase = options.onPhase ?? (() => {});
   const failed = (issues: Issue[], notes: string[] = []): ArchiveBuildOutcome => ({ ok: false, issues, notes, studies: [], comparisons: [] });
   phase('read');
@@ -166,8 +179,7 @@ export async function buildArchive(archiveDir: string, outDir: string, options: 
   const fingerprint = options.fingerprint ?? installedFingerprint();
   const previous = existsSync(plan.out) ? readArchiveState(plan.out) : undefined;
   const state: ArchiveState = { format: STATE_FORMAT, studies: {}, pages: {} };
-  const tag = String(process.pid);
-  const staging = makeStaging(plan.out, tag);
+  const staging = makeStaging(plan);
   try {
     const built: BuiltStudy[] = [];
     const reports: StudyBuildReport[] = [];
@@ -199,6 +211,7 @@ export async function buildArchive(archiveDir: string, outDir: string, options: 
           ...(options.sourceDateEpoch !== undefined ? { sourceDateEpoch: options.sourceDateEpoch } : {}),
           ...(options.onProgress ? { onProgress: options.onProgress } : {}),
           archive: (r) => siteArchive(manifest, ref, (comparison = compare(r))),
+          plainFolder: true,
         });
         issues.push(...underStudy(outcome.issues, ref));
         for (const n of outcome.notes) if (!notes.includes(n)) notes.push(n);
@@ -242,7 +255,8 @@ export async function buildArchive(archiveDir: string, outDir: string, options: 
       }
     }
     writeFileSync(path.join(staging, ARCHIVE_STATE_FILE), `${JSON.stringify(state, null, 2)}\n`);
-    const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
+    honourUmask(staging);
+    const movedAside = swapIn(plan, staging, options.removePrevious);
     return {
       ok: true,
       issues,

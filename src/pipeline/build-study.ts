@@ -15,7 +15,7 @@
  * and the exit code.
  */
 import { deserialize, serialize } from 'node:v8';
-import { rmSync, mkdirSync, writeFileSync } from 'node:fs';
+import { existsSync, rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
 import { ASSAYS } from '../assays/registry.js';
@@ -33,8 +33,9 @@ import { TOOL_VERSION } from '../version.js';
 import { analyseUnits } from './analyse-units.js';
 import { COLLECT_AFTER_PARSED_BYTES, HEAVY_PAGES_PER_RUN, collectGarbage } from './collect-garbage.js';
 import { installedFingerprint } from './fingerprint.js';
-import { type RemovePrevious, planOutput, makeStaging, swapIn } from './output.js';
-import { Store, storeDirFor } from './store.js';
+import { describeFault, openFileLimit } from './faults.js';
+import { OutputError, type RemovePrevious, honourUmask, planOutput, makeStaging, swapIn } from './output.js';
+import { Store, defaultStoreDir, storeDirFor, storeFolderProblem } from './store.js';
 import { type ChartCounts, countedDraw, storedBlock, storedRender } from './stored-render.js';
 
 export interface BuildOptions {
@@ -62,6 +63,13 @@ export interface BuildOptions {
   removePrevious?: RemovePrevious;
   /** When the study is built inside an archive: its links and change lines, made from the study's results (src/pipeline/build-archive.ts). */
   archive?: (results: StudyResults) => SiteArchive;
+  /** The working folder, which the output may neither be nor contain; default process.cwd(). */
+  cwd?: string;
+  /**
+   * Write the site as a plain new folder at the output path, without the link and versions
+   * (src/pipeline/output.ts): for a caller that builds it inside its own version and swaps that (the archive).
+   */
+  plainFolder?: boolean;
 }
 
 export type StoreKind = 'file' | 'units' | 'svg' | 'block';
@@ -79,11 +87,13 @@ export interface BuildOutcome {
   notes: string[];
 }
 
-/** The store a build uses, and the note about its folder if it had to be changed. */
-export function openStore(studyDir: string, options: Pick<BuildOptions, 'store' | 'fingerprint'>): { store?: Store; note?: string } {
+/** The store a build uses (never in the study or output folder), and the note about its folder if it had to be changed. */
+export function openStore(studyDir: string, options: Pick<BuildOptions, 'store' | 'fingerprint'>, outDir?: string): { store?: Store; note?: string } {
   if (options.store === false) return {};
-  const { dir, note } = storeDirFor(studyDir, options.store);
-  return { ...(dir !== false ? { store: new Store(dir, options.fingerprint ?? installedFingerprint()) } : {}), ...(note ? { note } : {}) };
+  const { dir, note } = storeDirFor(studyDir, options.store, outDir);
+  const problem = dir !== false ? storeFolderProblem(dir) : undefined;
+  if (dir === false || problem) return { note: problem ?? note };
+  return { store: new Store(dir, options.fingerprint ?? installedFingerprint()), ...(note ? { note } : {}) };
 }
 
 /** The loader's file readings kept in the store, under keys that include the fingerprint. */
@@ -146,11 +156,30 @@ export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'so
   }
 }
 
+/**
+ * Check, analyse and write the site. A fault of the machine (a full disk, too few file
+ * descriptors, a folder that may not be written) is thrown as an OutputError with a plain message
+ * and fix; the previous output is then unchanged (src/pipeline/output.ts).
+ */
 export async function buildStudy(studyDir: string, outDir: string, options: BuildOptions = {}): Promise<BuildOutcome> {
+  const fileLimit = openFileLimit(); // read now: once the files run out, it cannot be read
+  try {
+    return await buildOrThrow(studyDir, outDir, options);
+  } catch (err) {
+    const fault = err instanceof OutputError ? undefined : describeFault(err, { where: `the output folder ${outDir}`, ...(fileLimit !== undefined ? { fileLimit } : {}) });
+    if (!fault) throw err;
+    throw new OutputError(`${fault.message} Nothing was built; the previous output, if any, is unchanged.`, fault.fix);
+  }
+}
+
+async function buildOrThrow(studyDir: string, outDir: string, options: BuildOptions): Promise<BuildOutcome> {
   const phase = options.onPhase ?? (() => {});
   phase('read');
-  const plan = planOutput(studyDir, outDir, options.force ?? false);
-  const { store, note } = openStore(studyDir, options);
+  const { store, note } = openStore(studyDir, options, outDir);
+  // The cache folder used, and the one asked for if it exists (a build that falls back from it must not move it aside).
+  const asked = options.store === false ? undefined : options.store ?? defaultStoreDir();
+  const caches = [store?.dir, asked !== undefined && existsSync(asked) ? asked : undefined].filter((d): d is string => d !== undefined);
+  const plan = planOutput(studyDir, outDir, options.force ?? false, { ...(options.cwd ? { cwd: options.cwd } : {}), protect: caches.map((dir) => ({ dir, name: "myofolio's cache folder" })), ...(options.plainFolder ? { plain: true } : {}) });
   const notes = note ? [note] : [];
   const withStoreNote = () => {
     const damaged = store?.counts.discarded.length ?? 0;
@@ -164,8 +193,10 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   const heavy = parsedBytes >= COLLECT_AFTER_PARSED_BYTES;
   if (heavy) collectGarbage();
   if (!results) return { ok: false, issues, notes: withStoreNote() };
-  const tag = String(process.pid);
-  const staging = makeStaging(plan.out, tag);
+  const staging = makeStaging(plan);
+  const charts: ChartCounts = { rendered: 0, stored: 0 };
+  let pages: number;
+  let movedAside: string | undefined;
   try {
     // The downloads first: the single-file reports quote the SHA-256 of the results.json written here.
     phase('write');
@@ -175,7 +206,6 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
     const resultsSha256 = writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
     writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
     phase('pages');
-    const charts: ChartCounts = { rendered: 0, stored: 0 };
     const site = await buildSite(results, staging, {
       chartsFor: chartsFromModules(results, ASSAYS),
       sourceDateEpoch: options.sourceDateEpoch,
@@ -186,11 +216,14 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
       ...(options.archive ? { archive: options.archive(results) } : {}),
     });
-    const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
-    store?.prune();
-    return { ok: true, issues, out: plan.out, pages: site.pages, charts, results, notes: withStoreNote(), ...(movedAside ? { movedAside } : {}) };
+    pages = site.pages;
+    honourUmask(staging);
+    movedAside = swapIn(plan, staging, options.removePrevious);
   } catch (err) {
     rmSync(staging, { recursive: true, force: true });
     throw err;
   }
+  // The new site is in place: nothing below may remove it.
+  store?.prune();
+  return { ok: true, issues, out: plan.out, pages, charts, results, notes: withStoreNote(), ...(movedAside ? { movedAside } : {}) };
 }

@@ -1,14 +1,14 @@
 /**
- * Output safety: a build writes to a staging folder and swaps it in; a failed,
- * crashed or killed build leaves the previous site byte-identical; the tool refuses the study
- * folder and foreign non-empty folders (unless --force, which moves them aside); it deletes
- * only folders that carry its marker.
+ * Output safety: a build writes a new version of the site and swaps the output
+ * link to it; a failed, crashed or killed build leaves the previous site byte-identical; the tool
+ * refuses the study folder and foreign non-empty folders (unless --force, which moves them aside);
+ * it deletes only what it made. (Faults and kills at every step: tests/robustness/output-faults.test.ts.)
  */
-import { existsSync, mkdirSync, readdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, readlinkSync, symlinkSync, writeFileSync } from 'node:fs';
 import { basename, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildStudy } from '../../src/pipeline/build-study.js';
-import { OUTPUT_MARKER, cleanStale } from '../../src/pipeline/output.js';
+import { OUTPUT_MARKER, VERSIONS_MARKER, cleanStale } from '../../src/pipeline/output.js';
 import { CRASH, cleanup, copyDemo, hashTree, runCli, spawnChild, tempRoot } from './helpers.js';
 
 const root = tempRoot('output');
@@ -24,16 +24,26 @@ beforeAll(async () => {
 }, 120_000);
 afterAll(() => cleanup(root));
 
-/** Entries next to the site folder other than the study and the site itself. */
-function leftovers(): string[] {
-  return readdirSync(root).filter((n) => n !== 'study' && n !== 'site' && n.startsWith('site'));
+/**
+ * What is next to the site link other than its versions folder, and in that folder other than its
+ * marker and the version the link leads to.
+ */
+function leftovers(base = 'site'): string[] {
+  let current = '';
+  try {
+    current = basename(readlinkSync(join(root, base)));
+  } catch {
+    // no link
+  }
+  const versions = `${base}.versions`;
+  const inside = existsSync(join(root, versions)) ? readdirSync(join(root, versions)).filter((n) => n !== VERSIONS_MARKER && n !== current).map((n) => `${versions}/${n}`) : [];
+  return [...readdirSync(root).filter((n) => n.startsWith(`${base}.`) && n !== versions), ...inside];
 }
 
-/** Entries named `<base>.*` next to the site once the CLI's background removal of the previous output is done (polled up to 20 s). */
+/** leftovers() once the CLI's background removal of the previous version is done (polled up to 20 s). */
 async function leftoversSettled(base = 'site'): Promise<string[]> {
-  const list = () => readdirSync(root).filter((n) => n.startsWith(`${base}.`));
-  for (let i = 0; i < 200 && list().some((n) => n.startsWith(`${base}.previous-`)); i++) await new Promise((r) => setTimeout(r, 100));
-  return list();
+  for (let i = 0; i < 200 && leftovers(base).length > 0; i++) await new Promise((r) => setTimeout(r, 100));
+  return leftovers(base);
 }
 
 describe('a successful build', () => {
@@ -45,9 +55,9 @@ describe('a successful build', () => {
     const studyBefore = hashTree(study);
     const r = await runCli(['build', study, '--out', site], root);
     expect(r.code).toBe(0);
-    // The previous site is only renamed aside (never mixed with the new one) and deleted by a
+    // The previous version is left by the link (never mixed with the new one) and deleted by a
     // process of its own: at most that folder is left for a moment, and then nothing.
-    expect(leftovers().every((n) => n.startsWith('site.previous-'))).toBe(true);
+    expect(leftovers().every((n) => /^site\.versions\/\d+-[0-9a-f]{8}$/.test(n))).toBe(true);
     expect(await leftoversSettled()).toEqual([]);
     expect(hashTree(study)).toEqual(studyBefore);
     good = hashTree(site);
@@ -72,7 +82,7 @@ describe('a failing build leaves the previous site intact', () => {
       buildStudy(study, site, {
         onPhase: (p) => {
           if (p === 'write') {
-            staged = readdirSync(root).some((n) => n.startsWith('site.building-'));
+            staged = leftovers().some((n) => n.startsWith(`site.versions/${process.pid}-`));
             throw new Error('injected failure');
           }
         },
@@ -90,7 +100,7 @@ describe('a failing build leaves the previous site intact', () => {
     const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => resolve(code)));
     let sawStaging = false;
     for (let i = 0; i < 3000 && child.exitCode === null; i++) {
-      if (readdirSync(root).some((n) => n.startsWith(`site.building-${child.pid}-`))) {
+      if (leftovers().some((n) => n.startsWith(`site.versions/${child.pid}-`))) {
         sawStaging = true;
         child.kill('SIGKILL');
         break;
@@ -100,18 +110,17 @@ describe('a failing build leaves the previous site intact', () => {
     await exited;
     expect(sawStaging, `the child finished before its staging folder was seen: ${stderr}`).toBe(true);
     expect(hashTree(site)).toEqual(good);
-    const stale = readdirSync(root).filter((n) => n.startsWith(`site.building-${child.pid}-`));
+    const stale = leftovers().filter((n) => n.startsWith(`site.versions/${child.pid}-`));
     expect(stale).toHaveLength(1);
-    expect(existsSync(join(root, stale[0], OUTPUT_MARKER))).toBe(true);
-    // Next to it: a folder with our naming but no marker, and a marked one of a live process.
+    // Next to it: a folder with an older myofolio's staging name but no marker, and a version of a live process.
     const foreign = join(root, 'site.building-999999-userdata');
     mkdirSync(foreign);
     writeFileSync(join(foreign, 'notes.txt'), 'not written by myofolio');
-    const live = join(root, `site.building-${process.ppid}-live`);
+    const live = join(root, 'site.versions', `${process.ppid}-0123abcd`);
     mkdirSync(live);
     writeFileSync(join(live, OUTPUT_MARKER), '');
     const removed = cleanStale(site);
-    expect(removed.map((p) => basename(p))).toEqual(stale);
+    expect(removed.map((p) => `site.versions/${basename(p)}`)).toEqual(stale);
     expect(readFileSync(join(foreign, 'notes.txt'), 'utf8')).toBe('not written by myofolio');
     expect(existsSync(live)).toBe(true);
     cleanup(foreign);
@@ -172,7 +181,7 @@ describe('where a build may write', () => {
     expect(r.out).toContain(`moved to ${aside[0]}`);
     expect(hashTree(join(root, aside[0]))).toEqual(before);
     expect(existsSync(join(foreign, OUTPUT_MARKER))).toBe(true);
-    expect(readdirSync(root).filter((n) => n.startsWith('theirs.') && !n.startsWith('theirs.replaced-'))).toEqual([]);
+    expect(leftovers('theirs').filter((n) => !n.startsWith('theirs.replaced-'))).toEqual([]);
   }, 60_000);
 
   it('an empty folder is used without --force; a later build replaces its own output', async () => {
