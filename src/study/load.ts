@@ -19,6 +19,7 @@
 import { createHash } from 'node:crypto';
 import { checkExclusionsMatch, checkUnusedVariants, checkWildTypeFacts, wildTypeFacts } from './checks.js';
 import { csvDelimiter, decodeText, scanCsv } from './csv.js';
+import { groupIssues } from './group-issues.js';
 import { readManifest } from './manifest.js';
 import { MSG, issue } from './messages.js';
 import { createRowReader, StringPool } from './rows.js';
@@ -258,7 +259,8 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
   issues.push(...checkExclusionsMatch(manifest.exclusions, batches, units));
 
   const digests = options.reuse ? parsed : undefined;
-  if (issues.some((i) => i.severity === 'error')) return { issues, ...(digests ? { digests } : {}) };
+  const grouped = groupIssues(issues);
+  if (grouped.some((i) => i.severity === 'error')) return { issues: grouped, ...(digests ? { digests } : {}) };
   const json = manifest.json;
   const study: Study = {
     title: json.title,
@@ -279,5 +281,5 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
     manifestRaw: manifest.raw,
     manifestSha256: sha256Hex(input.manifest),
   };
-  return { study, issues, ...(digests ? { digests } : {}) };
+  return { study, issues: grouped, ...(digests ? { digests } : {}) };
 }

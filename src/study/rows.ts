@@ -15,11 +15,20 @@ import type { ErrorObject } from 'ajv';
 import type { CsvTable } from './csv.js';
 import { numberCellValue, parseNumberCell } from './csv.js';
 import type { FileSpec } from './manifest.js';
-import { MSG, issue } from './messages.js';
+import { MSG, issue, shown } from './messages.js';
 import { compileRowCheck } from './row-check.js';
 import { CATALOGUE, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
 import type { InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
+import { closestNames } from './suggest.js';
 import { conversionFactor, lookupUnit, normaliseUnitText, UNITS, unitChoices } from './units.js';
+
+/** The labels of the declared variants (not their aliases), in declaration order, for suggestions. */
+const labelLists = new WeakMap<ReadonlyMap<string, Variant>, string[]>();
+function declaredLabels(byLabel: ReadonlyMap<string, Variant>): string[] {
+  let got = labelLists.get(byLabel);
+  if (!got) labelLists.set(byLabel, (got = [...new Set([...byLabel.values()].map((v) => v.label))]));
+  return got;
+}
 
 /** A header column after resolution. */
 export interface ResolvedColumn {
@@ -179,7 +188,7 @@ export function createRowReader<K extends InputKind>(
     const columns: ResolvedColumn[] = [];
     const seen = new Map<string, number>();
     headerCells.forEach((cell, index) => {
-      const at: SourceRef = { file, line: headerLine, column: cell.trim(), col: index + 1 };
+      const at: SourceRef = { file, line: headerLine, column: shown(cell.trim()), col: index + 1 };
       const split = splitHeader(cell, cat.columns);
       const key = (split.def?.name ?? split.name).toLowerCase();
       if (seen.has(key)) {
@@ -320,6 +329,13 @@ export function createRowReader<K extends InputKind>(
     let lastVariant: string | undefined;
     let lastLabel: string | undefined;
     let lastLabelVariant: Variant | undefined;
+    /** Declared labels near an undeclared one, computed once per label. */
+    const near = new Map<string, string[]>();
+    const nearLabels = (label: string): string[] => {
+      let got = near.get(label);
+      if (!got) near.set(label, (got = closestNames(label, declaredLabels(byLabel))));
+      return got;
+    };
 
     return (cells: string[], line: number): void => {
       if (cells.length !== width) {
@@ -335,7 +351,11 @@ export function createRowReader<K extends InputKind>(
         const text = cells[cellIndex[j]].trim();
         if (anyMissing && missing.has(text)) {
           if (skipsRow[j]) {
-            if (!skipped) issues.push(issue(MSG.missingSkipped(columns[j].def.name, text), cellAt(columns[j], line)));
+            if (!skipped) {
+              const label = variantSlot === undefined ? undefined : cells[cellIndex[variantSlot]].trim();
+              const v = label ? byLabel.get(label) : undefined;
+              issues.push(issue(MSG.missingSkipped(columns[j].def.name, text), cellAt(columns[j], line), { variants: v ? [v.id] : [] }));
+            }
             skipped = true;
           }
           continue;
@@ -415,7 +435,7 @@ export function createRowReader<K extends InputKind>(
           if (variant && !out.labels.has(label)) out.labels.set(label, variant);
         }
         if (!variant) {
-          issues.push(issue(MSG.unknownVariant(label), cellAt(byName.get('variant')!, line)));
+          issues.push(issue(MSG.unknownVariant(label, nearLabels(label)), cellAt(byName.get('variant')!, line), { group: label }));
           return;
         }
         if (variant.id !== lastVariant) out.variantsSeen.add((lastVariant = variant.id));
@@ -453,14 +473,14 @@ export function createRowReader<K extends InputKind>(
         if (typeof v !== 'number') continue;
         if ((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min)) {
           const u = c.def.quantity ? UNITS[c.def.quantity].canonical : '';
-          issues.push(issue(MSG.implausible(c.def.name, Number(v.toPrecision(6)), u, p.reason), cellAt(c, line)));
+          issues.push(issue(MSG.implausible(c.def.name, Number(v.toPrecision(6)), u, p.reason), cellAt(c, line), { variants: variantId ? [variantId] : [] }));
         }
       }
       if (computedTension) {
         const p = computedTension;
         const v = typed.tensionKPa as number;
         if ((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min)) {
-          issues.push(issue(MSG.implausible('tension', Number(v.toPrecision(6)), 'kPa', `${p.reason} (computed from force and area)`), cellAt(byName.get('force')!, line)));
+          issues.push(issue(MSG.implausible('tension', Number(v.toPrecision(6)), 'kPa', `${p.reason} (computed from force and area)`), cellAt(byName.get('force')!, line), { variants: variantId ? [variantId] : [] }));
         }
       }
 
@@ -483,7 +503,7 @@ export function createRowReader<K extends InputKind>(
       } else {
         const key = joinKey(cells.map((c) => c.trim()));
         const first = firstByRow.get(key);
-        if (first !== undefined) issues.push(issue(MSG.duplicateRow(first), { file, line }));
+        if (first !== undefined) issues.push(issue(MSG.duplicateRow(first), { file, line }, { variants: variantId ? [variantId] : [] }));
         else firstByRow.set(key, line);
       }
 
