@@ -227,7 +227,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
     // Rows are read while the file is parsed; the issues keep the order of parse, then read.
     const text = decoded.text;
     const rowIssues: Issue[] = [];
-    const reader = createRowReader(spec.entry.kind, csvDelimiter(text), spec, path, manifest.byLabel, rowIssues, pool);
+    const reader = createRowReader(spec.entry.kind, csvDelimiter(text), spec, path, manifest.byLabel, rowIssues, pool, manifest.unresolved);
     let header = true;
     const scanned = scanCsv(text, path, (cells, line) => {
       if (header) reader.header(cells, line);
@@ -242,7 +242,8 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
     got.variantsSeen.forEach((id) => variantsSeen.add(id));
     got.batches.forEach((b) => batches.add(b));
     got.units.forEach((u) => units.add(u));
-    if (options.reuse && !fileIssues.some((i) => i.severity === 'error')) {
+    // A file read against a manifest with entries left out (rows skipped quietly) is not kept for reuse.
+    if (options.reuse && !fileIssues.some((i) => i.severity === 'error') && !manifest.partial && manifest.unresolved.size === 0) {
       const digest = fileDigest(spec.entry.kind, fileRows, got.rowCount, fileIssues, got, byId);
       (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: digest.wildType });
       parsed.push({ path, key, digest });
@@ -254,7 +255,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
   for (const [kind, parts] of Object.entries(rowParts) as [InputKind, unknown[][]][]) rows[kind] = parts.length === 1 ? parts[0] : ([] as unknown[]).concat(...parts);
   const typedRows = rows as Partial<RowsByKind>;
   // Kinds in the order of their first file, as the rows object holds them.
-  issues.push(...checkWildTypeFacts(Object.keys(rowParts).map((k) => [k as InputKind, wtFacts[k as InputKind] ?? []]), manifest.variants));
+  if (!manifest.droppedWildType) issues.push(...checkWildTypeFacts(Object.keys(rowParts).map((k) => [k as InputKind, wtFacts[k as InputKind] ?? []]), manifest.variants));
   issues.push(...checkUnusedVariants(manifest.variants, variantsSeen));
   issues.push(...checkExclusionsMatch(manifest.exclusions, batches, units));
 

@@ -168,6 +168,7 @@ export function createRowReader<K extends InputKind>(
   byLabel: Map<string, Variant>,
   issues: Issue[],
   pool: StringPool = new StringPool(),
+  unresolved: ReadonlySet<string> = new Set(),
 ): RowReader<K> {
   const cat = CATALOGUE[kind];
   const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), labels: new Map(), batches: new Set(), units: new Set(), rowCount: 0 };
@@ -435,6 +436,8 @@ export function createRowReader<K extends InputKind>(
           if (variant && !out.labels.has(label)) out.labels.set(label, variant);
         }
         if (!variant) {
+          // A variant entry the manifest could not read (already reported): its rows are left out quietly.
+          if (unresolved.has(label)) return;
           issues.push(issue(MSG.unknownVariant(label, nearLabels(label)), cellAt(byName.get('variant')!, line), { group: label }));
           return;
         }
