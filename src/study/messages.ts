@@ -93,6 +93,19 @@ export const MSG = {
   variantUnused: (label: string) => w('manifest.variant-unused', `The variant ${q(label)} is declared but appears in no file.`, 'Remove it from the manifest or add its data.'),
   unitUnknown: (text: string, what: string, choices: readonly string[]) => e('units.unknown', `${q(text)} is not a known unit of ${what}.`, `Use one of ${list(choices)} (µ may be written u).`),
 
+  noDataRows: (files: number) =>
+    e(
+      'study.no-data',
+      `The study has no data: ${files === 1 ? 'its one file holds' : `none of its ${files} files holds`} a data row (only headers and comments), so there is nothing to analyse.`,
+      'Add one row per observation under the header of each CSV file you use (the comment lines above each header say what every column holds), and remove from "files" the kinds you did not measure.',
+    ),
+  onlyWildType: () =>
+    e(
+      'study.no-variants',
+      'The manifest declares only the wild type: there is no variant to compare with it.',
+      'Add each variant you measured to "variants", e.g. {"hgvs": "p.Arg403Gln"} (its label in the CSV files defaults to the short form R403Q).',
+    ),
+
   // ---- CSV structure ----
   encoding: () => e('csv.encoding', 'The file is not valid UTF-8 text.', 'Save the file as UTF-8 (with or without BOM).'),
   encodingByte: (byte: number) =>
@@ -145,6 +158,12 @@ export const MSG = {
     ),
   noWildTypeInBatch: (kind: string, batch: string, variants: readonly string[]) => e('csv.batch-without-wt', `Batch ${q(batch)} of the ${kind} data holds ${some(variants)} but no wild type.`, `Add the WT measured in batch ${q(batch)} to this file, or move these rows to a batch that has WT.`),
   duplicateKey: (firstLine: number, key: string) => e('csv.duplicate-observation', `This row repeats the observation on line ${firstLine} (${key}).`, 'Remove the duplicate, or give the rows different replicate/well/trace names.'),
+  duplicateAcrossFiles: (otherFile: string, otherLine: number, key: string) =>
+    e(
+      'csv.duplicate-across-files',
+      `This row repeats the observation on line ${otherLine} of ${q(otherFile)} (${shown(key, 120)}).`,
+      'If one file replaces the other (a corrected version), list only the new one in the manifest; otherwise remove the repeated rows from one file.',
+    ),
   duplicateRow: (firstLine: number) => w('csv.duplicate-row', `This row is identical to line ${firstLine}.`, 'Remove it if it was pasted twice; add a replicate column to tell genuine replicates apart.'),
 } as const;
 

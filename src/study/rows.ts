@@ -18,7 +18,7 @@ import type { FileSpec } from './manifest.js';
 import { MSG, issue, shown } from './messages.js';
 import { compileRowCheck } from './row-check.js';
 import { CATALOGUE, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
-import type { InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
+import type { ColumnUnit, InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
 import { closestNames } from './suggest.js';
 import { conversionFactor, lookupUnit, normaliseUnitText, UNITS, unitChoices } from './units.js';
 
@@ -52,6 +52,8 @@ export interface FileRows<K extends InputKind = InputKind> {
   units: Set<string>;
   /** Data rows read (excluding header and comments), whether or not they were usable. */
   rowCount: number;
+  /** Measurement columns with the unit each was read in (from a header that resolved). */
+  columns: ColumnUnit[];
 }
 
 const HEADER_UNIT = /^(.*?)\s*[([]\s*(.*?)\s*[)\]]$/;
@@ -171,7 +173,7 @@ export function createRowReader<K extends InputKind>(
   unresolved: ReadonlySet<string> = new Set(),
 ): RowReader<K> {
   const cat = CATALOGUE[kind];
-  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), labels: new Map(), batches: new Set(), units: new Set(), rowCount: 0 };
+  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), labels: new Map(), batches: new Set(), units: new Set(), rowCount: 0, columns: [] };
   let state: 'no-header' | 'skip' | 'read' = 'no-header';
   let headerLine = 0;
   let width = 0;
@@ -187,6 +189,7 @@ export function createRowReader<K extends InputKind>(
     // 1. Header.
     let headerOk = true;
     const columns: ResolvedColumn[] = [];
+    const units: ColumnUnit[] = [];
     const seen = new Map<string, number>();
     headerCells.forEach((cell, index) => {
       const at: SourceRef = { file, line: headerLine, column: shown(cell.trim()), col: index + 1 };
@@ -244,6 +247,7 @@ export function createRowReader<K extends InputKind>(
         }
       }
       columns.push({ index, header: cell.trim(), def, factor, unit });
+      if (unit !== undefined) units.push({ name: def.name, header: shown(cell.trim()), unit, from: split.unit !== undefined ? 'header' : 'manifest', line: headerLine, col: index + 1 });
     });
     const has = (name: string) => columns.some((c) => c.def.name === name);
     const headerAt: SourceRef = { file, line: headerLine };
@@ -268,6 +272,7 @@ export function createRowReader<K extends InputKind>(
       headerOk = false;
     }
     if (!headerOk) return;
+    out.columns = units;
     state = 'read';
     width = headerCells.length;
     readRow = rowReader(columns, headerAt);

@@ -25,6 +25,9 @@ export const INPUT_KINDS: readonly InputKind[] = [
   'turnover',
 ];
 
+/** The CSV column naming the biological preparation (protein preparation, fibre, tissue piece) a row comes from. */
+export const PREPARATION_COLUMN = 'unit';
+
 /** The manifest file name in a study folder. */
 export const MANIFEST_NAME = 'study.json';
 
