@@ -6,6 +6,8 @@ export interface Io {
   stdout: { write(text: string): unknown };
   stderr: { write(text: string): unknown };
   cwd: string;
+  /** How the user runs myofolio here ('myofolio', 'npx myofolio', 'node dist/cli/myofolio.js'; src/cli/invocation.ts), for messages that name a command; default 'myofolio'. */
+  command?: string;
 }
 
 export interface Command {

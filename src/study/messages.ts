@@ -106,6 +106,41 @@ export const MSG = {
       'Add each variant you measured to "variants", e.g. {"hgvs": "p.Arg403Gln"} (its label in the CSV files defaults to the short form R403Q).',
     ),
 
+  // ---- after analysis: fitted values, preparations, controls ----
+  implausibleWildType: (findings: ReadonlyArray<{ metric: string; value: string; basis: string; side: 'low' | 'high'; bounds: string; typical: string }>, cause: string) =>
+    w(
+      'study.implausible-wt',
+      findings
+        .map((f, i) => `${f.metric} of WT${i === 0 ? " in this file" : ""}: ${f.value} (${f.basis}), ${f.side === 'low' ? 'below' : 'above'} the plausible ${f.bounds} (typical ${f.typical}).`)
+        .join(' ') + ` ${cause}`,
+      'Write in the header the unit the values were measured in (or correct "units" in the manifest); if the values and unit are right, leave them.',
+    ),
+  implausiblePreparations: (metric: string, items: ReadonlyArray<{ preparation: string; variant: string; batch: string; value: string; side: 'low' | 'high' }>, bounds: string, typical: string, cause: string) => {
+    const shownItems = items.slice(0, 5).map((x) => `${q(x.preparation)} of ${q(x.variant)} (batch ${q(x.batch)}) ${x.value}`);
+    const more = items.length > 5 ? ` and ${items.length - 5} more` : '';
+    const one = items.length === 1;
+    return w(
+      'study.implausible-preparation',
+      `${metric} of ${one ? 'one preparation' : `${items.length} preparations`} outside the plausible ${bounds} for one preparation (typical WT ${typical}): ${shownItems.join('; ')}${more}. ${cause}`,
+      "Check these preparations' values and units (e.g. the head concentration a rate was normalised with); if they are right, leave them.",
+    );
+  },
+  preparationInBatches: (assay: string, variant: string, items: ReadonlyArray<{ preparation: string; batches: readonly string[] }>) =>
+    w(
+      'study.preparation-in-two-batches',
+      `${items.length === 1 ? 'Preparation' : 'Preparations'} ${items
+        .slice(0, 6)
+        .map((x) => `${q(x.preparation)} (batches ${x.batches.map(q).join(', ')})`)
+        .join(', ')}${items.length > 6 ? ` and ${items.length - 6} more` : ''} of ${q(variant)} ${items.length === 1 ? 'appears' : 'appear'} in more than one batch of the ${assay} data: the comparison with WT counts each batch's values as a separate preparation, as if independent.`,
+      'If they are different preparations, give each its own name; if it is one preparation measured in several batches, its values are not independent: keep it in one batch or exclude the others in the manifest.',
+    ),
+  tooFewControls: (scope: string, pathogenic: number, benign: number, addPathogenic: number, addBenign: number) =>
+    w(
+      'study.too-few-controls',
+      `With ${pathogenic} pathogenic and ${benign} benign control${benign === 1 ? '' : 's'} measured${scope ? ` in ${scope}` : ''}, no functional evidence level (PS3 or BS3) can be reached, even if every control reads as its class predicts.`,
+      `Add known controls (variants of known class, with "control" in the manifest): ${[addPathogenic > 0 ? `${addPathogenic} more pathogenic` : '', addBenign > 0 ? `${addBenign} more benign` : ''].filter(Boolean).join(' and ')} would make supporting evidence reachable.`,
+    ),
+
   // ---- CSV structure ----
   encoding: () => e('csv.encoding', 'The file is not valid UTF-8 text.', 'Save the file as UTF-8 (with or without BOM).'),
   encodingByte: (byte: number) =>

@@ -49,7 +49,7 @@ describe.each(CASES.map((c) => [c.name, c] as const))('%s', (_name, c) => {
     const { issues } = loadStudy(readStudyFolder(dir));
     for (const e of c.expect) {
       const hit = issues.find((i) => i.code === e.code && i.at.file === e.file && (e.line === undefined || i.at.line === e.line) && (e.col === undefined || i.at.col === e.col) && (e.jsonPath === undefined || i.at.jsonPath === e.jsonPath));
-      expect(hit, `${e.code} at ${where(e)}; got:\n${issues.map(formatIssue).join('\n')}`).toBeDefined();
+      expect(hit, `${e.code} at ${where(e)}; got:\n${issues.map((i) => formatIssue(i)).join('\n')}`).toBeDefined();
       expect(hit!.severity).toBe('error');
     }
   }, 10_000);

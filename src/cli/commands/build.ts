@@ -93,7 +93,7 @@ export const command: Command = {
       return 1;
     }
     if (!existsSync(join(dir, MANIFEST_NAME))) {
-      io.stderr.write(`myofolio build: '${parsed.study}' has no ${MANIFEST_NAME}. Run 'myofolio init <dir>' for a starter study.\n`);
+      io.stderr.write(`myofolio build: '${parsed.study}' has no ${MANIFEST_NAME}. Run '${io.command ?? 'myofolio'} init <dir>' for a starter study.\n`);
       return 1;
     }
     const memoryNote = memoryWarning(dir, getHeapStatistics().heap_size_limit);
@@ -110,7 +110,7 @@ export const command: Command = {
       });
       progress.done();
       for (const note of outcome.notes) io.stderr.write(`myofolio build: note: ${note}\n`);
-      for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i)}\n`);
+      for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i, io.command)}\n`);
       if (!outcome.ok) {
         const errors = outcome.issues.filter((i) => i.severity === 'error').length;
         io.stdout.write(`${errors} error(s): nothing was built; the previous output, if any, is unchanged.\n`);
