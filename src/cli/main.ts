@@ -32,21 +32,22 @@ export async function main(argv: string[], io: Io): Promise<number> {
   }
   if (first === '--help' || first === '-h' || first === 'help') {
     const commands = await Promise.all(Object.values(COMMANDS).map(async (load) => (await load()).command));
-    io.stdout.write(CLI.help(commands));
+    io.stdout.write(CLI.help(commands, io.command ?? 'myofolio'));
     return 0;
   }
+  const cmd = io.command ?? 'myofolio';
   if (first === undefined) {
-    io.stderr.write(CLI.noCommand());
+    io.stderr.write(CLI.noCommand(cmd));
     return 2;
   }
   const load = Object.prototype.hasOwnProperty.call(COMMANDS, first) ? COMMANDS[first] : undefined;
   if (!load) {
-    io.stderr.write(CLI.unknownCommand(first));
+    io.stderr.write(CLI.unknownCommand(first, cmd));
     return 2;
   }
   const { command } = await load();
   if (rest.includes('--help') || rest.includes('-h')) {
-    io.stdout.write(`usage: myofolio ${command.usage}\n${command.summary}\n`);
+    io.stdout.write(`usage: ${cmd} ${command.usage}\n${command.summary}\n`);
     return 0;
   }
   return command.run(rest, io);

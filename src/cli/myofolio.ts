@@ -4,4 +4,5 @@ import { enlargeYoungGeneration } from '../pipeline/young-generation.js';
 
 enlargeYoungGeneration();
 const { main } = await import('./main.js');
-process.exitCode = await main(process.argv.slice(2), { stdout: process.stdout, stderr: process.stderr, cwd: process.cwd() });
+const { invocation } = await import('./invocation.js');
+process.exitCode = await main(process.argv.slice(2), { stdout: process.stdout, stderr: process.stderr, cwd: process.cwd(), command: invocation(process.env, process.argv[1], process.cwd()) });

@@ -315,7 +315,8 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
   }
 
   // A study with nothing to analyse is an error that says what to add.
-  if (unreadFiles === 0 && inputFiles.length > 0 && inputFiles.every((f) => f.rows === 0)) issues.push(issue(MSG.noDataRows(inputFiles.length), { file: manifestPath, jsonPath: '/files' }));
+  const noData = unreadFiles === 0 && inputFiles.length > 0 && inputFiles.every((f) => f.rows === 0);
+  if (noData) issues.push(issue(MSG.noDataRows(inputFiles.length), { file: manifestPath, jsonPath: '/files' }));
   if (!manifest.partial && manifest.unresolved.size === 0 && manifest.variants.length > 0 && manifest.variants.every((v) => v.isWT)) {
     issues.push(issue(MSG.onlyWildType(), { file: manifestPath, jsonPath: '/variants' }));
   }
@@ -325,7 +326,10 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
   const typedRows = rows as Partial<RowsByKind>;
   // Kinds in the order of their first file, as the rows object holds them.
   if (!manifest.droppedWildType) issues.push(...checkWildTypeFacts(Object.keys(rowParts).map((k) => [k as InputKind, wtFacts[k as InputKind] ?? []]), manifest.variants));
-  issues.push(...checkUnusedVariants(manifest.variants, variantsSeen));
+  // Without any data row, the one error above stands for each file's "header but no rows" and each unused variant.
+  if (noData) {
+    for (let k = issues.length - 1; k >= 0; k--) if (issues[k].code === 'csv.no-rows') issues.splice(k, 1);
+  } else issues.push(...checkUnusedVariants(manifest.variants, variantsSeen));
   issues.push(...checkExclusionsMatch(manifest.exclusions, batches, units));
 
   const digests = options.reuse ? parsed : undefined;

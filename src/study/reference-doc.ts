@@ -6,6 +6,7 @@
  */
 import { ASSAY, BANDS, STATS } from '../defaults.js';
 import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME, MANIFEST_SCHEMA } from './schemas.js';
+import type { InputKind } from './types.js';
 import { UNITS, type Quantity } from './units.js';
 
 export const START_MARKER = '<!-- input-reference:start -->';
@@ -27,44 +28,79 @@ export function columnTable(kind: (typeof INPUT_KINDS)[number]): string {
   return ['| column | required | type | units | description |', '|---|---|---|---|---|', ...rows].join('\n');
 }
 
-/** The whole generated section (without the markers). */
-export function inputReference(): string {
+/** The table of the manifest's fields (name, required, description), from its schema. */
+export function manifestFieldsTable(): string {
   const props = (MANIFEST_SCHEMA as { properties: Record<string, { description?: string }>; required: string[] }).properties;
   const required = (MANIFEST_SCHEMA as { required: string[] }).required;
+  const out = ['| field | required | description |', '|---|---|---|'];
+  for (const [name, p] of Object.entries(props)) {
+    if (name === '$schema') continue;
+    out.push(`| \`${name}\` | ${required.includes(name) ? 'yes' : 'no'} | ${cell(p.description ?? '')} |`);
+  }
+  return out.join('\n');
+}
+
+/**
+ * The field guide `myofolio init` writes beside the starter manifest: every manifest field, the
+ * entries of variants and files, and the columns of the chosen input kinds (JSON has no comments).
+ */
+export function fieldGuide(kinds: readonly InputKind[]): string {
+  const out: string[] = [];
+  out.push(`# Field guide to this study folder`, '');
+  out.push(
+    `\`${MANIFEST_NAME}\` describes the study; each CSV file holds one row per observation of one input kind. Written by \`myofolio init\` from the tool's schemas (\`schemas/manifest.schema.json\`, \`schemas/rows/\`); \`myofolio check <dir>\` lists every problem with its place and the fix.`,
+    '',
+  );
+  out.push('## Manifest fields', '', manifestFieldsTable(), '');
+  out.push('## Variants, files, thresholds and settings', '', ...MANIFEST_NOTES, '');
+  out.push('## CSV rules', '', ...CSV_RULES, '');
+  out.push('## Units', '', unitsTable(), '');
+  for (const kind of kinds) {
+    const cat = CATALOGUE[kind];
+    out.push(`## \`${kind}\`: ${cat.title}`, '', cell(cat.description), '', columnTable(kind), '');
+  }
+  return out.join('\n');
+}
+
+/** Lines on variants, files, thresholds and settings (README and the field guide; '' separates paragraphs). */
+const MANIFEST_NOTES: readonly string[] = [
+  'Variants: `{"wt": true}` for the wild type; others give `hgvs` as `p.Arg403Gln`, `p.R403Q` or `R403Q` (normalised to `p.Arg403Gln`, short form `R403Q`), optionally `label` (the name in the CSV files, default the short form; with one gene the CSV files may also use the short form or the HGVS), `gene` (needed when several genes are declared), `control` `{"class": "pathogenic" | "likely pathogenic" | "benign" | "likely benign", "source": "…"}` and `note`. When a gene has a `sequence`, the reference residue of every variant is checked against it.',
+  '',
+  'Files: `path` (relative, inside the folder), `kind` (one of the input kinds below), `units` per column when the header does not give them, `decimal` (`.` default, or `,` with `;` as delimiter), `missing` (cell texts meaning no value, e.g. `["NA"]`; a row whose required value is missing is skipped with a warning), and per kind: `pathLength` (atpase-nadh), `pixelSize` and `frameInterval` (motility-tracks), `crossSection` (force-pca; `value` for all preparations or `byUnit`), each `{"value": …, "unit": "…"}`.',
+  '',
+  `Thresholds (\`thresholds\`): \`bands\` (WT-like band \`[low, high]\` per metric key such as \`atpase.kcat\`; ratio metrics as variant/WT, difference metrics as variant − WT; defaults in \`src/defaults.ts\` BANDS: ${Object.keys(BANDS).map((k) => `\`${k}\``).join(', ')}), \`bandsFromBenignControls\` (derive bands from the benign controls), \`qThreshold\` (level of the adjusted minimum-effect test for an increased or decreased call; default ${STATS.qThreshold}), \`equivalenceAlpha\` (level of the two one-sided tests for a within-WT-range call; default ${STATS.equivalenceAlpha}), \`evidenceCap\` (\`supporting\` … \`very strong\`, from gene-specific expert-panel rules) and \`wtBaselines\` (lab-declared long-term WT \`{"mean", "sd", "source"}\` per metric key, in canonical units, for the Westgard charts; otherwise mean and SD come from this study's WT values).`,
+  `Settings (\`settings\`) override the assay defaults of \`src/defaults.ts\` by name: ${Object.keys(ASSAY).map((k) => `\`${k}\``).join(', ')}. Unknown names and values of the wrong type are errors.`,
+];
+
+/** The rules every CSV file follows (README and the field guide). */
+const CSV_RULES: readonly string[] = [
+  '- UTF-8 with or without BOM; delimiter `,` or `;`, read from the header line; lines starting with `#` are comments; blank lines are skipped.',
+  '- Units go in the header (`actin (uM)`, `actin [µM]`, `actin_uM`, `velocity (nm/s)`, `velocity_nm_s`) or in the manifest `units`; µ may be written `u`. A measurement column without a unit, or with an unknown unit, is an error. Values are converted on load to µM, µm/s, s, kPa (= mN/mm²), µm, 1/s.',
+  '- Numbers are strict: `12`, `-0.5`, `.5`, `1e-3` and `00123` (= 123, in number columns only; text columns keep the text) are numbers; `1,2` is an error unless the file declares a decimal comma; `NA`, dates, units and thousands separators are errors unless declared as missing-value tokens.',
+  '- Every variant in a CSV must be declared in the manifest; every batch that holds a variant must hold WT for the same input kind; repeated observations are errors, identical rows warnings; implausible values are warnings.',
+];
+
+/** The table of quantities with their canonical and accepted units. */
+function unitsTable(): string {
+  const out = ['| quantity | canonical | accepted |', '|---|---|---|'];
+  for (const q of Object.keys(UNITS) as Quantity[]) {
+    out.push(`| ${UNITS[q].label} | ${UNITS[q].canonical} | ${UNITS[q].units.map((u) => [u.symbol, ...u.aliases].join(', ')).join('; ')} |`);
+  }
+  return out.join('\n');
+}
+
+/** The whole generated section (without the markers). */
+export function inputReference(): string {
   const out: string[] = [];
   out.push('## Input reference', '');
   out.push(
     `A study folder holds one manifest, \`${MANIFEST_NAME}\` (checked against \`schemas/manifest.schema.json\`), and CSV files, one row per observation (row schemas in \`schemas/rows/\`). \`myofolio init <dir>\` writes a starter folder; \`myofolio check <dir>\` lists every problem as \`file:line:col: severity: message — fix\` and exits 1 when there are errors.`,
     '',
   );
-  out.push('### Manifest fields', '', '| field | required | description |', '|---|---|---|');
-  for (const [name, p] of Object.entries(props)) {
-    if (name === '$schema') continue;
-    out.push(`| \`${name}\` | ${required.includes(name) ? 'yes' : 'no'} | ${cell(p.description ?? '')} |`);
-  }
-  out.push('');
-  out.push(
-    'Variants: `{"wt": true}` for the wild type; others give `hgvs` as `p.Arg403Gln`, `p.R403Q` or `R403Q` (normalised to `p.Arg403Gln`, short form `R403Q`), optionally `label` (the name in the CSV files, default the short form; with one gene the CSV files may also use the short form or the HGVS), `gene` (needed when several genes are declared), `control` `{"class": "pathogenic" | "likely pathogenic" | "benign" | "likely benign", "source": "…"}` and `note`. When a gene has a `sequence`, the reference residue of every variant is checked against it.',
-    '',
-    'Files: `path` (relative, inside the folder), `kind` (one of the input kinds below), `units` per column when the header does not give them, `decimal` (`.` default, or `,` with `;` as delimiter), `missing` (cell texts meaning no value, e.g. `["NA"]`; a row whose required value is missing is skipped with a warning), and per kind: `pathLength` (atpase-nadh), `pixelSize` and `frameInterval` (motility-tracks), `crossSection` (force-pca; `value` for all preparations or `byUnit`), each `{"value": …, "unit": "…"}`.',
-    '',
-    `Thresholds (\`thresholds\`): \`bands\` (WT-like band \`[low, high]\` per metric key such as \`atpase.kcat\`; ratio metrics as variant/WT, difference metrics as variant − WT; defaults in \`src/defaults.ts\` BANDS: ${Object.keys(BANDS).map((k) => `\`${k}\``).join(', ')}), \`bandsFromBenignControls\` (derive bands from the benign controls), \`qThreshold\` (level of the adjusted minimum-effect test for an increased or decreased call; default ${STATS.qThreshold}), \`equivalenceAlpha\` (level of the two one-sided tests for a within-WT-range call; default ${STATS.equivalenceAlpha}), \`evidenceCap\` (\`supporting\` … \`very strong\`, from gene-specific expert-panel rules) and \`wtBaselines\` (lab-declared long-term WT \`{"mean", "sd", "source"}\` per metric key, in canonical units, for the Westgard charts; otherwise mean and SD come from this study's WT values).`,
-    `Settings (\`settings\`) override the assay defaults of \`src/defaults.ts\` by name: ${Object.keys(ASSAY).map((k) => `\`${k}\``).join(', ')}. Unknown names and values of the wrong type are errors.`,
-    '',
-  );
-  out.push('### CSV rules', '');
-  out.push(
-    '- UTF-8 with or without BOM; delimiter `,` or `;`, read from the header line; lines starting with `#` are comments; blank lines are skipped.',
-    '- Units go in the header (`actin (uM)`, `actin [µM]`, `actin_uM`, `velocity (nm/s)`, `velocity_nm_s`) or in the manifest `units`; µ may be written `u`. A measurement column without a unit, or with an unknown unit, is an error. Values are converted on load to µM, µm/s, s, kPa (= mN/mm²), µm, 1/s.',
-    '- Numbers are strict: `12`, `-0.5`, `.5`, `1e-3` and `00123` (= 123, in number columns only; text columns keep the text) are numbers; `1,2` is an error unless the file declares a decimal comma; `NA`, dates, units and thousands separators are errors unless declared as missing-value tokens.',
-    '- Every variant in a CSV must be declared in the manifest; every batch that holds a variant must hold WT for the same input kind; repeated observations are errors, identical rows warnings; implausible values are warnings.',
-    '',
-  );
-  out.push('### Units', '', '| quantity | canonical | accepted |', '|---|---|---|');
-  for (const q of Object.keys(UNITS) as Quantity[]) {
-    out.push(`| ${UNITS[q].label} | ${UNITS[q].canonical} | ${UNITS[q].units.map((u) => [u.symbol, ...u.aliases].join(', ')).join('; ')} |`);
-  }
-  out.push('');
+  out.push('### Manifest fields', '', manifestFieldsTable(), '');
+  out.push(...MANIFEST_NOTES, '');
+  out.push('### CSV rules', '', ...CSV_RULES, '');
+  out.push('### Units', '', unitsTable(), '');
   for (const kind of INPUT_KINDS) {
     const cat = CATALOGUE[kind];
     out.push(`### \`${kind}\`: ${cat.title}`, '', cell(cat.description), '', columnTable(kind), '');

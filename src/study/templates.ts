@@ -1,7 +1,9 @@
 /**
- * Starter files for `myofolio init`, generated from the row schemas: one CSV per input
- * kind with a comment line per column and the header, and a manifest listing them. Pure.
+ * Starter files for `myofolio init`, generated from the schemas: one CSV per chosen input kind
+ * with a comment line per column and the header, a manifest listing them, and a field guide
+ * beside it (JSON has no comments). Pure.
  */
+import { fieldGuide } from './reference-doc.js';
 import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME } from './schemas.js';
 import type { InputKind } from './types.js';
 import { UNITS, unitChoices } from './units.js';
@@ -37,8 +39,40 @@ export function templateFileName(kind: InputKind): string {
   return `${kind}.csv`;
 }
 
-/** Starter manifest (as an object) listing one template per kind. */
-export function manifestTemplate(today: string): Record<string, unknown> {
+/** Name of the field guide written beside the starter manifest. */
+export const GUIDE_NAME = 'study-guide.md';
+
+/** Short names accepted by `init --assays` for the usual input kind of each assay. */
+export const KIND_SHORTHANDS: Readonly<Record<string, InputKind>> = {
+  atpase: 'atpase-rates',
+  nadh: 'atpase-nadh',
+  motility: 'motility-velocities',
+  tracks: 'motility-tracks',
+  force: 'force-pca',
+  turnover: 'turnover',
+};
+
+/**
+ * The input kinds named in an `--assays` list (kind names or the shorthands above, comma-separated),
+ * in the order of INPUT_KINDS, or the first name that is neither.
+ * @example parseKinds('force,atpase') // { kinds: ['atpase-rates', 'force-pca'] }
+ * @example parseKinds('forse') // { unknown: 'forse' }
+ */
+export function parseKinds(list: string): { kinds: InputKind[] } | { unknown: string } {
+  const wanted = new Set<InputKind>();
+  for (const raw of list.split(',')) {
+    const name = raw.trim();
+    if (name === '') continue;
+    const kind = (INPUT_KINDS as readonly string[]).includes(name) ? (name as InputKind) : KIND_SHORTHANDS[name];
+    if (!kind) return { unknown: name };
+    wanted.add(kind);
+  }
+  if (wanted.size === 0) return { unknown: list };
+  return { kinds: INPUT_KINDS.filter((k) => wanted.has(k)) };
+}
+
+/** Starter manifest (as an object) listing one template per chosen kind. */
+export function manifestTemplate(today: string, kinds: readonly InputKind[] = INPUT_KINDS): Record<string, unknown> {
   return {
     title: 'New study',
     lab: 'Your lab',
@@ -48,7 +82,7 @@ export function manifestTemplate(today: string): Record<string, unknown> {
     genes: [{ symbol: 'GENE', domains: [] }],
     variants: [{ wt: true, label: 'WT' }],
     direction: 'hypercontractile',
-    files: INPUT_KINDS.map((kind) => ({ path: templateFileName(kind), kind })),
+    files: kinds.map((kind) => ({ path: templateFileName(kind), kind })),
     thresholds: {},
     exclusions: [],
     caveats: ['Research data, not a clinical test.'],
@@ -56,9 +90,9 @@ export function manifestTemplate(today: string): Record<string, unknown> {
   };
 }
 
-/** Every starter file by name. */
-export function starterFiles(today: string): Record<string, string> {
-  const files: Record<string, string> = { [MANIFEST_NAME]: JSON.stringify(manifestTemplate(today), null, 2) + '\n' };
-  for (const kind of INPUT_KINDS) files[templateFileName(kind)] = csvTemplate(kind);
+/** Every starter file by name: the manifest, its field guide and one CSV template per chosen kind. */
+export function starterFiles(today: string, kinds: readonly InputKind[] = INPUT_KINDS): Record<string, string> {
+  const files: Record<string, string> = { [MANIFEST_NAME]: JSON.stringify(manifestTemplate(today, kinds), null, 2) + '\n', [GUIDE_NAME]: fieldGuide(kinds) };
+  for (const kind of kinds) files[templateFileName(kind)] = csvTemplate(kind);
   return files;
 }
