@@ -107,7 +107,18 @@ const CSV_CASES: Case[] = [
   ['neither time nor frame', () => loadWith('k.csv', 'motility-tracks', 'variant,unit,batch,movie,filament,x (um),y (um)\nWT,w1,B1,m,f,1,1\n'), 'error', 'csv.missing-column', "motility-tracks files need one of the columns 'time', 'frame'.", { line: 1 }],
   ['force without area', () => loadWith('f.csv', 'force-pca', 'variant,unit,batch,pCa,force (uN)\nWT,w1,B1,5,10\n'), 'error', 'csv.needs-cross-section', "Force is given without a cross-sectional area for unit 'w1'.", { line: 2, col: 5 }],
   ['NADH without path length', () => loadWith('n.csv', 'atpase-nadh', 'batch,well_type,well,actin (uM),heads (uM),time (s),a340\nB1,actin-only,A1,0,0,0,1\n'), 'error', 'csv.needs-path-length', 'No optical path length', { line: 1 }],
-  ['header only', () => rates(`# just a header\n${RATE_HEAD}\n`), 'warning', 'csv.no-rows', 'The file has a header but no data rows.', { line: 2 }],
+  [
+    'header only (beside a file with data; a study without any data row is an error, see tests/study/across-files.test.ts)',
+    () => {
+      const x = baseManifest();
+      x.files.push({ path: 'empty.csv', kind: 'turnover' });
+      return load(x, { 'rates.csv': RATES, 'empty.csv': '# just a header\nvariant,unit,batch,trace,time (s),fluorescence\n' });
+    },
+    'warning',
+    'csv.no-rows',
+    'The file has a header but no data rows.',
+    { file: 'empty.csv', line: 2 },
+  ],
 ];
 
 describe.each([
