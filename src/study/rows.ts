@@ -65,7 +65,11 @@ const HEADER_UNIT = /^(.*?)\s*[([]\s*(.*?)\s*[)\]]$/;
  */
 export function splitHeader(header: string, columns: readonly ColumnDef[]): { def?: ColumnDef; name: string; unit?: string } {
   const text = header.trim();
-  const find = (name: string) => columns.find((c) => c.name.toLowerCase() === name.trim().toLowerCase());
+  const find = (name: string) => {
+    const wanted = name.trim().toLowerCase();
+    // 'preparation' is the new name of the 'unit' column (the schemas follow once the files have moved).
+    return columns.find((c) => c.name.toLowerCase() === wanted || (wanted === 'preparation' && c.name === 'unit'));
+  };
   const exact = find(text);
   if (exact) return { def: exact, name: exact.name };
   const m = HEADER_UNIT.exec(text);
