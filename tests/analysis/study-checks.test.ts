@@ -157,7 +157,7 @@ describe('too few known controls', () => {
 });
 
 describe('through loading and analysis', () => {
-  const HEAD = 'variant,unit,batch,actin (uM),rate (1/min)';
+  const HEAD = 'variant,preparation,batch,actin (uM),rate (1/min)';
   // Invented Michaelis–Menten rates per second (kcat 5, KM 40, basal 0.03), headed as per minute.
   const rows = (v: string, prep: string, scale = 1) => [0, 5, 10, 20, 40, 80, 100].map((a) => `${v},${prep},B1,${a},${((0.03 + (5 * a) / (40 + a)) * scale).toFixed(4)}`);
   const text = [HEAD, ...rows('WT', 'w1'), ...rows('WT', 'w2', 1.05), ...rows('R2Q', 'p1', 1.2), ...rows('K4E', 'p2', 0.9)].join('\n');

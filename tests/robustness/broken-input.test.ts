@@ -96,7 +96,7 @@ describe('header-only file', () => {
     const dir = join(root, 'header-only');
     copyDemo(dir);
     const { writeFileSync } = await import('node:fs');
-    writeFileSync(join(dir, 'force-pca.csv'), '# comment\nvariant,unit,batch,pCa,force (uN),area (um2)\n');
+    writeFileSync(join(dir, 'force-pca.csv'), '# comment\nvariant,preparation,batch,pCa,force (uN),area (um2)\n');
     const r = await runCli(['check', dir], root);
     expect(r.out).toMatch(/^force-pca\.csv:2: warning: The file has a header but no data rows\. — /m);
     expect(r.out).not.toContain(': error:');

@@ -10,7 +10,7 @@ import { loadStudy, type ParsedDigest } from '../../src/study/load.js';
 import type { FileDigest, RowBase } from '../../src/study/types.js';
 import { RATES, baseManifest } from './fixtures.js';
 
-const HEAD = 'variant,unit,batch,actin (uM),rate (1/s)';
+const HEAD = 'variant,preparation,batch,actin (uM),rate (1/s)';
 const two = (a: string, b: string, patch?: (m: Record<string, any>) => void) => {
   const m = baseManifest();
   m.files = [
@@ -35,7 +35,7 @@ describe('the same observation in two files', () => {
   });
 
   it('units do not hide a repeat: 50 µM in one file is 50000 nM in the other', () => {
-    const nM = `variant,unit,batch,actin (nM),rate (1/s)\nK4E,p2,B1,50000,2.4\n`;
+    const nM = `variant,preparation,batch,actin (nM),rate (1/s)\nK4E,p2,B1,50000,2.4\n`;
     const o = loadStudy(two(RATES, nM));
     expect(o.issues.find((i) => i.code === 'csv.duplicate-across-files')?.message).toContain("line 7 of 'rates.csv' (variant K4E, unit p2, batch B1, actin 50 µM");
   });
@@ -96,7 +96,7 @@ describe('a study with nothing to analyse', () => {
   it('only the wild type declared: an error saying to add the variants', () => {
     const m = baseManifest();
     m.variants = [{ wt: true }];
-    const o = loadStudy({ manifest: JSON.stringify(m), files: { 'rates.csv': 'variant,unit,batch,actin (uM),rate (1/s)\nWT,w1,B1,0,0.03\n' } });
+    const o = loadStudy({ manifest: JSON.stringify(m), files: { 'rates.csv': 'variant,preparation,batch,actin (uM),rate (1/s)\nWT,w1,B1,0,0.03\n' } });
     expect(o.issues.find((i) => i.code === 'study.no-variants')).toMatchObject({ severity: 'error', at: { jsonPath: '/variants' } });
   });
 });

@@ -142,7 +142,7 @@ describe('row pre-check', () => {
 
 describe('duplicate observations in large files', () => {
   it('are found far apart, past the first index capacity, with 0 and −0 alike', () => {
-    const head = 'variant,unit,batch,trace,time (s),fluorescence';
+    const head = 'variant,preparation,batch,trace,time (s),fluorescence';
     const rows = Array.from({ length: 4000 }, (_, i) => `WT,u1,B1,t${i % 4},${Math.floor(i / 4)},${i}`);
     // Lines: header 1, data 2..4001; then three repeats of earlier keys.
     rows.push('WT,u1,B1,t0,0,7', 'WT,u1,B1,t3,999,1', 'WT,u1,B1,t1,-0,2');
@@ -163,7 +163,7 @@ describe('duplicate observations in large files', () => {
 
 describe('typed rows', () => {
   it('have one field order, whether every optional cell is filled or not', () => {
-    const head = 'variant,unit,batch,pCa,force (mN),area (mm²),replicate';
+    const head = 'variant,preparation,batch,pCa,force (mN),area (mm²),replicate';
     const o = loadWith('f.csv', 'force-pca', [head, 'WT,w1,B1,5,0.01,0.0004,r1', 'WT,w1,B1,6,0.01,0.0004,'].join('\n'));
     const rows = o.study!.rows['force-pca']!;
     expect(rows.map((r) => Object.keys(r))).toEqual([

@@ -10,7 +10,7 @@ import { MSG, issue, shown } from '../../src/study/messages.js';
 import { closestNames, didYouMean, editDistance } from '../../src/study/suggest.js';
 import { baseManifest, load, loadWith } from './fixtures.js';
 
-const HEAD = 'variant,unit,batch,actin (uM),rate (1/s)';
+const HEAD = 'variant,preparation,batch,actin (uM),rate (1/s)';
 
 describe('line ranges', () => {
   it('joins neighbouring lines and counts what is left out', () => {
@@ -67,7 +67,7 @@ describe('groupIssues', () => {
 describe('the loader groups repeated findings', () => {
   it('a whole file in a decimal comma gives one error per column, not one per cell', () => {
     const rows = Array.from({ length: 600 }, (_, i) => `WT;w1;B1;${i},5;0,${i}`);
-    const o = loadWith('rates.csv', 'atpase-rates', ['variant;unit;batch;actin (uM);rate (1/s)', ...rows].join('\n'));
+    const o = loadWith('rates.csv', 'atpase-rates', ['variant;preparation;batch;actin (uM);rate (1/s)', ...rows].join('\n'));
     const errors = o.issues.filter((i) => i.severity === 'error');
     expect(errors.map((i) => [i.code, i.at.column, i.count])).toEqual([
       ['csv.decimal-comma', 'actin', 600],
