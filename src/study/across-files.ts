@@ -170,7 +170,6 @@ export function checkAcrossFiles(
   filesInOrder: readonly string[],
   rowsOf: (path: string) => readonly RowBase[],
   variants: ReadonlyMap<string, Variant>,
-  preparationColumn: string,
 ): Issue[] {
   if (shared.size === 0) return [];
   const issues: Issue[] = [];
@@ -187,7 +186,7 @@ export function checkAcrossFiles(
         const v = (r as unknown as Record<string, unknown>)[k.field];
         if (v === undefined || v === '') return [];
         const text = k.field === 'variant' ? label(String(v)) : String(v);
-        return [`${k.name === 'unit' ? preparationColumn : k.name} ${text}${k.unit ? ` ${k.unit}` : ''}`];
+        return [`${k.name} ${text}${k.unit ? ` ${k.unit}` : ''}`];
       })
       .join(', ');
   for (const path of order) {

@@ -24,7 +24,7 @@ import { groupIssues } from './group-issues.js';
 import { readManifest, type FileSpec } from './manifest.js';
 import { MSG, issue } from './messages.js';
 import { createRowReader, StringPool } from './rows.js';
-import { MANIFEST_NAME, PREPARATION_COLUMN } from './schemas.js';
+import { MANIFEST_NAME } from './schemas.js';
 import type { ColumnUnit, FileDigest, InputFile, InputKind, Issue, LoadOutcome, RowBase, RowsByKind, Study, Variant, WildTypeFacts } from './types.js';
 
 /** The contents of a study folder, read by the CLI (see read-folder.ts) or built in memory. */
@@ -311,7 +311,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
       omitted.delete(path);
     }
     const order = manifest.files.map((f) => f.entry.path);
-    for (const [kind, groups] of shared) issues.push(...checkAcrossFiles(kind, groups, order, (p) => rowsByPath.get(p) ?? [], byId, PREPARATION_COLUMN));
+    for (const [kind, groups] of shared) issues.push(...checkAcrossFiles(kind, groups, order, (p) => rowsByPath.get(p) ?? [], byId));
   }
 
   // A study with nothing to analyse is an error that says what to add.

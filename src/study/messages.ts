@@ -157,6 +157,8 @@ export const MSG = {
   duplicateHeader: (name: string) => e('csv.duplicate-header', `The column ${q(name)} appears twice in the header.`, 'Rename or remove one of the two columns.'),
   missingColumn: (name: string, kind: string) => e('csv.missing-column', `The column ${q(name)} is required in ${kind} files.`, `Add a ${q(name)} column (see the README column table for ${kind}).`),
   missingAlternative: (names: readonly string[], kind: string) => e('csv.missing-column', `${kind} files need one of the columns ${list(names)}.`, `Add one of ${list(names)}.`),
+  renamedColumn: (name: string, now: string) =>
+    e('csv.renamed-column', `The column ${q(name)} is now called '${now}': it names the biological preparation (protein preparation, fibre, tissue piece), not physical units.`, `Rename the header ${q(name)} to '${now}'; the values stay as they are.`),
   unknownColumn: (name: string, kind: string) => w('csv.unknown-column', `The column ${q(name)} is not used for ${kind} files and is ignored.`, 'Remove it, or correct its name if it was meant to be read.'),
   noUnit: (column: string, choices: readonly string[]) => e('csv.no-unit', `The column ${q(column)} has no unit.`, `Write the unit in the header, e.g. '${column} (${choices[0]})', or in the manifest file entry "units": {"${column}": "${choices[0]}"}; units: ${list(choices)}.`),
   unitNotExpected: (column: string, text: string) => e('csv.unit-not-expected', `The column ${q(column)} takes no unit, but ${q(text)} is given.`, `Write the header as ${q(column)}.`),
@@ -173,7 +175,7 @@ export const MSG = {
   missingSkipped: (column: string, token: string) => w('csv.missing-value', `${q(column)} holds the missing-value token ${q(token)}, so the row is not used.`, 'Nothing to do if the value was not measured.'),
   belowMinimum: (column: string, value: number, rule: string) => e('csv.range', `${value} in ${q(column)} is out of range: it must be ${rule}.`, `Correct the value; ${column} must be ${rule}.`),
   notAllowed: (column: string, text: string, allowed: readonly unknown[]) => e('csv.enum', `${q(text)} is not allowed in ${q(column)}.`, `Use one of ${list(allowed.map(String))}.`),
-  needsVariantUnit: (column: string) => e('csv.empty-cell', `The cell in ${q(column)} is empty, but sample wells need it.`, `Fill in ${q(column)} (only actin-only wells leave variant and unit empty).`),
+  needsVariantUnit: (column: string) => e('csv.empty-cell', `The cell in ${q(column)} is empty, but sample wells need it.`, `Fill in ${q(column)} (only actin-only wells leave variant and preparation empty).`),
   neitherAlternative: (names: readonly string[]) => e('csv.empty-cell', `The row has none of ${list(names)}.`, `Fill in one of ${list(names)}.`),
   implausible: (column: string, value: number, unit: string, reason: string) => w('csv.implausible', `${value} ${unit} in ${q(column)} is implausible: ${reason}.`, 'Check the value and its unit; leave it if it is right.'),
   schemaOtherCell: (column: string, text: string) => e('csv.schema', `The value in ${q(column)} breaks the row schema: ${text}.`, 'Correct the value; see the README column table.'),
@@ -181,7 +183,7 @@ export const MSG = {
   // ---- settings a file kind needs ----
   needsPixelSize: (column: string) => e('csv.needs-pixel-size', `${q(column)} is in pixels but the manifest gives no pixelSize for this file.`, 'Add "pixelSize": {"value": …, "unit": "um"} to the file entry.'),
   needsFrameInterval: () => e('csv.needs-frame-interval', 'Tracks are given by frame but the manifest gives no frameInterval for this file.', 'Add "frameInterval": {"value": …, "unit": "s"} to the file entry, or give a time column.'),
-  needsCrossSection: (unit: string) => e('csv.needs-cross-section', `Force is given without a cross-sectional area for unit ${q(unit)}.`, 'Add an area column, or "crossSection" (value or byUnit) to the file entry, or give tension instead.'),
+  needsCrossSection: (unit: string) => e('csv.needs-cross-section', `Force is given without a cross-sectional area for preparation ${q(unit)}.`, 'Add an area column, or "crossSection" (value or byUnit) to the file entry, or give tension instead.'),
   needsPathLength: () => e('csv.needs-path-length', 'No optical path length: the file has no path column and the manifest no pathLength.', 'Add "pathLength": {"value": …, "unit": "cm"} to the file entry or a path column.'),
 
   // ---- across rows ----

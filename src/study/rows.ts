@@ -17,7 +17,7 @@ import { numberCellValue, parseNumberCell } from './csv.js';
 import type { FileSpec } from './manifest.js';
 import { MSG, issue, shown } from './messages.js';
 import { compileRowCheck } from './row-check.js';
-import { CATALOGUE, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
+import { CATALOGUE, PREPARATION_COLUMN, RENAMED_COLUMNS, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
 import type { ColumnUnit, InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
 import { closestNames } from './suggest.js';
 import { conversionFactor, lookupUnit, normaliseUnitText, UNITS, unitChoices } from './units.js';
@@ -65,11 +65,7 @@ const HEADER_UNIT = /^(.*?)\s*[([]\s*(.*?)\s*[)\]]$/;
  */
 export function splitHeader(header: string, columns: readonly ColumnDef[]): { def?: ColumnDef; name: string; unit?: string } {
   const text = header.trim();
-  const find = (name: string) => {
-    const wanted = name.trim().toLowerCase();
-    // 'preparation' is the new name of the 'unit' column (the schemas follow once the files have moved).
-    return columns.find((c) => c.name.toLowerCase() === wanted || (wanted === 'preparation' && c.name === 'unit'));
-  };
+  const find = (name: string) => columns.find((c) => c.name.toLowerCase() === name.trim().toLowerCase());
   const exact = find(text);
   if (exact) return { def: exact, name: exact.name };
   const m = HEADER_UNIT.exec(text);
@@ -194,6 +190,8 @@ export function createRowReader<K extends InputKind>(
     let headerOk = true;
     const columns: ResolvedColumn[] = [];
     const units: ColumnUnit[] = [];
+    /** New names of columns given under a former name (reported once, not also as missing). */
+    const renamedTo = new Set<string>();
     const seen = new Map<string, number>();
     headerCells.forEach((cell, index) => {
       const at: SourceRef = { file, line: headerLine, column: shown(cell.trim()), col: index + 1 };
@@ -206,7 +204,13 @@ export function createRowReader<K extends InputKind>(
       }
       seen.set(key, index);
       if (!split.def) {
-        if (split.name !== '') issues.push(issue(MSG.unknownColumn(split.name, kind), at));
+        const renamed = RENAMED_COLUMNS[split.name.toLowerCase()];
+        if (renamed && cat.columns.some((c) => c.name === renamed)) {
+          // The former name: refused, so that the column cannot be mistaken for physical units.
+          issues.push(issue(MSG.renamedColumn(split.name, renamed), at));
+          renamedTo.add(renamed);
+          headerOk = false;
+        } else if (split.name !== '') issues.push(issue(MSG.unknownColumn(split.name, kind), at));
         return;
       }
       const def = split.def;
@@ -256,7 +260,7 @@ export function createRowReader<K extends InputKind>(
     const has = (name: string) => columns.some((c) => c.def.name === name);
     const headerAt: SourceRef = { file, line: headerLine };
     for (const def of cat.columns) {
-      if (def.required && !seen.has(def.name.toLowerCase())) {
+      if (def.required && !seen.has(def.name.toLowerCase()) && !renamedTo.has(def.name)) {
         issues.push(issue(MSG.missingColumn(def.name, kind), headerAt));
         headerOk = false;
       }
@@ -321,7 +325,7 @@ export function createRowReader<K extends InputKind>(
     });
     const plausibleSlots = columns.flatMap((c, j) => (c.def.plausible ? [j] : []));
     const variantSlot = slotOf('variant');
-    const unitSlot = slotOf('unit');
+    const unitSlot = slotOf(PREPARATION_COLUMN);
     const batchSlot = slotOf('batch');
     const frameSlot = slotOf('frame');
     const tensionSlot = slotOf('tension');
@@ -417,7 +421,7 @@ export function createRowReader<K extends InputKind>(
             if (err.keyword === 'required') {
               const group = cat.alternatives.find((g) => g.includes(name));
               if (group) issues.push(issue(MSG.neitherAlternative(group), { file, line }));
-              else if (kind === 'atpase-nadh' && (name === 'variant' || name === 'unit')) issues.push(issue(MSG.needsVariantUnit(name), at));
+              else if (kind === 'atpase-nadh' && (name === 'variant' || name === PREPARATION_COLUMN)) issues.push(issue(MSG.needsVariantUnit(name), at));
               else issues.push(issue(MSG.emptyCell(name), at));
             } else if (['minimum', 'maximum', 'exclusiveMinimum', 'exclusiveMaximum'].includes(err.keyword)) {
               const shown = c ? Number((Number(obj[name]) / c.factor).toPrecision(12)) : Number(obj[name]);

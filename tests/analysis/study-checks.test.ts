@@ -126,7 +126,7 @@ describe('one preparation label in two batches', () => {
     ];
     const issues = preparationsInBatches(units, [atpase], VARIANTS);
     expect(issues).toHaveLength(1);
-    expect(issues[0]).toMatchObject({ severity: 'warning', code: 'study.preparation-in-two-batches', variants: ['a1b'], at: { file: 'rates.csv', column: 'unit' } });
+    expect(issues[0]).toMatchObject({ severity: 'warning', code: 'study.preparation-in-two-batches', variants: ['a1b'], at: { file: 'rates.csv', column: 'preparation' } });
     expect(issues[0].message).toBe("Preparation 'p1' (batches 'B1', 'B2') of 'A1B' appears in more than one batch of the Actin-activated ATPase data: the comparison with WT counts each batch's values as a separate preparation, as if independent.");
   });
 });

@@ -29,7 +29,7 @@ describe('the same observation in two files', () => {
     expect(dup).toHaveLength(1);
     expect(dup[0]).toMatchObject({ severity: 'error', count: 6, at: { file: 'rates-corrected.csv', line: 2, lineEnd: 7 } });
     expect(dup[0].message).toBe(
-      "This row repeats the observation on line 2 of 'rates.csv' (variant WT, unit w1, batch B1, actin 0 µM). The same on 5 more rows (6 in all, lines 2–7).",
+      "This row repeats the observation on line 2 of 'rates.csv' (variant WT, preparation w1, batch B1, actin 0 µM). The same on 5 more rows (6 in all, lines 2–7).",
     );
     expect(o.study).toBeUndefined();
   });
@@ -37,7 +37,7 @@ describe('the same observation in two files', () => {
   it('units do not hide a repeat: 50 µM in one file is 50000 nM in the other', () => {
     const nM = `variant,preparation,batch,actin (nM),rate (1/s)\nK4E,p2,B1,50000,2.4\n`;
     const o = loadStudy(two(RATES, nM));
-    expect(o.issues.find((i) => i.code === 'csv.duplicate-across-files')?.message).toContain("line 7 of 'rates.csv' (variant K4E, unit p2, batch B1, actin 50 µM");
+    expect(o.issues.find((i) => i.code === 'csv.duplicate-across-files')?.message).toContain("line 7 of 'rates.csv' (variant K4E, preparation p2, batch B1, actin 50 µM");
   });
 
   it('a preparation split over two files without repeats is fine (how a large file is split)', () => {
