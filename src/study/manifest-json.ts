@@ -1,5 +1,5 @@
 /** The manifest as written (study.json), once it has passed its schema (schemas/manifest.schema.json). */
-import type { ControlClass, DiseaseDirection, Exclusion, InputKind, ThresholdOverrides } from './types.js';
+import type { ControlClass, DiseaseDirection, InputKind, ThresholdOverrides } from './types.js';
 
 /** A value with a unit as written in the manifest. */
 export interface ManifestQuantity {
@@ -17,7 +17,17 @@ export interface ManifestFile {
   pathLength?: ManifestQuantity;
   pixelSize?: ManifestQuantity;
   frameInterval?: ManifestQuantity;
-  crossSection?: { unit: string; value?: number; byUnit?: Record<string, number> };
+  crossSection?: { unit: string; value?: number; byPreparation?: Record<string, number> };
+}
+
+/** One exclusions[] entry as written: a batch, a preparation or a variant, optionally in one assay. */
+export interface ManifestExclusion {
+  kind: 'batch' | 'preparation' | 'variant';
+  assay?: string;
+  batch?: string;
+  preparation?: string;
+  variant?: string;
+  reason: string;
 }
 
 export interface ManifestJson {
@@ -31,7 +41,7 @@ export interface ManifestJson {
   direction: DiseaseDirection;
   files: ManifestFile[];
   thresholds?: ThresholdOverrides;
-  exclusions?: Omit<Exclusion, 'at'>[];
+  exclusions?: ManifestExclusion[];
   caveats?: string[];
   settings?: Record<string, number | string | boolean>;
 }

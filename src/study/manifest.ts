@@ -61,8 +61,27 @@ function describeType(t: unknown): string {
   return t === 'integer' ? 'whole number' : String(t);
 }
 
+/**
+ * Manifest fields renamed in version 0.3.0 (a preparation was called a unit, which read like the
+ * physical units beside it): refused with the new name.
+ */
+const RENAMED_FIELDS: ReadonlyArray<{ field: string; now: string; where: RegExp }> = [
+  { field: 'unit', now: 'preparation', where: /^\/exclusions\/\d+$/ },
+  { field: 'byUnit', now: 'byPreparation', where: /^\/files\/\d+\/crossSection$/ },
+];
+
+/** The value at a JSON Pointer of a parsed JSON value (RFC 6901), or undefined. */
+function valueAt(root: unknown, pointer: string): unknown {
+  let at: unknown = root;
+  for (const token of pointer.split('/').slice(1)) {
+    if (at === null || typeof at !== 'object') return undefined;
+    at = (at as Record<string, unknown>)[token.replace(/~1/g, '/').replace(/~0/g, '~')];
+  }
+  return at;
+}
+
 /** Map one ajv error of the manifest schema to a catalogue message; undefined to drop it. */
-function manifestMessage(err: ErrorObject): { text: MessageText; path: string } | undefined {
+function manifestMessage(err: ErrorObject, raw: unknown): { text: MessageText; path: string } | undefined {
   const path = err.instancePath;
   switch (err.keyword) {
     case 'if':
@@ -73,6 +92,8 @@ function manifestMessage(err: ErrorObject): { text: MessageText; path: string } 
     }
     case 'additionalProperties': {
       const prop = (err.params as { additionalProperty: string }).additionalProperty;
+      const renamed = RENAMED_FIELDS.find((r) => r.field === prop && r.where.test(path));
+      if (renamed) return { text: MSG.renamedField(prop, renamed.now), path: `${path}/${prop}` };
       return { text: MSG.schemaUnknownField(prop), path: `${path}/${prop}` };
     }
     case 'false schema':
@@ -81,6 +102,7 @@ function manifestMessage(err: ErrorObject): { text: MessageText; path: string } 
     case 'type':
       return { text: MSG.schemaType(describeType((err.params as { type: unknown }).type)), path };
     case 'enum':
+      if (/^\/exclusions\/\d+\/kind$/.test(path) && valueAt(raw, path) === 'unit') return { text: MSG.renamedValue('unit', 'preparation'), path };
       return { text: MSG.schemaEnum((err.params as { allowedValues: unknown[] }).allowedValues), path };
     case 'const':
       return { text: MSG.schemaEnum([(err.params as { allowedValue: unknown }).allowedValue]), path };
@@ -145,7 +167,7 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
   else {
     const errors = validate.errors ?? [];
     for (const err of errors) {
-      const m = manifestMessage(err);
+      const m = manifestMessage(err, raw);
       if (m) issues.push(issue(m.text, { file, jsonPath: m.path || '/' }));
     }
     // Every other check still runs on the parts of the manifest without schema errors.
@@ -325,8 +347,8 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
         issues.push(issue(MSG.unitUnknown(f.crossSection.unit, UNITS.area.label, unitChoices('area')), at(`${path}/crossSection/unit`)));
       } else {
         if (f.crossSection.value !== undefined) spec.crossSectionMm2 = f.crossSection.value * factor;
-        if (f.crossSection.byUnit) {
-          spec.crossSectionByUnitMm2 = Object.fromEntries(Object.entries(f.crossSection.byUnit).map(([u, a]) => [u, a * factor]));
+        if (f.crossSection.byPreparation) {
+          spec.crossSectionByUnitMm2 = Object.fromEntries(Object.entries(f.crossSection.byPreparation).map(([u, a]) => [u, a * factor]));
         }
       }
     }
@@ -357,10 +379,11 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
       else variant = v.id;
     }
     exclusions.push({
-      kind: x.kind,
+      // A preparation is the biological unit of the analysis (Exclusion.kind 'unit').
+      kind: x.kind === 'preparation' ? 'unit' : x.kind,
       ...(x.assay !== undefined ? { assay: x.assay } : {}),
       ...(x.batch !== undefined ? { batch: x.batch } : {}),
-      ...(x.unit !== undefined ? { unit: x.unit } : {}),
+      ...(x.preparation !== undefined ? { unit: x.preparation } : {}),
       ...(variant !== undefined ? { variant } : {}),
       reason: x.reason,
       at: at(p),

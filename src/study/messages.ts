@@ -54,6 +54,8 @@ export const MSG = {
   manifestNotJson: (reason: string) => e('manifest.not-json', `The manifest is not valid JSON: ${reason}.`, 'Fix the JSON syntax (a JSON validator or editor shows the spot).'),
   schemaRequired: (prop: string) => e('manifest.required', `The required field ${q(prop)} is missing.`, `Add ${q(prop)} here.`),
   schemaUnknownField: (prop: string) => e('manifest.unknown-field', `${q(prop)} is not a manifest field here.`, 'Remove it or correct its spelling (see the manifest reference in the README).'),
+  renamedField: (name: string, now: string) => e('manifest.renamed-field', `${q(name)} is now called '${now}' (it names a biological preparation, not physical units).`, `Rename ${q(name)} to '${now}'; its value stays as it is.`),
+  renamedValue: (value: string, now: string) => e('manifest.renamed-value', `The kind ${q(value)} is now called '${now}' (it names a biological preparation, not physical units).`, `Write "kind": "${now}", and the preparation's name under "${now}".`),
   schemaType: (expected: string) => e('manifest.type', `The value must be of type ${expected}.`, `Write ${/^[aeiou]/.test(expected) ? 'an' : 'a'} ${expected} here.`),
   schemaEnum: (allowed: readonly unknown[]) => e('manifest.enum', `The value is not one of the allowed values.`, `Use one of: ${allowed.map((a) => JSON.stringify(a)).join(', ')}.`),
   schemaFormat: (format: string) => e('manifest.format', `The value is not a valid ${format}.`, format === 'date' ? 'Write dates as YYYY-MM-DD.' : `Write a valid ${format}.`),
@@ -183,7 +185,7 @@ export const MSG = {
   // ---- settings a file kind needs ----
   needsPixelSize: (column: string) => e('csv.needs-pixel-size', `${q(column)} is in pixels but the manifest gives no pixelSize for this file.`, 'Add "pixelSize": {"value": …, "unit": "um"} to the file entry.'),
   needsFrameInterval: () => e('csv.needs-frame-interval', 'Tracks are given by frame but the manifest gives no frameInterval for this file.', 'Add "frameInterval": {"value": …, "unit": "s"} to the file entry, or give a time column.'),
-  needsCrossSection: (unit: string) => e('csv.needs-cross-section', `Force is given without a cross-sectional area for preparation ${q(unit)}.`, 'Add an area column, or "crossSection" (value or byUnit) to the file entry, or give tension instead.'),
+  needsCrossSection: (unit: string) => e('csv.needs-cross-section', `Force is given without a cross-sectional area for preparation ${q(unit)}.`, 'Add an area column, or "crossSection" (value or byPreparation) to the file entry, or give tension instead.'),
   needsPathLength: () => e('csv.needs-path-length', 'No optical path length: the file has no path column and the manifest no pathLength.', 'Add "pathLength": {"value": …, "unit": "cm"} to the file entry or a path column.'),
 
   // ---- across rows ----

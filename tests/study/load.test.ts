@@ -65,6 +65,10 @@ const MANIFEST_CASES: Case[] = [
   ['exclusion without its target', () => m((x) => (x.exclusions = [{ kind: 'batch', reason: 'r' }])), 'error', 'manifest.required', "'batch' is missing", { jsonPath: '/exclusions/0/batch' }],
   ['exclusion of an unknown assay', () => m((x) => (x.exclusions = [{ kind: 'batch', batch: 'B1', assay: 'atp', reason: 'r' }])), 'error', 'manifest.unknown-assay', "'atp' is not an assay id.", { jsonPath: '/exclusions/0/assay' }],
   ['exclusion of an unknown variant', () => m((x) => (x.exclusions = [{ kind: 'variant', variant: 'Q9R', reason: 'r' }])), 'error', 'manifest.exclusion-variant', "'Q9R' is not declared", { jsonPath: '/exclusions/0/variant' }],
+  ['exclusion by the former kind "unit"', () => m((x) => (x.exclusions = [{ kind: 'unit', unit: 'w1', reason: 'r' }])), 'error', 'manifest.renamed-value', "The kind 'unit' is now called 'preparation'", { jsonPath: '/exclusions/0/kind' }],
+  ['exclusion naming the former field "unit"', () => m((x) => (x.exclusions = [{ kind: 'unit', unit: 'w1', reason: 'r' }])), 'error', 'manifest.renamed-field', "'unit' is now called 'preparation'", { jsonPath: '/exclusions/0/unit' }],
+  ['cross-section by the former "byUnit"', () => loadWith('f.csv', 'force-pca', 'variant,preparation,batch,pCa,force (mN)\nWT,w1,B1,4.5,0.003\n', { crossSection: { unit: 'mm2', byUnit: { w1: 0.0001 } } }), 'error', 'manifest.renamed-field', "'byUnit' is now called 'byPreparation'", { jsonPath: '/files/0/crossSection/byUnit' }],
+  ['exclusion of a preparation that matches nothing', () => m((x) => (x.exclusions = [{ kind: 'preparation', preparation: 'w9', reason: 'r' }])), 'warning', 'manifest.exclusion-no-match', "preparation 'w9' does not occur in any file", { jsonPath: '/exclusions/0/preparation' }],
   ['exclusion that matches nothing', () => m((x) => (x.exclusions = [{ kind: 'batch', batch: 'B7', reason: 'r' }])), 'warning', 'manifest.exclusion-no-match', "batch 'B7' does not occur in any file", { jsonPath: '/exclusions/0/batch' }],
   ['file not found', () => m((x) => x.files.push({ path: 'gone.csv', kind: 'turnover' })), 'error', 'folder.file-not-found', "The file 'gone.csv' named in the manifest does not exist", { jsonPath: '/files/1/path' }],
   ['path leaving the folder', () => m((x) => x.files.push({ path: '../secret.csv', kind: 'turnover' })), 'error', 'folder.path-outside', "The path '../secret.csv' leaves the study folder.", { jsonPath: '/files/1/path' }],
@@ -171,7 +175,7 @@ describe('conversions and accepted forms', () => {
   });
 
   it('force with a manifest cross-section per unit', () => {
-    const o = loadWith('f.csv', 'force-pca', 'variant,preparation,batch,pCa,force (mN)\nWT,w1,B1,4.5,0.003\n', { crossSection: { unit: 'mm2', byUnit: { w1: 0.0001 } } });
+    const o = loadWith('f.csv', 'force-pca', 'variant,preparation,batch,pCa,force (mN)\nWT,w1,B1,4.5,0.003\n', { crossSection: { unit: 'mm2', byPreparation: { w1: 0.0001 } } });
     expect(o.study!.rows['force-pca']![0].tensionKPa).toBeCloseTo(30, 10); // 0.003 mN / 1e-4 mm² = 30 mN/mm²
   });
 
