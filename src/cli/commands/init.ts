@@ -1,6 +1,6 @@
 /** `myofolio init <dir> [--assays <list>]`: write a starter study folder. */
 import { existsSync, lstatSync, mkdirSync, readdirSync, rmdirSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
-import { isAbsolute, join } from 'node:path';
+import { dirname, isAbsolute, join } from 'node:path';
 import { closestNames, didYouMean } from '../../study/suggest.js';
 import { INPUT_KINDS } from '../../study/schemas.js';
 import { GUIDE_NAME, KIND_SHORTHANDS, parseKinds, starterFiles } from '../../study/templates.js';
@@ -24,6 +24,34 @@ function reason(err: unknown): string {
     EMFILE: 'too many files are open',
   };
   return (code && words[code]) ?? (code ? `system error ${code}` : String(err));
+}
+
+/**
+ * Make a folder and its missing parents, one level at a time (Node's recursive mkdirSync can loop
+ * without end where a parent cannot hold folders, e.g. under /proc). Each folder made is pushed
+ * to `created`, outermost first; the first failure throws.
+ */
+function makeFolders(dir: string, created: string[]): void {
+  const missing: string[] = [];
+  for (let at = dir; !existsSync(at); at = dirname(at)) {
+    missing.unshift(at);
+    if (dirname(at) === at) break;
+  }
+  for (const d of missing) {
+    mkdirSync(d);
+    created.push(d);
+  }
+}
+
+/** Remove folders this run made (innermost first), if they are still empty. */
+function removeFolders(created: readonly string[]): void {
+  for (const d of [...created].reverse()) {
+    try {
+      rmdirSync(d);
+    } catch {
+      // not empty or gone: leave it
+    }
+  }
 }
 
 type Parsed = { dir: string; shown: string; kinds: readonly InputKind[] } | { usage: string } | { exit: number };
@@ -67,7 +95,8 @@ export const command: Command = {
     }
     const { dir, shown, kinds } = parsed;
     // What is there already: nothing, an empty folder, or something init must not touch.
-    let created = false;
+    /** Folders this run made, outermost first (removed again if writing fails). */
+    const created: string[] = [];
     try {
       const link = lstatSync(dir, { throwIfNoEntry: false });
       if (link?.isSymbolicLink() && !existsSync(dir)) {
@@ -83,11 +112,9 @@ export const command: Command = {
           io.stderr.write(CLI.initNotEmpty(shown));
           return 1;
         }
-      } else {
-        mkdirSync(dir, { recursive: true });
-        created = true;
-      }
+      } else makeFolders(dir, created);
     } catch (err) {
+      removeFolders(created);
       io.stderr.write(CLI.initCannotWrite(shown, reason(err)));
       return 1;
     }
@@ -108,11 +135,7 @@ export const command: Command = {
           // already gone
         }
       }
-      try {
-        if (created) rmdirSync(dir);
-      } catch {
-        // not empty or gone: leave it
-      }
+      removeFolders(created);
       io.stderr.write(CLI.initCannotWrite(shown, reason(err)));
       return 1;
     }
