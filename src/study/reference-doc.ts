@@ -79,7 +79,8 @@ const CSV_RULES: readonly string[] = [
   '- UTF-8 with or without BOM; delimiter `,` or `;`, read from the header line; lines starting with `#` are comments; blank lines are skipped.',
   '- Units go in the header (`actin (uM)`, `actin [µM]`, `actin_uM`, `velocity (nm/s)`, `velocity_nm_s`) or in the manifest `units`; µ may be written `u`. A measurement column without a unit, or with an unknown unit, is an error. Values are converted on load to µM, µm/s, s, kPa (= mN/mm²), µm, 1/s.',
   '- Numbers are strict: `12`, `-0.5`, `.5`, `1e-3` and `00123` (= 123, in number columns only; text columns keep the text) are numbers; `1,2` is an error unless the file declares a decimal comma; `NA`, dates, units and thousands separators are errors unless declared as missing-value tokens.',
-  '- Every variant in a CSV must be declared in the manifest; every batch that holds a variant must hold WT for the same input kind; repeated observations are errors, identical rows warnings; implausible values are warnings.',
+  '- Every variant in a CSV must be declared in the manifest; every batch that holds a variant must hold WT for the same input kind; repeated observations are errors, also when the repeat is in another file of the same kind (rows of one preparation may be split over several files), identical rows warnings; implausible values are warnings, and so are fitted values far outside the typical range of the trade (`PLAUSIBLE` in `src/defaults.ts`), with the column whose unit is the likely cause.',
+  '- A problem found in many cells (a whole column in the wrong unit, a file in decimal commas, a misspelt label) is reported once, with the number of cells and their lines.',
 ];
 
 /** The table of quantities with their canonical and accepted units. */

@@ -83,7 +83,7 @@ export const command: Command = {
   async run(args: string[], io: Io): Promise<number> {
     const parsed = parseArgs(args);
     if (typeof parsed === 'string') {
-      io.stderr.write(`myofolio build: ${parsed}.\n${CLI.badArgs(this.usage)}`);
+      io.stderr.write(`myofolio build: ${parsed}.\n${CLI.badArgs(this.usage, io.command)}`);
       return 2;
     }
     const dir = isAbsolute(parsed.study) ? parsed.study : join(io.cwd, parsed.study);

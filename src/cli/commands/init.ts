@@ -72,7 +72,7 @@ function parseArgs(args: string[], io: Io, usage: string): Parsed {
       const got = parseKinds(list);
       if ('unknown' in got) {
         const choices = [...INPUT_KINDS, ...Object.keys(KIND_SHORTHANDS)];
-        io.stderr.write(CLI.initUnknownKind(got.unknown, choices, didYouMean(closestNames(got.unknown, choices))) + CLI.badArgs(usage));
+        io.stderr.write(CLI.initUnknownKind(got.unknown, choices, didYouMean(closestNames(got.unknown, choices))) + CLI.badArgs(usage, io.command));
         return { exit: 2 };
       }
       kinds = got.kinds;
@@ -90,7 +90,7 @@ export const command: Command = {
     const parsed = parseArgs(args, io, this.usage);
     if ('exit' in parsed) return parsed.exit;
     if ('usage' in parsed) {
-      io.stderr.write(`myofolio init: ${parsed.usage}.\n${CLI.badArgs(this.usage)}`);
+      io.stderr.write(`myofolio init: ${parsed.usage}.\n${CLI.badArgs(this.usage, io.command)}`);
       return 2;
     }
     const { dir, shown, kinds } = parsed;
