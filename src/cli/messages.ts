@@ -31,6 +31,7 @@ export const CLI = {
     `Wrote a starter study to ${dir}: ${files.join(', ')}.\n` +
     `${guide} explains every field of study.json and every column; the comment lines at the top of each CSV file say the same for its columns.\n` +
     `Next: declare your gene and variants in study.json, fill the CSV files, then run:\n  ${cmd} check ${shellArg(dir)}\n`,
+  analysisFailed: (reason: string) => `myofolio check: the input was read without errors, but analysing it failed: ${reason}. Please report this with the study's check output.\n`,
   cannotRead: (dir: string, reason: string) => `myofolio check: cannot read the study folder '${dir}': ${reason}\n`,
   checkSummary: (errors: number, warnings: number) =>
     errors === 0 && warnings === 0 ? 'No problems found.\n' : `${errors} error(s), ${warnings} warning(s).\n`,

@@ -51,15 +51,23 @@ export const command: Command = {
       io.stdout.write(CLI.checkSummary(1, 0));
       return 1;
     }
-    let issues: Issue[];
+    let loaded: ReturnType<typeof loadStudy>;
     try {
-      const loaded = loadStudy(readStudyFolder(dir));
-      issues = loaded.issues;
-      // A study without errors is analysed too: some problems show only in what the rows give.
-      if (loaded.study) issues = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt: '', issues }).issues;
+      loaded = loadStudy(readStudyFolder(dir));
     } catch (err) {
       io.stderr.write(CLI.cannotRead(args[0], err instanceof Error ? err.message : String(err)));
       return 1;
+    }
+    let issues: Issue[] = loaded.issues;
+    // A study without errors is analysed too: some problems show only in what the rows give.
+    if (loaded.study) {
+      try {
+        issues = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt: '', issues }).issues;
+      } catch (err) {
+        io.stderr.write(CLI.analysisFailed(err instanceof Error ? err.message : String(err)));
+        if (process.env.MYOFOLIO_DEBUG && err instanceof Error) io.stderr.write(`${err.stack}\n`);
+        return 1;
+      }
     }
     const sorted = sortIssues(issues, MANIFEST_NAME);
     for (const i of sorted) io.stdout.write(`${formatIssue(i, cmd)}\n`);
