@@ -1,7 +1,8 @@
 /**
- * Every default of the tool, defined once. Each is documented beside its value;
- * the manifest may override those marked "(manifest: …)". The methods page and
- * the README read these values; tests/defaults.test.ts checks the docs agree.
+ * Every default of the tool that belongs to no one assay, defined once. Each is documented
+ * beside its value; the manifest may override those marked "(manifest: …)". An assay's own
+ * defaults (its settings and the WT-like bands of its metrics) are defined once in its folder
+ * (src/assays/<assay>/settings.ts and metrics.ts) and assembled by src/assays/assembled.ts.
  */
 
 /** Reading a study folder (src/study/read-folder.ts). */
@@ -60,74 +61,6 @@ export const STATS = {
   equivalenceAlpha: 0.05,
 } as const;
 
-/**
- * WT-like bands per metric key `<assay>.<metric>` (manifest: thresholds.bands).
- * Ratio metrics: [low, high] of variant/WT. Difference metrics: [low, high] of variant − WT.
- * Common practice, no source: 0.8–1.25 (±20–25%, symmetric on the log scale) for rates, velocities
- * and force is a band many labs use informally. pCa50 ±0.1 is the same size on the calcium axis:
- * a shift of 0.1 pCa units is a 10^0.1 = 1.26-fold change in [Ca²⁺] at half activation. Fractions
- * (immobile filaments, slow turnover phase) use ±0.10 absolute. kcat/KM, a quotient of two fitted
- * values, takes the KM band. Basal rate and passive tension lie near zero and are compared as
- * differences in their own units: ±0.01 s⁻¹ (about a third of a typical WT basal rate of
- * 0.02–0.04 s⁻¹) and ±1 kPa (about half a typical passive tension); typical values from memory
- * (REFERENCES.md §6 [M]), bands common practice, no source. Both are reported only, never in calls.
- */
-export const BANDS: Record<string, [number, number]> = {
-  'atpase.kcat': [0.8, 1.25],
-  'atpase.km': [0.67, 1.5],
-  'atpase.kcatOverKm': [0.67, 1.5],
-  'atpase.basal': [-0.01, 0.01],
-  'motility.velocity': [0.8, 1.25],
-  'motility.medianVelocity': [0.8, 1.25],
-  'motility.p95Velocity': [0.8, 1.25],
-  'motility.fractionImmobile': [-0.1, 0.1],
-  'force.fmax': [0.8, 1.25],
-  'force.pCa50': [-0.1, 0.1],
-  'force.nH': [0.8, 1.25],
-  'force.passive': [-1, 1],
-  'turnover.slowFraction': [-0.1, 0.1],
-  'turnover.kFast': [0.67, 1.5],
-  'turnover.kSlow': [0.67, 1.5],
-};
-
-/** Assay settings (manifest: settings.<name>). */
-export const ASSAY = {
-  /** ATPase: fewer [actin] points than this per unit flags 'too few points'. */
-  atpaseMinPoints: 5,
-  /** NADH traces: initial-rate window from the first reading, in seconds. */
-  nadhWindowS: 300,
-  /** NADH extinction coefficient at 340 nm, M⁻¹cm⁻¹ (Horecker & Kornberg 1948). */
-  nadhEpsilon340: 6220,
-  /** Motility: a filament slower than this (µm/s) is immobile (from tracks: its net displacement rate). */
-  motilityImmobileUmS: 0.05,
-  /**
-   * Motility tracks: the path is sampled about every this many seconds, so that each step is long
-   * compared with centroid localisation noise (common practice, no source); 0 samples every frame.
-   */
-  motilityStrideS: 1,
-  /** Motility tracks: minimum frames for a track to give a velocity. */
-  motilityMinFrames: 5,
-  /**
-   * Motility: a unit with fewer analysable filaments than this is flagged 'too few filaments'.
-   * Common practice, no source: labs typically score ≥ 20 filaments before trusting a mean velocity.
-   */
-  motilityMinFilaments: 20,
-  /**
-   * Motility: a unit whose immobile fraction exceeds this is flagged. Twice the upper end of the
-   * 5–10% immobile filaments seen per preparation of human β-cardiac short S1 after dead-head
-   * removal (Nag et al., Sci Adv 2015;1:e1500511).
-   */
-  motilityMaxImmobileFraction: 0.2,
-  /** Force–pCa: fewer pCa points than this per preparation flags 'too few points'. */
-  forceMinPoints: 6,
-  /** Single turnover: phases whose rates differ by less than this factor are 'not separated'. */
-  turnoverMinRateRatio: 3,
-  /** Single turnover: the trace should last at least this many slow-phase time constants. */
-  turnoverMinSlowTimeConstants: 1,
-  /** Single turnover: p value of the extra-sum-of-squares F test below which the double exponential is kept. */
-  turnoverFTestAlpha: 0.05,
-} as const;
-
 /** Calibration (src/calibrate). Brnich et al. 2020, Genome Med 12:3. */
 export const CALIBRATION = {
   /** With this many classified controls or fewer, evidence is capped at supporting. */
@@ -162,13 +95,13 @@ export const CALIBRATION = {
  * unit 60 (minutes for seconds) or 1000 times (a prefix) off lands beyond both.
  */
 export const PLAUSIBLE: Record<string, { typical: [number, number]; scale: 'ratio' | 'difference'; of: string; source: string }> = {
-  'atpase.kcat': { typical: [4, 7], scale: 'ratio', of: 'human β-cardiac myosin', source: 'from memory (REFERENCES.md §6 [M])' },
-  'atpase.km': { typical: [10, 100], scale: 'ratio', of: 'human β-cardiac myosin', source: '"tens of µM", from memory (REFERENCES.md §6 [M])' },
-  'motility.velocity': { typical: [0.7, 1.0], scale: 'ratio', of: 'human β-cardiac myosin', source: 'from memory (REFERENCES.md §6 [M])' },
-  'force.fmax': { typical: [20, 40], scale: 'ratio', of: 'human cardiomyocytes', source: 'from memory (REFERENCES.md §6 [M])' },
-  'force.pCa50': { typical: [5.5, 6.0], scale: 'difference', of: 'cardiac preparations', source: 'from memory (REFERENCES.md §6 [M])' },
-  'turnover.kFast': { typical: [0.03, 0.03], scale: 'ratio', of: 'human β-cardiac two-headed myosin (Sarkar et al., Sci Adv 2020)', source: 'Sarkar et al., Sci Adv 2020 (REFERENCES.md §6 [V])' },
-  'turnover.kSlow': { typical: [0.0034, 0.0034], scale: 'ratio', of: 'human β-cardiac two-headed myosin (Sarkar et al., Sci Adv 2020)', source: 'Sarkar et al., Sci Adv 2020 (REFERENCES.md §6 [V])' },
+  'atpase.kcat': { typical: [4, 7], scale: 'ratio', of: 'human β-cardiac myosin', source: 'typical WT values of the trade, from memory' },
+  'atpase.km': { typical: [10, 100], scale: 'ratio', of: 'human β-cardiac myosin', source: '"tens of µM", typical WT values of the trade, from memory' },
+  'motility.velocity': { typical: [0.7, 1.0], scale: 'ratio', of: 'human β-cardiac myosin', source: 'typical WT values of the trade, from memory' },
+  'force.fmax': { typical: [20, 40], scale: 'ratio', of: 'human cardiomyocytes', source: 'typical values of the trade (kN/m² = kPa), from memory' },
+  'force.pCa50': { typical: [5.5, 6.0], scale: 'difference', of: 'cardiac preparations', source: 'typical values of the trade, from memory' },
+  'turnover.kFast': { typical: [0.03, 0.03], scale: 'ratio', of: 'human β-cardiac two-headed myosin (Sarkar et al., Sci Adv 2020)', source: 'fast phase 0.030 s⁻¹, Sarkar et al., Sci Adv 2020' },
+  'turnover.kSlow': { typical: [0.0034, 0.0034], scale: 'ratio', of: 'human β-cardiac two-headed myosin (Sarkar et al., Sci Adv 2020)', source: 'slow phase 0.0034 s⁻¹, Sarkar et al., Sci Adv 2020' },
 };
 
 /** How far from the typical range (PLAUSIBLE) a WT mean and one preparation may lie. Common practice, no source (see PLAUSIBLE). */

@@ -18,7 +18,8 @@ import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { bandFromBenignControls } from '../calibrate/bands.js';
 import { calibrate, evidenceForReadout } from '../calibrate/oddspath.js';
-import { BANDS, STATS } from '../defaults.js';
+import { BANDS } from '../assays/assembled.js';
+import { STATS } from '../defaults.js';
 import type {
   AssayCall,
   Calibration,
@@ -70,11 +71,16 @@ function matchesExclusion(u: UnitResult, e: Exclusion, variants: Variant[]): boo
   return e.batch !== undefined || e.unit !== undefined || e.variant !== undefined;
 }
 
+/** Where the default band of a metric key `<assay>.<metric>` is defined. */
+function defaultBandSource(key: string): string {
+  return `default (src/assays/${key.split('.')[0]}/metrics.ts)`;
+}
+
 /** Resolve bands: defaults, then manifest overrides, then (when asked) benign-control bands. */
 function resolveBands(study: Study): { bands: Record<string, [number, number]>; source: Record<string, string> } {
   const bands: Record<string, [number, number]> = { ...BANDS };
   const source: Record<string, string> = {};
-  for (const k of Object.keys(bands)) source[k] = 'default (src/defaults.ts)';
+  for (const k of Object.keys(bands)) source[k] = defaultBandSource(k);
   for (const [k, v] of Object.entries(study.thresholds.bands ?? {})) {
     bands[k] = v;
     source[k] = 'manifest';
@@ -83,7 +89,7 @@ function resolveBands(study: Study): { bands: Record<string, [number, number]>; 
 }
 
 export function analyseStudy(study: Study, options: AnalyseOptions): StudyResults {
-  const modules = (options.assays ?? ASSAYS).filter((a) => a.inputs.some((k) => hasRows(study, k)));
+  const modules = (options.assays ?? ASSAYS).filter((a) => a.inputs.some((k) => hasRows(study, k.kind)));
   const variants = study.variants;
   const qThreshold = study.thresholds.qThreshold ?? STATS.qThreshold;
 
@@ -117,7 +123,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
           bands[key] = derived.band;
           bandSource[key] = derived.rule;
         } else {
-          bandSource[key] = `default (src/defaults.ts): ${derived.reason}`;
+          bandSource[key] = `${defaultBandSource(key)}: ${derived.reason}`;
         }
       }
     }
@@ -205,7 +211,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   const unitsByVariant = groupBy(units, (u) => u.variant);
   const variantResults: VariantResult[] = variants.map((v) => {
     const overall = v.isWT
-      ? { call: 'within WT range' as const, sentence: 'Wild-type reference: every comparison is made against it.', readout: null }
+      ? { call: 'reference' as const, sentence: 'Wild-type reference: each variant is compared with the WT measured in the same batches; WT is not called against itself.', readout: null }
       : overallByVariant.get(v.id)!;
     const flags = variantFlags(v, unitsByVariant.get(v.id) ?? [], comparisonsByVariant.get(v.id) ?? [], controlCharts);
     let evidence: VariantResult['evidence'];

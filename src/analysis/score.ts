@@ -1,6 +1,6 @@
 /**
  * Scoring: metric comparisons → metric calls → assay calls → variant call, and the readout used for
- * calibration. Rules (DESIGN.md §6), applied the same way every time, with errors bounded against
+ * calibration. Rules, applied the same way every time, with errors bounded against
  * the WT-like band rather than against "no change":
  *
  * - Metric: increased / decreased when the minimum-effect test shows the effect beyond the nearer
@@ -30,7 +30,7 @@ import { benjaminiHochberg } from '../stats/bh.js';
 import { tQuantile } from '../stats/distributions.js';
 import { holm } from '../stats/holm.js';
 import type { DiseaseDirection } from '../study/types.js';
-import { fmt, fmtEffect, fmtP } from '../results/format.js';
+import { fmt, fmtBand, fmtEffect, fmtEffectCi, fmtP, fmtRange, fmtValue, effectDecimals, fixed } from '../results/format.js';
 
 export interface CallOptions {
   /** Adjusted p (q) below which an effect beyond the band is called. */
@@ -108,11 +108,6 @@ export function callComparisons(
   return out;
 }
 
-/** An absolute value with its unit, e.g. '6.52 s⁻¹'. */
-function withUnit(x: number | null, unit: string): string {
-  return unit === '' ? fmt(x) : `${fmt(x)} ${unit}`;
-}
-
 /** One sentence stating the numbers behind a metric call. */
 export function metricSentence(c: MetricComparison, def: MetricDef, options: Omit<CallOptions, 'controls'>, primaryCount: number): string {
   const what = c.scale === 'ratio' ? `${def.label} variant/WT` : `${def.label} variant − WT`;
@@ -123,10 +118,10 @@ export function metricSentence(c: MetricComparison, def: MetricDef, options: Omi
   }
   const means =
     c.variantMean !== null && c.wtMean !== null
-      ? `; variant ${withUnit(c.variantMean, c.unit)}, WT ${withUnit(c.wtMean, c.unit)} (${c.scale === 'ratio' ? 'geometric means' : 'means'} of the preparations compared)`
+      ? `; variant ${fmtValue(c.variantMean, c.unit, c.scale, c.band)}, WT ${fmtValue(c.wtMean, c.unit, c.scale, c.band)} (${c.scale === 'ratio' ? 'geometric means' : 'means'} of the preparations compared)`
       : '';
-  const ci = c.ciLow === null ? 'no 95% CI (too few preparations for a variance)' : `95% CI ${fmtEffect(c.ciLow, c.scale)} to ${fmtEffect(c.ciHigh, c.scale)}`;
-  const band = `WT-like band ${fmtEffect(c.band[0], c.scale)} to ${fmtEffect(c.band[1], c.scale)}`;
+  const ci = c.ciLow === null ? 'no 95% CI (too few preparations for a variance)' : `95% CI ${fmtEffectCi(c.ciLow, c.ciHigh, c.scale, c.effect, c.band)}`;
+  const band = `WT-like band ${fmtBand(c.band, c.scale)}`;
   const n = `${c.nVariantUnits} variant vs ${c.nWtUnits} WT preparations, ${c.batches.length} batch${c.batches.length === 1 ? '' : 'es'}`;
   const adjust = def.primary && primaryCount > 1 ? `, adjusted across test variants and this variant's ${primaryCount} primary metrics` : ', adjusted across test variants';
   const q = `q = ${fmtP(c.q)} for an effect beyond the band${adjust}`;
@@ -142,13 +137,14 @@ export function metricSentence(c: MetricComparison, def: MetricDef, options: Omi
       const lo = c.scale === 'ratio' ? Math.exp(analysis - t * (c.se ?? NaN)) : analysis - t * (c.se ?? NaN);
       const hi = c.scale === 'ratio' ? Math.exp(analysis + t * (c.se ?? NaN)) : analysis + t * (c.se ?? NaN);
       const level = Math.round((1 - 2 * options.equivalenceAlpha) * 100);
-      reason = `the ${level}% interval ${fmtEffect(lo, c.scale)} to ${fmtEffect(hi, c.scale)} lies inside the band (two one-sided tests, p = ${fmtP(c.pWithin)})`;
+      const d = effectDecimals(c.scale, c.effect, c.band);
+      reason = `the ${level}% interval ${fmtRange(lo, hi, (x) => fixed(x, d))} lies inside the band (two one-sided tests, p = ${fmtP(c.pWithin)})`;
       break;
     }
     default:
       reason = `the data show the effect neither beyond the band (${q}) nor inside it (two one-sided tests, p = ${fmtP(c.pWithin)})`;
   }
-  return `${what} ${fmtEffect(c.effect, c.scale)} (${ci}${means}; ${n}); ${band}: ${c.call}, ${reason}.${caveats}`;
+  return `${what} ${fmtEffect(c.effect, c.scale, c.band)} (${ci}${means}; ${n}); ${band}: ${c.call}, ${reason}.${caveats}`;
 }
 
 type Direction = 'hyper' | 'hypo';
@@ -195,7 +191,7 @@ export function assayCall(
     const d = metricDirection(c.call, m);
     if (d) dirs.push(d);
     if (c.call !== 'within WT range') allWithin = false;
-    parts.push(`${m.label} ${c.call}${c.effect === null ? '' : ` (${fmtEffect(c.effect, c.scale)})`}`);
+    parts.push(`${m.label} ${c.call}${c.effect === null ? '' : ` (${fmtEffect(c.effect, c.scale, c.band)})`}`);
   }
   const call = combine(dirs, allWithin, any);
   const sentence = call === 'not measured' ? 'Not measured in this assay.' : `${capitalise(call)}: ${parts.join('; ')}.`;

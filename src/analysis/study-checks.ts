@@ -15,7 +15,7 @@ import { plausibilityIssues } from './plausibility.js';
 
 /**
  * One preparation label in several batches of one variant and assay: the paired model takes each
- * batch's unit as an independent preparation (DESIGN.md §5). One warning per variant and assay,
+ * batch's unit as an independent preparation. One warning per variant and assay,
  * at the variant's first such unit in a later batch.
  */
 export function preparationsInBatches(units: readonly UnitResult[], assays: ReadonlyArray<{ id: string; label: string }>, variants: readonly Variant[]): Issue[] {

@@ -38,6 +38,19 @@ export const ARCHIVE_MSG = {
   nestedStudy: (path: string, outer: string, outerIndex: number) =>
     w('archive.nested-study', `The study folder '${path}' lies inside the study folder '${outer}' (/studies/${outerIndex}).`, 'Place study folders side by side, so that each holds one study only.'),
 
+  // ---- archive folder ----
+  unreadable: (file: string, reason: string) => e('archive.unreadable', `'${file}' cannot be read: ${reason}.`, 'Check that the file exists and that you may read it.'),
+  studyMissing: (path: string) => e('archive.study-missing', `The study folder '${path}' does not exist in the archive folder.`, 'Correct the path in archive.json, or move the study folder there.'),
+  studyNoManifest: (path: string, manifest: string) =>
+    e('archive.study-no-manifest', `The study folder '${path}' has no ${manifest}.`, `Give the path of a study folder (one with ${manifest}); 'myofolio init <dir>' writes a starter study.`),
+
+  // ---- releasing a built study ----
+  releaseUnknownStudy: (id: string, ids: readonly string[]) => e('release.unknown-study', `The archive has no study '${id}'.`, `Use one of the ids in archive.json: ${list(ids)}.`),
+  releaseNotBuilt: (id: string, out: string) =>
+    e('release.not-built', `Study '${id}' has no built results in '${out}'.`, `Build the archive first (myofolio build <archive-dir> --out ${out}), check its pages, then release.`),
+  releaseStaleBuild: (id: string, out: string) =>
+    e('release.stale-build', `The files of study '${id}' (or its release history, or the tool) changed since the archive in '${out}' was built, so its built results are not what its files now say.`, `Build the archive again (myofolio build <archive-dir> --out ${out}), check the pages, then release.`),
+
   // ---- releases ----
   releaseStudyId: (id: string) => e('release.study-id', `'${id}' is not a study id of the form the archive uses.`, 'Use the id given to the study in archive.json (lower-case letters, digits, single hyphens).'),
   releaseDate: (date: string) => e('release.date', `'${date}' is not a calendar date written as YYYY-MM-DD.`, 'Give the release date as YYYY-MM-DD, e.g. 2026-03-02.'),

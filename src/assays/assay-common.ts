@@ -4,29 +4,39 @@
  * summary statistics. Pure: no I/O, no clock, no randomness.
  */
 import type { FitResult } from '../numeric/types.js';
+import type { SourceRef } from '../results/source.js';
 import type { Flag } from '../results/types.js';
-import type { InputKind, RowBase, SourceRef, Study } from '../study/types.js';
-import { ASSAY } from '../defaults.js';
 import { mean } from '../stats/descriptive.js';
+import type { AssayStudy, InputKindDef, RowBase, SettingsBag } from './types.js';
 
-export type AssaySettingName = keyof typeof ASSAY;
-
-/** Settings as the manifest gives them (study.settings or an input file's settings). */
-export type SettingsBag = Record<string, number | string | boolean> | undefined;
+export type { SettingsBag } from './types.js';
 
 /**
  * The value of a numeric assay setting: the first finite number among the bags given
- * (later bags are more specific and win), else the default from src/defaults.ts
- * (`ASSAY`). Numeric strings such as "0.1" are accepted.
- * @example assaySetting('motilityImmobileUmS', { motilityImmobileUmS: 0.1 }) // → 0.1
+ * (later bags are more specific and win), else its default (the assay's settings.ts).
+ * Numeric strings such as "0.1" are accepted.
+ * @example assaySetting({ motilityImmobileUmS: 0.05 }, 'motilityImmobileUmS', { motilityImmobileUmS: 0.1 }) // → 0.1
  */
-export function assaySetting(name: AssaySettingName, ...bags: SettingsBag[]): number {
+export function assaySetting<S extends Readonly<Record<string, number>>>(defaults: S, name: keyof S & string, ...bags: SettingsBag[]): number {
   for (let i = bags.length - 1; i >= 0; i--) {
     const raw = bags[i]?.[name];
     const value = typeof raw === 'string' && raw.trim() !== '' ? Number(raw) : raw;
     if (typeof value === 'number' && Number.isFinite(value)) return value;
   }
-  return ASSAY[name];
+  return defaults[name] as number;
+}
+
+/**
+ * The rows of one input kind of a study, typed as the kind declares them (the loader made each
+ * row from the kind's row schema).
+ */
+export function rowsOf<R extends RowBase>(study: Pick<AssayStudy, 'rows'>, def: InputKindDef<R>): readonly R[] {
+  return (study.rows[def.kind] ?? []) as readonly R[];
+}
+
+/** Settings of the input file a row came from (manifest file entry), for settings given per file. */
+export function fileSettings(study: Pick<AssayStudy, 'files'>, file: string | undefined): SettingsBag {
+  return study.files.find((f) => f.path === file)?.settings;
 }
 
 /**
@@ -89,9 +99,7 @@ const TIE_BAND = 1e-3;
  * power of ten, so it is the double nearest to the decimal — what Number() of the string
  * gives. The product |v|·10^s is off by at most ~2e-4 from the exact value, so whenever it
  * lies within TIE_BAND of a rounding tie, or n does not have 12 digits, or |s| > 22, the
- * function falls back to toPrecision itself. About three times faster than toPrecision
- * (measured on Node 20), which took a fifth of the force–pCa module's time and more for
- * 400-point traces. Equality with toPrecision is tested on random values of every
+ * function falls back to toPrecision itself. Equality with toPrecision is tested on random values of every
  * magnitude and on constructed ties (tests/assays/round-for-plot.test.ts).
  * @example roundForPlot(0.1 + 0.2) // → 0.3
  */
@@ -148,19 +156,30 @@ export function groupUnits<T extends RowBase>(rows: readonly T[]): UnitGroup<T>[
   return groups;
 }
 
-/** Summarise row locations as one line range per file. */
+/**
+ * Summarise row locations as runs of consecutive lines per file (one SourceRef per run), so that a
+ * unit's provenance counts exactly the rows it was made from, even when they are not contiguous.
+ * @example sourceRanges([{ at: { file: 'a.csv', line: 2 } }, { at: { file: 'a.csv', line: 3 } }, { at: { file: 'a.csv', line: 9 } }])
+ * // → [{ file: 'a.csv', line: 2, lineEnd: 3 }, { file: 'a.csv', line: 9 }]
+ */
 export function sourceRanges(rows: readonly { at: SourceRef }[]): SourceRef[] {
-  const byFile = new Map<string, { min: number; max: number }>();
+  const byFile = new Map<string, number[]>();
   for (const { at } of rows) {
-    const line = at.line ?? 0;
-    const r = byFile.get(at.file);
-    if (!r) byFile.set(at.file, { min: line, max: line });
-    else {
-      r.min = Math.min(r.min, line);
-      r.max = Math.max(r.max, line);
+    const list = byFile.get(at.file);
+    if (list) list.push(at.line ?? 0);
+    else byFile.set(at.file, [at.line ?? 0]);
+  }
+  const out: SourceRef[] = [];
+  for (const [file, lines] of byFile) {
+    const sorted = [...new Set(lines)].sort((a, b) => a - b);
+    for (let i = 0; i < sorted.length; ) {
+      let j = i;
+      while (j + 1 < sorted.length && sorted[j + 1] === sorted[j]! + 1) j++;
+      out.push(i === j ? { file, line: sorted[i]! } : { file, line: sorted[i]!, lineEnd: sorted[j]! });
+      i = j + 1;
     }
   }
-  return [...byFile.entries()].map(([file, r]) => (r.min === r.max ? { file, line: r.min } : { file, line: r.min, lineEnd: r.max }));
+  return out;
 }
 
 /** Flag parameters whose standard error exceeds `limit` × |estimate|. */
@@ -210,7 +229,7 @@ export function unitsInOrder(rows: readonly RowBase[], from = 0, to = rows.lengt
 }
 
 /** Does the study hold rows of this kind (counting the rows of omitted files)? */
-export function hasRows(study: Pick<Study, 'rows' | 'omitted'>, kind: InputKind): boolean {
+export function hasRows(study: Pick<AssayStudy, 'rows' | 'omitted'>, kind: string): boolean {
   if ((study.rows[kind]?.length ?? 0) > 0) return true;
   for (const d of study.omitted?.values() ?? []) if (d.kind === kind && d.kept > 0) return true;
   return false;

@@ -2,22 +2,79 @@
  * Vega-Lite building blocks for the per-variant assay charts: the variant's units beside the
  * WT units of the same batches. User text (variant and unit labels) goes in as data values only.
  */
+import { fmt } from '../results/format.js';
 import type { MetricDef, UnitResult } from '../results/types.js';
 import type { AssayChartInput, ChartSpec } from './types.js';
 
-/** Group colours and shapes: never colour alone (WT circles, variant triangles). */
-export const GROUP_COLOURS = { WT: '#5f6b73', Variant: '#c2570c' } as const;
+/**
+ * Group marks of the per-variant assay charts: WT in light grey circles and dashed lines, the
+ * variant in near-black crosses and solid lines. Neither colour nor shape is a call's (a vermilion
+ * ▲ would read as hypercontractile; src/charts/palette.ts lists every mark of the site), and the
+ * two groups differ in lightness, shape and dash, in print as on screen.
+ */
+export const GROUP_STYLE = {
+  WT: { colour: '#8a969e', shape: 'circle', dash: [5, 3] },
+  variant: { colour: '#1d1d1f', shape: 'cross', dash: [1, 0] },
+} as const;
 
-export function groupEncoding(): Record<string, unknown> {
+/** Group colours by the value of the `group` field ('WT' or 'Variant'). */
+export const GROUP_COLOURS = { WT: GROUP_STYLE.WT.colour, Variant: GROUP_STYLE.variant.colour } as const;
+
+/**
+ * Name of the chart parameter holding the variant's name: the group field's values stay 'WT' and
+ * 'Variant' (so every chart of an assay has one shape, compiled once), and the legend shows the
+ * variant's name instead of 'Variant' (groupChannel's labelExpr). The name travels as a parameter
+ * value, never inside an expression.
+ */
+export const VARIANT_NAME_PARAM = 'variantName';
+
+/** The chart parameters of the group legend: the variant's name. */
+export function groupParams(input: AssayChartInput): Array<{ name: string; value: unknown }> {
+  return [{ name: VARIANT_NAME_PARAM, value: input.variantLabel }];
+}
+
+/**
+ * One group channel (colour or shape) keyed by the `group` field, both with the same legend
+ * settings, so that vega-lite merges them into one legend naming WT and the variant. Lines get
+ * their colour and dash from groupCurveLayers instead (a dash channel on the same field would
+ * clash with this legend).
+ */
+export function groupChannel(prop: 'colour' | 'shape'): Record<string, unknown> {
   return {
-    color: {
-      field: 'group',
-      type: 'nominal',
-      title: null,
-      scale: { domain: ['WT', 'Variant'], range: [GROUP_COLOURS.WT, GROUP_COLOURS.Variant] },
-    },
+    field: 'group',
+    type: 'nominal',
+    title: null,
+    scale: { domain: ['WT', 'Variant'], range: prop === 'colour' ? [GROUP_STYLE.WT.colour, GROUP_STYLE.variant.colour] : [GROUP_STYLE.WT.shape, GROUP_STYLE.variant.shape] },
+    legend: { labelExpr: `datum.label === 'Variant' ? ${VARIANT_NAME_PARAM} : datum.label`, symbolSize: 80, symbolOpacity: 1, symbolStrokeWidth: 0 },
   };
 }
+
+/**
+ * Fitted curves as two line layers, WT's (light grey, dashed) and then the variant's (near-black,
+ * solid) over them: each group one broken path (brokenPaths, keyed by `key`), drawn in its order.
+ */
+export function groupCurveLayers(
+  wt: ReadonlyArray<Record<string, unknown>>,
+  variant: ReadonlyArray<Record<string, unknown>>,
+  key: string,
+  x: Record<string, unknown> & { field: string },
+  y: Record<string, unknown> & { field: string },
+  mark: Record<string, unknown> = {},
+): Array<Record<string, unknown>> {
+  return ([['WT', wt], ['variant', variant]] as const).map(([g, rows]) => ({
+    data: { values: brokenPaths(rows, key, x.field, y.field) },
+    mark: { type: 'line', strokeWidth: 1.5, ...mark, color: GROUP_STYLE[g].colour, strokeDash: GROUP_STYLE[g].dash },
+    encoding: { x, y, order: { field: 'seq', type: 'quantitative' } },
+  }));
+}
+
+export function groupEncoding(): Record<string, unknown> {
+  return { color: groupChannel('colour') };
+}
+
+/** Plot area of the per-variant assay charts, px (about 680 px with axes and legend: an A4 page at 100%). */
+export const UNIT_CHART_WIDTH = 520;
+export const UNIT_CHART_HEIGHT = 300;
 
 /** Flatten units' plot data, tagging each row with group ('WT' or 'Variant'), unit and batch. */
 export function flattenUnits(units: UnitResult[], group: 'WT' | 'Variant', part: 'points' | 'curve'): Array<Record<string, unknown>> {
@@ -31,16 +88,11 @@ export function flattenUnits(units: UnitResult[], group: 'WT' | 'Variant', part:
 interface UnitChartOptions {
   title: string;
   description: string;
-  x: { field: string; title: string; reverse?: boolean; scaleType?: 'linear' | 'log' };
+  x: { field: string; title: string; reverse?: boolean };
   y: { field: string; title: string };
   encodingExtra: Record<string, unknown>;
   /** The assay's metrics, listed per preparation in the chart's numbers table. */
   metrics: readonly MetricDef[];
-}
-
-/** A number to 3 significant digits for tables, '—' when missing. @example sig3(0.123456) // → '0.123' */
-export function sig3(x: number | null | undefined): string {
-  return typeof x === 'number' && Number.isFinite(x) ? String(Number(x.toPrecision(3))) : '—';
 }
 
 /**
@@ -61,20 +113,13 @@ export function brokenPaths(rows: ReadonlyArray<Record<string, unknown>>, key: s
 }
 
 /**
- * Points per unit with a fitted curve per unit, variant and WT overlaid, shapes by group.
+ * Points per unit with a fitted curve per unit, variant and WT overlaid (the variant's on top), shapes by group.
  * The numbers table lists each preparation's metrics (the drawn readings and curves are in
  * results.json), not the drawn points.
  */
 export function unitChart(input: AssayChartInput, o: UnitChartOptions): ChartSpec {
   const points = [...flattenUnits(input.wtUnits, 'WT', 'points'), ...flattenUnits(input.variantUnits, 'Variant', 'points')];
-  // Curve keys are group + preparation, so WT and variant curves never join.
-  const curve = brokenPaths(
-    [...flattenUnits(input.wtUnits, 'WT', 'curve'), ...flattenUnits(input.variantUnits, 'Variant', 'curve')].map((r) => ({ ...r, curveKey: `${r.group} ${r.unit}` })),
-    'curveKey',
-    o.x.field,
-    o.y.field,
-  );
-  const x = { field: o.x.field, type: 'quantitative', title: o.x.title, scale: { reverse: o.x.reverse ?? false, type: o.x.scaleType ?? 'linear', zero: false } };
+  const x = { field: o.x.field, type: 'quantitative', title: o.x.title, scale: { reverse: o.x.reverse ?? false, zero: false } };
   const y = { field: o.y.field, type: 'quantitative', title: o.y.title };
   const table = {
     columns: ['Group', 'Preparation', 'Batch', 'Readings', ...o.metrics.map((m) => (m.unit ? `${m.label} (${m.unit})` : m.label))],
@@ -83,7 +128,7 @@ export function unitChart(input: AssayChartInput, o: UnitChartOptions): ChartSpe
       u.unit,
       u.batch,
       String(u.nTechnical),
-      ...o.metrics.map((m) => sig3(u.metrics[m.id])),
+      ...o.metrics.map((m) => fmt(u.metrics[m.id])),
     ]),
     note: 'The chart draws every reading and each preparation’s fitted curve; both are in results.json (plot of each preparation).',
   };
@@ -91,24 +136,17 @@ export function unitChart(input: AssayChartInput, o: UnitChartOptions): ChartSpe
     title: o.title,
     description: o.description,
     usermeta: { table },
-    width: 420,
-    height: 260,
+    params: groupParams(input),
+    width: UNIT_CHART_WIDTH,
+    height: UNIT_CHART_HEIGHT,
     layer: [
-      {
-        data: { values: curve },
-        mark: { type: 'line', strokeWidth: 1.5, opacity: 0.85 },
-        encoding: { x, y, order: { field: 'seq', type: 'quantitative' }, strokeDash: { field: 'group', type: 'nominal', scale: { domain: ['WT', 'Variant'], range: [[4, 3], [1, 0]] }, title: null }, ...o.encodingExtra },
-      },
       {
         data: { values: points },
         mark: { type: 'point', filled: true, size: 36, opacity: 0.75 },
-        encoding: {
-          x,
-          y,
-          shape: { field: 'group', type: 'nominal', scale: { domain: ['WT', 'Variant'], range: ['circle', 'triangle-up'] }, title: null },
-          ...o.encodingExtra,
-        },
+        encoding: { x, y, shape: groupChannel('shape'), ...o.encodingExtra },
       },
+      // One curve per preparation (keyed by preparation, so two never join), WT's and then the variant's.
+      ...groupCurveLayers(flattenUnits(input.wtUnits, 'WT', 'curve'), flattenUnits(input.variantUnits, 'Variant', 'curve'), 'unit', x, y, { opacity: 0.9 }),
     ],
   };
 }

@@ -13,8 +13,8 @@ import { exponentialDouble } from '../numeric/models/exponential-double.js';
 import { hillForcePca } from '../numeric/models/hill-force-pca.js';
 import type { CurveModel } from '../numeric/types.js';
 import { createRandom } from '../stats/random.js';
-import { analyseTurnoverUnit, fitTurnoverTrace, turnoverSettings } from '../assays/turnover.js';
-import { analyseForceUnit } from '../assays/force.js';
+import { analyseTurnoverUnit, fitTurnoverTrace, turnoverSettings } from '../assays/turnover/module.js';
+import { analyseForceUnit } from '../assays/force/module.js';
 
 function datasets(model: CurveModel, x: number[], truth: number[], sd: number, count: number, seed: number): number[][] {
   const random = createRandom(seed);

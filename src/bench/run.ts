@@ -1,6 +1,7 @@
 /**
  * Scale benchmark: `npm run bench [-- --sizes 100,1000] [--full] [--modes plain,cold,warm] [--warm-runs 3]
- * [--keep] [--filaments 300] [--turnover-points 400]`.
+ * [--keep] [--filaments 300] [--turnover-points 400]`; `npm run bench -- --archive` measures an archive
+ * of 20 studies × 30 variants instead (src/bench/archive.ts).
  *
  * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
  * (src/bench/synthetic.ts) to os.tmpdir(), then builds it through buildStudy, as the CLI does:
@@ -189,6 +190,11 @@ function printBuild(b: BuildFigures): void {
 }
 
 async function main(): Promise<void> {
+  if (flag('--archive')) {
+    // An archive of many studies, cold and after one study changed (src/bench/archive.ts).
+    await (await import('./archive.js')).archiveBench(args);
+    return;
+  }
   if (flag('--child')) {
     // As the command line does (src/cli/myofolio.ts), unless the build is measured without it.
     if (!flag('--default-heap')) enlargeYoungGeneration();

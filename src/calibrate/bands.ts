@@ -1,7 +1,8 @@
 /**
- * WT-like band of a metric derived from the benign controls' effects (DESIGN.md §6: "or derived
- * from the benign controls when the lab asks").
+ * WT-like band of a metric derived from the benign controls' effects (when the lab asks for it:
+ * manifest thresholds.bandsFromBenignControls).
  */
+import { fmt } from '../results/format.js';
 import { CALIBRATION } from '../defaults.js';
 import { mean, sd } from '../stats/descriptive.js';
 import { tQuantile } from '../stats/distributions.js';
@@ -40,9 +41,6 @@ export interface BandOptions {
   atLeast?: [number, number];
 }
 
-function fmt(x: number): string {
-  return String(Number(x.toPrecision(3)));
-}
 
 /**
  * WT-like band from the effects of benign controls (variant/WT ratios or variant − WT differences).

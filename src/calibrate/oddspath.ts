@@ -12,6 +12,7 @@
  * (ClinGen SVI recommendations). Levels are evidence *ceilings*: they say how
  * strong the assay's readout can be as one line of evidence, never a classification.
  */
+import { fmt } from '../results/format.js';
 import { CALIBRATION } from '../defaults.js';
 import type { Calibration, EvidenceLevel } from '../results/types.js';
 import type { ControlClass } from '../study/types.js';
@@ -54,7 +55,7 @@ export interface CalibrateOptions {
  * divided by the prior odds P1/(1 − P1).
  * P1: proportion pathogenic among all classified controls; P2: proportion pathogenic
  * among the controls with the readout in question (abnormal for PS3, normal for BS3).
- * Source: Brnich et al. 2020, Genome Med 12:3 (REFERENCES.md §4).
+ * Source: Brnich et al. 2020, Genome Med 12:3.
  *
  * P1 must lie strictly between 0 and 1 and P2 in [0, 1]; P2 = 1 gives Infinity and
  * P2 = 0 gives 0 (the pseudo-count in {@link calibrate} avoids both).
@@ -155,10 +156,10 @@ export function limitLevel(level: EvidenceLevel, max: Strength): EvidenceLevel {
   return `${level.slice(0, 3)} ${max}` as EvidenceLevel;
 }
 
-/** A number in plain text with three significant digits: 5.8333 → "5.83", 19 → "19". */
+/** An OddsPath in plain text: three significant figures (src/results/format.ts), 5.8333 → "5.83", 19 → "19.0". */
 export function formatOddsPath(x: number): string {
   if (!Number.isFinite(x)) return String(x);
-  return String(Number(x.toPrecision(3)));
+  return fmt(x);
 }
 
 function isPathogenic(c: ControlClass): boolean {
@@ -168,7 +169,7 @@ function isPathogenic(c: ControlClass): boolean {
 /**
  * Calibrate one scope (an assay, or 'overall') against the known controls.
  *
- * Method (Brnich et al. 2020, Genome Med 12:3; REFERENCES.md §4):
+ * Method (Brnich et al. 2020, Genome Med 12:3):
  * 1. 2×2 table: pathogenic + likely pathogenic vs benign + likely benign controls,
  *    by abnormal vs normal readout. Controls with readout null (indeterminate, mixed,
  *    not measured) are not counted (`counts.notCounted`). `totalControls` is the

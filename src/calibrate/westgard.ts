@@ -7,8 +7,9 @@
  * Sources: Levey S, Jennings ER, Am J Clin Pathol 1950;20:1059–1066 (chart of control values
  * in run order with lines at the mean and ±1, ±2, ±3 SD, the SD being the long-term sample SD);
  * Westgard JO, Barry PL, Hunt MR, Groth T, Clin Chem 1981;27:493–501 (the multirule
- * procedure). REFERENCES.md §5.
+ * procedure).
  */
+import { fmt } from '../results/format.js';
 import type { ControlChart, WestgardPoint } from '../results/types.js';
 
 /** One WT control value: its batch, an optional run (defaults to the batch) and the value. */
@@ -89,7 +90,7 @@ function allOnSameSide(z: number[], from: number, to: number, limit: number): bo
 /**
  * Westgard multirule QC of control values in run order.
  *
- * Method (Westgard et al. 1981, Clin Chem 27:493; REFERENCES.md §5), z = (value − mean)/SD with
+ * Method (Westgard et al. 1981, Clin Chem 27:493), z = (value − mean)/SD with
  * the established mean and SD; "beyond" is strict (a value exactly at 2 SD is not beyond it):
  * - 1-2s: |z| > 2, warning only;
  * - 1-3s: |z| > 3, reject;
@@ -153,9 +154,6 @@ export function westgard(points: ControlValue[], established: EstablishedBaselin
   return { points: out, rejectedBatches: rejected, warningBatches: warned.filter((b) => !rejected.includes(b)) };
 }
 
-function fmt(x: number): string {
-  return String(Number(x.toPrecision(4)));
-}
 
 /**
  * Levey–Jennings chart of one metric's WT values with Westgard rules.
@@ -166,7 +164,7 @@ function fmt(x: number): string {
  * With no declared baseline and fewer than two values (or no spread), mean and SD are null,
  * no point is judged and `points` is empty; the baseline text says why.
  * A declared SD that is not positive throws RangeError (from {@link westgard}).
- * Sources: Levey & Jennings 1950; Westgard et al. 1981 (REFERENCES.md §5).
+ * Sources: Levey & Jennings 1950; Westgard et al. 1981.
  *
  * @example
  * controlChart('atpase', 'kcat', [{ batch: 'B1', value: 5 }, { batch: 'B2', value: 7 }]).sd // → 1.4142 (sample SD of 5 and 7)
@@ -183,8 +181,8 @@ export function controlChart(
     established = { mean: baseline.mean, sd: baseline.sd };
     text =
       `Mean ${fmt(baseline.mean)} and SD ${fmt(baseline.sd)} declared by the lab` +
-      (baseline.source ? ` (${baseline.source})` : '') +
-      '; the values of this study are judged against this long-term baseline.';
+      (baseline.source ? `, from: ${baseline.source.trim().replace(/[.;]+$/, '')}` : '') +
+      '. The values of this study are judged against this long-term baseline.';
   } else {
     established = establishedFromValues(batchValues.map((p) => p.value));
     text = established

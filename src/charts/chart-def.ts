@@ -2,6 +2,7 @@
 import { fmtP as formatP } from '../results/format.js';
 import type { ChartSpec } from '../assays/types.js';
 import type { StudyResults, VariantResult } from '../results/types.js';
+import { textWidth } from './text-width.js';
 
 /** The chart's numbers as a plain table (cells are display strings). */
 export interface DataTable {
@@ -21,32 +22,12 @@ export interface ChartDef {
 }
 
 /**
- * Display form of a number: 3 significant digits, trailing zeros dropped; '—' for null/NaN.
- * Example: fmt(1.23456) → '1.23'; fmt(0.000123456) → '1.23e-4'; fmt(null) → '—'.
+ * The numbers of charts' descriptions and tables: the one formatter of src/results/format.ts
+ * (3 significant figures, the minus sign, '—' for none, intervals 'low to high'; p and q values as
+ * in the results' sentences), so that a chart and its report never show one number two ways.
  */
-export function fmt(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  if (x === 0) return '0';
-  const abs = Math.abs(x);
-  if (abs >= 1e-3 && abs < 1e6) return String(Number(x.toPrecision(digits)));
-  return x.toExponential(digits - 1);
-}
-
-/**
- * q and p values in tables and charts: as in the results' sentences (src/results/format.ts: 2
- * significant figures, '< 0.001' below 0.001), with '—' for none. One rule, so that a report's
- * table and its downloads never show one q value two ways. Example: fmtP(0.01234) → '0.012'.
- */
-export function fmtP(x: number | null | undefined): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  return formatP(x);
-}
-
-/** Interval as 'low–high'. */
-export function fmtCi(lo: number | null, hi: number | null): string {
-  if (lo === null || hi === null || !Number.isFinite(lo) || !Number.isFinite(hi)) return '—';
-  return `${fmt(lo)}–${fmt(hi)}`;
-}
+export { fmt, fmtCi } from '../results/format.js';
+export const fmtP = formatP;
 
 /** Display names of variants, unique within the study (short form, gene-qualified when needed). */
 export function variantNames(results: StudyResults): Map<string, string> {
@@ -110,4 +91,44 @@ export function effectScale(values: Array<number | null | undefined>, log: boole
   const hi = Math.max(0, ...finite);
   const pad = (hi - lo || 1) * 0.06;
   return { scale: { domain: [lo - pad, hi + pad], nice: false, zero: false }, axis: { tickCount: 6 } };
+}
+
+/** Font size of chart titles (src/charts/render.ts sets it in every chart's config). */
+export const TITLE_FONT_SIZE = 14;
+
+/**
+ * Text broken into lines of at most `maxWidth` px at `fontSize` (bold or not), at spaces; a single
+ * word longer than the width keeps a line of its own. One string when it fits on one line.
+ * @example wrapText('Mean velocity of moving filaments (µm/s)', 150, 12, true) // → ['Mean velocity of', 'moving filaments', '(µm/s)']
+ */
+export function wrapText(text: string, maxWidth: number, fontSize: number, bold: boolean): string | string[] {
+  if (textWidth(text, fontSize, bold) <= maxWidth) return text;
+  const lines: string[] = [];
+  let line = '';
+  for (const word of text.split(' ')) {
+    const next = line ? `${line} ${word}` : word;
+    if (line && textWidth(next, fontSize, bold) > maxWidth) {
+      lines.push(line);
+      line = word;
+    } else line = next;
+  }
+  if (line) lines.push(line);
+  return lines.length === 1 ? lines[0] : lines;
+}
+
+/**
+ * A chart title broken into lines of at most `maxWidth` px (bold, TITLE_FONT_SIZE), so that a long
+ * title does not widen the chart beyond its plot; one string when it fits.
+ * @example chartTitle('Short title', 600) // → 'Short title'
+ */
+export function chartTitle(text: string, maxWidth: number): string | string[] {
+  return wrapText(text, maxWidth, TITLE_FONT_SIZE, true);
+}
+
+/** Font size of axis titles (src/charts/render.ts); axis titles are bold. */
+export const AXIS_TITLE_FONT_SIZE = 12;
+
+/** An axis title broken into lines that fit `length` px (the axis's length), so it is never cut short. */
+export function axisTitle(text: string, length: number): string | string[] {
+  return wrapText(text, length, AXIS_TITLE_FONT_SIZE, true);
 }

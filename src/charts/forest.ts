@@ -5,8 +5,13 @@
  */
 import { groupBy } from '../assays/assay-common.js';
 import type { MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
-import { type ChartDef, effectScale, fmt, fmtCi, fmtP, metricLabel, shortMetricLabel } from './chart-def.js';
-import { BAND_FILL, CI_COLOUR, METRIC_CALL_STYLE, REFERENCE, callScale } from './palette.js';
+import { type ChartDef, chartTitle, effectScale, fmt, fmtCi, fmtP, metricLabel, shortMetricLabel } from './chart-def.js';
+import { BAND_FILL, CI_COLOUR, METRIC_MARK_STYLE, type MetricMark, REFERENCE, callScale, metricMark } from './palette.js';
+
+/** Width in px of each forest panel (about 680 px with the two-line row names: an A4 page at 100%). */
+export const FOREST_WIDTH = 400;
+/** Height in px of one row (two lines of name). */
+const FOREST_ROW = 34;
 
 interface Row {
   row: string;
@@ -15,7 +20,8 @@ interface Row {
   hi: number | null;
   bandLo: number;
   bandHi: number;
-  call: string;
+  /** The direction the metric's call implies (palette.ts metricMark). */
+  call: MetricMark;
 }
 
 /** A chart constant computed from the data: a top-level parameter, referenced as { expr: name }. */
@@ -29,7 +35,7 @@ interface Param {
  * parameters (pushed onto `params`) rather than literals: every forest plot with the same rows
  * and calls then has the same shape and is compiled once (src/charts/render.ts).
  */
-function panel(rows: Row[], scale: MetricScale, calls: string[], params: Param[]) {
+function panel(rows: Row[], scale: MetricScale, calls: MetricMark[], params: Param[]) {
   const log = scale === 'ratio';
   const fitted = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
   const xScale: Record<string, unknown> = { ...fitted.scale, domain: { expr: `${scale}Domain` } };
@@ -45,9 +51,10 @@ function panel(rows: Row[], scale: MetricScale, calls: string[], params: Param[]
   const y = { field: 'row', type: 'nominal', sort: rows.map((r) => r.row), title: null, axis: { labelLimit: 720, labelExpr: "split(datum.label, '\\n')", labelLineHeight: 14, labelOffset: -7 } };
   const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
   const x = (field: string) => ({ field, type: 'quantitative', scale: xScale, axis, title: xTitle });
+  const legendTitle = 'Metric call (direction it implies)';
   return {
-    width: 380,
-    height: Math.max(40, rows.length * 36),
+    width: FOREST_WIDTH,
+    height: Math.max(40, rows.length * FOREST_ROW),
     data: { values: rows },
     layer: [
       { mark: { type: 'rect', color: BAND_FILL }, encoding: { y, x: x('bandLo'), x2: { field: 'bandHi' } } },
@@ -66,8 +73,8 @@ function panel(rows: Row[], scale: MetricScale, calls: string[], params: Param[]
         encoding: {
           y,
           x: x('effect'),
-          color: { field: 'call', type: 'nominal', title: 'Metric call', scale: callScale(METRIC_CALL_STYLE, calls as never, 'colour') },
-          shape: { field: 'call', type: 'nominal', title: 'Metric call', scale: callScale(METRIC_CALL_STYLE, calls as never, 'shape') },
+          color: { field: 'call', type: 'nominal', title: legendTitle, scale: callScale(METRIC_MARK_STYLE, calls, 'colour') },
+          shape: { field: 'call', type: 'nominal', title: legendTitle, scale: callScale(METRIC_MARK_STYLE, calls, 'shape') },
         },
       },
     ],
@@ -102,23 +109,28 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
     hi: c.ciHigh,
     bandLo: c.band[0],
     bandHi: c.band[1],
-    call: c.call,
+    call: metricMark(c.call, results.assays.find((a) => a.id === c.assay)?.metrics.find((m) => m.id === c.metric)?.hyper ?? 'none'),
   });
   const ratio = estimable.filter((c) => c.scale === 'ratio').map(toRow);
   const diff = estimable.filter((c) => c.scale === 'difference').map(toRow);
-  const calls = [...new Set(estimable.map((c) => c.call))];
+  const rowsAll = [...ratio, ...diff];
+  const calls = [...new Set(rowsAll.map((r) => r.call))];
   const params: Param[] = [];
   const panels = [...(ratio.length ? [panel(ratio, 'ratio', calls, params)] : []), ...(diff.length ? [panel(diff, 'difference', calls, params)] : [])];
   const title = forestTitle(name);
   const spec = {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    title,
+    title: chartTitle(title, FOREST_WIDTH + 260),
     params,
     vconcat: panels,
     spacing: 18,
     resolve: { scale: { color: 'shared', shape: 'shared' }, legend: { color: 'shared', shape: 'shared' } },
+    config: { legend: { orient: 'bottom', direction: 'horizontal', columns: 3, titleOrient: 'top', titleAnchor: 'start', labelLimit: 260, titleLimit: 400 } },
   };
-  const parts = estimable.map((c) => `${metricLabel(results, c.assay, c.metric)} ${fmt(c.effect)} (95% CI ${fmtCi(c.ciLow, c.ciHigh)}), ${c.call}`);
+  const parts = estimable.map((c) => {
+    const mark = metricMark(c.call, results.assays.find((a) => a.id === c.assay)?.metrics.find((m) => m.id === c.metric)?.hyper ?? 'none');
+    return `${metricLabel(results, c.assay, c.metric)} ${fmt(c.effect)} (95% CI ${fmtCi(c.ciLow, c.ciHigh)}), ${c.call}${mark !== c.call ? ` (${mark})` : ''}`;
+  });
   const description =
     `Forest plot: each metric of ${name} as ${ratio.length ? 'a ratio to WT on a log axis' : ''}` +
     `${ratio.length && diff.length ? ' or ' : ''}${diff.length ? 'a difference from WT on a linear axis' : ''}, ` +

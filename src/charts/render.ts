@@ -13,6 +13,18 @@ import { createHash } from 'node:crypto';
 import { compile } from 'vega-lite';
 import * as vega from 'vega';
 import type { ChartSpec } from '../assays/types.js';
+import { vegaTextWidth } from './text-width.js';
+
+/**
+ * Vega measures text with this function (its documented hook for renderers without a canvas):
+ * the chart font's own widths instead of 0.8 em per character. Set before every draw, so a chart
+ * never depends on what else ran in the process.
+ */
+function useChartFontMetrics(): void {
+  // Exported by vega (from vega-scenegraph) but not in its type declarations.
+  const metrics = (vega as unknown as { textMetrics: { width: unknown } }).textMetrics;
+  if (metrics.width !== vegaTextWidth) metrics.width = vegaTextWidth;
+}
 
 /** Font stack present on build machines (DejaVu) and common in browsers. */
 export const CHART_FONT = 'DejaVu Sans, Verdana, sans-serif';
@@ -234,6 +246,7 @@ export async function drawRaw(spec: ChartSpec): Promise<string> {
   // An empty title draws nothing whichever way it is compiled: leave it out of the shape.
   const hasTitle = titleText !== undefined && titleText !== null && titleText !== '';
   const runtime = runtimeFor(hasTitle ? { ...shape, title: params ? { ...params, text: 'T' } : 'T' } : shape);
+  useChartFontMetrics();
   const view = new vega.View(runtime, { renderer: 'none' });
   try {
     datasets.forEach((values, i) => view.data(`${DATA_PREFIX}${i}`, values as never));
@@ -248,6 +261,7 @@ export async function drawRaw(spec: ChartSpec): Promise<string> {
 
 /** Vega's raw SVG for a spec compiled and parsed on its own: the reference drawRaw must equal. */
 export async function drawRawDirect(spec: ChartSpec): Promise<string> {
+  useChartFontMetrics();
   const view = new vega.View(vega.parse(compile(withFont(spec) as never).spec), { renderer: 'none' });
   try {
     return await view.toSVG();

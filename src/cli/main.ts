@@ -16,6 +16,7 @@ const COMMANDS: Record<string, () => Promise<{ command: Command }>> = {
   init: () => import('./commands/init.js'),
   check: () => import('./commands/check.js'),
   build: () => import('./commands/build.js'),
+  release: () => import('./commands/release.js'),
 };
 
 /** The version in package.json. */

@@ -26,7 +26,7 @@ export const CLI = {
   initNotFolder: (dir: string) => `myofolio init: '${dir}' exists and is not a folder; choose a new or empty folder.\n`,
   initDanglingLink: (dir: string) => `myofolio init: '${dir}' is a symbolic link to something that does not exist; remove the link or choose another folder.\n`,
   initCannotWrite: (dir: string, reason: string) => `myofolio init: cannot write the starter study to '${dir}': ${reason}. Nothing was left behind; choose a folder you may write to.\n`,
-  initUnknownKind: (text: string, choices: readonly string[], near: string) => `myofolio init: '${text}' is not an input kind.${near} Choose from: ${choices.join(', ')}.\n`,
+  initUnknownKind: (text: string, choices: readonly string[], near: string) => `myofolio init: '${text}' is not an input kind or assay.${near} Choose from: ${choices.join(', ')}.\n`,
   initDone: (dir: string, files: readonly string[], guide: string, cmd = 'myofolio') =>
     `Wrote a starter study to ${dir}: ${files.join(', ')}.\n` +
     `${guide} explains every field of study.json and every column; the comment lines at the top of each CSV file say the same for its columns.\n` +

@@ -2,7 +2,7 @@
  * The demo scenario: an invented lab studying variants of an invented motor protein,
  * ZZMYO1 (no real gene has this symbol; its sequence is random letters from a seeded
  * generator). Every value is invented. WT truth follows typical published magnitudes
- * (REFERENCES.md §6, [M]) so the pages look realistic; effects mix hyper-, hypo-,
+ * (from memory) so the pages look realistic; effects mix hyper-, hypo-,
  * WT-like and mixed variants, plus two deliberate problems for the analysis to flag:
  * one variant's KM far above the top [actin] (100 µM), one turnover trace whose two
  * phases are too close to resolve.
@@ -21,7 +21,7 @@ export function demoSequence(seed = SEED): string {
   return seq;
 }
 
-/** WT truth of the demo and of the benchmark's synthetic studies (typical magnitudes, REFERENCES.md §6 [M]). */
+/** WT truth of the demo and of the benchmark's synthetic studies (typical magnitudes, from memory). */
 export const DEMO_WT: AssayTruth = {
   kcat: 5.0,
   km: 45,

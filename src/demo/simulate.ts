@@ -4,12 +4,12 @@
  * scenario gives byte-identical files. Used by the demo (generate-demo.ts) and meant for
  * benchmarks and recovery tests with known truth.
  *
- * Models (DESIGN.md §4): ATPase v = basal + kcat·[A]/(KM + [A]); NADH A340 falls at
- * v·[heads]·ε340·path (ε340 = ASSAY.nadhEpsilon340); motility filaments move at the unit's
+ * Models: ATPase v = basal + kcat·[A]/(KM + [A]); NADH A340 falls at
+ * v·[heads]·ε340·path (ε340 = the ATPase setting nadhEpsilon340); motility filaments move at the unit's
  * velocity or are immobile; force F = Fpassive + Fmax/(1 + 10^(nH·(pCa − pCa50)));
  * single turnover F(t) = offset + A·((1 − fs)·e^(−kfast·t) + fs·e^(−kslow·t)).
  */
-import { ASSAY } from '../defaults.js';
+import { ATPASE_SETTINGS } from '../assays/atpase/settings.js';
 import { parseProteinChange } from '../study/hgvs.js';
 
 /** True per-unit parameters of WT, in canonical units. */
@@ -211,7 +211,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
   // NADH-coupled traces.
   const nadhUnits = unitsFor((v) => v.atpase === 'nadh');
   if (nadhUnits.length) {
-    const epsilonPerUM = ASSAY.nadhEpsilon340 * 1e-6; // A340 per µM per cm
+    const epsilonPerUM = ATPASE_SETTINGS.nadhEpsilon340 * 1e-6; // A340 per µM per cm
     const backgroundUMPerS = 0.0015; // actin-only ATP turnover, µM/s
     const lines = [banner, 'variant,preparation,batch,well_type,well,actin (uM),heads (uM),time (s),a340'];
     const wellCounter = new Map<string, number>();

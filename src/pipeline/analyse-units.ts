@@ -30,7 +30,7 @@ import type { Store } from './store.js';
 
 /** Modules that have rows in the study, in registry order: the same filter analyseStudy applies. */
 export function activeModules(study: Pick<Study, 'rows' | 'omitted'>, modules: readonly AssayModule[] = ASSAYS): AssayModule[] {
-  return modules.filter((a) => a.inputs.some((k) => hasRows(study, k)));
+  return modules.filter((a) => a.inputs.some((k) => hasRows(study, k.kind)));
 }
 
 /**
@@ -45,7 +45,7 @@ export function analyseOrder(study: Study, m: AssayModule, units: UnitResult[]):
       if (!rank.has(k)) rank.set(k, rank.size);
     }
   };
-  for (const kind of m.inputs) {
+  for (const { kind } of m.inputs) {
     const rows = (study.rows[kind] ?? []) as RowBase[];
     if (!study.omitted?.size) {
       see(unitsInOrder(rows));
@@ -117,8 +117,8 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
       if (!perFile) perBatch.set(batch, (perFile = new Map()));
       perFile.set(path, (perFile.get(path) ?? 0) + n);
     };
-    for (const kind of m.inputs) for (const r of (study.rows[kind] ?? []) as RowBase[]) add(r.batch, r.at.file, 1);
-    for (const [path, d] of omitted) if (m.inputs.includes(d.kind)) for (const [, , batch, n] of d.unitRows) add(batch, path, n);
+    for (const { kind } of m.inputs) for (const r of (study.rows[kind] ?? []) as RowBase[]) add(r.batch, r.at.file, 1);
+    for (const [path, d] of omitted) if (m.inputs.some((k) => k.kind === d.kind)) for (const [, , batch, n] of d.unitRows) add(batch, path, n);
     const mine = new Map<string, string>();
     for (const [batch, perFile] of perBatch) {
       const key = store.key('units', [m.id, batch, study.settings, [...perFile].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([path, n]) => [files.get(path) ?? path, n])]);
@@ -142,7 +142,7 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
   for (const { m, batches } of missed) {
     // The module runs once, on the rows of its missed batches only.
     const rows: Partial<Record<InputKind, RowBase[]>> = {};
-    for (const kind of m.inputs) {
+    for (const { kind } of m.inputs) {
       const list = ((study.rows[kind] ?? []) as RowBase[]).filter((r) => batches.has(r.batch));
       if (list.length > 0) rows[kind] = list;
     }

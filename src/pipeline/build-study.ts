@@ -5,8 +5,8 @@
  *                ──loadStudy───────▶ Study | issues                     src/study/load.ts (pure)
  *                ──analyseUnits────▶ UnitResult[] (per assay × batch, through the store)
  *                ──analyseStudy────▶ StudyResults                       src/analysis/analyse-study.ts (pure)
- *                ──buildSite───────▶ pages + SVG charts (through the store) src/site/build-site.ts
  *                ──downloads───────▶ results.json, results.csv
+ *                ──buildSite───────▶ pages, single-file reports (quoting results.json's SHA-256), SVG charts (through the store) src/site/build-site.ts
  *                ──swapIn──────────▶ output folder (atomic rename; the last good output survives a failure)
  *
  * The store (src/pipeline/store.ts) keeps a file's reading, a module's units of a batch, each
@@ -25,6 +25,7 @@ import { resultsCsv } from '../results/csv.js';
 import { writeJsonStreamed } from '../results/json.js';
 import type { StudyResults, UnitResult } from '../results/types.js';
 import { buildSite } from '../site/build-site.js';
+import type { SiteArchive } from '../site/archive-links.js';
 import { type LoadReuse, loadStudy } from '../study/load.js';
 import { readStudyFolder } from '../study/read-folder.js';
 import type { FileDigest, Issue } from '../study/types.js';
@@ -59,6 +60,8 @@ export interface BuildOptions {
   fingerprint?: string;
   /** How the previous output is removed after the swap (see src/pipeline/output.ts); default 'now'. The CLI removes it in the background. */
   removePrevious?: RemovePrevious;
+  /** When the study is built inside an archive: its links and change lines, made from the study's results (src/pipeline/build-archive.ts). */
+  archive?: (results: StudyResults) => SiteArchive;
 }
 
 export type StoreKind = 'file' | 'units' | 'svg' | 'block';
@@ -163,22 +166,25 @@ export async function buildStudy(studyDir: string, outDir: string, options: Buil
   const tag = String(process.pid);
   const staging = makeStaging(plan.out, tag);
   try {
+    // The downloads first: the single-file reports quote the SHA-256 of the results.json written here.
+    phase('write');
+    const downloads = path.join(staging, 'downloads');
+    mkdirSync(downloads, { recursive: true });
+    // Streamed: the same bytes as JSON.stringify(results) + '\n', without one string of the whole file.
+    const resultsSha256 = writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
+    writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
     phase('pages');
     const charts: ChartCounts = { rendered: 0, stored: 0 };
     const site = await buildSite(results, staging, {
       chartsFor: chartsFromModules(results, ASSAYS),
       sourceDateEpoch: options.sourceDateEpoch,
+      resultsSha256,
       ...(store && kinds.has('svg') ? { render: storedRender(store, charts) } : {}),
       ...(store && kinds.has('block') ? { block: storedBlock(store, charts, unitDigests), blockRender: countedDraw(renderSvg, charts) } : {}),
       ...(heavy ? { pagesPerRun: HEAVY_PAGES_PER_RUN, afterRun: collectGarbage } : {}),
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+      ...(options.archive ? { archive: options.archive(results) } : {}),
     });
-    phase('write');
-    const downloads = path.join(staging, 'downloads');
-    mkdirSync(downloads, { recursive: true });
-    // Streamed: the same bytes as JSON.stringify(results) + '\n', without one string of the whole file.
-    writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
-    writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
     const movedAside = swapIn(staging, plan.out, plan.replaceForeign, tag, options.removePrevious);
     store?.prune();
     return { ok: true, issues, out: plan.out, pages: site.pages, charts, results, notes: withStoreNote(), ...(movedAside ? { movedAside } : {}) };

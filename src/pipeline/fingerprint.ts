@@ -1,9 +1,9 @@
 /**
  * Fingerprint of everything that computes what the store keeps (src/pipeline/store.ts): the
- * running code (the compiled dist/ folder, or src/ when run from the sources), the JSON Schemas
- * (schemas/), the templates (templates/), the Eleventy configuration (.eleventy.js) and the
- * installed library versions (package-lock.json and npm's record of node_modules,
- * node_modules/.package-lock.json). SHA-256 over each file's path and bytes, in sorted order.
+ * running code (the compiled dist/ folder, or src/ when run from the sources, which holds the
+ * assays' row schemas), the manifest and results schemas (schemas/), the templates (templates/),
+ * the Eleventy configuration (.eleventy.js) and the installed library versions (package-lock.json
+ * and npm's record of node_modules, node_modules/.package-lock.json). SHA-256 over each file's path and bytes, in sorted order.
  * An entry made by other code, schemas, templates, configuration or libraries is never served.
  */
 import { createHash } from 'node:crypto';

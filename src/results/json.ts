@@ -7,6 +7,7 @@
  * Top-level arrays are written element by element, everything else with JSON.stringify; the
  * text goes out in chunks of about CHUNK_CHARS characters.
  */
+import { createHash } from 'node:crypto';
 import { closeSync, openSync, writeSync } from 'node:fs';
 
 /** Characters collected before a write to the file. */
@@ -16,14 +17,36 @@ const CHUNK_CHARS = 1 << 20;
  * Write `value` as compact JSON followed by a newline, streaming the elements of its top-level
  * arrays. Equal to writeFileSync(file, JSON.stringify(value) + '\n') for any plain JSON object
  * (keys whose value JSON.stringify leaves out, such as undefined or functions, are left out here too).
+ * Returns the SHA-256 (hex) of the bytes written, as the single-file reports quote it.
  * @example writeJsonStreamed('r.json', { a: [1, { b: 2 }], c: 'x' }) // file: {"a":[1,{"b":2}],"c":"x"}\n
  */
-export function writeJsonStreamed(file: string, value: Record<string, unknown>): void {
+export function writeJsonStreamed(file: string, value: Record<string, unknown>): string {
   const fd = openSync(file, 'w');
+  const hash = createHash('sha256');
+  try {
+    streamJson(value, (text) => {
+      writeSync(fd, text);
+      hash.update(text, 'utf8');
+    });
+  } finally {
+    closeSync(fd);
+  }
+  return hash.digest('hex');
+}
+
+/** The SHA-256 (hex) of the bytes writeJsonStreamed would write for `value`, without writing them or holding them in one string. */
+export function jsonSha256(value: Record<string, unknown>): string {
+  const hash = createHash('sha256');
+  streamJson(value, (text) => hash.update(text, 'utf8'));
+  return hash.digest('hex');
+}
+
+/** The JSON text of `value` (as writeJsonStreamed writes it), handed to `out` in chunks of about CHUNK_CHARS characters. */
+function streamJson(value: Record<string, unknown>, out: (text: string) => void): void {
   let pending: string[] = [];
   let size = 0;
   const flush = () => {
-    if (size > 0) writeSync(fd, pending.join(''));
+    if (size > 0) out(pending.join(''));
     pending = [];
     size = 0;
   };
@@ -32,25 +55,21 @@ export function writeJsonStreamed(file: string, value: Record<string, unknown>):
     size += text.length;
     if (size >= CHUNK_CHARS) flush();
   };
-  try {
-    write('{');
-    let first = true;
-    for (const [key, v] of Object.entries(value)) {
-      if (Array.isArray(v)) {
-        write(`${first ? '' : ','}${JSON.stringify(key)}:[`);
-        // As JSON.stringify writes array elements: undefined, functions and symbols as null.
-        v.forEach((item, i) => write(`${i > 0 ? ',' : ''}${JSON.stringify(item) ?? 'null'}`));
-        write(']');
-      } else {
-        const text = JSON.stringify(v);
-        if (text === undefined) continue; // as JSON.stringify drops the key
-        write(`${first ? '' : ','}${JSON.stringify(key)}:${text}`);
-      }
-      first = false;
+  write('{');
+  let first = true;
+  for (const [key, v] of Object.entries(value)) {
+    if (Array.isArray(v)) {
+      write(`${first ? '' : ','}${JSON.stringify(key)}:[`);
+      // As JSON.stringify writes array elements: undefined, functions and symbols as null.
+      v.forEach((item, i) => write(`${i > 0 ? ',' : ''}${JSON.stringify(item) ?? 'null'}`));
+      write(']');
+    } else {
+      const text = JSON.stringify(v);
+      if (text === undefined) continue; // as JSON.stringify drops the key
+      write(`${first ? '' : ','}${JSON.stringify(key)}:${text}`);
     }
-    write('}\n');
-    flush();
-  } finally {
-    closeSync(fd);
+    first = false;
   }
+  write('}\n');
+  flush();
 }

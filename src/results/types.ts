@@ -5,7 +5,7 @@
  * that depend on iteration order.
  */
 import type { FitResult } from '../numeric/types.js';
-import type { ControlClass, DiseaseDirection, Domain, Issue, SourceRef } from '../study/types.js';
+import type { ControlClass, DiseaseDirection, Domain, Issue, SourceRef } from './source.js';
 
 /** Comparison scale of a metric: ratio metrics are compared on the log scale. */
 export type MetricScale = 'ratio' | 'difference';
@@ -67,7 +67,8 @@ export interface UnitResult {
 }
 
 export type MetricCall = 'increased' | 'decreased' | 'within WT range' | 'indeterminate' | 'not estimable';
-export type FunctionCall = 'hypercontractile' | 'hypocontractile' | 'within WT range' | 'mixed' | 'indeterminate' | 'not measured';
+/** 'reference' is the WT's own overall call: every variant is compared with it, it is not called against itself. */
+export type FunctionCall = 'hypercontractile' | 'hypocontractile' | 'within WT range' | 'mixed' | 'indeterminate' | 'not measured' | 'reference';
 
 /** One variant's metric compared with paired WT (src/analysis/normalise.ts, src/analysis/score.ts). */
 export interface MetricComparison {

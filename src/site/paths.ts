@@ -44,7 +44,7 @@ export function relLink(from: string, to: string): string {
   return r === '' ? posix.basename(to) : r;
 }
 
-/** Output paths of every page kind. */
+/** Output paths of every page kind: the one definition (templates take their permalinks from it). */
 export const PATHS = {
   index: 'index.html',
   variant: (s: string) => `variants/${s}.html`,
@@ -54,8 +54,14 @@ export const PATHS = {
   methods: 'methods.html',
   provenance: 'provenance.html',
   downloads: 'downloads.html',
+  glossary: 'glossary.html',
+  /** The single-file report of a variant (inline styles and SVG, no other file needed). */
+  report: (s: string) => `downloads/reports/${s}.html`,
   resultsJson: 'downloads/results.json',
   resultsCsv: 'downloads/results.csv',
+  /** Every chart as a standalone SVG (src/site/chart-files.ts). */
+  chartsDir: 'charts',
+  chartSvg: (name: string) => `charts/${name}.svg`,
   css: 'assets/site.css',
   js: 'assets/table.js',
 } as const;

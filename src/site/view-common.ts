@@ -1,11 +1,12 @@
 /** Shapes of the data handed to the templates, and small helpers shared by the page builders. */
 import type { ChartDef, DataTable } from '../charts/chart-def.js';
-import { FUNCTION_CALL_STYLE, METRIC_CALL_STYLE } from '../charts/palette.js';
+import { FUNCTION_CALL_STYLE } from '../charts/palette.js';
 import type { ChartSpec } from '../assays/types.js';
 import { renderSvg, type RenderOptions } from '../charts/render.js';
-import type { Calibration, Flag, FunctionCall, MetricCall } from '../results/types.js';
+import type { Calibration, Flag, FunctionCall, HyperDirection, MetricCall } from '../results/types.js';
 import type { SourceRef } from '../study/types.js';
-import { slug } from './paths.js';
+import { flagAnchor, flagWords } from '../results/flag-words.js';
+import { PATHS, slug } from './paths.js';
 
 export interface ChartBlock {
   /** HTML id of the figure. */
@@ -14,21 +15,82 @@ export interface ChartBlock {
   description: string;
   svg: string;
   table: DataTable;
+  /** Site-relative path of the chart's standalone SVG file, set when it is written (src/site/chart-files.ts). */
+  file?: string;
 }
+
+/**
+ * The biological reading of a mark, which decides its glyph and colour everywhere on the site:
+ * 'hyper' and 'hypo' only for a call, or a metric change, that implies that direction of
+ * contractility; 'neutral' for a metric change that implies none.
+ */
+export type Direction = 'hyper' | 'hypo' | 'neutral' | 'within' | 'mixed' | 'indeterminate' | 'none' | 'reference';
 
 export interface CallView {
+  /** The call in words, e.g. 'hypercontractile', 'decreased'. */
   call: string;
   glyph: string;
-  /** CSS class, e.g. 'call-hypercontractile'. */
+  /** CSS classes: 'mark mark-<direction>' (colour by direction). */
   cls: string;
+  direction: Direction;
+  /** What a metric call implies, e.g. 'towards hypercontractile' (empty for function calls). */
+  implies: string;
 }
+
+const FUNCTION_DIRECTION: Record<FunctionCall, Direction> = {
+  hypercontractile: 'hyper',
+  hypocontractile: 'hypo',
+  'within WT range': 'within',
+  mixed: 'mixed',
+  indeterminate: 'indeterminate',
+  'not measured': 'none',
+  reference: 'reference',
+};
+
+const view = (call: string, glyph: string, direction: Direction, implies = ''): CallView => ({ call, glyph, cls: `mark mark-${direction}`, direction, implies });
 
 export function functionCall(call: FunctionCall): CallView {
-  return { call, glyph: FUNCTION_CALL_STYLE[call]?.glyph ?? '?', cls: `call-${slug(call)}` };
+  return view(call, FUNCTION_CALL_STYLE[call]?.glyph ?? '?', FUNCTION_DIRECTION[call] ?? 'none');
 }
 
-export function metricCall(call: MetricCall): CallView {
-  return { call, glyph: METRIC_CALL_STYLE[call]?.glyph ?? '?', cls: `call-${slug(call)}` };
+/** Glyphs of a metric change that implies no disease direction (hollow, pointing the way the value moved). */
+const NEUTRAL_GLYPH = { increased: '△', decreased: '▽' } as const;
+
+/**
+ * A metric call marked by the direction it implies for contractility, never by the sign of the
+ * change: with `hyper` 'up' an increase is towards hypercontractile, with 'down' a decrease is
+ * (a decreased slow-phase fraction is ▲ hypercontractile), with 'none' a change implies no
+ * direction and gets a neutral hollow △ or ▽.
+ * @example metricCall('decreased', 'down') // → { call: 'decreased', glyph: '▲', direction: 'hyper', implies: 'towards hypercontractile', … }
+ */
+export function metricCall(call: MetricCall, hyper: HyperDirection): CallView {
+  if (call === 'increased' || call === 'decreased') {
+    if (hyper === 'none') return view(call, NEUTRAL_GLYPH[call], 'neutral', 'no disease direction');
+    const towardsHyper = (call === 'increased') === (hyper === 'up');
+    const as = towardsHyper ? 'hypercontractile' : 'hypocontractile';
+    return view(call, FUNCTION_CALL_STYLE[as].glyph, towardsHyper ? 'hyper' : 'hypo', `towards ${as}`);
+  }
+  if (call === 'within WT range') return view(call, FUNCTION_CALL_STYLE['within WT range'].glyph, 'within');
+  if (call === 'indeterminate') return view(call, FUNCTION_CALL_STYLE.indeterminate.glyph, 'indeterminate');
+  return view(call, FUNCTION_CALL_STYLE['not measured'].glyph, 'none');
+}
+
+/**
+ * The site's one legend: what each glyph and colour means, for calls and for metric changes.
+ * Shown on the index, on every report and on the assay pages.
+ */
+export function siteLegend() {
+  const calls = (['hypercontractile', 'hypocontractile', 'within WT range', 'mixed', 'indeterminate', 'not measured', 'reference'] as FunctionCall[]).map((c) => ({
+    ...functionCall(c),
+    text: c === 'reference' ? 'reference (WT itself)' : c,
+  }));
+  const metrics = [
+    { ...metricCall('increased', 'up'), text: 'metric changed towards hypercontractile' },
+    { ...metricCall('decreased', 'up'), text: 'metric changed towards hypocontractile' },
+    { ...metricCall('increased', 'none'), text: 'metric higher than WT, no disease direction' },
+    { ...metricCall('decreased', 'none'), text: 'metric lower than WT, no disease direction' },
+  ];
+  return { calls, metrics };
 }
 
 /** Renders one chart to SVG: renderSvg, or the build's render through the store (src/pipeline/stored-render.ts). */
@@ -82,13 +144,46 @@ export function where(at: SourceRef | undefined): string {
 export interface FlagView {
   severity: string;
   code: string;
+  /** Plain words for the code (src/results/flag-words.ts); the code itself when this version does not know it. */
+  label: string;
+  /** What the code means, or '' when unknown. */
+  explanation: string;
+  /** What happened to this record, with its numbers (Flag.message). */
   message: string;
   where: string;
   context: string;
+  /** Link to the code's entry on the glossary page, relative to the site root ('' when unknown). */
+  href: string;
+  /** Id of the code's entry (on the glossary page, and in a single-file report's own list). */
+  anchor: string;
 }
 
 export function flagView(f: Flag, context: string): FlagView {
-  return { severity: f.severity, code: f.code, message: f.message, where: where(f.at), context };
+  const words = flagWords(f.code);
+  return {
+    severity: f.severity,
+    code: f.code,
+    label: words?.label ?? f.code,
+    explanation: words?.explanation ?? '',
+    message: f.message,
+    where: where(f.at),
+    context,
+    href: words ? `${PATHS.glossary}#${flagAnchor(f.code)}` : '',
+    anchor: flagAnchor(f.code),
+  };
+}
+
+/** A flag code as a short link for tables: plain words, linked to the glossary. */
+export interface FlagChip {
+  code: string;
+  label: string;
+  href: string;
+  anchor: string;
+}
+
+export function flagChip(code: string): FlagChip {
+  const words = flagWords(code);
+  return { code, label: words?.label ?? code, href: words ? `${PATHS.glossary}#${flagAnchor(code)}` : '', anchor: flagAnchor(code) };
 }
 
 /**
@@ -135,3 +230,46 @@ export const STANDARD_CAVEATS = [
   'A functional assay result is one line of evidence about a variant; on its own it does not make a variant pathogenic or benign.',
   'Classifying a variant is the work of a qualified clinical laboratory applying its local rules; this report only suggests the strongest functional evidence level the calibration supports.',
 ];
+
+/** The caveats in one line, for the first screen and page 1 of every report. */
+export const RESEARCH_LINE =
+  'Research data, not a clinical test: one line of functional evidence, not a classification, which belongs to a qualified clinical laboratory.';
+
+/**
+ * Phrases the standard caveats already say. A study caveat sentence made of these alone (and small
+ * words) repeats a built-in caveat and is not shown twice; any other sentence is kept as written.
+ */
+const COVERED = [
+  'research use only', 'research data', 'research measurements', 'research results', 'for research use', 'research only',
+  'not a clinical test', 'not a diagnostic test', 'not for clinical use', 'not for diagnostic use', 'not validated for diagnostic use', 'not validated for clinical use',
+  'functional evidence is one line of evidence', 'one line of evidence', 'classification belongs to qualified clinical laboratories',
+  'classification belongs to a qualified clinical laboratory', 'classification is the work of a qualified clinical laboratory',
+];
+const SMALL_WORDS = new Set(['a', 'an', 'and', 'the', 'is', 'are', 'these', 'this', 'it', 'only', 'of', 'to', 'data', 'results']);
+
+function normalise(text: string): string {
+  return text.toLowerCase().replace(/[’']/g, '').replace(/[^a-z0-9]+/g, ' ').trim();
+}
+
+/** Whether a sentence only repeats the standard caveats. Example: 'Research data, not a clinical test.' → true. */
+export function repeatsStandardCaveat(sentence: string): boolean {
+  let rest = ` ${normalise(sentence)} `;
+  for (const phrase of [...COVERED].sort((a, b) => b.length - a.length)) rest = rest.split(` ${normalise(phrase)} `).join(' ');
+  return rest.split(' ').filter((w) => w && !SMALL_WORDS.has(w)).length === 0;
+}
+
+/**
+ * The study's own caveats with the sentences that only repeat a standard caveat taken out (a
+ * caveat left empty is dropped), in their order; exact repeats among them are shown once.
+ * @example studyCaveats(['Research data, not a clinical test.', 'Cells of passage 20 or less.']) // → ['Cells of passage 20 or less.']
+ */
+export function studyCaveats(caveats: readonly string[]): string[] {
+  const out: string[] = [];
+  for (const c of caveats) {
+    const sentences = c.split(/(?<=[.!?;])\s+/).filter((x) => x.trim() !== '');
+    const kept = sentences.filter((x) => !repeatsStandardCaveat(x));
+    const text = kept.join(' ').trim().replace(/;$/, '.');
+    if (text && !out.includes(text)) out.push(text);
+  }
+  return out;
+}

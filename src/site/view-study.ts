@@ -1,13 +1,71 @@
 /** Data for the study-level pages: assays, residue map, cross-assay comparison, methods, provenance. */
 import { METHOD_CHANGES } from '../analysis/method-changes.js';
-import { fmt } from '../charts/chart-def.js';
+import { variantNames } from '../charts/chart-def.js';
 import { effectsChart } from '../charts/effects.js';
 import { leveyJenningsChart } from '../charts/levey-jennings.js';
 import { residueMapChart } from '../charts/residue-map.js';
 import { scatterCharts } from '../charts/scatter.js';
+import { FLAG_WORDS, flagAnchor } from '../results/flag-words.js';
+import { fmt, fmtBand } from '../results/format.js';
 import type { Calibration, StudyResults } from '../results/types.js';
 import { PATHS } from './paths.js';
-import { type CalibrationView, type ChartBlock, ODDSPATH_THRESHOLDS, type RenderFn, renderBlocks } from './view-common.js';
+import { type CalibrationView, type CallView, type ChartBlock, ODDSPATH_THRESHOLDS, type RenderFn, functionCall, renderBlocks } from './view-common.js';
+
+/** One known control in a calibration: how it read out and whether, and why, it was counted. */
+export interface ControlRow {
+  name: string;
+  href: string;
+  knownClass: string;
+  source: string;
+  call: CallView;
+  readout: string;
+  counted: boolean;
+  why: string;
+}
+
+/**
+ * The known controls behind one calibration scope (an assay id, or 'overall'), each with its
+ * readout and whether it was counted, by the rule of src/calibrate/oddspath.ts: a control counts
+ * when its readout is abnormal or normal; anything else (indeterminate, mixed, not measured, a
+ * change opposite to the study's direction) is not counted.
+ */
+export function controlRows(results: StudyResults, scope: string, slugs: Map<string, string>): ControlRow[] {
+  const names = variantNames(results);
+  const direction = results.study.direction;
+  return results.variants
+    .filter((v) => v.control && !v.isWT)
+    .map((v) => {
+      const a = scope === 'overall' ? null : v.assayCalls.find((x) => x.assay === scope);
+      const call = scope === 'overall' ? v.overall.call : (a?.call ?? 'not measured');
+      const readout = scope === 'overall' ? v.overall.readout : (a?.readout ?? null);
+      const knownClass = v.control!.class;
+      const pathogenic = knownClass === 'pathogenic' || knownClass === 'likely pathogenic';
+      let why: string;
+      if (readout === 'abnormal') why = pathogenic ? 'counted: abnormal, as expected of a pathogenic control' : 'counted: abnormal, against expectation for a benign control (weighs against the assay)';
+      else if (readout === 'normal') why = pathogenic ? 'counted: normal, against expectation for a pathogenic control (weighs against the assay)' : 'counted: normal, as expected of a benign control';
+      else if (call === 'not measured') why = scope === 'overall' ? 'not counted: not measured in any assay' : 'not counted: not measured in this assay';
+      else if (call === 'indeterminate') why = 'not counted: indeterminate (the data show the effect neither beyond the WT-like band nor inside it)';
+      else if (call === 'mixed') why = `not counted: mixed (changes in both directions), not a readout under the study's direction (${direction})`;
+      else why = `not counted: ${call}, the opposite of the study's disease direction (${direction})`;
+      return {
+        name: names.get(v.id) ?? v.short,
+        href: PATHS.variant(slugs.get(v.id) as string),
+        knownClass,
+        source: v.control!.source,
+        call: functionCall(call),
+        readout: readout ?? '—',
+        counted: readout !== null,
+        why,
+      };
+    });
+}
+
+/** Every flag code with its words, for the glossary page, in alphabetical order of the words. */
+export function glossaryData() {
+  return Object.entries(FLAG_WORDS)
+    .map(([code, w]) => ({ code, anchor: flagAnchor(code), label: w.label, explanation: w.explanation, levels: w.levels.join(', ') }))
+    .sort((a, b) => a.label.localeCompare(b.label, 'en'));
+}
 
 export function fmtCalibration(c: Calibration): CalibrationView {
   return {
@@ -33,10 +91,11 @@ export interface AssayPage {
   effects: ChartBlock[];
   calibration: CalibrationView | null;
   controlCharts: Array<{ metric: string; baseline: string; rejected: string; warnings: string; chart: ChartBlock | null }>;
+  controls: ControlRow[];
   exclusions: StudyResults['exclusions'];
 }
 
-export async function assayPages(results: StudyResults, render?: RenderFn): Promise<AssayPage[]> {
+export async function assayPages(results: StudyResults, slugs: Map<string, string>, render?: RenderFn): Promise<AssayPage[]> {
   // Every chart of every assay is asked for at once, so a worker pool draws them side by side.
   return Promise.all(
     results.assays.map(async (a) => {
@@ -64,6 +123,7 @@ export async function assayPages(results: StudyResults, render?: RenderFn): Prom
         effects,
         calibration: cal ? fmtCalibration(cal) : null,
         controlCharts,
+        controls: cal ? controlRows(results, cal.scope, slugs) : [],
         exclusions: results.exclusions.filter((e) => e.assay === a.id || e.assay === undefined),
       };
     }),
@@ -78,23 +138,24 @@ export async function compareCharts(results: StudyResults, render?: RenderFn): P
   return renderBlocks(scatterCharts(results), render);
 }
 
-export function methodsData(results: StudyResults) {
+export function methodsData(results: StudyResults, slugs: Map<string, string>) {
   const bands = Object.keys(results.settings.bands)
     .sort()
     .map((key) => {
       const [assay, metric] = key.split('.');
       const a = results.assays.find((x) => x.id === assay);
       const m = a?.metrics.find((x) => x.id === metric);
-      const [lo, hi] = results.settings.bands[key];
+      const band = results.settings.bands[key]!;
       return {
         key,
         label: `${a?.label ?? assay}: ${m?.label ?? metric}`,
         scale: m?.scale === 'difference' ? 'difference from WT' : 'ratio to WT',
-        band: `${fmt(lo)} to ${fmt(hi)}`,
+        band: fmtBand(band, m?.scale ?? 'ratio'),
         source: results.settings.bandSource[key] ?? '',
       };
     });
   const calibration = results.calibration.map(fmtCalibration);
+  const overall = results.calibration.find((c) => c.scope === 'overall');
   return {
     assays: results.assays,
     bands,
@@ -108,6 +169,7 @@ export function methodsData(results: StudyResults) {
     direction: results.study.direction,
     thresholds: ODDSPATH_THRESHOLDS,
     calibration,
+    overall: overall ? { calibration: fmtCalibration(overall), controls: controlRows(results, 'overall', slugs) } : null,
   };
 }
 

@@ -1,7 +1,6 @@
 /**
  * Distribution functions used by the fits and the statistics: thin wrappers over
- * the @stdlib/stats-base-dists-* packages (a well-kept library, as DESIGN.md §5
- * asks), so that the rest of the code imports one module and one naming.
+ * the @stdlib/stats-base-dists-* packages (a well-kept library), so that the rest of the code imports one module and one naming.
  *
  * Each wrapper returns NaN for invalid arguments (e.g. df ≤ 0), as stdlib does.
  */

@@ -24,7 +24,7 @@ import { groupIssues } from './group-issues.js';
 import { readManifest, type FileSpec } from './manifest.js';
 import { MSG, issue } from './messages.js';
 import { createRowReader, StringPool } from './rows.js';
-import { MANIFEST_NAME } from './schemas.js';
+import { KIND_DEFS, MANIFEST_NAME } from './schemas.js';
 import type { ColumnUnit, FileDigest, InputFile, InputKind, Issue, LoadOutcome, RowBase, RowsByKind, Study, Variant, WildTypeFacts } from './types.js';
 
 /** The contents of a study folder, read by the CLI (see read-folder.ts) or built in memory. */
@@ -230,10 +230,12 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
     let data = known === undefined ? (getFile(input.files, path) as string | Uint8Array) : undefined;
     const sha256 = known ?? sha256Hex(data as string | Uint8Array);
     const settings: Record<string, number | string | boolean> = { decimal: spec.decimal };
-    if (spec.pathLengthCm !== undefined) settings.pathLengthCm = spec.pathLengthCm;
-    if (spec.pixelSizeUm !== undefined) settings.pixelSizeUm = spec.pixelSizeUm;
-    if (spec.frameIntervalS !== undefined) settings.frameIntervalS = spec.frameIntervalS;
-    if (spec.crossSectionMm2 !== undefined) settings.crossSectionMm2 = spec.crossSectionMm2;
+    // The kind's file options in canonical units (a per-unit option by its common value only).
+    for (const o of KIND_DEFS[spec.entry.kind]?.fileOptions ?? []) {
+      const v = spec.options[o.name];
+      const value = typeof v === 'number' ? v : v?.value;
+      if (value !== undefined) settings[o.setting] = value;
+    }
     if (spec.missing.length) settings.missing = spec.missing.join(' ');
     const key = options.reuse ? fileDigestKey(options.reuse.context, path, sha256, spec) : '';
     const reused = options.reuse?.get(key, path);

@@ -7,17 +7,21 @@ export interface ManifestQuantity {
   unit: string;
 }
 
-/** One files[] entry as written in the manifest. */
+/** A file option of shape 'quantity-per-unit' as written in the manifest: one value for all preparations, or one per preparation. */
+export interface ManifestQuantityPerUnit {
+  unit: string;
+  value?: number;
+  byPreparation?: Record<string, number>;
+}
+
+/** One files[] entry as written in the manifest; the kind's file options (pathLength, …) by name. */
 export interface ManifestFile {
   path: string;
   kind: InputKind;
   units?: Record<string, string>;
   decimal?: '.' | ',';
   missing?: string[];
-  pathLength?: ManifestQuantity;
-  pixelSize?: ManifestQuantity;
-  frameInterval?: ManifestQuantity;
-  crossSection?: { unit: string; value?: number; byPreparation?: Record<string, number> };
+  [option: string]: unknown;
 }
 
 /** One exclusions[] entry as written: a batch, a preparation or a variant, optionally in one assay. */
@@ -45,4 +49,3 @@ export interface ManifestJson {
   caveats?: string[];
   settings?: Record<string, number | string | boolean>;
 }
-

@@ -3,11 +3,12 @@
  * file entries (units resolved), thresholds, exclusions, settings. Pure.
  */
 import type { ErrorObject } from 'ajv';
-import { ASSAY, BANDS } from '../defaults.js';
+import { ASSAY_IDS, BANDS, DIFFERENCE_METRICS, KINDS, SETTINGS } from '../assays/assembled.js';
+import type { FileOptionDef, FileOptionValue } from '../assays/types.js';
 import { checkReferenceResidue, isWildTypeText, parseProteinChange, variantId } from './hgvs.js';
 import { locateJsonError } from './json-position.js';
 import { findDuplicateKeys } from './json-keys.js';
-import type { ManifestFile, ManifestJson, ManifestQuantity } from './manifest-json.js';
+import type { ManifestFile, ManifestJson, ManifestQuantity, ManifestQuantityPerUnit } from './manifest-json.js';
 import { salvageManifest } from './manifest-salvage.js';
 import { closestNames } from './suggest.js';
 import { MSG, issue, type MessageText } from './messages.js';
@@ -15,7 +16,7 @@ import { CATALOGUE, validators } from './schemas.js';
 import type { Exclusion, Gene, Issue, Variant } from './types.js';
 import { conversionFactor, lookupUnit, unitChoices, UNITS, type Quantity } from './units.js';
 
-export type { ManifestFile, ManifestJson, ManifestQuantity } from './manifest-json.js';
+export type { ManifestExclusion, ManifestFile, ManifestJson, ManifestQuantity, ManifestQuantityPerUnit } from './manifest-json.js';
 
 /** A file entry with its settings converted to canonical units. */
 export interface FileSpec {
@@ -25,11 +26,8 @@ export interface FileSpec {
   missing: string[];
   /** Manifest units per column (validated). */
   units: Record<string, string>;
-  pathLengthCm?: number;
-  pixelSizeUm?: number;
-  frameIntervalS?: number;
-  crossSectionMm2?: number;
-  crossSectionByUnitMm2?: Record<string, number>;
+  /** The kind's file options given, in canonical units, by name (e.g. pathLength in cm). */
+  options: Record<string, FileOptionValue>;
 }
 
 export interface ParsedManifest {
@@ -50,11 +48,16 @@ export interface ParsedManifest {
   settings: Record<string, number | string | boolean>;
 }
 
-/** Assay ids, read from the metric keys of BANDS (`<assay>.<metric>`). */
-export const ASSAY_IDS: readonly string[] = [...new Set(Object.keys(BANDS).map((k) => k.split('.')[0]))];
+/** Assay ids of the registry (src/assays/registry.ts). */
+export { ASSAY_IDS };
 
-/** Metrics compared on the ratio scale: every band whose key is not a difference metric. */
-const DIFFERENCE_METRICS = new Set(['motility.fractionImmobile', 'force.pCa50', 'turnover.slowFraction']);
+/** Each kind's file options, by kind. */
+const FILE_OPTIONS = new Map(KINDS.map((k) => [k.def.kind, k.def.fileOptions ?? []]));
+
+/** Which file option belongs to which kind, for the message about an option given to another kind. */
+const OPTIONS_BY_KIND = KINDS.filter((k) => (k.def.fileOptions ?? []).length > 0)
+  .map((k) => `${k.def.fileOptions!.map((o) => o.name).join(', ')}: ${k.def.kind}`)
+  .join('; ');
 
 function describeType(t: unknown): string {
   if (Array.isArray(t)) return t.join(' or ');
@@ -98,7 +101,7 @@ function manifestMessage(err: ErrorObject, raw: unknown): { text: MessageText; p
     }
     case 'false schema':
       if (/^\/variants\/\d+\//.test(path)) return { text: MSG.schemaWtHasHgvs(), path };
-      return { text: MSG.schemaNotForKind(), path };
+      return { text: MSG.schemaNotForKind(OPTIONS_BY_KIND), path };
     case 'type':
       return { text: MSG.schemaType(describeType((err.params as { type: unknown }).type)), path };
     case 'enum':
@@ -128,14 +131,29 @@ function manifestMessage(err: ErrorObject, raw: unknown): { text: MessageText; p
   }
 }
 
-function quantity(q: ManifestQuantity | undefined, kind: Quantity, path: string, file: string, issues: Issue[]): number | undefined {
-  if (!q) return undefined;
-  const factor = conversionFactor(kind, q.unit);
-  if (factor === undefined) {
-    issues.push(issue(MSG.unitUnknown(q.unit, UNITS[kind].label, unitChoices(kind)), { file, jsonPath: `${path}/unit` }));
-    return undefined;
+/** The factor to the canonical unit of a quantity; an issue at `path` and undefined when the unit is unknown. */
+function factorOf(unit: string, kind: Quantity, path: string, file: string, issues: Issue[]): number | undefined {
+  const factor = conversionFactor(kind, unit);
+  if (factor === undefined) issues.push(issue(MSG.unitUnknown(unit, UNITS[kind].label, unitChoices(kind)), { file, jsonPath: `${path}/unit` }));
+  return factor;
+}
+
+/** A file option in canonical units (schema-valid input); undefined when its unit is unknown (with an issue). */
+function fileOption(o: FileOptionDef, raw: unknown, path: string, file: string, issues: Issue[]): FileOptionValue | undefined {
+  const quantity = o.quantity as Quantity;
+  if (o.shape === 'quantity') {
+    const q = raw as ManifestQuantity;
+    const factor = factorOf(q.unit, quantity, path, file, issues);
+    return factor === undefined ? undefined : q.value * factor;
   }
-  return q.value * factor;
+  const q = raw as ManifestQuantityPerUnit;
+  const factor = factorOf(q.unit, quantity, path, file, issues);
+  if (factor === undefined) return undefined;
+  // Per preparation in the manifest (byPreparation); the assays read it per biological unit (byUnit).
+  const out: { value?: number; byUnit?: Record<string, number> } = {};
+  if (q.value !== undefined) out.value = q.value * factor;
+  if (q.byPreparation) out.byUnit = Object.fromEntries(Object.entries(q.byPreparation).map(([u, a]) => [u, a * factor]));
+  return out;
 }
 
 /**
@@ -331,28 +349,13 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
       }
       units[def.name] = unitText;
     }
-    const spec: FileSpec = {
-      index: fi,
-      entry: f,
-      decimal: f.decimal ?? '.',
-      missing: f.missing ?? [],
-      units,
-      pathLengthCm: quantity(f.pathLength, 'path', `${path}/pathLength`, file, issues),
-      pixelSizeUm: quantity(f.pixelSize, 'length', `${path}/pixelSize`, file, issues),
-      frameIntervalS: quantity(f.frameInterval, 'time', `${path}/frameInterval`, file, issues),
-    };
-    if (f.crossSection) {
-      const factor = conversionFactor('area', f.crossSection.unit);
-      if (factor === undefined) {
-        issues.push(issue(MSG.unitUnknown(f.crossSection.unit, UNITS.area.label, unitChoices('area')), at(`${path}/crossSection/unit`)));
-      } else {
-        if (f.crossSection.value !== undefined) spec.crossSectionMm2 = f.crossSection.value * factor;
-        if (f.crossSection.byPreparation) {
-          spec.crossSectionByUnitMm2 = Object.fromEntries(Object.entries(f.crossSection.byPreparation).map(([u, a]) => [u, a * factor]));
-        }
-      }
+    const options: Record<string, FileOptionValue> = {};
+    for (const o of FILE_OPTIONS.get(f.kind) ?? []) {
+      if (f[o.name] === undefined) continue;
+      const value = fileOption(o, f[o.name], `${path}/${o.name}`, file, issues);
+      if (value !== undefined) options[o.name] = value;
     }
-    files.push(spec);
+    files.push({ index: fi, entry: f, decimal: f.decimal ?? '.', missing: f.missing ?? [], units, options });
   });
 
   // Thresholds.
@@ -390,8 +393,8 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
     });
   });
 
-  // Settings: names and types from ASSAY in src/defaults.ts.
-  const known = Object.keys(ASSAY);
+  // Settings: names and types from the assays' settings (src/assays/<assay>/settings.ts).
+  const known = Object.keys(SETTINGS);
   const settings: Record<string, number | string | boolean> = {};
   for (const [name, value] of Object.entries(json.settings ?? {})) {
     const p = `/settings/${name}`;
@@ -399,7 +402,7 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
       issues.push(issue(MSG.unknownSetting(name, known), at(p)));
       continue;
     }
-    const expected = typeof ASSAY[name as keyof typeof ASSAY];
+    const expected = typeof SETTINGS[name];
     if (typeof value !== expected) {
       issues.push(issue(MSG.settingType(name, expected), at(p)));
       continue;

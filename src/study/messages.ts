@@ -3,15 +3,10 @@
  * a stable code, what is wrong (one sentence) and how to fix it (one sentence).
  * Locations are added by the caller (see `issue`).
  */
+import type { Issue, MessageText, SourceRef } from '../results/source.js';
 import { didYouMean } from './suggest.js';
-import type { Issue, Severity, SourceRef } from './types.js';
 
-export interface MessageText {
-  severity: Severity;
-  code: string;
-  message: string;
-  fix: string;
-}
+export type { MessageText };
 
 const e = (code: string, message: string, fix: string): MessageText => ({ severity: 'error', code, message, fix });
 const w = (code: string, message: string, fix: string): MessageText => ({ severity: 'warning', code, message, fix });
@@ -62,7 +57,7 @@ export const MSG = {
   schemaRange: (rule: string) => e('manifest.range', `The value must be ${rule}.`, `Give a value that is ${rule}.`),
   schemaPattern: (what: string) => e('manifest.pattern', `The value does not have the expected form (${what}).`, 'Correct the value; see the manifest reference in the README.'),
   schemaWtHasHgvs: () => e('manifest.wt-with-change', 'The wild-type entry has an hgvs change or a control class.', 'Remove hgvs and control from the entry with "wt": true.'),
-  schemaNotForKind: () => e('manifest.setting-not-for-kind', 'This file setting does not apply to this kind of file.', 'Remove it, or correct the file kind (pathLength: atpase-nadh; pixelSize, frameInterval: motility-tracks; crossSection: force-pca).'),
+  schemaNotForKind: (optionsByKind: string) => e('manifest.setting-not-for-kind', 'This file setting does not apply to this kind of file.', `Remove it, or correct the file kind (${optionsByKind}).`),
   schemaOther: (text: string) => e('manifest.schema', `The value breaks the manifest schema: ${text}.`, 'Correct the value; see the manifest reference in the README.'),
 
   hgvsInvalid: (text: string, reason: string) => e('manifest.hgvs', `${q(text)} is not a protein change myofolio understands: ${reason}.`, 'Write the change as p.Arg403Gln (three-letter HGVS) or R403Q.'),
@@ -177,16 +172,12 @@ export const MSG = {
   missingSkipped: (column: string, token: string) => w('csv.missing-value', `${q(column)} holds the missing-value token ${q(token)}, so the row is not used.`, 'Nothing to do if the value was not measured.'),
   belowMinimum: (column: string, value: number, rule: string) => e('csv.range', `${value} in ${q(column)} is out of range: it must be ${rule}.`, `Correct the value; ${column} must be ${rule}.`),
   notAllowed: (column: string, text: string, allowed: readonly unknown[]) => e('csv.enum', `${q(text)} is not allowed in ${q(column)}.`, `Use one of ${list(allowed.map(String))}.`),
-  needsVariantUnit: (column: string) => e('csv.empty-cell', `The cell in ${q(column)} is empty, but sample wells need it.`, `Fill in ${q(column)} (only actin-only wells leave variant and preparation empty).`),
   neitherAlternative: (names: readonly string[]) => e('csv.empty-cell', `The row has none of ${list(names)}.`, `Fill in one of ${list(names)}.`),
   implausible: (column: string, value: number, unit: string, reason: string) => w('csv.implausible', `${value} ${unit} in ${q(column)} is implausible: ${reason}.`, 'Check the value and its unit; leave it if it is right.'),
   schemaOtherCell: (column: string, text: string) => e('csv.schema', `The value in ${q(column)} breaks the row schema: ${text}.`, 'Correct the value; see the README column table.'),
 
-  // ---- settings a file kind needs ----
+  // ---- settings a file kind needs (messages of one kind's own reading rules are in its assay's inputs.ts) ----
   needsPixelSize: (column: string) => e('csv.needs-pixel-size', `${q(column)} is in pixels but the manifest gives no pixelSize for this file.`, 'Add "pixelSize": {"value": …, "unit": "um"} to the file entry.'),
-  needsFrameInterval: () => e('csv.needs-frame-interval', 'Tracks are given by frame but the manifest gives no frameInterval for this file.', 'Add "frameInterval": {"value": …, "unit": "s"} to the file entry, or give a time column.'),
-  needsCrossSection: (unit: string) => e('csv.needs-cross-section', `Force is given without a cross-sectional area for preparation ${q(unit)}.`, 'Add an area column, or "crossSection" (value or byPreparation) to the file entry, or give tension instead.'),
-  needsPathLength: () => e('csv.needs-path-length', 'No optical path length: the file has no path column and the manifest no pathLength.', 'Add "pathLength": {"value": …, "unit": "cm"} to the file entry or a path column.'),
 
   // ---- across rows ----
   unknownVariant: (label: string, near: readonly string[] = []) =>

@@ -4,7 +4,8 @@
  * docs cannot drift: tests/study/readme.test.ts compares README.md with this text.
  * Regenerate with: npx tsx src/study/reference-doc.ts --write
  */
-import { ASSAY, BANDS, STATS } from '../defaults.js';
+import { ASSAY_IDS, BANDS, KINDS, SETTINGS } from '../assays/assembled.js';
+import { STATS } from '../defaults.js';
 import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME, MANIFEST_SCHEMA } from './schemas.js';
 import type { InputKind } from './types.js';
 import { UNITS, type Quantity } from './units.js';
@@ -28,6 +29,17 @@ export function columnTable(kind: (typeof INPUT_KINDS)[number]): string {
   return ['| column | required | type | units | description |', '|---|---|---|---|---|', ...rows].join('\n');
 }
 
+/** The kinds' file options, e.g. "`pathLength` (atpase-nadh), `pixelSize` and `frameInterval` (motility-tracks)". */
+function fileOptionsText(): string {
+  return KINDS.filter((k) => (k.def.fileOptions ?? []).length > 0)
+    .map((k) => {
+      const options = k.def.fileOptions!;
+      const perUnit = options.some((o) => o.shape === 'quantity-per-unit') ? '; `value` for all preparations or `byPreparation`' : '';
+      return `${options.map((o) => `\`${o.name}\``).join(' and ')} (${k.def.kind}${perUnit})`;
+    })
+    .join(', ');
+}
+
 /** The table of the manifest's fields (name, required, description), from its schema. */
 export function manifestFieldsTable(): string {
   const props = (MANIFEST_SCHEMA as { properties: Record<string, { description?: string }>; required: string[] }).properties;
@@ -48,11 +60,11 @@ export function fieldGuide(kinds: readonly InputKind[]): string {
   const out: string[] = [];
   out.push(`# Field guide to this study folder`, '');
   out.push(
-    `\`${MANIFEST_NAME}\` describes the study; each CSV file holds one row per observation of one input kind. Written by \`myofolio init\` from the tool's schemas (\`schemas/manifest.schema.json\`, \`schemas/rows/\`); \`myofolio check <dir>\` lists every problem with its place and the fix.`,
+    `\`${MANIFEST_NAME}\` describes the study; each CSV file holds one row per observation of one input kind. Written by \`myofolio init\` from the tool's schemas; \`myofolio check <dir>\` lists every problem with its place and the fix.`,
     '',
   );
   out.push('## Manifest fields', '', manifestFieldsTable(), '');
-  out.push('## Variants, files, thresholds and settings', '', ...MANIFEST_NOTES, '');
+  out.push('## Variants, files, exclusions, thresholds and settings', '', ...manifestNotes(), '');
   out.push('## CSV rules', '', ...CSV_RULES, '');
   out.push('## Units', '', unitsTable(), '');
   for (const kind of kinds) {
@@ -62,17 +74,21 @@ export function fieldGuide(kinds: readonly InputKind[]): string {
   return out.join('\n');
 }
 
-/** Lines on variants, files, thresholds and settings (README and the field guide; '' separates paragraphs). */
-const MANIFEST_NOTES: readonly string[] = [
-  'Variants: `{"wt": true}` for the wild type; others give `hgvs` as `p.Arg403Gln`, `p.R403Q` or `R403Q` (normalised to `p.Arg403Gln`, short form `R403Q`), optionally `label` (the name in the CSV files, default the short form; with one gene the CSV files may also use the short form or the HGVS), `gene` (needed when several genes are declared), `control` `{"class": "pathogenic" | "likely pathogenic" | "benign" | "likely benign", "source": "…"}` and `note`. When a gene has a `sequence`, the reference residue of every variant is checked against it.',
-  '',
-  'Files: `path` (relative, inside the folder), `kind` (one of the input kinds below), `units` per column when the header does not give them, `decimal` (`.` default, or `,` with `;` as delimiter), `missing` (cell texts meaning no value, e.g. `["NA"]`; a row whose required value is missing is skipped with a warning), and per kind: `pathLength` (atpase-nadh), `pixelSize` and `frameInterval` (motility-tracks), `crossSection` (force-pca; `value` for all preparations or `byPreparation`), each `{"value": …, "unit": "…"}`.',
-  '',
-  'Exclusions: `{"kind": "batch", "batch": "B3"}`, `{"kind": "preparation", "preparation": "R403Q-p2"}` or `{"kind": "variant", "variant": "R403Q"}` (a declared label), each with a `reason` shown on the reports and optionally an `assay` id (`atpase`, `motility`, `force`, `turnover`) to exclude it from that assay only.',
-  '',
-  `Thresholds (\`thresholds\`): \`bands\` (WT-like band \`[low, high]\` per metric key such as \`atpase.kcat\`; ratio metrics as variant/WT, difference metrics as variant − WT; defaults in \`src/defaults.ts\` BANDS: ${Object.keys(BANDS).map((k) => `\`${k}\``).join(', ')}), \`bandsFromBenignControls\` (derive bands from the benign controls), \`qThreshold\` (level of the adjusted minimum-effect test for an increased or decreased call; default ${STATS.qThreshold}), \`equivalenceAlpha\` (level of the two one-sided tests for a within-WT-range call; default ${STATS.equivalenceAlpha}), \`evidenceCap\` (\`supporting\` … \`very strong\`, from gene-specific expert-panel rules) and \`wtBaselines\` (lab-declared long-term WT \`{"mean", "sd", "source"}\` per metric key, in canonical units, for the Westgard charts; otherwise mean and SD come from this study's WT values).`,
-  `Settings (\`settings\`) override the assay defaults of \`src/defaults.ts\` by name: ${Object.keys(ASSAY).map((k) => `\`${k}\``).join(', ')}. Unknown names and values of the wrong type are errors.`,
-];
+/** Lines on variants, files, exclusions, thresholds and settings (README and the field guide; '' separates paragraphs). */
+function manifestNotes(): string[] {
+  return [
+    'Variants: `{"wt": true}` for the wild type; others give `hgvs` as `p.Arg403Gln`, `p.R403Q` or `R403Q` (normalised to `p.Arg403Gln`, short form `R403Q`), optionally `label` (the name in the CSV files, default the short form; with one gene the CSV files may also use the short form or the HGVS), `gene` (needed when several genes are declared), `control` `{"class": "pathogenic" | "likely pathogenic" | "benign" | "likely benign", "source": "…"}` and `note`. When a gene has a `sequence`, the reference residue of every variant is checked against it.',
+    '',
+    'Files: `path` (relative, inside the folder), `kind` (one of the input kinds below), `units` per column when the header does not give them, `decimal` (`.` default, or `,` with `;` as delimiter), `missing` (cell texts meaning no value, e.g. `["NA"]`; a row whose required value is missing is skipped with a warning), and per kind: ' +
+      fileOptionsText() +
+      ', each `{"value": …, "unit": "…"}`.',
+    '',
+    `Exclusions: \`{"kind": "batch", "batch": "B3"}\`, \`{"kind": "preparation", "preparation": "R403Q-p2"}\` or \`{"kind": "variant", "variant": "R403Q"}\` (a declared label), each with a \`reason\` shown on the reports and optionally an \`assay\` id (${ASSAY_IDS.map((a) => `\`${a}\``).join(', ')}) to exclude it from that assay only.`,
+    '',
+    `Thresholds (\`thresholds\`): \`bands\` (WT-like band \`[low, high]\` per metric key such as \`atpase.kcat\`; ratio metrics as variant/WT, difference metrics as variant − WT; defaults in each assay's \`metrics.ts\` under \`src/assays/\`: ${Object.keys(BANDS).map((k) => `\`${k}\``).join(', ')}), \`bandsFromBenignControls\` (derive bands from the benign controls), \`qThreshold\` (level of the adjusted minimum-effect test for an increased or decreased call; default ${STATS.qThreshold}), \`equivalenceAlpha\` (level of the two one-sided tests for a within-WT-range call; default ${STATS.equivalenceAlpha}), \`evidenceCap\` (\`supporting\` … \`very strong\`, from gene-specific expert-panel rules) and \`wtBaselines\` (lab-declared long-term WT \`{"mean", "sd", "source"}\` per metric key, in canonical units, for the Westgard charts; otherwise mean and SD come from this study's WT values).`,
+    `Settings (\`settings\`) override the assay defaults (each assay's \`settings.ts\` under \`src/assays/\`) by name: ${Object.keys(SETTINGS).map((k) => `\`${k}\``).join(', ')}. Unknown names and values of the wrong type are errors.`,
+  ];
+}
 
 /** The rules every CSV file follows (README and the field guide). */
 const CSV_RULES: readonly string[] = [
@@ -97,11 +113,11 @@ export function inputReference(): string {
   const out: string[] = [];
   out.push('## Input reference', '');
   out.push(
-    `A study folder holds one manifest, \`${MANIFEST_NAME}\` (checked against \`schemas/manifest.schema.json\`), and CSV files, one row per observation (row schemas in \`schemas/rows/\`). \`myofolio init <dir>\` writes a starter folder; \`myofolio check <dir>\` lists every problem as \`file:line:col: severity: message — fix\` and exits 1 when there are errors.`,
+    `A study folder holds one manifest, \`${MANIFEST_NAME}\` (checked against \`schemas/manifest.schema.json\`), and CSV files, one row per observation (row schemas beside each assay, \`src/assays/<assay>/<kind>.schema.json\`). \`myofolio init <dir>\` writes a starter folder; \`myofolio check <dir>\` lists every problem as \`file:line:col: severity: message — fix\` and exits 1 when there are errors.`,
     '',
   );
   out.push('### Manifest fields', '', manifestFieldsTable(), '');
-  out.push(...MANIFEST_NOTES, '');
+  out.push(...manifestNotes(), '');
   out.push('### CSV rules', '', ...CSV_RULES, '');
   out.push('### Units', '', unitsTable(), '');
   for (const kind of INPUT_KINDS) {

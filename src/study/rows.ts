@@ -17,9 +17,10 @@ import { numberCellValue, parseNumberCell } from './csv.js';
 import type { FileSpec } from './manifest.js';
 import { MSG, issue, shown } from './messages.js';
 import { compileRowCheck } from './row-check.js';
-import { CATALOGUE, PREPARATION_COLUMN, RENAMED_COLUMNS, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
-import type { ColumnUnit, InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
+import type { KindReading, RowReport } from '../assays/types.js';
+import { CATALOGUE, KIND_DEFS, RENAMED_COLUMNS, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
 import { closestNames } from './suggest.js';
+import type { ColumnUnit, InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
 import { conversionFactor, lookupUnit, normaliseUnitText, UNITS, unitChoices } from './units.js';
 
 /** The labels of the declared variants (not their aliases), in declaration order, for suggestions. */
@@ -244,12 +245,13 @@ export function createRowReader<K extends InputKind>(
           return;
         }
         if (unit === 'px') {
-          if (spec.pixelSizeUm === undefined) {
+          const pixelSizeUm = spec.options.pixelSize as number | undefined;
+          if (pixelSizeUm === undefined) {
             issues.push(issue(MSG.needsPixelSize(def.name), at));
             headerOk = false;
             return;
           }
-          factor = spec.pixelSizeUm;
+          factor = pixelSizeUm;
         } else {
           factor = conversionFactor(def.quantity, unit)!;
         }
@@ -271,23 +273,21 @@ export function createRowReader<K extends InputKind>(
         headerOk = false;
       }
     }
-    if (kind === 'motility-tracks' && has('frame') && !has('time') && spec.frameIntervalS === undefined) {
-      issues.push(issue(MSG.needsFrameInterval(), headerAt));
-      headerOk = false;
-    }
-    if (kind === 'atpase-nadh' && !has('path') && spec.pathLengthCm === undefined) {
-      issues.push(issue(MSG.needsPathLength(), headerAt));
-      headerOk = false;
+    // The kind's own reading rules (src/assays/<assay>/inputs.ts), given this file's options and columns.
+    const reading = KIND_DEFS[kind]?.reading?.({ options: spec.options, has }) ?? {};
+    for (const problem of reading.headerProblems ?? []) {
+      issues.push(issue(problem, headerAt));
+      if (problem.severity === 'error') headerOk = false;
     }
     if (!headerOk) return;
     out.columns = units;
     state = 'read';
     width = headerCells.length;
-    readRow = rowReader(columns, headerAt);
+    readRow = rowReader(columns, reading);
   }
 
   /** Compile the per-row work for the resolved columns: everything looked up once here. */
-  function rowReader(columns: ResolvedColumn[], headerAt: SourceRef): (cells: string[], line: number) => void {
+  function rowReader(columns: ResolvedColumn[], reading: KindReading): (cells: string[], line: number) => void {
     const validate = validators().rows[kind];
     const n = columns.length;
     const byName = new Map(columns.map((c) => [c.def.name, c]));
@@ -296,12 +296,12 @@ export function createRowReader<K extends InputKind>(
     const fastValid = compileRowCheck(ROW_SCHEMAS[kind], slotOf);
     const keyColumns = cat.rowKey.filter((k) => byName.has(k));
     const keySlots = keyColumns.map((k) => slotOf(k)!);
-    const keyComplete = cat.rowKey.every((k) => byName.has(k) || (k === 'frame' && byName.has('time')) || (k === 'time' && byName.has('frame')));
+    // A key column stands in for the others of its alternative group (e.g. frame for time).
+    const keyComplete = cat.rowKey.every((k) => byName.has(k) || cat.alternatives.some((g) => g.includes(k) && g.some((n) => byName.has(n))));
     /** First line of each observation key (see observationKey), when the file has every key column. */
     const firstByKey = keyComplete ? new Map<string, number>() : undefined;
     const keyParts: string[] = new Array(keySlots.length).fill('');
     const firstByRow = new Map<string, number>();
-    const crossSectionWarned = new Set<string>();
     const rows = out.rows as unknown as Record<string, unknown>[];
 
     // Per column, by slot.
@@ -312,9 +312,9 @@ export function createRowReader<K extends InputKind>(
     const missing = new Set(spec.missing);
     const anyMissing = spec.missing.length > 0;
     const decimal = spec.decimal;
-    // Typed-row fields (variant, unit and batch come first; force and area only feed tension;
-    // tracks keep time, not frame), in column order.
-    const dropped = new Set(['variant', 'unit', 'batch', 'forceMN', 'areaMm2', ...(kind === 'motility-tracks' ? ['frame'] : [])]);
+    // Typed-row fields (variant, unit and batch come first; the kind's transient fields are only
+    // read by its reading rules), in column order.
+    const dropped = new Set(['variant', 'unit', 'batch', ...(KIND_DEFS[kind]?.transientFields ?? [])]);
     const fieldSlots: number[] = [];
     const fieldNames: string[] = [];
     columns.forEach((c, j) => {
@@ -325,14 +325,28 @@ export function createRowReader<K extends InputKind>(
     });
     const plausibleSlots = columns.flatMap((c, j) => (c.def.plausible ? [j] : []));
     const variantSlot = slotOf('variant');
-    const unitSlot = slotOf(PREPARATION_COLUMN);
+    // The preparation column: the one whose typed-row field is `unit` (named 'preparation' by convention).
+    const unitSlot = ((j) => (j < 0 ? undefined : j))(columns.findIndex((c) => c.def.field === 'unit'));
     const batchSlot = slotOf('batch');
-    const frameSlot = slotOf('frame');
-    const tensionSlot = slotOf('tension');
-    const forceSlot = slotOf('force');
-    const areaSlot = slotOf('area');
-    const computedTension = kind === 'force-pca' && !byName.has('tension') ? CATALOGUE['force-pca'].columns.find((c) => c.name === 'tension')!.plausible! : undefined;
     const cellAt = (c: ResolvedColumn, line: number): SourceRef => ({ file, line, column: c.def.name, col: c.index + 1 });
+    const complete = reading.complete;
+    /** The row's value of a column (canonical units), for the kind's reading rules. */
+    const cell = (name: string) => {
+      const j = slotByName.get(name);
+      return j === undefined ? undefined : vals[j];
+    };
+    let rowLine = 0;
+    /** Checks of values the reading rules computed, made after the columns' own plausibility checks. */
+    const computed: Array<{ column: string; value: number; reportedIn: string; note: string }> = [];
+    const report: RowReport = {
+      problem(text, column) {
+        const c = column === undefined ? undefined : byName.get(column);
+        issues.push(issue(text, c ? cellAt(c, rowLine) : { file, line: rowLine }));
+      },
+      plausible(column, value, reportedIn, note) {
+        computed.push({ column, value, reportedIn, note });
+      },
+    };
     const vals: Array<string | number | undefined> = new Array(n).fill(undefined);
     const ids = new Int32Array(n);
     const lastText: Array<string | undefined> = new Array(n).fill(undefined);
@@ -421,8 +435,7 @@ export function createRowReader<K extends InputKind>(
             if (err.keyword === 'required') {
               const group = cat.alternatives.find((g) => g.includes(name));
               if (group) issues.push(issue(MSG.neitherAlternative(group), { file, line }));
-              else if (kind === 'atpase-nadh' && (name === 'variant' || name === PREPARATION_COLUMN)) issues.push(issue(MSG.needsVariantUnit(name), at));
-              else issues.push(issue(MSG.emptyCell(name), at));
+              else issues.push(issue(reading.emptyCell?.(name) ?? MSG.emptyCell(name), at));
             } else if (['minimum', 'maximum', 'exclusiveMinimum', 'exclusiveMaximum'].includes(err.keyword)) {
               const shown = c ? Number((Number(obj[name]) / c.factor).toPrecision(12)) : Number(obj[name]);
               issues.push(issue(MSG.belowMinimum(name, shown, ruleText(err)), at));
@@ -466,18 +479,10 @@ export function createRowReader<K extends InputKind>(
         const v = vals[fieldSlots[k]];
         if (v !== undefined) typed[fieldNames[k]] = v;
       }
-      if (kind === 'motility-tracks') {
-        if (typed.timeS === undefined) typed.timeS = (vals[frameSlot!] as number) * spec.frameIntervalS!;
-      } else if (kind === 'atpase-nadh') {
-        if (typed.pathCm === undefined) typed.pathCm = spec.pathLengthCm;
-      } else if (kind === 'force-pca' && (tensionSlot === undefined || vals[tensionSlot] === undefined)) {
-        const area = (areaSlot === undefined ? undefined : (vals[areaSlot] as number | undefined)) ?? spec.crossSectionByUnitMm2?.[unit] ?? spec.crossSectionMm2;
-        if (area === undefined) {
-          if (!crossSectionWarned.has(unit)) issues.push(issue(MSG.needsCrossSection(unit), cellAt(byName.get('force')!, line)));
-          crossSectionWarned.add(unit);
-          return;
-        }
-        typed.tensionKPa = (forceSlot === undefined ? undefined : (vals[forceSlot] as number))! / area;
+      if (complete) {
+        rowLine = line;
+        computed.length = 0;
+        if (!complete(typed, cell, report)) return;
       }
 
       // Plausibility (canonical units).
@@ -492,12 +497,13 @@ export function createRowReader<K extends InputKind>(
           issues.push(issue(MSG.implausible(c.def.name, Number(v.toPrecision(6)), u, p.reason), cellAt(c, line), { variants: variantId ? [variantId] : [] }));
         }
       }
-      if (computedTension) {
-        const p = computedTension;
-        const v = typed.tensionKPa as number;
-        if ((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min)) {
-          issues.push(issue(MSG.implausible('tension', Number(v.toPrecision(6)), 'kPa', `${p.reason} (computed from force and area)`), cellAt(byName.get('force')!, line), { variants: variantId ? [variantId] : [] }));
-        }
+      for (const { column, value: v, reportedIn, note } of complete ? computed : []) {
+        const def = cat.columns.find((c) => c.name === column);
+        const p = def?.plausible;
+        if (!p || !((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min))) continue;
+        const u = def.quantity ? UNITS[def.quantity].canonical : '';
+        const c = byName.get(reportedIn);
+        issues.push(issue(MSG.implausible(column, Number(v.toPrecision(6)), u, `${p.reason} (${note})`), c ? cellAt(c, line) : { file, line }, { variants: variantId ? [variantId] : [] }));
       }
 
       // Duplicates.

@@ -1,29 +1,25 @@
 /**
- * The JSON Schemas of the study folder and the column catalogue read from them.
+ * The JSON Schemas of the study folder and the column catalogue read from them, for the input
+ * kinds of the assay registry (each kind's row schema lives in its assay's folder).
  * The row schemas are the one source of truth for CSV columns: names, types, units
  * (x-quantity), required columns, alternatives, duplicate keys and plausibility limits.
  */
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import type { ValidateFunction } from 'ajv';
 import addFormatsMod from 'ajv-formats';
-import manifestSchema from '../../schemas/manifest.schema.json' with { type: 'json' };
-import atpaseRates from '../../schemas/rows/atpase-rates.schema.json' with { type: 'json' };
-import atpaseNadh from '../../schemas/rows/atpase-nadh.schema.json' with { type: 'json' };
-import motilityVelocities from '../../schemas/rows/motility-velocities.schema.json' with { type: 'json' };
-import motilityTracks from '../../schemas/rows/motility-tracks.schema.json' with { type: 'json' };
-import forcePca from '../../schemas/rows/force-pca.schema.json' with { type: 'json' };
-import turnover from '../../schemas/rows/turnover.schema.json' with { type: 'json' };
+import { KINDS } from '../assays/assembled.js';
+import type { InputKindDef } from '../assays/types.js';
+import { MANIFEST_SCHEMA } from './manifest-schema.js';
 import type { InputKind } from './types.js';
-import type { Quantity } from './units.js';
+import { UNITS, type Quantity } from './units.js';
 
-export const INPUT_KINDS: readonly InputKind[] = [
-  'atpase-rates',
-  'atpase-nadh',
-  'motility-velocities',
-  'motility-tracks',
-  'force-pca',
-  'turnover',
-];
+export { MANIFEST_SCHEMA };
+
+/** Every input kind, in registry order. */
+export const INPUT_KINDS: readonly InputKind[] = KINDS.map((k) => k.def.kind);
+
+/** Each input kind's definition (src/assays/<assay>/inputs.ts). */
+export const KIND_DEFS: Readonly<Record<InputKind, InputKindDef>> = Object.fromEntries(KINDS.map((k) => [k.def.kind, k.def]));
 
 /**
  * The CSV column naming the biological preparation (protein preparation, fibre, tissue piece) a row
@@ -40,16 +36,7 @@ export const RENAMED_COLUMNS: Readonly<Record<string, string>> = { unit: PREPARA
 /** The manifest file name in a study folder. */
 export const MANIFEST_NAME = 'study.json';
 
-export const ROW_SCHEMAS: Record<InputKind, Record<string, unknown>> = {
-  'atpase-rates': atpaseRates,
-  'atpase-nadh': atpaseNadh,
-  'motility-velocities': motilityVelocities,
-  'motility-tracks': motilityTracks,
-  'force-pca': forcePca,
-  turnover,
-};
-
-export const MANIFEST_SCHEMA: Record<string, unknown> = manifestSchema;
+export const ROW_SCHEMAS: Readonly<Record<InputKind, Record<string, unknown>>> = Object.fromEntries(KINDS.map((k) => [k.def.kind, k.def.schema]));
 
 /** One CSV column as the row schema declares it. */
 export interface ColumnDef {
@@ -104,6 +91,10 @@ function catalogue(kind: InputKind): KindCatalogue {
     'x-alternatives'?: string[][];
     'x-rowKey': string[];
   };
+  for (const [name, p] of Object.entries(schema.properties)) {
+    const q = p['x-quantity'];
+    if (q !== undefined && !(q in UNITS)) throw new Error(`row schema of '${kind}': the column '${name}' has x-quantity '${q}', which is not in src/study/units.ts`);
+  }
   const columns = Object.entries(schema.properties).map(([name, p]): ColumnDef => ({
     name,
     type: p.type,
@@ -132,6 +123,12 @@ export const CATALOGUE: Record<InputKind, KindCatalogue> = Object.fromEntries(
   INPUT_KINDS.map((k) => [k, catalogue(k)]),
 ) as Record<InputKind, KindCatalogue>;
 
+for (const { def } of KINDS) {
+  for (const o of def.fileOptions ?? []) {
+    if (!(o.quantity in UNITS)) throw new Error(`input kind '${def.kind}': the file option '${o.name}' has quantity '${o.quantity}', which is not in src/study/units.ts`);
+  }
+}
+
 function makeAjv(): Ajv2020 {
   const ajv = new Ajv2020({ allErrors: true, strict: true, strictTuples: false, strictRequired: false, allowUnionTypes: true });
   for (const word of ['x-kind', 'x-quantity', 'x-pixels', 'x-field', 'x-plausible', 'x-rowKey', 'x-alternatives']) {
@@ -159,7 +156,7 @@ const ROW_VALIDATORS = Object.defineProperties(
 
 /**
  * Compiled validators, each compiled once per process when first used: a rebuild that parses no
- * file compiles the manifest's only (compiling all took about 0.13 s).
+ * file compiles the manifest's only.
  */
 export function validators(): { manifest: ValidateFunction; rows: Record<InputKind, ValidateFunction> } {
   return {

@@ -3,16 +3,11 @@
  * with a comment line per column and the header, a manifest listing them, and a field guide
  * beside it (JSON has no comments). Pure.
  */
+import { KINDS } from '../assays/assembled.js';
 import { fieldGuide } from './reference-doc.js';
-import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME } from './schemas.js';
+import { CATALOGUE, INPUT_KINDS, KIND_DEFS, MANIFEST_NAME } from './schemas.js';
 import type { InputKind } from './types.js';
 import { UNITS, unitChoices } from './units.js';
-
-/** Columns a template shows: all but the second of each alternative pair and force-only helpers. */
-const TEMPLATE_SKIP: Partial<Record<InputKind, string[]>> = {
-  'motility-tracks': ['frame'],
-  'force-pca': ['force', 'area'],
-};
 
 /** The header cell of a column in templates: name plus its canonical unit. */
 export function templateHeader(kind: InputKind, name: string): string {
@@ -23,7 +18,8 @@ export function templateHeader(kind: InputKind, name: string): string {
 /** CSV template text of one input kind. */
 export function csvTemplate(kind: InputKind): string {
   const cat = CATALOGUE[kind];
-  const cols = cat.columns.filter((c) => !(TEMPLATE_SKIP[kind] ?? []).includes(c.name));
+  // All columns but those the kind leaves out of templates (the second of an alternative pair, helpers).
+  const cols = cat.columns.filter((c) => !(KIND_DEFS[kind]?.templateSkip ?? []).includes(c.name));
   const lines = [`# ${cat.title}. ${cat.description}`, '# Lines starting with # are comments. One row per observation; delete these comments if you like.'];
   for (const c of cols) {
     const units = c.quantity ? ` Units: ${unitChoices(c.quantity).join(', ')}${c.pixels ? ', px' : ''}.` : '';
@@ -42,20 +38,16 @@ export function templateFileName(kind: InputKind): string {
 /** Name of the field guide written beside the starter manifest. */
 export const GUIDE_NAME = 'study-guide.md';
 
-/** Short names accepted by `init --assays` for the usual input kind of each assay. */
-export const KIND_SHORTHANDS: Readonly<Record<string, InputKind>> = {
-  atpase: 'atpase-rates',
-  nadh: 'atpase-nadh',
-  motility: 'motility-velocities',
-  tracks: 'motility-tracks',
-  force: 'force-pca',
-  turnover: 'turnover',
-};
+/** Each assay's input kinds, by assay id: `init --assays atpase` writes every kind the assay reads. */
+export const ASSAY_KINDS: Readonly<Record<string, InputKind[]>> = KINDS.reduce<Record<string, InputKind[]>>((out, k) => {
+  (out[k.assay.id] ??= []).push(k.def.kind);
+  return out;
+}, {});
 
 /**
- * The input kinds named in an `--assays` list (kind names or the shorthands above, comma-separated),
- * in the order of INPUT_KINDS, or the first name that is neither.
- * @example parseKinds('force,atpase') // { kinds: ['atpase-rates', 'force-pca'] }
+ * The input kinds named in an `--assays` list (comma-separated kind names, or assay ids for all of
+ * an assay's kinds), in the order of INPUT_KINDS, or the first name that is neither.
+ * @example parseKinds('force,atpase-rates') // { kinds: ['atpase-rates', 'force-pca'] }
  * @example parseKinds('forse') // { unknown: 'forse' }
  */
 export function parseKinds(list: string): { kinds: InputKind[] } | { unknown: string } {
@@ -63,9 +55,9 @@ export function parseKinds(list: string): { kinds: InputKind[] } | { unknown: st
   for (const raw of list.split(',')) {
     const name = raw.trim();
     if (name === '') continue;
-    const kind = (INPUT_KINDS as readonly string[]).includes(name) ? (name as InputKind) : KIND_SHORTHANDS[name];
-    if (!kind) return { unknown: name };
-    wanted.add(kind);
+    const kinds = (INPUT_KINDS as readonly string[]).includes(name) ? [name as InputKind] : ASSAY_KINDS[name];
+    if (!kinds) return { unknown: name };
+    for (const k of kinds) wanted.add(k);
   }
   if (wanted.size === 0) return { unknown: list };
   return { kinds: INPUT_KINDS.filter((k) => wanted.has(k)) };

@@ -7,52 +7,16 @@
  * Every row keeps where it came from so that warnings and provenance can point at it.
  */
 
-/** Where a value came from: a CSV line (1-based, header is line 1) or a manifest JSON path. */
-export interface SourceRef {
-  /** Path relative to the study folder, with forward slashes. */
-  file: string;
-  /** 1-based line in the file (CSV); absent for manifest entries. */
-  line?: number;
-  /** Last line of a range of lines (provenance of a unit); absent for a single line. */
-  lineEnd?: number;
-  /** Column name (CSV) when the message is about one cell. */
-  column?: string;
-  /** 1-based column number (CSV) matching `column`, for `file:line:col` output. */
-  col?: number;
-  /** JSON Pointer into the manifest, e.g. /variants/3/hgvs. */
-  jsonPath?: string;
-}
+export type { ControlClass, DiseaseDirection, Domain, Issue, Severity, SourceRef } from '../results/source.js';
+export type { RowBase } from '../assays/types.js';
+import type { ControlClass, DiseaseDirection, Domain, Issue, SourceRef } from '../results/source.js';
+import type { RowBase } from '../assays/types.js';
 
-export type Severity = 'error' | 'warning';
+/** Input kinds: each assay's inputs (src/assays/<assay>/inputs.ts), listed by src/assays/registry.ts. */
+export type InputKind = string;
 
-/** One problem with the input, reported with its location and the fix. */
-export interface Issue {
-  severity: Severity;
-  /** Stable machine code, e.g. 'csv.unknown-unit'. */
-  code: string;
-  /** What is wrong, in one sentence. */
-  message: string;
-  /** How to fix it, in one sentence. */
-  fix: string;
-  at: SourceRef;
-  /** Ids of the variants the issue is about; a warning with variants is shown on their reports. */
-  variants?: string[];
-  /** Findings merged into this issue (src/study/group-issues.ts); absent for one. */
-  count?: number;
-  /** Grouping key within one code, file and column (e.g. the unknown label); removed by groupIssues. */
-  group?: string;
-}
-
-export type ControlClass = 'pathogenic' | 'likely pathogenic' | 'benign' | 'likely benign';
-
-/** Disease-mechanism direction that counts as an abnormal readout. */
-export type DiseaseDirection = 'hypercontractile' | 'hypocontractile' | 'either';
-
-export interface Domain {
-  name: string;
-  start: number;
-  end: number;
-}
+/** Rows of each input kind; each assay's inputs.ts declares the type of its rows. */
+export type RowsByKind = Record<InputKind, RowBase[]>;
 
 export interface Gene {
   symbol: string;
@@ -81,85 +45,6 @@ export interface Variant {
   control?: { class: ControlClass; source: string };
   note?: string;
   at: SourceRef;
-}
-
-/** Input kinds; each has a row schema in schemas/rows/<kind>.schema.json. */
-export type InputKind =
-  | 'atpase-rates'
-  | 'atpase-nadh'
-  | 'motility-velocities'
-  | 'motility-tracks'
-  | 'force-pca'
-  | 'turnover';
-
-/** Fields every row has. `unit` is the biological unit (protein preparation, fibre, tissue). */
-export interface RowBase {
-  variant: string; // Variant.id after resolution
-  unit: string;
-  batch: string;
-  at: SourceRef;
-}
-
-/** Steady-state ATPase: per-head rate at one [actin]. */
-export interface AtpaseRateRow extends RowBase {
-  actinUM: number;
-  ratePerS: number;
-  replicate?: string;
-}
-
-/**
- * NADH-coupled ATPase: one A340 reading of one well.
- * Actin-only background wells have wellType 'actin-only' and variant/unit empty ('').
- */
-export interface NadhRow extends RowBase {
-  wellType: 'sample' | 'actin-only';
-  well: string;
-  actinUM: number;
-  /** Myosin head concentration in the well (µM); 0 for actin-only wells. */
-  headsUM: number;
-  timeS: number;
-  a340: number;
-  /** Optical path length in cm (default from the manifest file entry). */
-  pathCm: number;
-}
-
-/** Motility: one filament's velocity measured elsewhere. */
-export interface VelocityRow extends RowBase {
-  movie?: string;
-  filament: string;
-  velocityUmS: number;
-}
-
-/** Motility: one centroid position of one filament in one frame (positions in µm). */
-export interface TrackRow extends RowBase {
-  movie: string;
-  filament: string;
-  timeS: number;
-  xUm: number;
-  yUm: number;
-}
-
-/** Force–pCa: steady force at one pCa for one preparation (tension in kPa = mN/mm²). */
-export interface ForceRow extends RowBase {
-  pCa: number;
-  tensionKPa: number;
-  replicate?: string;
-}
-
-/** Single turnover: one fluorescence reading of one chase trace. */
-export interface TurnoverRow extends RowBase {
-  trace: string;
-  timeS: number;
-  fluorescence: number;
-}
-
-export interface RowsByKind {
-  'atpase-rates': AtpaseRateRow[];
-  'atpase-nadh': NadhRow[];
-  'motility-velocities': VelocityRow[];
-  'motility-tracks': TrackRow[];
-  'force-pca': ForceRow[];
-  turnover: TurnoverRow[];
 }
 
 /** A measurement column of an input file and the unit its values were read in (for messages about units). */
@@ -209,7 +94,7 @@ export interface Exclusion {
   at: SourceRef;
 }
 
-/** Lab-set thresholds; each field overrides the default in src/defaults.ts when present. */
+/** Lab-set thresholds; each field overrides its default (src/defaults.ts; bands: each assay's metrics.ts) when present. */
 export interface ThresholdOverrides {
   /** Per metric key `<assay>.<metric>`: WT-like band [low, high] on the metric's own scale (ratio or difference). */
   bands?: Record<string, [number, number]>;

@@ -176,12 +176,3 @@ export function conversionFactor(quantity: Quantity, unitText: string): number |
   // Exact decimal ratio: round away binary noise (1e-9/1e-6 = 0.0010000000000000002).
   return Number((unit.si / canonical.si).toPrecision(15));
 }
-
-/**
- * Tension from force and cross-sectional area, in kPa: F[mN] / A[mm²] = mN/mm² = kPa
- * (1 mN/mm² = 1e-3 N / 1e-6 m² = 1e3 Pa).
- * @example tensionKPa(0.009, 0.0003) // 30 (9 µN over 300 µm² is 30 kPa)
- */
-export function tensionKPa(forceMN: number, areaMm2: number): number {
-  return forceMN / areaMm2;
-}

@@ -1,12 +1,12 @@
 /**
  * analyseStudy plumbing on constructed unit results (no fitting): exclusions, Westgard
  * rejections flagging the variants compared in a batch, calibration counts from control calls.
- * The numbers are constructed for each branch (no external source needed: these are our rules,
- * DESIGN.md §6–7).
+ * The numbers are constructed for each branch (no external source needed: these are our rules).
  */
 import { describe, expect, it } from 'vitest';
 import { analyseStudy } from '../../src/analysis/analyse-study.js';
-import { atpase } from '../../src/assays/atpase.js';
+import { atpase } from '../../src/assays/atpase/module.js';
+import type { AtpaseRateRow } from '../../src/assays/atpase/inputs.js';
 import type { UnitResult } from '../../src/results/types.js';
 import type { Exclusion, Study, Variant } from '../../src/study/types.js';
 
@@ -24,7 +24,7 @@ function study(variants: Variant[], exclusions: Exclusion[] = []): Study {
   return {
     title: 't', lab: 'l', dates: [], synthetic: true, genes: [], variants, direction: 'hypercontractile',
     thresholds: {}, exclusions, caveats: [], settings: {}, files: [],
-    rows: { 'atpase-rates': [{ variant: 'WT', unit: 'x', batch: 'b', actinUM: 0, ratePerS: 0, at }] },
+    rows: { 'atpase-rates': [{ variant: 'WT', unit: 'x', batch: 'b', actinUM: 0, ratePerS: 0, at } as AtpaseRateRow] },
     manifestRaw: {}, manifestSha256: '0'.repeat(64),
   };
 }
@@ -90,7 +90,7 @@ describe('analyseStudy on constructed units', () => {
     expect(r.variants.find((v) => v.id === 'P1')!.evidence.level).toBe('none');
     const x = r.variants.find((v) => v.id === 'X')!;
     expect(x.overall.readout).toBe('abnormal');
-    // 2P + 2B with perfect separation, pseudo-count pair: OddsPath = nP·(nB+1)/(nP+1) = 2·3/3 = 2.0 (REFERENCES.md §4 closed form) → no evidence.
+    // 2P + 2B with perfect separation, pseudo-count pair: OddsPath = nP·(nB+1)/(nP+1) = 2·3/3 = 2.0 (closed form of Brnich et al. 2020) → no evidence.
     expect(r.calibration.find((c) => c.scope === 'overall')!.oddsPathAbnormal).toBeCloseTo(2.0, 12);
     expect(x.evidence.level).toBe('none');
   });

@@ -3,7 +3,7 @@ import { compareAssay } from '../../src/analysis/normalise.js';
 import { pairedEffect } from '../../src/analysis/paired-effect.js';
 import type { Flag, MetricDef, UnitResult } from '../../src/results/types.js';
 
-// Rules of the comparison (DESIGN.md §5; common practice, no source): these tests pin each one.
+// Rules of the comparison (common practice, no source): these tests pin each one.
 const KCAT: MetricDef = { id: 'kcat', label: 'kcat', unit: 's⁻¹', scale: 'ratio', hyper: 'up', primary: true, description: '', excludeFlagged: ['km-above-range'], carryFlags: ['too-few-points'] };
 const SLOPE: MetricDef = { id: 'slope', label: 'kcat/KM', unit: 'µM⁻¹·s⁻¹', scale: 'ratio', hyper: 'none', primary: false, description: '' };
 const BASAL: MetricDef = { id: 'basal', label: 'basal', unit: 's⁻¹', scale: 'difference', hyper: 'none', primary: false, description: '' };

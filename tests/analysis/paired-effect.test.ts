@@ -49,7 +49,7 @@ const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
 
 describe('pairedEffect (batch pairing, a residual variance per group)', () => {
   it('is Welch’s unequal-variance t test with one batch (R sleep data)', () => {
-    // R datasets::sleep and t.test(extra ~ group, data = sleep) (REFERENCES.md §3 [V]; full-precision df [C]).
+    // R datasets::sleep and t.test(extra ~ group, data = sleep) ([V]; full-precision df computed [C]).
     const g1 = [0.7, -1.6, -0.2, -1.2, -0.1, 3.4, 3.7, 0.8, 0.0, 2.0];
     const g2 = [1.9, 0.8, 1.1, 0.1, -0.1, 4.4, 5.5, 1.6, 4.6, 3.4];
     const r = pairedEffect({ batches: [{ batch: 'one', variant: g1, wt: g2 }], confidenceLevel: 0.95 })!;

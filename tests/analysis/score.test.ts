@@ -3,7 +3,7 @@ import { assayCall, callComparisons, metricCall, readoutOf, variantCall } from '
 import type { MetricComparison, MetricDef } from '../../src/results/types.js';
 import { benjaminiHochberg } from '../../src/stats/bh.js';
 
-// The scoring rules are ours (DESIGN.md §6; common practice, no source): these tests pin each branch.
+// The scoring rules are ours (common practice, no source): these tests pin each branch.
 const band: [number, number] = [0.8, 1.25];
 const OPTIONS = { qThreshold: 0.05, equivalenceAlpha: 0.05 };
 

@@ -4,12 +4,16 @@
  * single-turnover chase traces) and go through the same unit fits, comparison and calls as a real
  * study (analyseStudy). Designs follow the demo (src/demo/scenario.ts): 3 batches, WT in every
  * batch, each variant's units in two batches. Magnitudes are typical published values
- * (REFERENCES.md §6 [M]); noise levels are invented for the test, as in the demo.
+ * (from memory); noise levels are invented for the test, as in the demo.
  */
 import { analyseStudy } from '../../src/analysis/analyse-study.js';
 import type { StudyResults } from '../../src/results/types.js';
 import type { Random } from '../../src/stats/random.js';
-import type { AtpaseRateRow, ForceRow, Study, TurnoverRow, Variant, VelocityRow } from '../../src/study/types.js';
+import type { Study, Variant } from '../../src/study/types.js';
+import type { AtpaseRateRow } from '../../src/assays/atpase/inputs.js';
+import type { ForceRow } from '../../src/assays/force/inputs.js';
+import type { TurnoverRow } from '../../src/assays/turnover/inputs.js';
+import type { VelocityRow } from '../../src/assays/motility/inputs.js';
 
 /** WT truth (the demo's, src/demo/scenario.ts; slow fraction 0.35 as in the design brief). */
 export const WT = { kcat: 5, km: 45, basal: 0.03, velocity: 0.8, pCa50: 5.8, nH: 3, fmax: 30, passive: 1.5, kFast: 0.03, kSlow: 0.0034, slowFraction: 0.35 };

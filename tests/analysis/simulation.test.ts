@@ -1,5 +1,5 @@
 /**
- * Seeded simulation suite (DESIGN.md §5): studies with known truth go through the unit fits, the
+ * Seeded simulation suite: studies with known truth go through the unit fits, the
  * comparison with paired WT and the calls (tests/analysis/simulated-studies.ts). Each scenario prints
  * its figures. The bounds are the design's requirements, not a published source:
  * - 95% intervals cover the true effect 93–97% of the time in every scenario;

@@ -1,11 +1,12 @@
 /**
  * Checks that need the fitted units: plausibility of WT means and preparations against the trade's
  * typical ranges (src/defaults.ts PLAUSIBLE: kcat 4–7 s⁻¹, velocity 0.7–1.0 µm/s, Fmax 20–40 kPa,
- * pCa50 5.5–6.0, from memory, REFERENCES.md §6 [M]; turnover rates 0.030 and 0.0034 s⁻¹, Sarkar et
- * al. 2020, REFERENCES.md §6 [V]); one preparation label in two batches; too few known controls.
+ * pCa50 5.5–6.0, typical WT values from memory; turnover rates 0.030 and 0.0034 s⁻¹, Sarkar et
+ * al., Sci Adv 2020); one preparation label in two batches; too few known controls.
  * Unit values are constructed; the expected numbers are computed by hand from them (a value read in
  * 1/min is 1/60 of the same number in 1/s: SI Brochure 2019, Table 8). The control counts are checked
- * against the closed forms of REFERENCES.md §4 [C]: with perfect separation, OddsPath(PS3) =
+ * against closed forms computed from the formula of Brnich et al. 2020 (Genome Med 12:3) with the
+ * added pseudo-count pair: with perfect separation, OddsPath(PS3) =
  * nP(nB+1)/(nP+1) and OddsPath(BS3) = (nB+1)/(nB(nP+1)), supporting beyond 2.1 and below 0.48.
  */
 import { describe, expect, it } from 'vitest';
@@ -38,7 +39,7 @@ const file = (path: string, kind: InputFile['kind'], columns: ColumnUnit[]): Inp
 
 describe('plausible bounds', () => {
   it('are the typical range ÷/× 10 for a WT mean and ÷/× 40 for one preparation; pCa50 ∓ 1 and ∓ 1.5', () => {
-    // kcat typical 4–7 s⁻¹ (REFERENCES.md §6 [M]); spreads common practice, no source.
+    // kcat typical 4–7 s⁻¹ (from memory); spreads common practice, no source.
     expect(plausibleBounds('atpase.kcat', 'wildType')).toEqual([0.4, 70]);
     expect(plausibleBounds('atpase.kcat', 'preparation')).toEqual([0.1, 280]);
     expect(plausibleBounds('force.pCa50', 'wildType')).toEqual([4.5, 7]);
@@ -132,7 +133,7 @@ describe('one preparation label in two batches', () => {
 });
 
 describe('too few known controls', () => {
-  it('the best case of a perfect readout matches the closed forms of REFERENCES.md §4', () => {
+  it('the best case of a perfect readout matches the closed forms (computed from the formula of Brnich et al. 2020)', () => {
     // 2P+2B: PS3 2·3/3 = 2 (none), BS3 3/(2·3) = 0.5 (none). 2P+3B: 2·4/3 = 2.67, 4/(3·3) = 0.44.
     expect(bestCaseLevels(2, 2)).toEqual({ abnormal: 'none', normal: 'none' });
     expect(bestCaseLevels(2, 3)).toEqual({ abnormal: 'PS3 supporting', normal: 'BS3 supporting' });

@@ -1,4 +1,4 @@
-/** The archive's message catalogue: every message says what is wrong and how to fix it (STYLE.md habit 9). */
+/** The archive's message catalogue: every message says what is wrong and how to fix it (a habit of all our catalogues). */
 import { describe, expect, it } from 'vitest';
 import { ARCHIVE_MSG } from '../../src/archive/messages.js';
 
@@ -6,8 +6,8 @@ describe('ARCHIVE_MSG', () => {
   it('gives every message a stable code, one sentence of problem and one of fix', () => {
     const codes = new Set<string>();
     for (const [name, make] of Object.entries(ARCHIVE_MSG)) {
-      // Fill each parameter with a sample text (numbers are only written into the text); unknownField's second is a list of fields.
-      const args = name === 'unknownField' ? ['colour', ['title', 'lab']] : Array.from({ length: make.length }, (_, i) => `sample${i}`);
+      // Fill each parameter with a sample text (numbers are only written into the text); unknownField's and releaseUnknownStudy's second is a list.
+      const args = name === 'unknownField' || name === 'releaseUnknownStudy' ? ['colour', ['title', 'lab']] : Array.from({ length: make.length }, (_, i) => `sample${i}`);
       const m = (make as (...a: unknown[]) => { severity: string; code: string; message: string; fix: string })(...args);
       expect(m.code, name).toMatch(/^(archive|release)\.[a-z-]+$/);
       expect(['error', 'warning'], name).toContain(m.severity);

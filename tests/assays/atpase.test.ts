@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { kcatOverKmOf } from '../../src/assays/atpase.js';
+import { kcatOverKmOf } from '../../src/assays/atpase/module.js';
 import type { FitResult } from '../../src/numeric/types.js';
 
 describe('kcatOverKmOf (delta method)', () => {
   it('matches R nls refitted with the slope as a parameter (Puromycin, treated)', () => {
-    // R 4.2.2, datasets::Puromycin (treated; REFERENCES.md §2): nls(rate ~ Vm*conc/(K + conc)) gives
+    // R 4.2.2, datasets::Puromycin (treated; Bates & Watts 1988): nls(rate ~ Vm*conc/(K + conc)) gives
     // Vm 212.68372516594 (SE 6.947154216963), K 0.06412125365 (SE 0.008280946618), correlation 0.7650836753;
     // nls(rate ~ s*conc/(1 + conc/K)) gives s = Vm/K = 3316.893953 with SE 352.4424381. The delta method on the
     // first fit must give the second fit's SE (a reparametrisation at the same optimum); R's two fits stop about

@@ -1,12 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { ASSAY, FIT } from '../../src/defaults.js';
-import { analyseForceUnit, force, pCa50RelativeSe } from '../../src/assays/force.js';
+import { FORCE_SETTINGS as SETTINGS } from '../../src/assays/force/settings.js';
+import { FIT } from '../../src/defaults.js';
+import { analyseForceUnit, force, pCa50RelativeSe } from '../../src/assays/force/module.js';
 import { hillForcePca } from '../../src/numeric/models/hill-force-pca.js';
-import type { ForceRow } from '../../src/study/types.js';
+import type { ForceRow } from '../../src/assays/force/inputs.js';
 import { mean, sd } from '../../src/stats/descriptive.js';
 import { at, expectChartCompiles, makeStudy, normalSource } from './helpers.js';
 
-/** Invented "true" fibre (typical magnitudes, REFERENCES.md §6 [M]): passive 2 kPa, Fmax 30 kPa, pCa50 5.8, nH 3. */
+/** Invented "true" fibre (typical magnitudes, from memory): passive 2 kPa, Fmax 30 kPa, pCa50 5.8, nH 3. */
 const TRUTH = [2, 30, 5.8, 3];
 const PCA = [9.0, 6.5, 6.2, 6.0, 5.9, 5.8, 5.7, 5.6, 5.4, 5.0, 4.5];
 
@@ -23,9 +24,9 @@ function fibre(variant: string, unit: string, batch: string, truth: number[], pC
 
 describe('force: normalised force and curve', () => {
   it('puts the 10%, 50% and 90% points where the Hill check values say', () => {
-    // REFERENCES.md §6 [C]: F(pCa50) is half-maximal; 10% and 90% at pCa50 ± log10(9)/nH (nH = 3: ±0.3181).
+    // Computed from the Hill equation [C]: F(pCa50) is half-maximal; 10% and 90% at pCa50 ± log10(9)/nH (nH = 3: ±0.3181).
     const pCas = [...PCA, 5.8 + 0.3181, 5.8 - 0.3181];
-    const r = analyseForceUnit(fibre('wt', 'f1', 'b1', TRUTH, pCas), ASSAY.forceMinPoints);
+    const r = analyseForceUnit(fibre('wt', 'f1', 'b1', TRUTH, pCas), SETTINGS.forceMinPoints);
     expect(r.fit!.converged).toBe(true);
     const norm = (pCa: number) => r.plot.points.find((p) => p.pCa === pCa)!.normForce as number;
     expect(norm(5.8)).toBeCloseTo(0.5, 6);
@@ -56,7 +57,7 @@ describe('force: recovery of known truth from seeded noisy fibres', () => {
     const noiseSd = 0.6; // kPa, invented
     const pCas = [...PCA, ...PCA]; // duplicate readings per pCa (technical replicates)
     const fits = Array.from({ length: 40 }, (_, i) =>
-      analyseForceUnit(fibre('wt', `f${i}`, 'b1', TRUTH, pCas, () => normal(0, noiseSd)), ASSAY.forceMinPoints),
+      analyseForceUnit(fibre('wt', `f${i}`, 'b1', TRUTH, pCas, () => normal(0, noiseSd)), SETTINGS.forceMinPoints),
     );
     expect(fits.every((f) => f.fit!.converged)).toBe(true);
     const names = ['passive', 'fmax', 'pCa50', 'nH'];
@@ -80,21 +81,21 @@ describe('force: flags', () => {
   it('flags pCa50 outside the measured range', () => {
     // Noiseless, measured only on the relaxed side of pCa50 = 5.8 (nH 1.5, so the curve is still informative).
     const truth = [1, 25, 5.8, 1.5];
-    const r = analyseForceUnit(fibre('wt', 'f1', 'b1', truth, [5.9, 6.0, 6.1, 6.2, 6.4, 6.6, 7.0, 8.0]), ASSAY.forceMinPoints);
+    const r = analyseForceUnit(fibre('wt', 'f1', 'b1', truth, [5.9, 6.0, 6.1, 6.2, 6.4, 6.6, 7.0, 8.0]), SETTINGS.forceMinPoints);
     expect(r.fit!.converged).toBe(true);
     expect(r.metrics.pCa50).toBeCloseTo(5.8, 4);
     expect(r.flags.map((f) => f.code)).toContain('pca50-out-of-range');
   });
 
   it('flags too few pCa points', () => {
-    const r = analyseForceUnit(fibre('wt', 'f1', 'b1', TRUTH, [9, 6.2, 5.8, 5.4, 4.5]), ASSAY.forceMinPoints);
+    const r = analyseForceUnit(fibre('wt', 'f1', 'b1', TRUTH, [9, 6.2, 5.8, 5.4, 4.5]), SETTINGS.forceMinPoints);
     expect(r.flags.map((f) => f.code)).toContain('too-few-points');
   });
 
   it('reports no values for a fit that does not converge, and flags it', () => {
     // A flat record (no calcium response): Fmax → 0 leaves pCa50 and nH undetermined.
     const rows = PCA.map((pCa, i) => ({ variant: 'wt', unit: 'f1', batch: 'b1', pCa, tensionKPa: 3, at: at('force.csv', i + 2) }));
-    const r = analyseForceUnit(rows, ASSAY.forceMinPoints);
+    const r = analyseForceUnit(rows, SETTINGS.forceMinPoints);
     expect(r.fit!.converged).toBe(false);
     expect(r.metrics).toEqual({ fmax: null, pCa50: null, nH: null, passive: null });
     expect(r.flags.map((f) => f.code)).toContain('not-converged');
@@ -107,7 +108,7 @@ describe('force: flags', () => {
     // and at this noise at least one fibre must be flagged.
     let flagged = 0;
     for (let i = 0; i < 12; i++) {
-      const r = analyseForceUnit(fibre('wt', `f${i}`, 'b1', TRUTH, [9, 6.2, 6.0, 5.8, 5.6, 5.4, 4.5], () => normal(0, 8)), ASSAY.forceMinPoints);
+      const r = analyseForceUnit(fibre('wt', `f${i}`, 'b1', TRUTH, [9, 6.2, 6.0, 5.8, 5.6, 5.4, 4.5], () => normal(0, 8)), SETTINGS.forceMinPoints);
       if (!r.fit!.converged) {
         expect(r.flags.map((f) => f.code)).toContain('not-converged');
         continue;
@@ -142,7 +143,7 @@ describe('force module', () => {
 
   it('states thresholds from src/defaults.ts in the methods', () => {
     const text = force.methods.join(' ');
-    expect(text).toContain(`${ASSAY.forceMinPoints} distinct pCa`);
+    expect(text).toContain(`${SETTINGS.forceMinPoints} distinct pCa`);
     expect(text).toContain(`${FIT.maxRelativeSe * 100}%`);
   });
 });

@@ -1,6 +1,6 @@
 /**
  * groupUnits (src/assays/assay-common.ts): one group per (variant, unit, batch), in order of
- * first appearance, rows in input order, source line ranges per file. Constructed rows
+ * first appearance, rows in input order, source as runs of consecutive lines per file. Constructed rows
  * (common practice, no source).
  */
 import { describe, expect, it } from 'vitest';
@@ -28,6 +28,11 @@ describe('groupUnits', () => {
     expect(groups[0].source).toEqual([
       { file: 'a.csv', line: 2, lineEnd: 3 },
       { file: 'b.csv', line: 9 },
+    ]);
+    // Lines 4 and 7 are not contiguous: two runs, so the unit counts 2 rows, not 4.
+    expect(groups[1].source).toEqual([
+      { file: 'a.csv', line: 4 },
+      { file: 'a.csv', line: 7 },
     ]);
   });
 

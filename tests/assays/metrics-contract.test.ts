@@ -1,17 +1,17 @@
 import { describe, expect, it } from 'vitest';
-import { BANDS } from '../../src/defaults.js';
-import { force } from '../../src/assays/force.js';
-import { motility } from '../../src/assays/motility.js';
-import { turnover } from '../../src/assays/turnover.js';
+import { BANDS } from '../../src/assays/assembled.js';
+import { force } from '../../src/assays/force/module.js';
+import { motility } from '../../src/assays/motility/module.js';
+import { turnover } from '../../src/assays/turnover/module.js';
 
-// The metric keys the brief and src/defaults.ts (BANDS) fix for these assays (common practice, no source).
+// The metric keys the brief and the assays' metrics.ts (their bands) fix for these assays (common practice, no source).
 const EXPECTED: Record<string, string[]> = {
   motility: ['velocity', 'fractionImmobile'],
   force: ['fmax', 'pCa50', 'nH', 'passive'],
   turnover: ['slowFraction', 'kFast', 'kSlow'],
 };
 
-describe('assay modules agree with the metric keys of src/defaults.ts', () => {
+describe('assay modules agree with the metric keys of their bands', () => {
   for (const mod of [motility, force, turnover]) {
     it(`${mod.id}: every BANDS key of the assay is a declared metric, and every primary metric has a band`, () => {
       const ids = mod.metrics.map((m) => m.id);

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { ASSAY } from '../../src/defaults.js';
-import { motility, motilitySettings, summariseFilaments } from '../../src/assays/motility.js';
-import { trackVelocity, tracksToFilaments } from '../../src/assays/motility-tracks.js';
-import type { TrackRow, VelocityRow } from '../../src/study/types.js';
+import { MOTILITY_SETTINGS as SETTINGS } from '../../src/assays/motility/settings.js';
+import { motility, motilitySettings, summariseFilaments } from '../../src/assays/motility/module.js';
+import { trackVelocity, tracksToFilaments } from '../../src/assays/motility/tracks.js';
+import type { TrackRow, VelocityRow } from '../../src/assays/motility/inputs.js';
 import { at, expectChartCompiles, makeStudy, mulberry32, normalSource } from './helpers.js';
 
 const EVERY_FRAME = { strideS: 0, immobileUmS: 0.05 };
@@ -153,9 +153,9 @@ describe('motility.analyse from velocity rows', () => {
 
   it('reads defaults from src/defaults.ts', () => {
     const s = motilitySettings({});
-    expect(s.immobileUmS).toBe(ASSAY.motilityImmobileUmS);
-    expect(s.minFrames).toBe(ASSAY.motilityMinFrames);
-    expect(s.minFilaments).toBe(ASSAY.motilityMinFilaments);
+    expect(s.immobileUmS).toBe(SETTINGS.motilityImmobileUmS);
+    expect(s.minFrames).toBe(SETTINGS.motilityMinFrames);
+    expect(s.minFilaments).toBe(SETTINGS.motilityMinFilaments);
   });
 });
 
@@ -222,13 +222,13 @@ describe('motility.analyse from tracks (recovery of known truth)', () => {
   });
 
   it('leaves out tracks shorter than the minimum frames, with a flag', () => {
-    const long = simulateTracks(7, 'wt', 'p1', 0.8, 3, 0, ASSAY.motilityMinFrames).rows;
-    const short = simulateTracks(8, 'wt', 'p1', 0.8, 2, 0, ASSAY.motilityMinFrames - 1).rows.map((r) => ({ ...r, filament: `s${r.filament}` }));
+    const long = simulateTracks(7, 'wt', 'p1', 0.8, 3, 0, SETTINGS.motilityMinFrames).rows;
+    const short = simulateTracks(8, 'wt', 'p1', 0.8, 2, 0, SETTINGS.motilityMinFrames - 1).rows.map((r) => ({ ...r, filament: `s${r.filament}` }));
     const [u] = motility.analyse(makeStudy({ 'motility-tracks': [...long, ...short] }));
     expect(u.nTechnical).toBe(3);
     const flag = u.flags.find((f) => f.code === 'motility-short-tracks');
     expect(flag?.message).toContain('2 track(s)');
-    expect(tracksToFilaments(short, ASSAY.motilityMinFrames, { strideS: ASSAY.motilityStrideS, immobileUmS: ASSAY.motilityImmobileUmS }).shortTracks).toBe(2);
+    expect(tracksToFilaments(short, SETTINGS.motilityMinFrames, { strideS: SETTINGS.motilityStrideS, immobileUmS: SETTINGS.motilityImmobileUmS }).shortTracks).toBe(2);
   });
 
   it('uses tracks and says so when a unit also has velocity rows', () => {
@@ -261,8 +261,8 @@ describe('motility chart and methods', () => {
 
   it('states thresholds from src/defaults.ts in the methods', () => {
     const text = motility.methods.join(' ');
-    expect(text).toContain(`${ASSAY.motilityImmobileUmS} µm/s`);
-    expect(text).toContain(`${ASSAY.motilityMinFrames} frames`);
-    expect(text).toContain(`${ASSAY.motilityMinFilaments}`);
+    expect(text).toContain(`${SETTINGS.motilityImmobileUmS} µm/s`);
+    expect(text).toContain(`${SETTINGS.motilityMinFrames} frames`);
+    expect(text).toContain(`${SETTINGS.motilityMinFilaments}`);
   });
 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { ASSAY } from '../../src/defaults.js';
-import { a340SlopeToTurnoverUMS, nadhMethods, nadhToRates, wellInitialRate } from '../../src/assays/nadh.js';
-import type { NadhRow } from '../../src/study/types.js';
+import { ATPASE_SETTINGS as SETTINGS } from '../../src/assays/atpase/settings.js';
+import { a340SlopeToTurnoverUMS, nadhMethods, nadhToRates, wellInitialRate } from '../../src/assays/atpase/nadh.js';
+import type { NadhRow } from '../../src/assays/atpase/inputs.js';
 import { at, normalSource } from './helpers.js';
 
 let line = 2;
@@ -29,10 +29,10 @@ function well(
 }
 
 describe('A340 slope → ATP turnover', () => {
-  it('matches the REFERENCES.md §6 check value', () => {
-    // REFERENCES.md §6 [C]: ΔA340 = −0.010 per min over a 1 cm path → 0.026795 µM/s
+  it('matches the ε340 check value (Horecker & Kornberg 1948, computed)', () => {
+    // Computed with ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948) [C]: ΔA340 = −0.010 per min over a 1 cm path → 0.026795 µM/s
     // (computed from Horecker & Kornberg 1948 inputs: 0.010/60 s⁻¹ ÷ 6220 M⁻¹cm⁻¹ × 1e6).
-    expect(a340SlopeToTurnoverUMS(-0.01 / 60, 1, ASSAY.nadhEpsilon340)).toBeCloseTo(0.026795, 6);
+    expect(a340SlopeToTurnoverUMS(-0.01 / 60, 1, SETTINGS.nadhEpsilon340)).toBeCloseTo(0.026795, 6);
     // Half the path length doubles the turnover (Beer–Lambert; computed from the same inputs): 0.053591 µM/s.
     expect(a340SlopeToTurnoverUMS(-0.01 / 60, 0.5, 6220)).toBeCloseTo(0.0535906, 6);
   });
@@ -45,7 +45,7 @@ describe('wellInitialRate', () => {
     const r = wellInitialRate(rows, 300, 6220)!;
     expect(r.readings).toBe(11); // t = 0, 30, …, 300 (hand-counted)
     expect(r.slopePerS).toBeCloseTo(-0.01 / 60, 12);
-    expect(r.turnoverUMS).toBeCloseTo(0.026795, 6); // REFERENCES.md §6 [C]
+    expect(r.turnoverUMS).toBeCloseTo(0.026795, 6); // computed with ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948) [C]
     // Over the whole 600 s the bend lowers the slope: least squares no longer gives the initial rate.
     expect(Math.abs(wellInitialRate(rows, 600, 6220)!.turnoverUMS - 0.026795)).toBeGreaterThan(0.003);
   });
@@ -68,7 +68,7 @@ describe('nadhToRates', () => {
     const { rates, flags } = nadhToRates(rows, {});
     expect(flags).toEqual([]);
     expect(rates).toHaveLength(1);
-    // Computed from REFERENCES.md §6 inputs: sample 0.026795 µM/s, background 0.0026795 µM/s,
+    // Computed with ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948): sample 0.026795 µM/s, background 0.0026795 µM/s,
     // (0.026795 − 0.0026795) / 0.01 µM = 2.41155 s⁻¹.
     expect(rates[0].ratePerS).toBeCloseTo(2.41155, 4);
     expect(rates[0]).toMatchObject({ variant: 'v1', unit: 'p1', batch: 'b1', actinUM: 20, replicate: 'A1' });
@@ -81,14 +81,14 @@ describe('nadhToRates', () => {
       ...well({ well: 'H1', slopePerMin: -0.001, wellType: 'actin-only', variant: '', unit: '', headsUM: 0 }),
       ...well({ well: 'H2', slopePerMin: -0.003, wellType: 'actin-only', variant: '', unit: '', headsUM: 0 }),
     ];
-    // Computed from REFERENCES.md §6 inputs: mean background −0.002/min → 0.005359 µM/s;
+    // Computed with ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948): mean background −0.002/min → 0.005359 µM/s;
     // (0.026795 − 0.005359)/0.01 = 2.14362 s⁻¹.
     expect(nadhToRates(rows).rates[0].ratePerS).toBeCloseTo(2.14362, 4);
   });
 
   it('keeps an unsubtracted rate with a warning when no background matches', () => {
     const { rates, flags } = nadhToRates(well({ well: 'A1', slopePerMin: -0.01 }));
-    // REFERENCES.md §6 [C]: 0.026795 µM/s ÷ 0.01 µM = 2.6795 s⁻¹
+    // computed with ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948) [C]: 0.026795 µM/s ÷ 0.01 µM = 2.6795 s⁻¹
     expect(rates[0].ratePerS).toBeCloseTo(2.6795, 4);
     expect(flags).toHaveLength(1);
     expect(flags[0]).toMatchObject({ code: 'nadh-no-background', severity: 'warning' });
@@ -106,7 +106,7 @@ describe('nadhToRates', () => {
 
   it('honours a nadhWindowS override from settings', () => {
     const rows = well({ well: 'A1', slopePerMin: -0.01, afterSlopePerMin: 0, breakS: 120 });
-    // Window 120 s sees only the −0.010/min part → 2.6795 s⁻¹ (REFERENCES.md §6 [C], ÷ 0.01 µM).
+    // Window 120 s sees only the −0.010/min part → 2.6795 s⁻¹ (computed with ε340 = 6220 M⁻¹cm⁻¹, ÷ 0.01 µM).
     expect(nadhToRates(rows, { nadhWindowS: 120 }).rates[0].ratePerS).toBeCloseTo(2.6795, 4);
     expect(nadhToRates(rows, {}).rates[0].ratePerS).toBeLessThan(2.4);
   });
@@ -115,7 +115,7 @@ describe('nadhToRates', () => {
     const noise = normalSource(42);
     const truth = [0.5, 1, 2, 4]; // s⁻¹ per head, invented
     const heads = 0.05;
-    const eps = ASSAY.nadhEpsilon340;
+    const eps = SETTINGS.nadhEpsilon340;
     const rows: NadhRow[] = [];
     truth.forEach((k, i) => {
       // rate per head k → turnover k·heads µM/s → dA340/dt = −k·heads·1e-6·ε·path per s
@@ -134,7 +134,7 @@ describe('nadhToRates', () => {
 
   it('states the conversion in its methods sentences', () => {
     const text = nadhMethods().join(' ');
-    expect(text).toContain(`${ASSAY.nadhWindowS} s`);
-    expect(text).toContain(`${ASSAY.nadhEpsilon340}`);
+    expect(text).toContain(`${SETTINGS.nadhWindowS} s`);
+    expect(text).toContain(`${SETTINGS.nadhEpsilon340}`);
   });
 });

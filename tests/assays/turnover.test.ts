@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { ASSAY, FIT } from '../../src/defaults.js';
-import { fitTurnoverTrace, resolveOnePhase, turnover, turnoverSettings, analyseTurnoverUnit } from '../../src/assays/turnover.js';
-import type { TurnoverRow } from '../../src/study/types.js';
+import { TURNOVER_SETTINGS } from '../../src/assays/turnover/settings.js';
+import { FIT } from '../../src/defaults.js';
+import { fitTurnoverTrace, resolveOnePhase, turnover, turnoverSettings, analyseTurnoverUnit } from '../../src/assays/turnover/module.js';
+import type { TurnoverRow } from '../../src/assays/turnover/inputs.js';
 import { mean } from '../../src/stats/descriptive.js';
 import { at, expectChartCompiles, makeStudy, normalSource } from './helpers.js';
 
@@ -21,8 +22,8 @@ function traceRows(variant: string, unit: string, batch: string, trace: string, 
 }
 
 describe('fitTurnoverTrace', () => {
-  it('recovers the REFERENCES.md §6 double exponential exactly from noiseless data', () => {
-    // REFERENCES.md §6 [C]: amplitude 1, slow fraction 0.30, k_fast 0.030 s⁻¹, k_slow 0.0034 s⁻¹, offset 0 →
+  it('recovers the double-exponential check curve exactly from noiseless data', () => {
+    // Computed from the model [C]: amplitude 1, slow fraction 0.30, k_fast 0.030 s⁻¹, k_slow 0.0034 s⁻¹, offset 0 →
     // 1.0000, 0.36035, 0.10826, 0.014066 at t = 0, 60, 300, 900 s. Here scaled by 500 with offset 120 (invented):
     // normalised fluorescence must reproduce the published check values.
     const t = [...new Set([...times(1800, 10), 60, 300, 900])].sort((a, b) => a - b);
@@ -58,13 +59,13 @@ describe('fitTurnoverTrace', () => {
   });
 
   it('falls back when the rates are closer than turnoverMinRateRatio, even if the F test favours two phases', () => {
-    // Rates 0.02 and 0.008 s⁻¹ (ratio 2.5 < ASSAY.turnoverMinRateRatio = 3), nearly noiseless: the F test alone would keep two.
+    // Rates 0.02 and 0.008 s⁻¹ (ratio 2.5 < TURNOVER_SETTINGS.turnoverMinRateRatio = 3), nearly noiseless: the F test alone would keep two.
     const normal = normalSource(2718);
     const t = times(1500, 5);
     const y = t.map((s) => decay(s, 0.5, 0.02, 0.008, 100, 5) + normal(0, 0.01));
     const r = fitTurnoverTrace(t, y, SETTINGS);
     expect(r.double.converged).toBe(true);
-    expect(param(r.double, 'kFast') / param(r.double, 'kSlow')).toBeLessThan(ASSAY.turnoverMinRateRatio);
+    expect(param(r.double, 'kFast') / param(r.double, 'kSlow')).toBeLessThan(TURNOVER_SETTINGS.turnoverMinRateRatio);
     expect(r.model).toBe('single');
     expect(r.reason).toContain('rates differ by a factor');
     // and with the ratio rule relaxed to 2, the same trace keeps both phases and recovers the truth
@@ -84,7 +85,7 @@ describe('fitTurnoverTrace', () => {
   });
 
   it('flags a window too short for the slow phase', () => {
-    // 1/kSlow = 294 s; the trace ends at 240 s (< ASSAY.turnoverMinSlowTimeConstants = 1 time constant).
+    // 1/kSlow = 294 s; the trace ends at 240 s (< TURNOVER_SETTINGS.turnoverMinSlowTimeConstants = 1 time constant).
     const normal = normalSource(5);
     const t = times(240, 1);
     const y = t.map((s) => decay(s, 0.3, 0.05, 0.0034, 100, 0) + normal(0, 0.005));
@@ -103,7 +104,7 @@ function param(fit: { parameters: { name: string; estimate: number }[] }, name: 
 
 describe('turnover: recovery of known truth from seeded noisy traces', () => {
   it('recovers slow fraction and rates per unit as the mean over traces', () => {
-    // Known truth (WT-like, REFERENCES.md §6: kfast 0.030, kslow 0.0034 s⁻¹; slow fraction 0.30 invented).
+    // Known truth (WT-like, Sarkar et al. 2020: kfast 0.030, kslow 0.0034 s⁻¹; slow fraction 0.30 invented).
     const normal = normalSource(8080);
     const t = times(1800, 4);
     const rows: TurnoverRow[] = [];
@@ -155,7 +156,7 @@ describe('turnover: recovery of known truth from seeded noisy traces', () => {
 });
 
 describe('turnover: one-phase traces placed against the batch’s WT rates', () => {
-  const REFERENCE = { kFast: 0.03, kSlow: 0.0034, source: 'test reference (REFERENCES.md §6 WT rates)' };
+  const REFERENCE = { kFast: 0.03, kSlow: 0.0034, source: 'test reference (Sarkar et al. 2020 WT rates)' };
 
   it('gives a trace with no slow phase a slow fraction near 0, with its standard error', () => {
     // Known truth: one fast phase at the WT fast rate, no slow phase.
@@ -227,9 +228,9 @@ describe('turnover chart and methods', () => {
 
   it('states the selection rule and thresholds from src/defaults.ts', () => {
     const text = turnover.methods.join(' ');
-    expect(text).toContain(`p < ${ASSAY.turnoverFTestAlpha}`);
-    expect(text).toContain(`${ASSAY.turnoverMinRateRatio} times`);
-    expect(text).toContain(`${ASSAY.turnoverMinSlowTimeConstants} slow-phase`);
+    expect(text).toContain(`p < ${TURNOVER_SETTINGS.turnoverFTestAlpha}`);
+    expect(text).toContain(`${TURNOVER_SETTINGS.turnoverMinRateRatio} times`);
+    expect(text).toContain(`${TURNOVER_SETTINGS.turnoverMinSlowTimeConstants} slow-phase`);
     expect(text).toContain(`${FIT.maxRelativeSe * 100}%`);
   });
 });

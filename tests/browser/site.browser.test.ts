@@ -105,8 +105,9 @@ describe.skipIf(!available)(`site in Chromium${available ? '' : ' (skipped: /usr
     expect(await visibleRows(page).locator('th a').allTextContents()).toEqual(['R505W', 'D870N']);
     await page.selectOption('#f-flag', '');
     await page.selectOption('#f-assay', 'motility');
-    expect(await visibleRows(page).count()).toBe(5);
-    expect(await page.locator('#filter-status').textContent()).toBe('Showing 5 of 7 variants.');
+    // WT (the reference, measured in every assay) and the 5 variants measured in motility.
+    expect(await visibleRows(page).count()).toBe(6);
+    expect(await page.locator('#filter-status').textContent()).toBe('Showing 6 of 7 variants.');
     await page.selectOption('#f-assay', '');
 
     const residue = page.getByRole('button', { name: /Residue/ });

@@ -59,7 +59,7 @@ describe('bandFromBenignControls: 95% prediction interval of benign effects', ()
     const d = bandFromBenignControls([0.02, 0.05, 0.08, 0.03, 0.07], 'difference', { atLeast: [-0.1, 0.1] });
     expect(d.band![0]).toBe(-0.1);
     expect(d.band![1]).toBeCloseTo(0.127542, 5);
-    if (d.band) expect(d.rule).toContain('the default band -0.1 to 0.1');
+    if (d.band) expect(d.rule).toContain('the default band −0.100 to 0.100');
   });
   it('fewer than three usable benign controls: null with the reason', () => {
     const d = bandFromBenignControls([0.9, 1.1], 'ratio');

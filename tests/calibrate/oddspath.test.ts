@@ -33,10 +33,10 @@ function table(pa: number, pn: number, ba: number, bn: number, notCounted = 0): 
 }
 
 describe('oddsPath formula', () => {
-  it('is [P2(1 − P1)] / [(1 − P2)P1] (Brnich et al. 2020, REFERENCES.md §4)', () => {
+  it('is [P2(1 − P1)] / [(1 − P2)P1] (Brnich et al. 2020)', () => {
     // computed from Brnich et al. 2020 formula inputs: P1 = 0.5, P2 = 0.9 → 0.9·0.5/(0.1·0.5) = 9
     expect(oddsPath(0.5, 0.9)).toBeCloseTo(9, 12);
-    // computed from REFERENCES.md §4 inputs: 5P+6B with the added pair, P1 = 6/13, P2 = 5/6 → 5.8333
+    // computed with the formula of Brnich et al. 2020: 5P+6B with the added pair, P1 = 6/13, P2 = 5/6 → 5.8333
     expect(oddsPath(6 / 13, 5 / 6)).toBeCloseTo(35 / 6, 12);
     // P2 = P1 means the readout carries no information: OddsPath 1 (follows from the formula)
     expect(oddsPath(0.3, 0.3)).toBeCloseTo(1, 12);
@@ -50,7 +50,7 @@ describe('oddsPath formula', () => {
   });
 });
 
-describe('evidenceLevel: Table 3 of Brnich et al. 2020, strict inequalities (REFERENCES.md §4)', () => {
+describe('evidenceLevel: Table 3 of Brnich et al. 2020, strict inequalities', () => {
   const rows: Array<[number, 'abnormal' | 'normal', string]> = [
     // Brnich et al. 2020 Table 3: > 350 very strong; exactly 350 is strong
     [350.0001, 'abnormal', 'PS3 very strong'],
@@ -95,15 +95,15 @@ describe('evidenceLevel: Table 3 of Brnich et al. 2020, strict inequalities (REF
   });
 });
 
-describe('calibrate: closed-form check values with perfect separation (REFERENCES.md §4, [C])', () => {
+describe('calibrate: closed-form check values with perfect separation (formula of Brnich et al. 2020, [C])', () => {
   // computed from Brnich et al. 2020 inputs, P1 counting the added pair:
   // OddsPath(PS3) = nP·(nB + 1)/(nP + 1), OddsPath(BS3) = (nB + 1)/(nB·(nP + 1))
   const rows: Array<{ nP: number; nB: number; ps3: number; bs3: number; levelAbnormal: string; levelNormal: string }> = [
-    // 5P+6B = 11 controls, above the ≤ 10 gate: 5.8333 → PS3 moderate, 0.1944 → BS3 moderate (REFERENCES.md §4)
+    // 5P+6B = 11 controls, above the ≤ 10 gate: 5.8333 → PS3 moderate, 0.1944 → BS3 moderate (formula of Brnich et al. 2020)
     { nP: 5, nB: 6, ps3: 5.8333, bs3: 0.1944, levelAbnormal: 'PS3 moderate', levelNormal: 'BS3 moderate' },
-    // 3P+3B = 6 controls: 3.0 and 0.3333, both supporting; the gate applies but does not lower (REFERENCES.md §4)
+    // 3P+3B = 6 controls: 3.0 and 0.3333, both supporting; the gate applies but does not lower (formula of Brnich et al. 2020)
     { nP: 3, nB: 3, ps3: 3.0, bs3: 0.3333, levelAbnormal: 'PS3 supporting', levelNormal: 'BS3 supporting' },
-    // 19P+19B: 19.0 → PS3 strong, 0.0526 → BS3 strong (REFERENCES.md §4)
+    // 19P+19B: 19.0 → PS3 strong, 0.0526 → BS3 strong (formula of Brnich et al. 2020)
     { nP: 19, nB: 19, ps3: 19.0, bs3: 0.0526, levelAbnormal: 'PS3 strong', levelNormal: 'BS3 strong' },
   ];
   it.each(rows)('$nP P + $nB B → $ps3 / $bs3', ({ nP, nB, ps3, bs3, levelAbnormal, levelNormal }) => {
@@ -118,8 +118,8 @@ describe('calibrate: closed-form check values with perfect separation (REFERENCE
   });
   it('the other pseudo-count reading agrees with perfect separation (both add the pair when a cell is zero)', () => {
     const cal = calibrate('atpase', perfect(5, 6), { pseudoCount: 'when-any-cell-zero' });
-    expect(cal.oddsPathAbnormal).toBeCloseTo(5.8333, 4); // REFERENCES.md §4
-    expect(cal.oddsPathNormal).toBeCloseTo(0.1944, 4); // REFERENCES.md §4
+    expect(cal.oddsPathAbnormal).toBeCloseTo(5.8333, 4); // formula of Brnich et al. 2020
+    expect(cal.oddsPathNormal).toBeCloseTo(0.1944, 4); // formula of Brnich et al. 2020
   });
 });
 
@@ -184,8 +184,8 @@ describe('calibrate: the 2×2 table and the pseudo-count rule', () => {
 });
 
 describe('calibrate: count gate and lab cap', () => {
-  it(`gate: with ≤ ${CALIBRATION.maxControlsForSupportingOnly} controls at most supporting (Brnich et al. 2020 abstract, REFERENCES.md §4)`, () => {
-    // 5P+5B = 10: PS3 = 5·6/6 = 5.0 (moderate by arithmetic), BS3 = 6/(5·6) = 0.2 (moderate) — computed from REFERENCES.md §4 closed form
+  it(`gate: with ≤ ${CALIBRATION.maxControlsForSupportingOnly} controls at most supporting (Brnich et al. 2020 abstract)`, () => {
+    // 5P+5B = 10: PS3 = 5·6/6 = 5.0 (moderate by arithmetic), BS3 = 6/(5·6) = 0.2 (moderate) — computed with the closed form of Brnich et al. 2020
     const cal = calibrate('atpase', perfect(5, 5));
     expect(cal.oddsPathAbnormal).toBeCloseTo(5.0, 10);
     expect(cal.oddsPathNormal).toBeCloseTo(0.2, 10);
@@ -200,7 +200,7 @@ describe('calibrate: count gate and lab cap', () => {
     const cal = calibrate('atpase', [...perfect(5, 6), { id: 'x', knownClass: 'pathogenic', readout: null }]);
     expect(cal.totalControls).toBe(11);
     expect(cal.levelAbnormal).toBe('PS3 moderate');
-    // 4P+6B+1 indeterminate: 10 counted → gated; PS3 = 4·7/5 = 5.6 (REFERENCES.md §4 closed form) → supporting
+    // 4P+6B+1 indeterminate: 10 counted → gated; PS3 = 4·7/5 = 5.6 (closed form of Brnich et al. 2020) → supporting
     const gated = calibrate('atpase', [...perfect(4, 6), { id: 'x', knownClass: 'pathogenic', readout: null }]);
     expect(gated.totalControls).toBe(10);
     expect(gated.oddsPathAbnormal).toBeCloseTo(5.6, 10);
@@ -215,7 +215,7 @@ describe('calibrate: count gate and lab cap', () => {
     const capped = calibrate('force', perfect(19, 19), { cap: 'moderate' });
     expect(capped.levelAbnormal).toBe('PS3 moderate');
     expect(capped.levelNormal).toBe('BS3 moderate');
-    expect(capped.oddsPathAbnormal).toBeCloseTo(19.0, 4); // REFERENCES.md §4: the OddsPath itself is not capped
+    expect(capped.oddsPathAbnormal).toBeCloseTo(19.0, 4); // Brnich et al. 2020: the OddsPath itself is not capped
     expect(capped.notes.some((n) => n.includes('caps functional evidence for this gene at moderate'))).toBe(true);
     const loose = calibrate('force', perfect(19, 19), { cap: 'very strong' });
     expect(loose.levelAbnormal).toBe('PS3 strong');
@@ -235,7 +235,7 @@ describe('evidenceForReadout', () => {
     const ev = evidenceForReadout(cal, 'abnormal');
     expect(ev.level).toBe('PS3 moderate');
     expect(ev.sentence).toContain('at most PS3 moderate');
-    expect(ev.sentence).toContain('OddsPath 5.83'); // REFERENCES.md §4, 5.8333 to 3 significant digits
+    expect(ev.sentence).toContain('OddsPath 5.83'); // formula of Brnich et al. 2020: 5.8333 to 3 significant digits
     expect(ev.sentence).toContain('5 of 5 pathogenic controls and 0 of 6 benign controls read abnormal');
     expect(ev.sentence).toContain('maximum strength the calibration supports for this readout');
     expect(ev.sentence).toContain('never classifies');
@@ -244,7 +244,7 @@ describe('evidenceForReadout', () => {
   it('normal readout: the BS3 ceiling with counts', () => {
     const ev = evidenceForReadout(cal, 'normal');
     expect(ev.level).toBe('BS3 moderate');
-    expect(ev.sentence).toContain('OddsPath 0.194'); // REFERENCES.md §4, 0.1944
+    expect(ev.sentence).toContain('OddsPath 0.194'); // formula of Brnich et al. 2020: 0.1944
     expect(ev.sentence).toContain('6 of 6 benign controls and 0 of 5 pathogenic controls read normal');
   });
   it('null readout: none, with the reason', () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { controlChart, establishedFromValues, westgard, type ControlValue } from '../../src/calibrate/westgard.js';
 
-/** With mean 0 and SD 1 the values are their own z scores (REFERENCES.md §5 vectors are written this way). */
+/** With mean 0 and SD 1 the values are their own z scores (the check vectors are written this way). */
 const UNIT = { mean: 0, sd: 1 };
 
 /** One value per batch b0, b1, … in run order. */
@@ -13,19 +13,19 @@ function rulesAt(values: number[]): string[][] {
   return westgard(series(values), UNIT).points.map((p) => p.rules);
 }
 
-describe('westgard: REFERENCES.md §5 constructed check vectors [C]', () => {
-  it('[1.2, 1.5, 1.1, 1.3] → 4-1s (REFERENCES.md §5)', () => {
+describe('westgard: check vectors constructed from the rules of Westgard et al. 1981 [C]', () => {
+  it('[1.2, 1.5, 1.1, 1.3] → 4-1s (Westgard et al. 1981 rules)', () => {
     const r = westgard(series([1.2, 1.5, 1.1, 1.3]), UNIT);
     expect(r.points[3].rules).toEqual(['4-1s']);
     expect(r.points.slice(0, 3).every((p) => p.rules.length === 0)).toBe(true);
     expect(r.rejectedBatches).toEqual(['b3']);
   });
-  it('[1.2, 1.5, 0.9, 1.3] → not 4-1s (REFERENCES.md §5)', () => {
+  it('[1.2, 1.5, 0.9, 1.3] → not 4-1s (Westgard et al. 1981 rules)', () => {
     const r = westgard(series([1.2, 1.5, 0.9, 1.3]), UNIT);
     expect(r.points.flatMap((p) => p.rules)).toEqual([]);
     expect(r.rejectedBatches).toEqual([]);
   });
-  it('ten values in (0, 1) → 10-x; nine → not (REFERENCES.md §5)', () => {
+  it('ten values in (0, 1) → 10-x; nine → not (Westgard et al. 1981 rules)', () => {
     const ten = [0.1, 0.5, 0.9, 0.3, 0.7, 0.2, 0.8, 0.4, 0.6, 0.05];
     const r = westgard(series(ten), UNIT);
     expect(r.points[9].rules).toEqual(['10-x']);
@@ -33,7 +33,7 @@ describe('westgard: REFERENCES.md §5 constructed check vectors [C]', () => {
     expect(r.rejectedBatches).toEqual(['b9']);
     expect(westgard(series(ten.slice(0, 9)), UNIT).rejectedBatches).toEqual([]);
   });
-  it('a run with +2.1 and −2.2 → R-4s; the same pair in two runs → not R-4s (REFERENCES.md §5)', () => {
+  it('a run with +2.1 and −2.2 → R-4s; the same pair in two runs → not R-4s (Westgard et al. 1981 rules)', () => {
     const oneRun = westgard(
       [
         { batch: 'B1', value: 2.1 },
@@ -201,7 +201,7 @@ describe('controlChart', () => {
     const chart = controlChart('atpase', 'kcat', values, { mean: 5, sd: 0.2, source: 'WT preparations 2023–2024' });
     expect(chart.mean).toBe(5);
     expect(chart.sd).toBe(0.2);
-    expect(chart.baseline).toContain('declared by the lab (WT preparations 2023–2024)');
+    expect(chart.baseline).toContain('declared by the lab, from: WT preparations 2023–2024. The values');
     // z of 9.0 is (9 − 5)/0.2 = 20 → 1-3s; computed from the inputs
     expect(chart.points[4].rules).toContain('1-3s');
     expect(chart.rejectedBatches).toEqual(['B4']);

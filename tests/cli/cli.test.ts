@@ -68,7 +68,7 @@ describe('myofolio CLI', () => {
     expect(guide).not.toContain('`turnover`: Single turnover');
     const bad = await run('init', 'nope', '--assays', 'forse');
     expect(bad.code).toBe(2);
-    expect(bad.err).toContain("'forse' is not an input kind. Did you mean 'force'?");
+    expect(bad.err).toContain("'forse' is not an input kind or assay. Did you mean 'force'?");
     expect(existsSync(join(root, 'nope'))).toBe(false);
   });
 

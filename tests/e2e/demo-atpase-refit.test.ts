@@ -9,10 +9,12 @@
 import { describe, expect, it } from 'vitest';
 import path from 'node:path';
 import { analyseStudy } from '../../src/analysis/analyse-study.js';
-import { nadhToRates } from '../../src/assays/nadh.js';
+import { nadhToRates } from '../../src/assays/atpase/nadh.js';
 import { loadStudy } from '../../src/study/load.js';
 import { readStudyFolder } from '../../src/study/read-folder.js';
-import type { AtpaseRateRow } from '../../src/study/types.js';
+import type { AtpaseRateRow } from '../../src/assays/atpase/inputs.js';
+import { rowsOf } from '../../src/assays/assay-common.js';
+import { ATPASE_NADH, ATPASE_RATES } from '../../src/assays/atpase/inputs.js';
 
 function linearGivenKm(x: number[], y: number[], km: number) {
   let n = 0, sg = 0, sgg = 0, sy = 0, sgy = 0;
@@ -48,7 +50,7 @@ describe('demo ATPase fits against an independent refit', () => {
     expect(loaded.study).toBeDefined();
     const study = loaded.study!;
     const results = analyseStudy(study, { toolVersion: 'test', builtAt: '1970-01-01T00:00:00.000Z' });
-    const rows: AtpaseRateRow[] = [...(study.rows['atpase-rates'] ?? []), ...nadhToRates(study.rows['atpase-nadh'] ?? [], study.settings).rates];
+    const rows: AtpaseRateRow[] = [...(rowsOf(study, ATPASE_RATES)), ...nadhToRates(rowsOf(study, ATPASE_NADH), study.settings).rates];
     const units = results.units.filter((u) => u.assay === 'atpase');
     expect(units.length).toBeGreaterThan(50);
     let checked = 0;

@@ -1,8 +1,8 @@
 /**
  * Curve models: published fits and check points.
- * Sources: REFERENCES.md §2 (Puromycin, R datasets; Bates & Watts 1988), §6 (Hill and
- * double-exponential check points [C]); SciPy 1.17 least_squares for the basal variant
- * (computed from REFERENCES.md §2 inputs).
+ * Sources: R datasets::Puromycin (Bates & Watts 1988); Hill and
+ * double-exponential check points computed from the models [C]; SciPy 1.17 least_squares for the basal variant
+ * (computed from the Puromycin inputs).
  */
 import { describe, expect, it } from 'vitest';
 import { fitCurve } from '../../src/numeric/nls.js';
@@ -18,10 +18,10 @@ const conc = [0.02, 0.02, 0.06, 0.06, 0.11, 0.11, 0.22, 0.22, 0.56, 0.56, 1.1, 1
 const treated = [76, 47, 97, 107, 123, 139, 159, 152, 191, 201, 207, 200];
 const untreated = [67, 51, 84, 86, 98, 115, 131, 124, 144, 158, 160];
 
-describe('Michaelis–Menten on R datasets::Puromycin (REFERENCES.md §2)', () => {
-  // R's nls stops at ~6 significant digits (REFERENCES.md §2), so parameters are compared at 1e-5 relative;
+describe('Michaelis–Menten on R datasets::Puromycin (Bates & Watts 1988)', () => {
+  // R's nls stops at ~6 significant digits (from R's printed fit), so parameters are compared at 1e-5 relative;
   // the full-precision optimum is checked against SciPy 1.17 least_squares (xtol = ftol = gtol = 1e-15),
-  // computed from REFERENCES.md §2 inputs, agreeing to 1e-7 (both stop on RSS changes near 1e-15): treated Vm 212.683744, K 0.0641212824; untreated Vm 160.280047, K 0.0477081858.
+  // computed from the Puromycin inputs, agreeing to 1e-7 (both stop on RSS changes near 1e-15): treated Vm 212.683744, K 0.0641212824; untreated Vm 160.280047, K 0.0477081858.
   it.each([
     { label: 'treated [V]', x: conc, y: treated, vm: 212.68370711, k: 0.06412123, scipy: [212.683744, 0.0641212824], seVm: 6.947, seK: 0.008281, rss: 1195.449, sd: 10.93, corr: 0.7651 },
     { label: 'untreated [C]', x: conc.slice(0, 11), y: untreated, vm: 160.28013, k: 0.04770831, scipy: [160.280047, 0.0477081858], seVm: 6.480283, seK: 0.00778198, rss: 859.604294, sd: NaN, corr: NaN },
@@ -39,7 +39,7 @@ describe('Michaelis–Menten on R datasets::Puromycin (REFERENCES.md §2)', () =
     if (!Number.isNaN(corr)) expect(fit.correlation[0][1]).toBeCloseTo(corr, 4);
   });
 
-  it('with basal term, treated: SciPy least_squares (computed from REFERENCES.md §2 inputs)', () => {
+  it('with basal term, treated: SciPy least_squares (computed from the Puromycin inputs)', () => {
     // SciPy 1.17 optimize.least_squares (xtol = ftol = gtol = 1e-15), SE from s²(JᵀJ)⁻¹:
     // basal 31.7048746, kcat 189.964763, km 0.104666093, RSS 798.528708615, SE 12.7080765, 11.2455534, 0.02621902.
     const fit = fitCurve(michaelisMentenBasal, conc, treated);
@@ -86,7 +86,7 @@ describe('analytic gradients match finite differences', () => {
   ] as const)('%s', (_id, model, p, xs) => checkGradient(model, [...p], [...xs]));
 });
 
-describe('Hill force–pCa check points (REFERENCES.md §6 [C])', () => {
+describe('Hill force–pCa check points (computed from the model [C])', () => {
   const p = [2, 30, 5.8, 3];
   it('F(pCa50) = passive + Fmax/2', () => {
     expect(hillForcePca.f(5.8, p)).toBeCloseTo(2 + 15, 12);
@@ -104,7 +104,7 @@ describe('Hill force–pCa check points (REFERENCES.md §6 [C])', () => {
   });
 });
 
-describe('double exponential check points (REFERENCES.md §6 [C])', () => {
+describe('double exponential check points (computed from the model [C])', () => {
   // amplitude 1, slow fraction 0.30, k_fast 0.030 s⁻¹, k_slow 0.0034 s⁻¹, offset 0.
   it.each([
     [0, 1.0],

@@ -1,6 +1,6 @@
 /**
  * NIST StRD nonlinear regression datasets (itl.nist.gov/div898/strd/nls), as quoted in
- * ../shared/REFERENCES.md §1 [V]: data, both starts, certified values, certified SDs, RSS.
+ * NIST StRD [V]: data, both starts, certified values, certified SDs, RSS.
  */
 import type { CurveModel } from '../../src/numeric/types.js';
 
@@ -39,7 +39,7 @@ const boxbod = pairs('109 1; 149 2; 149 3; 191 5; 213 7; 224 10');
 const mgh09 = pairs('1.957000E-01 4; 1.947000E-01 2; 1.735000E-01 1; 1.600000E-01 0.5; 8.440000E-02 0.25; 6.270000E-02 0.167; 4.560000E-02 0.125; 3.420000E-02 0.1; 3.230000E-02 0.0833; 2.350000E-02 0.0714; 2.460000E-02 0.0625');
 const danwood = pairs('2.138 1.309; 3.421 1.471; 3.597 1.490; 4.340 1.565; 4.882 1.611; 5.660 1.680');
 
-export const MGH09_SPURIOUS_RSS = 1.02734e-3; // REFERENCES.md §1 [V]
+export const MGH09_SPURIOUS_RSS = 1.02734e-3; // NIST StRD [V]
 
 export const NIST_CASES: NistCase[] = [
   {

@@ -1,7 +1,7 @@
 /**
- * NIST StRD nonlinear regression: all six datasets of REFERENCES.md §1, both starts.
- * Expected values: NIST certified values [V] (via ../shared/REFERENCES.md §1).
- * Tolerances (REFERENCES.md §1): parameters 1e-6 relative, RSS 1e-9 relative, SE 1e-3 relative.
+ * NIST StRD nonlinear regression: all six datasets, both starts.
+ * Expected values: NIST certified values [V] (NIST StRD).
+ * Tolerances: parameters 1e-6 relative, RSS 1e-9 relative, SE 1e-3 relative.
  * A start may defeat the solver only if it then says "not converged"; a converged fit must
  * match the certified values.
  */
@@ -11,12 +11,12 @@ import { MGH09_SPURIOUS_RSS, NIST_CASES } from './nist-data.js';
 
 const relative = (got: number, want: number) => Math.abs(got - want) / Math.abs(want);
 
-/** Starts known to defeat this solver; it must then report not converged. BoxBOD start 1 is named in REFERENCES.md §1. */
+/** Starts known to defeat this solver; it must then report not converged. BoxBOD start 1 is one (NIST StRD, from memory). */
 const MAY_FAIL = new Set(['BoxBOD start 1']);
 
 const rows = NIST_CASES.flatMap((c) => c.starts.map((start, i) => ({ label: `${c.name} start ${i + 1}`, c, start })));
 
-describe('NIST StRD nonlinear regression (certified values, REFERENCES.md §1)', () => {
+describe('NIST StRD nonlinear regression (certified values)', () => {
   it.each(rows)('$label', ({ label, c, start }) => {
     const fit = fitCurve(c.model, c.x, c.y, { start });
     if (!fit.converged) {
@@ -48,7 +48,7 @@ describe('NIST StRD nonlinear regression (certified values, REFERENCES.md §1)',
     if (!fit.converged) expect(['singular', 'diverged', 'max-iterations', 'non-finite']).toContain(fit.stopReason);
   });
 
-  // Starts far along the valley towards MGH09's spurious minimum at infinity (REFERENCES.md §1):
+  // Starts far along the valley towards MGH09's spurious minimum at infinity (NIST StRD):
   // a run may end anywhere, but if it says converged it must be at the certified optimum.
   // Start values: common practice, no source (chosen to push the parameters large).
   const mgh09Starts = [

@@ -82,7 +82,7 @@ describe('fitCurve honesty', () => {
     expect(fit.parameters[0].estimate).toBeCloseTo(31.45 / 6, 8);
   });
 
-  it('analytic and finite-difference Jacobians give the same fit (Puromycin treated, REFERENCES.md §2 data)', () => {
+  it('analytic and finite-difference Jacobians give the same fit (Puromycin treated, R datasets::Puromycin)', () => {
     const conc = [0.02, 0.02, 0.06, 0.06, 0.11, 0.11, 0.22, 0.22, 0.56, 0.56, 1.1, 1.1];
     const rate = [76, 47, 97, 107, 123, 139, 159, 152, 191, 201, 207, 200];
     const analytic = fitCurve(michaelisMenten, conc, rate);

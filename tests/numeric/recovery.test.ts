@@ -1,7 +1,7 @@
 /**
  * Recovery of known parameters from seeded synthetic noisy data (simulation; the truth is
- * the simulated value, so no published source applies). Realistic ranges: REFERENCES.md §6
- * ([M] for typical WT values; Sarkar et al. 2020 [V] for single-turnover rates).
+ * the simulated value, so no published source applies). Realistic ranges: typical WT
+ * values from memory; Sarkar et al. 2020 [V] for single-turnover rates.
  *
  * Each row: the truth, the noise, and per-row tolerances for
  *  - the median estimate across replicates (relative bias; absolute for pCa50),
@@ -11,8 +11,8 @@
  *    must come with a flag or a wide interval,
  *  - the share of flagged fits allowed.
  * A fit is "flagged" when it did not converge, its relative SE exceeds FIT.maxRelativeSe
- * (src/defaults.ts), or (ATPase) KM lies above the highest [actin] — the flags DESIGN.md §4
- * asks for. Honesty: a poorly determined fit must be flagged or have a CI covering the truth.
+ * (src/defaults.ts), or (ATPase) KM lies above the highest [actin] — the flags the assays
+ * raise. Honesty: a poorly determined fit must be flagged or have a CI covering the truth.
  */
 import { describe, expect, it } from 'vitest';
 import { FIT } from '../../src/defaults.js';
@@ -75,7 +75,7 @@ function simulate(
 describe('Michaelis–Menten with basal term: recovery across KM (actin 0–100 µM, 9 points, noise 4% + 0.02 s⁻¹)', () => {
   const actin = [0, 2.5, 5, 10, 20, 40, 60, 80, 100];
   const maxActin = Math.max(...actin);
-  // basal 0.03 s⁻¹, kcat 5 s⁻¹: typical WT values [M], REFERENCES.md §6.
+  // basal 0.03 s⁻¹, kcat 5 s⁻¹: typical WT values, from memory.
   // The noise is proportional but the fit unweighted (as labs usually fit), so Wald intervals
   // of kcat under-cover (~87% observed at KM 50 µM): the ceilings below allow that, no more.
   const rows: Row[] = [
@@ -110,7 +110,7 @@ describe('Michaelis–Menten with basal term: recovery across KM (actin 0–100 
 
 describe('Hill force–pCa: recovery across pCa50 5.2–6.4 (13 pCa points, noise SD 0.8 kPa)', () => {
   const pCa = [9.0, 7.0, 6.6, 6.4, 6.2, 6.0, 5.8, 5.6, 5.4, 5.2, 5.0, 4.8, 4.5];
-  // passive 1 kPa, Fmax 30 kPa, nH 3: typical values [M], REFERENCES.md §6.
+  // passive 1 kPa, Fmax 30 kPa, nH 3: typical values, from memory.
   const rows: Row[] = [5.2, 5.6, 6.0, 6.4].map((pCa50, i) => ({
     label: `pCa50 ${pCa50}`,
     truth: [1, 30, pCa50, 3],

@@ -146,7 +146,7 @@ describe('evaluate fast path', () => {
     });
   });
 
-  it('Michaelis–Menten models still start near the optimum on Puromycin treated (REFERENCES.md §2 inputs)', () => {
+  it('Michaelis–Menten models still start near the optimum on Puromycin treated (R datasets::Puromycin inputs)', () => {
     const conc = [0.02, 0.02, 0.06, 0.06, 0.11, 0.11, 0.22, 0.22, 0.56, 0.56, 1.1, 1.1];
     const treated = [76, 47, 97, 107, 123, 139, 159, 152, 191, 201, 207, 200];
     expect(relative(michaelisMenten.start(conc, treated)[1], 0.06412)).toBeLessThan(0.2);

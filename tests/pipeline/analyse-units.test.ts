@@ -13,7 +13,8 @@ import { activeModules, analyseUnits } from '../../src/pipeline/analyse-units.js
 import { Store } from '../../src/pipeline/store.js';
 import { loadStudy } from '../../src/study/load.js';
 import type { UnitResult } from '../../src/results/types.js';
-import type { Study, TurnoverRow } from '../../src/study/types.js';
+import type { Study } from '../../src/study/types.js';
+import type { TurnoverRow } from '../../src/assays/turnover/inputs.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'myofolio-analyse-units-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

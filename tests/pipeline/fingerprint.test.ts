@@ -1,8 +1,8 @@
 /**
  * What the store keeps is keyed by a fingerprint of everything that computes it. The compiled tool
  * is copied to a temporary folder (dist/, schemas/, templates/, .eleventy.js, package files; the
- * libraries linked), a small study is built with one cache folder, then each of code, schemas,
- * templates, Eleventy configuration and library versions is changed in turn: the next build with
+ * libraries linked), a small study is built with one cache folder, then each of code, row schemas,
+ * the manifest schema, templates, Eleventy configuration and library versions is changed in turn: the next build with
  * that cache must equal a build of the changed tool with an empty cache (output files and the
  * printed issues).
  */
@@ -53,7 +53,10 @@ describe('the store fingerprint', () => {
     // The SVG post-processing changes, not the chart specs: stale SVGs would be served by spec alone.
     ['code (dist/)', (tool) => edit(join(tool, 'dist', 'charts', 'render.js'), 'focusable="false"', 'focusable="false" data-edited="1"'), true],
     // Velocities above 0.5 µm/s become implausible: a stale file reading would miss the warnings.
-    ['schemas', (tool) => edit(join(tool, 'schemas', 'rows', 'motility-velocities.schema.json'), '"max": 20,', '"max": 0.5,'), true],
+    // Row schemas live in their assay's folder and are compiled into dist/ with it.
+    ['row schemas (dist/assays/)', (tool) => edit(join(tool, 'dist', 'assays', 'motility', 'motility-velocities.schema.json'), '"max": 20,', '"max": 0.5,'), true],
+    // The manifest schema (schemas/): a description changes, which no page shows.
+    ['the manifest schema (schemas/)', (tool) => edit(join(tool, 'schemas', 'manifest.schema.json'), '"Study title shown on every page."', '"Study title shown on every page (edited)."'), false],
     ['templates', (tool) => edit(join(tool, 'templates', 'variant.njk'), /\n$/, '\n<!-- edited -->\n'), true],
     ['Eleventy config', (tool) => edit(join(tool, '.eleventy.js'), 'export default function', '// edited\nexport default function'), false],
     ['library versions', (tool) => edit(join(tool, 'package-lock.json'), /"node_modules\/vega": \{\n(\s+)"version": "([^"]+)"/, '"node_modules/vega": {\n$1"version": "$2-edited"'), false],

@@ -44,7 +44,7 @@ describe('loadStudy with digests', () => {
     expect(store.kept.size).toBe(Object.keys(made.files).length);
     const again = store.load(made.files);
     expect(again.study?.omitted?.size).toBe(Object.keys(made.files).length);
-    expect(Object.values(again.study!.rows).every((rows) => rows.length === 0)).toBe(true);
+    expect(Object.values(again.study!.rows).every((rows) => rows?.length === 0)).toBe(true);
     expect(again.issues).toEqual(whole.issues);
     expect(again.study!.files).toEqual(whole.study!.files);
     expect(again.digests).toEqual([]);

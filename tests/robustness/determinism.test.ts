@@ -1,5 +1,5 @@
 /**
- * Determinism (DESIGN.md §9): two builds of the same study (a copy of data-demo with its three
+ * Determinism: two builds of the same study (a copy of data-demo with its three
  * smallest files, to keep the test short; the full demo was compared the same way by hand) with
  * SOURCE_DATE_EPOCH set, into differently named output folders, give byte-identical files
  * (SHA-256 of every file).

@@ -263,7 +263,7 @@ const CASES: Case[] = [
   },
   {
     name: 'too few known controls for any evidence level',
-    // Only S58I (pathogenic) and H35W (benign) keep their class: 1 + 1 controls reach nothing (REFERENCES.md §4 [C]).
+    // Only S58I (pathogenic) and H35W (benign) keep their class: 1 + 1 controls reach nothing (computed from the formula of Brnich et al. 2020: PS3 1·2/2 = 1, BS3 2/(1·2) = 1).
     make: (dir) =>
       editManifest(dir, (m) => {
         for (const v of m.variants.slice(2)) if (v.hgvs !== 'p.H35W') delete v.control;
@@ -422,7 +422,7 @@ describe('init for a first study', () => {
     figures.cases++;
     const r = await runCli(['init', join(root, 'typo'), '--assays', 'turnovr'], root);
     expect(r.code).toBe(2);
-    expect(r.err).toContain("'turnovr' is not an input kind. Did you mean 'turnover'?");
+    expect(r.err).toContain("'turnovr' is not an input kind or assay. Did you mean 'turnover'?");
     expect(existsSync(join(root, 'typo'))).toBe(false);
     expect(lstatSync(root).isDirectory()).toBe(true);
     figures.cleanErrors++;

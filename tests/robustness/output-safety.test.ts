@@ -1,5 +1,5 @@
 /**
- * Output safety (DESIGN.md §9): a build writes to a staging folder and swaps it in; a failed,
+ * Output safety: a build writes to a staging folder and swaps it in; a failed,
  * crashed or killed build leaves the previous site byte-identical; the tool refuses the study
  * folder and foreign non-empty folders (unless --force, which moves them aside); it deletes
  * only folders that carry its marker.

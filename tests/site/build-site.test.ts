@@ -24,7 +24,11 @@ afterAll(cleanup);
 describe('buildSite on the synthetic fixture', () => {
   it('writes every page kind', () => {
     const fx = makeFixture();
-    const expected = ['index.html', 'residues.html', 'compare.html', 'methods.html', 'provenance.html', 'downloads.html', 'assays/atpase.html', 'assays/motility.html', ...fx.variants.map((v) => `variants/${v.id}.html`)];
+    const expected = [
+      'index.html', 'residues.html', 'compare.html', 'methods.html', 'provenance.html', 'downloads.html', 'glossary.html', 'assays/atpase.html', 'assays/motility.html',
+      ...fx.variants.map((v) => `variants/${v.id}.html`),
+      ...fx.variants.map((v) => `downloads/reports/${v.id}.html`),
+    ];
     for (const p of expected) expect(pages.has(p), p).toBe(true);
     expect(pageCount).toBe(expected.length);
     expect(existsSync(join(dir, 'assets/site.css'))).toBe(true);
@@ -46,7 +50,7 @@ describe('buildSite on the synthetic fixture', () => {
   it('shows the synthetic banner on every page and the caveats on every variant report', () => {
     for (const [page, html] of pages) {
       expect(html, page).toContain('Synthetic demonstration data');
-      if (!page.startsWith('variants/')) continue;
+      if (!page.startsWith('variants/') && !page.startsWith('downloads/reports/')) continue;
       for (const c of STANDARD_CAVEATS) expect(decode(html), page).toContain(c);
       expect(html, page).toContain('Study caveat from the manifest');
     }
@@ -104,7 +108,9 @@ describe('buildSite on the synthetic fixture', () => {
     expect(html).toContain('rel="prev" href="../variants/synm1-wt.html"');
     expect(html).toContain('rel="next" href="../variants/synm1-l260p.html"');
     expect(html).toContain('data/atpase.csv');
-    expect(html).toMatch(/lines [0-9]+/);
+    // The fixture's G120S has 3 ATPase units of 2 single-line sources each (6 rows), and 3 motility units of one.
+    expect(html).toMatch(/<code>data\/atpase\.csv<\/code><\/td><td class="num">6<\/td><td class="lines">22, 27–28, 33–34, 39<\/td>/);
+    expect(html).toMatch(/<code>data\/motility\.csv<\/code><\/td><td class="num">3<\/td>/);
   });
 
   it('places assay charts from a chartsFor callback (built from assay modules) with their numbers', async () => {

@@ -6,14 +6,18 @@ import { forestChart } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
 import { chartKey, drawRaw, drawRawDirect, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, splitSpec, stripRedundant } from '../../src/charts/render.js';
 import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
-import { motilityChart, motilityPlotPoints } from '../../src/assays/motility.js';
-import { atpase } from '../../src/assays/atpase.js';
-import { brokenPaths, sig3 } from '../../src/assays/chart-common.js';
+import { motilityChart, motilityPlotPoints } from '../../src/assays/motility/module.js';
+import { atpase } from '../../src/assays/atpase/module.js';
+import { brokenPaths } from '../../src/assays/chart-common.js';
 import { residueMapChart } from '../../src/charts/residue-map.js';
 import { scatterCharts } from '../../src/charts/scatter.js';
 import { lineRanges } from '../../src/site/view-common.js';
 import { relLink, rootPrefix, slug, uniqueSlugs } from '../../src/site/paths.js';
 import { XSS, makeFixture } from '../fixtures/results-fixture.js';
+import { turnoverChart } from '../../src/assays/turnover/module.js';
+import { FUNCTION_CALL_STYLE, METRIC_CALL_STYLE, METRIC_MARK_STYLE, metricMark } from '../../src/charts/palette.js';
+import { chartTitle } from '../../src/charts/chart-def.js';
+import { textWidth } from '../../src/charts/text-width.js';
 
 const simple = { data: { values: [{ a: 1, b: 2 }, { a: 2, b: 3 }] }, mark: 'point', encoding: { x: { field: 'a', type: 'quantitative' }, y: { field: 'b', type: 'quantitative' } } };
 
@@ -113,15 +117,19 @@ describe('assay unit charts (ATPase, force)', () => {
     const table = specTable(spec);
     expect(table.columns.slice(0, 4)).toEqual(['Group', 'Preparation', 'Batch', 'Readings']);
     expect(table.rows).toEqual([
-      ['WT', 'wt-1', 'B1', '24', '4', '20.1', '0.199', '0.0456'],
-      ['WT', 'wt-2', 'B1', '24', '4.2', '20.1', '0.209', '0.0456'],
+      ['WT', 'wt-1', 'B1', '24', '4.00', '20.1', '0.199', '0.0456'],
+      ['WT', 'wt-2', 'B1', '24', '4.20', '20.1', '0.209', '0.0456'],
       ['X9Y', 'v-1', 'B1', '24', '5.56', '20.1', '0.276', '0.0456'],
     ]);
-    expect(sig3(null)).toBe('—');
-    // 3 curves of 3 points, 2 breaks (between WT preparations and before the variant's).
-    const curve = (spec.layer as Array<{ data: { values: Array<Record<string, unknown>> } }>)[0].data.values;
-    expect(curve).toHaveLength(11);
-    expect(curve.filter((r) => r.rate === null).map((r) => r.seq)).toEqual([3, 7]);
+    // WT's 2 curves of 3 points in one path with a break between them, then the variant's curve in a layer of its own, drawn over WT's.
+    const layers = spec.layer as Array<{ data: { values: Array<Record<string, unknown>> }; mark: { type: string; color?: string; strokeDash?: number[] } }>;
+    const [wtCurve, variantCurve] = layers.filter((l) => l.mark.type === 'line');
+    expect(wtCurve.data.values).toHaveLength(7);
+    expect(wtCurve.data.values.filter((r) => r.rate === null).map((r) => r.seq)).toEqual([3]);
+    expect(variantCurve.data.values).toHaveLength(3);
+    expect(wtCurve.mark.strokeDash).toEqual([5, 3]);
+    expect(variantCurve.mark.strokeDash).toEqual([1, 0]);
+    expect(layers.indexOf(variantCurve)).toBeGreaterThan(layers.indexOf(wtCurve));
     expect(await renderSvg(drawnSpec(spec), { key: 'atpase-test' })).toMatch(/^<svg/);
   });
 });
@@ -220,7 +228,7 @@ describe('study chart specs', () => {
 describe('formatting and paths (common practice, no source)', () => {
   it('formats numbers', () => {
     expect(fmt(1.23456)).toBe('1.23');
-    expect(fmt(0.000123456)).toBe('1.23e-4');
+    expect(fmt(0.000123456)).toBe('1.23 × 10⁻⁴'); // the one formatter, src/results/format.ts
     expect(fmt(0.00123456)).toBe('0.00123');
     expect(fmt(null)).toBe('—');
     expect(fmtP(0.01234)).toBe('0.012');
@@ -295,5 +303,112 @@ describe('lighter charts', () => {
     const rows = (spec.data as { values: Array<Record<string, unknown>> }).values.filter((r) => r.kind === 'bin');
     expect(rows).toHaveLength(5); // 3 bins of the large unit + 2 of the small one
     expect(drawnSpec(spec)).not.toHaveProperty('usermeta');
+  });
+});
+
+describe('marks by biological direction (one legend meaning everywhere)', () => {
+  // Directions as the assay modules declare them (MetricDef.hyper); a lower slow-phase
+  // (super-relaxed) fraction frees heads and counts as hypercontractile (Sarkar et al., Sci Adv 2020,
+  // as cited in the turnover methods).
+  it('marks a metric call by the direction it implies, not by the sign of the change', () => {
+    expect(metricMark('increased', 'up')).toBe('towards hypercontractile');
+    expect(metricMark('decreased', 'up')).toBe('towards hypocontractile');
+    expect(metricMark('decreased', 'down')).toBe('towards hypercontractile');
+    expect(metricMark('increased', 'down')).toBe('towards hypocontractile');
+    expect(metricMark('increased', 'none')).toBe('higher, no disease direction');
+    expect(metricMark('decreased', 'none')).toBe('lower, no disease direction');
+    for (const c of ['within WT range', 'indeterminate', 'not estimable'] as const) for (const h of ['up', 'down', 'none'] as const) expect(metricMark(c, h)).toBe(c);
+    // Towards hypercontractile looks exactly like a hypercontractile call, and so on.
+    expect(METRIC_MARK_STYLE['towards hypercontractile']).toEqual(FUNCTION_CALL_STYLE.hypercontractile);
+    expect(METRIC_MARK_STYLE['towards hypocontractile']).toEqual(FUNCTION_CALL_STYLE.hypocontractile);
+    // Without the metric's direction, a change gets a neutral mark: never a disease colour or ▲/▼.
+    const disease = [FUNCTION_CALL_STYLE.hypercontractile, FUNCTION_CALL_STYLE.hypocontractile];
+    for (const call of ['increased', 'decreased'] as const) {
+      expect(disease.map((d) => d.colour)).not.toContain(METRIC_CALL_STYLE[call].colour);
+      expect(['▲', '▼']).not.toContain(METRIC_CALL_STYLE[call].glyph);
+    }
+  });
+
+  it('draws a decrease of a "decrease is hypercontractile" metric as ▲ in the hyper colour, on the effects plot and the forest plot', async () => {
+    const r = makeFixture();
+    // The fixture's kcat declared as a metric whose decrease is hypercontractile, with one variant's kcat decreased.
+    r.assays[0].metrics[0].hyper = 'down';
+    const target = r.comparisons.find((c) => c.assay === 'atpase' && c.metric === 'kcat')!;
+    // Every other comparison within WT range, so that the only change drawn is this one.
+    for (const c of r.comparisons) if (c !== target) c.call = 'within WT range';
+    Object.assign(target, { effect: 0.6, ciLow: 0.5, ciHigh: 0.7, call: 'decreased' });
+    const variant = r.variants.find((v) => v.id === target.variant)!;
+    const defs = [effectsChart(r, 'atpase', 'kcat')!, forestChart(r, variant, variant.short)!];
+    for (const d of defs) {
+      const text = JSON.stringify(d.spec);
+      expect(text).toContain('"call":"towards hypercontractile"');
+      const svg = await renderSvg(d.spec, { key: d.key });
+      // The decreased variant is a hyper-coloured triangle pointing up; nothing in the chart is hypo-coloured.
+      expect(svg).toMatch(new RegExp(`d="M0,-[0-9.]+L-[0-9.]+,[0-9.]+L[0-9.]+,[0-9.]+Z" fill="${FUNCTION_CALL_STYLE.hypercontractile.colour}"`));
+      expect(svg).not.toContain(FUNCTION_CALL_STYLE.hypocontractile.colour);
+      expect(svg).toContain('towards hypercontractile');
+    }
+  });
+
+  it('rings known controls on the all-variant effects plot and names their class beside them', async () => {
+    const r = makeFixture();
+    const d = effectsChart(r, 'atpase', 'kcat')!;
+    const svg = await renderSvg(d.spec, { key: d.key });
+    expect(svg).toContain('>pathogenic control</text>');
+    expect(svg).toContain('>benign control</text>');
+    expect(d.table.columns).toContain('Known control');
+    expect(d.table.rows.find((row) => row[0] === 'R505W')?.at(-1)).toBe('pathogenic');
+    expect(d.description).toContain('R505W (pathogenic control)');
+  });
+});
+
+describe('per-variant assay charts', () => {
+  const unit = (variant: string, unitId: string, kFast: number) => ({
+    assay: 'turnover', variant, unit: unitId, batch: 'B1', metrics: { slowFraction: 0.3, kFast, kSlow: 0.003 }, flags: [], nTechnical: 1, source: [],
+    plot: {
+      points: [0, 20, 40, 80, 160, 320, 640, 1280].map((time) => ({ trace: 't1', time, normFluorescence: 0.7 * Math.exp(-kFast * time) + 0.3 * Math.exp(-0.003 * time) })),
+      curve: [0, 1, 4, 9, 16, 100, 400, 1280].map((time) => ({ trace: 't1', model: 'double', time, normFluorescence: 0.7 * Math.exp(-kFast * time) + 0.3 * Math.exp(-0.003 * time) })),
+    },
+  });
+
+  it('name the variant in the legend, never "Variant"', async () => {
+    const spec = turnoverChart({ variantLabel: 'Q7R', variantUnits: [unit('v', 'v-1', 0.05)], wtUnits: [unit('wt', 'wt-1', 0.03)] } as never);
+    const svg = await renderSvg(drawnSpec(spec), { key: 'turnover-legend' });
+    expect(svg).toMatch(/>Q7R<\/text>/);
+    expect(svg).toMatch(/>WT<\/text>/);
+    expect(svg).not.toMatch(/>Variant<\/text>/);
+    const atp = atpase.chart({ variantLabel: 'X9Y', variantUnits: [], wtUnits: [] } as never);
+    expect(await renderSvg(drawnSpec(atp), { key: 'atpase-legend' })).not.toMatch(/>Variant<\/text>/);
+  });
+
+  it('draw turnover on a log time axis without the time-0 readings, ticks at 1–2–5 steps inside the range', () => {
+    const spec = turnoverChart({ variantLabel: 'Q7R', variantUnits: [unit('v', 'v-1', 0.05)], wtUnits: [unit('wt', 'wt-1', 0.03)] } as never);
+    const layers = spec.layer as Array<{ data: { values: Array<{ time: number | null }> }; encoding: { x: { scale: { type: string } } } }>;
+    expect(layers.every((l) => l.encoding.x.scale.type === 'log')).toBe(true);
+    for (const l of layers) for (const row of l.data.values) if (row.time !== null) expect(row.time).toBeGreaterThan(0);
+    const params = Object.fromEntries((spec.params as Array<{ name: string; value: unknown }>).map((p) => [p.name, p.value]));
+    // First reading after 0 at 20 s, first curve time after 0 at 1 s: the axis starts at 1 s (= 20 s / 20) and ends 5% past 1280 s.
+    expect(params.timeDomain).toEqual([1, 1340]);
+    expect(params.timeTicks).toEqual([1, 2, 5, 10, 20, 50, 100, 200, 500, 1000]);
+    expect(params.variantName).toBe('Q7R');
+  });
+
+  it('keep one shape per assay whatever the variant (the name travels as a parameter value)', () => {
+    const a = turnoverChart({ variantLabel: 'Q7R', variantUnits: [unit('v', 'v-1', 0.05)], wtUnits: [unit('wt', 'wt-1', 0.03)] } as never);
+    const b = turnoverChart({ variantLabel: 'A1B', variantUnits: [unit('v', 'v-1', 0.02)], wtUnits: [unit('wt', 'wt-1', 0.03)] } as never);
+    expect(splitSpec(drawnSpec(a)).shape).toEqual(splitSpec(drawnSpec(b)).shape);
+  });
+});
+
+describe('chart text widths (DejaVu Sans advance widths)', () => {
+  it('measures text with the font\'s own widths and wraps long titles', () => {
+    // DejaVu Sans 2.37 hmtx: digits 1303/2048 em, space 651/2048 em; bold digits 1425/2048 em.
+    expect(textWidth('0', 2048)).toBe(1303);
+    expect(textWidth(' ', 2048)).toBe(651);
+    expect(textWidth('0', 2048, true)).toBe(1425);
+    expect(chartTitle('Short', 600)).toBe('Short');
+    const long = chartTitle('In vitro motility: Mean velocity of moving filaments against Force–pCa: Fmax (calcium-activated tension)', 400);
+    expect(Array.isArray(long)).toBe(true);
+    for (const line of long as string[]) expect(textWidth(line, 14, true)).toBeLessThanOrEqual(400);
   });
 });

@@ -1,14 +1,24 @@
 /**
- * Variant pages are rendered from variantSiteData(site) alone (and kept in the page cache under
- * a key of that data): every `site.<field>` the variant template, its layout and its macros
- * read must be in it, or the field would silently render empty.
+ * Variant pages and single-file reports are rendered from variantSiteData(site) alone: every
+ * `site.<field>` their templates, layouts, includes and macros read must be in it, or the field
+ * would silently render empty.
  */
-import { readFileSync } from 'node:fs';
+import { readFileSync, readdirSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
-import { dataRowsHtml, escapeAsNunjucks, variantSiteData } from '../../src/site/build-site.js';
+import { variantSiteData } from '../../src/site/build-site.js';
+import { dataRowsHtml, escapeAsNunjucks } from '../../src/site/filters.js';
 
-const templates = ['templates/variant.njk', 'templates/_includes/base.njk', 'templates/_includes/macros.njk'];
+const templates = [
+  'templates/variant.njk',
+  'templates/report.njk',
+  'templates/_includes/base.njk',
+  'templates/_includes/standalone.njk',
+  'templates/_includes/print-running.njk',
+  'templates/_includes/macros.njk',
+  'templates/_includes/variant-page.njk',
+  ...readdirSync('templates/_includes/variant').map((f) => `templates/_includes/variant/${f}`),
+];
 
 describe('variantSiteData', () => {
   it('holds every site field the variant template, its layout and its macros read', () => {

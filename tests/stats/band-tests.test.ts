@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { beyondBandP, withinBandP } from '../../src/stats/band-tests.js';
 import { holm } from '../../src/stats/holm.js';
 
-// R's sleep data (REFERENCES.md §3): group 1 − group 2 = −1.58, Welch SE and df below [C].
+// R's sleep data (R t.test(extra ~ group, data = sleep)): group 1 − group 2 = −1.58, Welch SE and df below [C].
 const sleep = { estimate: -1.58, se: 0.849091016, df: 17.776473516178498 };
 
 describe('beyondBandP (minimum-effect test against the band)', () => {
@@ -20,7 +20,7 @@ describe('beyondBandP (minimum-effect test against the band)', () => {
   });
 
   it('is the two-sided t test of no change when the band is a point', () => {
-    // Two-sided Welch p of the sleep data, 0.079394 (REFERENCES.md §3 [C]).
+    // Two-sided Welch p of the sleep data, 0.079394 (computed from R's sleep data [C]).
     expect(beyondBandP(sleep.estimate, sleep.se, sleep.df, 0, 0)!).toBeCloseTo(0.079394, 5);
   });
 
@@ -48,7 +48,7 @@ describe('withinBandP (two one-sided tests)', () => {
 });
 
 describe('holm (step-down, as R p.adjust(method = "holm"))', () => {
-  it('reproduces R on the Benjamini–Hochberg example p values (REFERENCES.md §3)', () => {
+  it('reproduces R on the Benjamini–Hochberg example p values (Benjamini & Hochberg 1995)', () => {
     const p = [0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.324, 0.4262, 0.5719, 0.6528, 0.759, 1.0];
     // p.adjust(p, "holm"), R 4.2.2.
     const expected = [0.0015, 0.0056, 0.0247, 0.114, 0.2211, 0.278, 0.278, 0.278, 0.3213, 1, 1, 1, 1, 1, 1];

@@ -1,6 +1,6 @@
 /**
- * Statistics against published values. Sources per check: REFERENCES.md §3 (Benjamini &
- * Hochberg 1995 example), R values quoted by simple-statistics' docs for var(1:10). Welch's test
+ * Statistics against published values. Sources per check: Benjamini &
+ * Hochberg 1995 (their example), R values quoted by simple-statistics' docs for var(1:10). Welch's test
  * on R's sleep data is checked where it is used: the comparison model with one batch
  * (tests/analysis/paired-effect.test.ts).
  */
@@ -17,7 +17,7 @@ const oneToTen = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10];
 describe('descriptive', () => {
   it.each([
     ['mean(1:10)', () => mean(oneToTen), 5.5, 'by hand'],
-    ['var(1:10)', () => variance(oneToTen), 9.166667, 'R var(1:10), quoted in STYLE.md (simple-statistics)'],
+    ['var(1:10)', () => variance(oneToTen), 9.166667, 'R var(1:10), as simple-statistics quotes it'],
     ['sd(1:10)', () => sd(oneToTen), 3.0276504, 'SciPy/NumPy std(ddof = 1)'],
     ['se(1:10)', () => se(oneToTen), 3.0276504 / Math.sqrt(10), 'sd/√n'],
     ['quantile(1:10, 0.25), type 7', () => quantile(oneToTen, 0.25), 3.25, 'NumPy quantile (linear = type 7)'],
@@ -33,7 +33,7 @@ describe('descriptive', () => {
 });
 
 
-describe('Benjamini–Hochberg (REFERENCES.md §3 [V], as R p.adjust BH)', () => {
+describe('Benjamini–Hochberg (their 1995 example [V], as R p.adjust BH)', () => {
   const p = [0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.324, 0.4262, 0.5719, 0.6528, 0.759, 1.0];
   const want = [0.0015, 0.003, 0.0095, 0.035625, 0.0603, 0.06385714, 0.06385714, 0.0645, 0.0765, 0.486, 0.58118182, 0.714875, 0.75323077, 0.81321429, 1];
   it('adjusted values for the 15 p values', () => {

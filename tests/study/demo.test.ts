@@ -6,6 +6,8 @@ import { createRng, simulateStudy } from '../../src/demo/simulate.js';
 import { loadStudy } from '../../src/study/load.js';
 import { readStudyFolder } from '../../src/study/read-folder.js';
 import { CATALOGUE, INPUT_KINDS, validators } from '../../src/study/schemas.js';
+import { rowsOf } from '../../src/assays/assay-common.js';
+import { ATPASE_RATES } from '../../src/assays/atpase/inputs.js';
 
 const DEMO = join(import.meta.dirname, '../../data-demo');
 
@@ -39,7 +41,7 @@ describe('demo study data-demo/', () => {
     expect(controls.every((v) => v.control!.source === 'invented for the demo')).toBe(true);
     expect(s.variants.filter((v) => !v.isWT && !v.control).length).toBeGreaterThanOrEqual(12);
     expect(new Set(s.files.map((f) => f.kind))).toEqual(new Set(INPUT_KINDS));
-    const batches = new Set(s.rows['atpase-rates']!.map((r) => r.batch));
+    const batches = new Set(rowsOf(s, ATPASE_RATES).map((r) => r.batch));
     expect(batches.size).toBeGreaterThanOrEqual(3);
     // ≥ 2 WT units per batch and ≥ 2 units per variant in every kind.
     for (const kind of INPUT_KINDS) {
@@ -68,7 +70,7 @@ describe('demo study data-demo/', () => {
 
   it('holds the deliberate problems: one KM beyond the top [actin], one unresolved turnover trace', () => {
     const sc = demoScenario();
-    const topActin = Math.max(...outcome.study!.rows['atpase-rates']!.map((r) => r.actinUM));
+    const topActin = Math.max(...rowsOf(outcome.study!, ATPASE_RATES).map((r) => r.actinUM));
     const kmProblem = sc.variants.filter((v) => sc.wt.km * (v.effects.km ?? 1) > topActin);
     expect(kmProblem).toHaveLength(1);
     expect(sc.variants.filter((v) => v.unresolvedTurnoverTrace)).toHaveLength(1);

@@ -14,6 +14,8 @@ import { readRows } from '../../src/study/rows.js';
 import { CATALOGUE, INPUT_KINDS, ROW_SCHEMAS, validators } from '../../src/study/schemas.js';
 import type { Issue } from '../../src/study/types.js';
 import { baseManifest, loadWith } from './fixtures.js';
+import { rowsOf as rowsOfKind } from '../../src/assays/assay-common.js';
+import { FORCE_PCA } from '../../src/assays/force/inputs.js';
 
 const SEED = 20250302;
 
@@ -165,7 +167,7 @@ describe('typed rows', () => {
   it('have one field order, whether every optional cell is filled or not', () => {
     const head = 'variant,preparation,batch,pCa,force (mN),area (mm²),replicate';
     const o = loadWith('f.csv', 'force-pca', [head, 'WT,w1,B1,5,0.01,0.0004,r1', 'WT,w1,B1,6,0.01,0.0004,'].join('\n'));
-    const rows = o.study!.rows['force-pca']!;
+    const rows = rowsOfKind(o.study!, FORCE_PCA);
     expect(rows.map((r) => Object.keys(r))).toEqual([
       ['variant', 'unit', 'batch', 'at', 'pCa', 'replicate', 'tensionKPa'],
       ['variant', 'unit', 'batch', 'at', 'pCa', 'tensionKPa'],

@@ -2,6 +2,11 @@ import { describe, expect, it } from 'vitest';
 import { loadStudy } from '../../src/study/load.js';
 import type { Issue, LoadOutcome } from '../../src/study/types.js';
 import { RATES, baseManifest, load, loadWith } from './fixtures.js';
+import { rowsOf } from '../../src/assays/assay-common.js';
+import { ATPASE_NADH, ATPASE_RATES } from '../../src/assays/atpase/inputs.js';
+import { FORCE_PCA } from '../../src/assays/force/inputs.js';
+import { MOTILITY_TRACKS, MOTILITY_VELOCITIES } from '../../src/assays/motility/inputs.js';
+import { TURNOVER } from '../../src/assays/turnover/inputs.js';
 
 const errors = (o: LoadOutcome) => o.issues.filter((i) => i.severity === 'error');
 
@@ -15,7 +20,7 @@ describe('a valid in-memory study', () => {
       ['zzg1-r2q', 'p.Arg2Gln', 'R2Q', 'R2Q'],
       ['zzg1-k4e', 'p.Lys4Glu', 'K4E', 'K4E'],
     ]);
-    expect(s.rows['atpase-rates']![2]).toEqual({ variant: 'zzg1-r2q', unit: 'p1', batch: 'B1', actinUM: 0, ratePerS: 0.04, at: { file: 'rates.csv', line: 4 } });
+    expect(rowsOf(s, ATPASE_RATES)[2]).toEqual({ variant: 'zzg1-r2q', unit: 'p1', batch: 'B1', actinUM: 0, ratePerS: 0.04, at: { file: 'rates.csv', line: 4 } });
     expect(s.files[0]).toMatchObject({ kind: 'atpase-rates', path: 'rates.csv', rows: 6 });
     expect(s.files[0].sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(s.variants[1].control).toEqual({ class: 'pathogenic', source: 'invented' });
@@ -166,17 +171,17 @@ describe('one issue per problem, all problems in one pass', () => {
 describe('conversions and accepted forms', () => {
   it('velocity in nm/s becomes µm/s', () => {
     const o = loadWith('v.csv', 'motility-velocities', 'variant,preparation,batch,filament,velocity (nm/s)\nWT,w1,B1,f1,812.5\n');
-    expect(o.study!.rows['motility-velocities']![0].velocityUmS).toBeCloseTo(0.8125, 12); // 812.5e-9 m/s = 0.8125e-6 m/s
+    expect(rowsOf(o.study!, MOTILITY_VELOCITIES)[0].velocityUmS).toBeCloseTo(0.8125, 12); // 812.5e-9 m/s = 0.8125e-6 m/s
   });
 
   it('force with an area column becomes tension: 12 µN on 400 µm² = 30 kPa (computed from SI definitions)', () => {
     const o = loadWith('f.csv', 'force-pca', 'variant,preparation,batch,pCa,force (uN),area (um2)\nWT,w1,B1,4.5,12,400\n');
-    expect(o.study!.rows['force-pca']![0].tensionKPa).toBeCloseTo(30, 10);
+    expect(rowsOf(o.study!, FORCE_PCA)[0].tensionKPa).toBeCloseTo(30, 10);
   });
 
   it('force with a manifest cross-section per unit', () => {
     const o = loadWith('f.csv', 'force-pca', 'variant,preparation,batch,pCa,force (mN)\nWT,w1,B1,4.5,0.003\n', { crossSection: { unit: 'mm2', byPreparation: { w1: 0.0001 } } });
-    expect(o.study!.rows['force-pca']![0].tensionKPa).toBeCloseTo(30, 10); // 0.003 mN / 1e-4 mm² = 30 mN/mm²
+    expect(rowsOf(o.study!, FORCE_PCA)[0].tensionKPa).toBeCloseTo(30, 10); // 0.003 mN / 1e-4 mm² = 30 mN/mm²
   });
 
   it('frames and pixels become seconds and micrometres', () => {
@@ -185,7 +190,7 @@ describe('conversions and accepted forms', () => {
       frameInterval: { value: 200, unit: 'ms' },
     });
     expect(errors(o)).toEqual([]);
-    const r = o.study!.rows['motility-tracks']![0];
+    const r = rowsOf(o.study!, MOTILITY_TRACKS)[0];
     expect(r.timeS).toBeCloseTo(0.6, 12);
     expect(r.xUm).toBeCloseTo(1.6, 12);
     expect(r.yUm).toBeCloseTo(3.2, 12);
@@ -195,24 +200,24 @@ describe('conversions and accepted forms', () => {
     const text = '\ufeff# comment\nvariant;preparation;batch;trace;time;fluorescence\nWT;w1;B1;t;1,5;100\n';
     const o = loadWith('t.csv', 'turnover', text, { units: { time: 'min' }, decimal: ',' });
     expect(errors(o)).toEqual([]);
-    expect(o.study!.rows.turnover![0]).toMatchObject({ timeS: 90, at: { line: 3 } });
+    expect(rowsOf(o.study!, TURNOVER)[0]).toMatchObject({ timeS: 90, at: { line: 3 } });
     const a = rates('variant,preparation,batch,actin_uM,rate_per_s\nWT,w1,B1,5,1\n');
-    expect(a.study!.rows['atpase-rates']![0]).toMatchObject({ actinUM: 5, ratePerS: 1 });
+    expect(rowsOf(a.study!, ATPASE_RATES)[0]).toMatchObject({ actinUM: 5, ratePerS: 1 });
     const b = rates('variant,preparation,batch,actin [mM],rate (1/min)\nWT,w1,B1,0.05,60\n');
-    expect(b.study!.rows['atpase-rates']![0].actinUM).toBeCloseTo(50, 12); // 0.05 mM
-    expect(b.study!.rows['atpase-rates']![0].ratePerS).toBeCloseTo(1, 12); // 60 per minute
+    expect(rowsOf(b.study!, ATPASE_RATES)[0].actinUM).toBeCloseTo(50, 12); // 0.05 mM
+    expect(rowsOf(b.study!, ATPASE_RATES)[0].ratePerS).toBeCloseTo(1, 12); // 60 per minute
   });
 
   it("'00123' is 123 in a number column and stays text in a text column", () => {
     const o = rates(`${RATE_HEAD}\nWT,00123,B1,00123,1\n`);
-    expect(o.study!.rows['atpase-rates']![0]).toMatchObject({ unit: '00123', actinUM: 123 });
+    expect(rowsOf(o.study!, ATPASE_RATES)[0]).toMatchObject({ unit: '00123', actinUM: 123 });
   });
 
   it('NADH: actin-only wells have empty variant/unit and path from the manifest', () => {
     const text = 'variant,preparation,batch,well_type,well,actin (uM),heads (uM),time (s),a340\n,,B1,actin-only,A1,10,0,0,0.9\nWT,w1,B1,sample,A2,10,0.05,0,0.9\n';
     const o = loadWith('n.csv', 'atpase-nadh', text, { pathLength: { value: 5, unit: 'mm' } });
     expect(errors(o)).toEqual([]);
-    expect(o.study!.rows['atpase-nadh']!.map((r) => [r.variant, r.wellType, r.pathCm])).toEqual([
+    expect(rowsOf(o.study!, ATPASE_NADH).map((r) => [r.variant, r.wellType, r.pathCm])).toEqual([
       ['', 'actin-only', 0.5],
       ['zzg1-wt', 'sample', 0.5],
     ]);
@@ -230,6 +235,6 @@ describe('variant names in CSV files', () => {
     x.variants[1].label = 'mutant-1';
     const o = load(x, { 'rates.csv': `${RATE_HEAD}\nWT,w1,B1,0,0.03\nmutant-1,p1,B1,0,0.04\nR2Q,p1,B1,5,0.5\np.Arg2Gln,p1,B1,10,0.9\np.Lys4Glu,p2,B1,0,0.03\n` });
     expect(errors(o)).toEqual([]);
-    expect(o.study!.rows['atpase-rates']!.map((r) => r.variant)).toEqual(['zzg1-wt', 'zzg1-r2q', 'zzg1-r2q', 'zzg1-r2q', 'zzg1-k4e']);
+    expect(rowsOf(o.study!, ATPASE_RATES).map((r) => r.variant)).toEqual(['zzg1-wt', 'zzg1-r2q', 'zzg1-r2q', 'zzg1-r2q', 'zzg1-k4e']);
   });
 });

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { conversionFactor, lookupUnit, tensionKPa, UNITS, type Quantity } from '../../src/study/units.js';
+import { tensionKPa } from '../../src/assays/force/inputs.js';
+import { conversionFactor, lookupUnit, UNITS, type Quantity } from '../../src/study/units.js';
 
 // Expected factors from SI definitions (BIPM SI Brochure, 9th ed. 2019: Table 7 prefixes
 // milli 1e-3, micro 1e-6, nano 1e-9; Table 8: 1 min = 60 s, 1 h = 3600 s; 1 L = 1e-3 m³).
@@ -17,7 +18,7 @@ const SI_CASES: [Quantity, string, number][] = [
   ['time', 'min', 60],
   ['time', 'ms', 1e-3],
   ['time', 'h', 3600],
-  ['tension', 'mN/mm2', 1], // 1e-3 N / 1e-6 m² = 1e3 Pa = 1 kPa (REFERENCES.md §6)
+  ['tension', 'mN/mm2', 1], // 1e-3 N / 1e-6 m² = 1e3 Pa = 1 kPa (SI Brochure 2019)
   ['tension', 'mN/mm²', 1],
   ['tension', 'kN/m2', 1],
   ['tension', 'Pa', 1e-3],

@@ -9,6 +9,8 @@ import type { Command, Io } from '../command.js';
 import { CLI } from '../messages.js';
 import { createProgress, type ProgressStream } from '../progress.js';
 import { formatIssue, sortIssues } from './check.js';
+import { runArchiveBuild } from './archive-build.js';
+import { isArchiveFolder } from '../../pipeline/archive-input.js';
 
 /** Default output folder, relative to the working directory. */
 export const DEFAULT_OUT = '_site';
@@ -79,7 +81,7 @@ export function memoryWarning(dir: string, heapLimit: number): string {
 export const command: Command = {
   name: 'build',
   usage: 'build <study-dir> [--out <dir>] [--force]',
-  summary: `Check, analyse and write the report site (default --out ${DEFAULT_OUT}).`,
+  summary: `Check, analyse and write the report site of a study, or of an archive of studies (default --out ${DEFAULT_OUT}).`,
   async run(args: string[], io: Io): Promise<number> {
     const parsed = parseArgs(args);
     if (typeof parsed === 'string') {
@@ -92,6 +94,7 @@ export const command: Command = {
       io.stderr.write(`myofolio build: cannot read the study folder '${parsed.study}': no such folder.\n`);
       return 1;
     }
+    if (isArchiveFolder(dir)) return runArchiveBuild(dir, out, { force: parsed.force, sourceDateEpoch: sourceDateEpoch(process.env) }, io);
     if (!existsSync(join(dir, MANIFEST_NAME))) {
       io.stderr.write(`myofolio build: '${parsed.study}' has no ${MANIFEST_NAME}. Run '${io.command ?? 'myofolio'} init <dir>' for a starter study.\n`);
       return 1;

@@ -15,6 +15,8 @@ import type { Issue } from '../../study/types.js';
 import { singleFolderArgument, type Command, type Io } from '../command.js';
 import { withCommand } from '../invocation.js';
 import { CLI } from '../messages.js';
+import { runArchiveCheck } from './archive-check.js';
+import { isArchiveFolder } from '../../pipeline/archive-input.js';
 
 /** One issue as `file:line:col: severity: message — fix` (JSON path instead of line for the manifest). */
 export function formatIssue(i: Issue, command = 'myofolio'): string {
@@ -37,7 +39,7 @@ export function sortIssues(issues: readonly Issue[], manifestName: string): Issu
 export const command: Command = {
   name: 'check',
   usage: 'check <study-dir>',
-  summary: 'Validate a study folder and list every error and warning.',
+  summary: 'Validate a study folder, or an archive folder, and list every error and warning.',
   async run(args: string[], io: Io): Promise<number> {
     const dir = singleFolderArgument(args, io, this.usage);
     if (dir === null) return 2;
@@ -45,6 +47,7 @@ export const command: Command = {
       io.stderr.write(CLI.cannotRead(args[0], 'no such folder'));
       return 1;
     }
+    if (isArchiveFolder(dir)) return runArchiveCheck(dir, io, { formatIssue, sortIssues });
     const cmd = io.command ?? 'myofolio';
     if (!existsSync(join(dir, MANIFEST_NAME))) {
       io.stdout.write(`${formatIssue(issue(MSG.manifestMissing(MANIFEST_NAME), { file: MANIFEST_NAME }), cmd)}\n`);

@@ -3,7 +3,7 @@ import { existsSync, lstatSync, mkdirSync, readdirSync, rmdirSync, statSync, unl
 import { dirname, isAbsolute, join } from 'node:path';
 import { closestNames, didYouMean } from '../../study/suggest.js';
 import { INPUT_KINDS } from '../../study/schemas.js';
-import { GUIDE_NAME, KIND_SHORTHANDS, parseKinds, starterFiles } from '../../study/templates.js';
+import { ASSAY_KINDS, GUIDE_NAME, parseKinds, starterFiles } from '../../study/templates.js';
 import type { InputKind } from '../../study/types.js';
 import type { Command, Io } from '../command.js';
 import { CLI } from '../messages.js';
@@ -71,7 +71,7 @@ function parseArgs(args: string[], io: Io, usage: string): Parsed {
     if (list !== undefined) {
       const got = parseKinds(list);
       if ('unknown' in got) {
-        const choices = [...INPUT_KINDS, ...Object.keys(KIND_SHORTHANDS)];
+        const choices = [...INPUT_KINDS, ...Object.keys(ASSAY_KINDS)];
         io.stderr.write(CLI.initUnknownKind(got.unknown, choices, didYouMean(closestNames(got.unknown, choices))) + CLI.badArgs(usage, io.command));
         return { exit: 2 };
       }
@@ -85,7 +85,7 @@ function parseArgs(args: string[], io: Io, usage: string): Parsed {
 export const command: Command = {
   name: 'init',
   usage: 'init <dir> [--assays <kinds>]',
-  summary: 'Write a starter study folder: manifest, field guide and a CSV template per input kind (all, or the listed ones).',
+  summary: 'Write a starter study folder: manifest, field guide and a CSV template per input kind (all, or the listed kinds or assays).',
   async run(args: string[], io: Io): Promise<number> {
     const parsed = parseArgs(args, io, this.usage);
     if ('exit' in parsed) return parsed.exit;

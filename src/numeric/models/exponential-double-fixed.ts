@@ -6,14 +6,14 @@
  *
  * with kslow fixed when the resolved phase is the fast one (`fixed: 'slow'`), or kfast fixed when
  * it is the slow one (`fixed: 'fast'`). The fixed rate comes from elsewhere (the paired WT's rate,
- * src/assays/turnover.ts); the amplitude of the phase at that rate is then a linear parameter that
+ * src/assays/turnover/module.ts); the amplitude of the phase at that rate is then a linear parameter that
  * the data determine, with a standard error, even when it is near zero or negative (no bound), so
  * that a trace with no slow phase gives a slow fraction near 0 with its uncertainty.
  * Parameters: ['aFast', 'kFast', 'aSlow', 'offset'] (slow rate fixed) or
  * ['aFast', 'aSlow', 'kSlow', 'offset'] (fast rate fixed). Free rate bounded below by 0.
  * Start: the single exponential's start (src/numeric/models/exponential-single.ts) for the free
  * phase and the offset, 0 for the other amplitude.
- * @example exponentialDoubleFixedRate('slow', 0.0034).f(60, [0.7, 0.03, 0.3, 0]) // → 0.36035 (REFERENCES.md §6 [C])
+ * @example exponentialDoubleFixedRate('slow', 0.0034).f(60, [0.7, 0.03, 0.3, 0]) // → 0.36035 (computed from the model [C])
  */
 import type { CurveModel } from '../types.js';
 import { exponentialSingle } from './exponential-single.js';

@@ -5,7 +5,7 @@
  *  - aFast, kFast: amplitude and rate of the fast phase (disordered-relaxed heads);
  *  - aSlow, kSlow: amplitude and rate of the slow phase (super-relaxed heads);
  *  - offset (c): plateau at long times.
- * Slow-phase fraction = Aslow/(Afast + Aslow) (REFERENCES.md §6, Sarkar et al., Sci Adv 2020).
+ * Slow-phase fraction = Aslow/(Afast + Aslow) (Sarkar et al., Sci Adv 2020).
  * Ordering: the two phases are interchangeable in the formula; after the fit the
  * `canonical` hook swaps them so that kFast ≥ kSlow, before SEs are computed.
  * Source: Hooijman, Stewart & Cooke 2011, Biophys J 100:1969; Anderson et al. 2018, PNAS 115:E8143.
@@ -17,7 +17,7 @@
  * refined kfast fixed (to 2%, ratio kept ≥ 1.5); the lowest RSS seen is the start.
  * Evenly spaced times build exp(−k·t) by recurrence (decayInto) and the sums of
  * exponentials and their products in closed form (geometricDecaySum).
- * @example exponentialDouble.f(60, [0.7, 0.03, 0.3, 0.0034, 0]) // → 0.36035 (REFERENCES.md §6 [C])
+ * @example exponentialDouble.f(60, [0.7, 0.03, 0.3, 0.0034, 0]) // → 0.36035 (computed from the model [C])
  */
 import type { CurveModel, FitResult } from '../types.js';
 import { rateCandidates } from './exponential-single.js';

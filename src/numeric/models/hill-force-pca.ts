@@ -7,7 +7,7 @@
  *  - pCa50: pCa at half-maximal activation (higher = more calcium-sensitive);
  *  - nH: Hill coefficient, steepness (cooperativity).
  * Check points: F(pCa50) = Fpassive + Fmax/2; 10% and 90% of Fmax at pCa50 ± log10(9)/nH
- * (REFERENCES.md §6).
+ * (computed from the Hill equation).
  *
  * Source: Hill 1910, J Physiol 40:iv–vii; the pCa form as in e.g. Moss 1992, Circ Res 70:865.
  * Bounds: nH ≥ 0. Start rule: pCa50 scanned every 0.05 from (lowest pCa − 0.5) to
@@ -17,8 +17,8 @@
  * local optima in about 1 in 300 noisy synthetic fits); it is made cheap by forming
  * 10^(nH·(pCa − pCa50)) from one exponential per pCa50 and point (powerOf).
  * Numerics: 1/(1 + 10^z) is evaluated as 10^(−z)/(1 + 10^(−z)) for z > 0, so a steep
- * curve never overflows to Infinity/Infinity; 10^u is computed as exp(u·ln 10) (about five
- * times faster than Math.pow here, same value to ~1e-15 relative).
+ * curve never overflows to Infinity/Infinity; 10^u is computed as exp(u·ln 10) (the same
+ * value as Math.pow to ~1e-15 relative).
  * @example hillForcePca.f(5.8, [2, 30, 5.8, 3]) // → 17 (passive + fmax/2)
  */
 import type { CurveModel } from '../types.js';

@@ -2,7 +2,7 @@
  * Steady-state actin-activated ATPase.
  *
  * Input: per-head rates (s⁻¹) at each [actin] (atpase-rates), or raw NADH-coupled A340
- * traces (atpase-nadh) turned into per-head rates by src/assays/nadh.ts first.
+ * traces (atpase-nadh) turned into per-head rates by nadh.ts first.
  * Per biological unit (protein preparation), every well at every [actin] enters one fit of
  *
  *     v = v0 + kcat·[A] / (KM + [A])        (Michaelis–Menten with a basal term)
@@ -10,67 +10,18 @@
  * by nonlinear least squares (src/numeric/nls.ts). Wells are technical replicates: they
  * inform that unit's curve; the statistics later count units, never wells.
  */
-import { ASSAY, FIT } from '../defaults.js';
-import { fitCurve } from '../numeric/nls.js';
-import { michaelisMentenBasal } from '../numeric/models/michaelis-menten-basal.js';
-import type { FitResult } from '../numeric/types.js';
-import type { Flag, MetricDef, UnitResult } from '../results/types.js';
-import type { AtpaseRateRow, Study } from '../study/types.js';
-import { assaySetting, groupUnits, relativeSeFlags } from './assay-common.js';
-import { groupEncoding, unitChart } from './chart-common.js';
+import { FIT } from '../../defaults.js';
+import { fitCurve } from '../../numeric/nls.js';
+import { michaelisMentenBasal } from '../../numeric/models/michaelis-menten-basal.js';
+import type { FitResult } from '../../numeric/types.js';
+import type { Flag, UnitResult } from '../../results/types.js';
+import { assaySetting, groupUnits, relativeSeFlags, rowsOf } from '../assay-common.js';
+import { groupEncoding, unitChart } from '../chart-common.js';
+import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec } from '../types.js';
+import { ATPASE_NADH, ATPASE_RATES, type AtpaseRateRow } from './inputs.js';
+import { ATPASE_BANDS, ATPASE_METRICS as METRICS } from './metrics.js';
 import { nadhToRates } from './nadh.js';
-import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
-
-/** Unit flags that make kcat and KM extrapolations: such a unit does not enter their comparison (src/analysis/normalise.ts). */
-const EXTRAPOLATED = ['km-above-range'] as const;
-/** Unit flags that qualify the fitted values: counted on the comparison rows. */
-const QUALIFIERS = ['too-few-points', 'poorly-determined', 'nadh-too-few-readings', 'nadh-no-background'] as const;
-
-const METRICS: MetricDef[] = [
-  {
-    id: 'kcat',
-    label: 'kcat',
-    unit: 's⁻¹',
-    scale: 'ratio',
-    hyper: 'up',
-    primary: true,
-    description: 'Maximal actin-activated rate per head above basal, from the fitted curve.',
-    excludeFlagged: EXTRAPOLATED,
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'km',
-    label: 'KM (actin)',
-    unit: 'µM',
-    scale: 'ratio',
-    hyper: 'none',
-    primary: false,
-    description: 'Actin concentration at half-maximal activation.',
-    excludeFlagged: EXTRAPOLATED,
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'kcatOverKm',
-    label: 'kcat/KM (initial slope)',
-    unit: 'µM⁻¹·s⁻¹',
-    scale: 'ratio',
-    hyper: 'none',
-    primary: false,
-    description:
-      'Slope of the rate against actin at low actin: kcat/KM from the fitted curve. It stays well determined when KM lies above the actin range, where kcat and KM alone are extrapolations.',
-    carryFlags: ['too-few-points', 'nadh-too-few-readings', 'nadh-no-background'],
-  },
-  {
-    id: 'basal',
-    label: 'Basal rate',
-    unit: 's⁻¹',
-    scale: 'difference',
-    hyper: 'none',
-    primary: false,
-    description: 'Rate per head without actin (the fitted v0), compared as a difference in s⁻¹: it lies near zero, where ratios are unstable, and a fit may put it below zero.',
-    carryFlags: ['too-few-points', 'nadh-too-few-readings', 'nadh-no-background'],
-  },
-];
+import { ATPASE_SETTINGS as SETTINGS } from './settings.js';
 
 /**
  * kcat/KM of a fit with its standard error by the delta method, using the fit's correlation of
@@ -88,7 +39,7 @@ export function kcatOverKmOf(fit: FitResult): { estimate: number; se: number | n
   return { estimate: r, se: Number.isFinite(v) && v >= 0 ? Math.sqrt(v) : null };
 }
 
-/** Fit one unit's rates; flags per DESIGN.md §4. */
+/** Fit one unit's rates, with its flags. */
 export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omit<UnitResult, 'assay' | 'variant' | 'unit' | 'batch' | 'source'> {
   const x = rows.map((r) => r.actinUM);
   const y = rows.map((r) => r.ratePerS);
@@ -143,10 +94,11 @@ export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omi
   return { metrics, metricSe, fit, flags, nTechnical: rows.length, plot: { points, curve } };
 }
 
-function analyse(study: Study): UnitResult[] {
-  const minPoints = assaySetting('atpaseMinPoints', study.settings);
-  const direct = study.rows['atpase-rates'] ?? [];
-  const fromTraces = study.rows['atpase-nadh']?.length ? nadhToRates(study.rows['atpase-nadh'], study.settings) : null;
+function analyse(study: AssayStudy): UnitResult[] {
+  const minPoints = assaySetting(SETTINGS, 'atpaseMinPoints', study.settings);
+  const direct = rowsOf(study, ATPASE_RATES);
+  const traces = rowsOf(study, ATPASE_NADH);
+  const fromTraces = traces.length ? nadhToRates(traces, study.settings) : null;
   const rows = [...direct, ...(fromTraces?.rates ?? [])];
   const out: UnitResult[] = [];
   for (const g of groupUnits(rows)) {
@@ -171,14 +123,16 @@ function chart(input: AssayChartInput): ChartSpec {
 export const atpase: AssayModule = {
   id: 'atpase',
   label: 'Actin-activated ATPase',
-  inputs: ['atpase-rates', 'atpase-nadh'],
+  inputs: [ATPASE_RATES, ATPASE_NADH],
   metrics: METRICS,
+  bands: ATPASE_BANDS,
+  settings: SETTINGS,
   analyse,
   chart,
   methods: [
     `Per protein preparation, all wells at all actin concentrations are fitted together with ${michaelisMentenBasal.formula} by Levenberg–Marquardt nonlinear least squares; wells are technical replicates and do not count as n.`,
     'kcat/KM, the initial slope of the curve, is reported beside kcat and KM (standard error by the delta method from the fit’s covariance): it stays well determined when KM lies above the actin range. The basal rate is compared as a difference in s⁻¹ (it lies near zero and a fit may put it below zero).',
-    `A preparation with fewer than ${ASSAY.atpaseMinPoints} actin concentrations is flagged; KM above the highest actin concentration is flagged because kcat and KM are then extrapolations: such a WT preparation is left out of the kcat and KM comparisons, and a variant with such a preparation gets no kcat or KM comparison (not estimable, with the reason), while its kcat/KM is compared as usual; a parameter whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value is flagged as poorly determined; a fit that does not converge reports no values and is flagged, never dropped.`,
-    `Raw NADH-coupled traces: the initial rate is the least-squares slope of A340 over the first ${ASSAY.nadhWindowS} s, converted with ε340 = ${ASSAY.nadhEpsilon340} M⁻¹cm⁻¹ and the path length (one NADH oxidised per ATP hydrolysed), minus the actin-only background of the same batch and actin concentration, divided by the myosin head concentration.`,
+    `A preparation with fewer than ${SETTINGS.atpaseMinPoints} actin concentrations is flagged; KM above the highest actin concentration is flagged because kcat and KM are then extrapolations: such a WT preparation is left out of the kcat and KM comparisons, and a variant with such a preparation gets no kcat or KM comparison (not estimable, with the reason), while its kcat/KM is compared as usual; a parameter whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value is flagged as poorly determined; a fit that does not converge reports no values and is flagged, never dropped.`,
+    `Raw NADH-coupled traces: the initial rate is the least-squares slope of A340 over the first ${SETTINGS.nadhWindowS} s, converted with ε340 = ${SETTINGS.nadhEpsilon340} M⁻¹cm⁻¹ and the path length (one NADH oxidised per ATP hydrolysed), minus the actin-only background of the same batch and actin concentration, divided by the myosin head concentration.`,
   ],
 };

@@ -2,8 +2,9 @@
  * In vitro motility: from per-frame centroid tracks to one velocity per filament.
  * Pure: no I/O.
  */
-import type { SourceRef, TrackRow } from '../study/types.js';
-import { groupBy } from './assay-common.js';
+import type { SourceRef } from '../../results/source.js';
+import { groupBy } from '../assay-common.js';
+import type { TrackRow } from './inputs.js';
 
 /** One centroid position of a track, in µm and s. */
 export interface TrackPoint {
@@ -38,9 +39,9 @@ export interface TrackVelocity {
 }
 
 export interface TrackOptions {
-  /** Sample the path about every this many seconds (ASSAY.motilityStrideS); 0 = every frame. */
+  /** Sample the path about every this many seconds (setting motilityStrideS); 0 = every frame. */
   strideS: number;
-  /** Net displacement rate below which a filament is immobile, µm/s (ASSAY.motilityImmobileUmS). */
+  /** Net displacement rate below which a filament is immobile, µm/s (setting motilityImmobileUmS). */
   immobileUmS: number;
 }
 

@@ -3,7 +3,7 @@
  *
  * Input: per-filament velocities measured elsewhere (motility-velocities) or per-frame
  * centroid tracks (motility-tracks), turned into one velocity per filament by
- * src/assays/motility-tracks.ts (net rate classifies immobile filaments; stride path length gives the velocity).
+ * tracks.ts (net rate classifies immobile filaments; stride path length gives the velocity).
  *
  *   rows ──group by (variant, unit, batch)──▶ filaments ──classify──▶ moving / immobile
  *        ──summarise moving filaments──▶ mean, median, 95th percentile; fraction immobile
@@ -11,63 +11,17 @@
  * Filaments are technical replicates of their protein preparation: they are summarised
  * within the unit, and only units count as n downstream. Pure: no I/O.
  */
-import { ASSAY } from '../defaults.js';
-import type { Flag, MetricDef, UnitResult } from '../results/types.js';
-import type { SourceRef, Study, TrackRow, VelocityRow } from '../study/types.js';
-import { mean, quantile } from '../stats/descriptive.js';
-import { assaySetting, roundForPlot } from './assay-common.js';
-import { groupUnits, sourceRanges } from './assay-common.js';
-import type { SettingsBag } from './assay-common.js';
-import { tracksToFilaments } from './motility-tracks.js';
-import type { FilamentVelocity } from './motility-tracks.js';
-import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
-
-/** Unit flags that qualify the motility values: counted on the comparison rows. */
-const QUALIFIERS = ['motility-too-few-filaments', 'motility-high-immobile-fraction', 'motility-invalid-velocity', 'motility-duplicate-frames'] as const;
-
-export const MOTILITY_METRICS: MetricDef[] = [
-  {
-    id: 'velocity',
-    label: 'Mean velocity of moving filaments',
-    unit: 'µm/s',
-    scale: 'ratio',
-    hyper: 'up',
-    primary: true,
-    description: 'Arithmetic mean of the velocities of the filaments at or above the immobile threshold.',
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'medianVelocity',
-    label: 'Median velocity of moving filaments',
-    unit: 'µm/s',
-    scale: 'ratio',
-    hyper: 'up',
-    primary: false,
-    description: 'Median of the moving filaments’ velocities; less sensitive to a few fast or stuttering filaments.',
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'p95Velocity',
-    label: '95th percentile velocity of moving filaments',
-    unit: 'µm/s',
-    scale: 'ratio',
-    hyper: 'up',
-    primary: false,
-    description: '95th percentile (type 7, as R) of the moving filaments’ velocities: the speed of the fastest filaments.',
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'fractionImmobile',
-    label: 'Fraction of immobile filaments',
-    unit: '',
-    scale: 'difference',
-    hyper: 'none',
-    primary: false,
-    description:
-      'Immobile filaments over all analysed filaments. Reported, not used in calls: it depends strongly on preparation quality (dead heads), so its direction says little about the variant’s mechanism.',
-    carryFlags: QUALIFIERS,
-  },
-];
+import type { SourceRef } from '../../results/source.js';
+import type { Flag, UnitResult } from '../../results/types.js';
+import { mean, quantile } from '../../stats/descriptive.js';
+import { assaySetting, roundForPlot, rowsOf } from '../assay-common.js';
+import { groupUnits, sourceRanges } from '../assay-common.js';
+import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
+import { MOTILITY_TRACKS, MOTILITY_VELOCITIES, type TrackRow, type VelocityRow } from './inputs.js';
+import { MOTILITY_BANDS, MOTILITY_METRICS } from './metrics.js';
+import { MOTILITY_SETTINGS as SETTINGS } from './settings.js';
+import { tracksToFilaments } from './tracks.js';
+import type { FilamentVelocity } from './tracks.js';
 
 /** Thresholds in force for one analysis, read from settings with defaults. */
 export interface MotilitySettings {
@@ -78,14 +32,14 @@ export interface MotilitySettings {
   maxImmobileFraction: number;
 }
 
-/** Read the motility settings: study.settings overrides src/defaults.ts by the same names. */
+/** Read the motility settings: study.settings overrides the defaults (settings.ts) by the same names. */
 export function motilitySettings(...bags: SettingsBag[]): MotilitySettings {
   return {
-    immobileUmS: assaySetting('motilityImmobileUmS', ...bags),
-    strideS: assaySetting('motilityStrideS', ...bags),
-    minFrames: assaySetting('motilityMinFrames', ...bags),
-    minFilaments: assaySetting('motilityMinFilaments', ...bags),
-    maxImmobileFraction: assaySetting('motilityMaxImmobileFraction', ...bags),
+    immobileUmS: assaySetting(SETTINGS, 'motilityImmobileUmS', ...bags),
+    strideS: assaySetting(SETTINGS, 'motilityStrideS', ...bags),
+    minFrames: assaySetting(SETTINGS, 'motilityMinFrames', ...bags),
+    minFilaments: assaySetting(SETTINGS, 'motilityMinFilaments', ...bags),
+    maxImmobileFraction: assaySetting(SETTINGS, 'motilityMaxImmobileFraction', ...bags),
   };
 }
 
@@ -139,7 +93,7 @@ function velocityRowsToFilaments(rows: readonly VelocityRow[]): { filaments: Fil
 }
 
 /** Settings of the input file a row came from (manifest per-file settings), if any. */
-function fileSettings(study: Study, file: string | undefined): SettingsBag {
+function fileSettings(study: AssayStudy, file: string | undefined): SettingsBag {
   return study.files.find((f) => f.path === file)?.settings;
 }
 
@@ -151,7 +105,7 @@ export interface UnitInput {
   velocities: VelocityRow[];
 }
 
-function collectUnits(study: Study): UnitInput[] {
+function collectUnits(study: AssayStudy): UnitInput[] {
   const units = new Map<string, UnitInput>();
   const key = (r: { variant: string; unit: string; batch: string }) => JSON.stringify([r.variant, r.unit, r.batch]);
   const get = (r: { variant: string; unit: string; batch: string }) => {
@@ -162,8 +116,8 @@ function collectUnits(study: Study): UnitInput[] {
     }
     return u;
   };
-  for (const g of groupUnits(study.rows['motility-tracks'] ?? [])) { const list = get(g).tracks; for (const r of g.rows) list.push(r); }
-  for (const g of groupUnits(study.rows['motility-velocities'] ?? [])) { const list = get(g).velocities; for (const r of g.rows) list.push(r); }
+  for (const g of groupUnits(rowsOf(study, MOTILITY_TRACKS))) { const list = get(g).tracks; for (const r of g.rows) list.push(r); }
+  for (const g of groupUnits(rowsOf(study, MOTILITY_VELOCITIES))) { const list = get(g).velocities; for (const r of g.rows) list.push(r); }
   return [...units.values()];
 }
 
@@ -308,7 +262,7 @@ export function motilityPlotPoints(filaments: readonly FilamentVelocity[], immob
 }
 
 /** Per-unit analysis of the motility inputs of a study. */
-export function analyseMotility(study: Study): UnitResult[] {
+export function analyseMotility(study: AssayStudy): UnitResult[] {
   return collectUnits(study).map((u) => {
     const file = (u.tracks[0] ?? u.velocities[0])?.at.file;
     return analyseMotilityUnit(u, motilitySettings(study.settings, fileSettings(study, file)));
@@ -437,14 +391,15 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
     },
     spacing: 3,
     spec: {
-      width: 380,
+      // Plot 340 px and the row notes beside it: about 680 px in all, an A4 page at 100%.
+      width: 340,
       height: 30,
       layer: [
         {
           transform: kind('bin'),
           mark: { type: 'rect' },
           encoding: {
-            x: { field: 'binStart', type: 'quantitative', axis: { title: { signal: 'xTitle' }, titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal' }, scale: { domain: [0, { expr: 'xTop' }], nice: false } },
+            x: { field: 'binStart', type: 'quantitative', axis: { title: { signal: 'xTitle' }, titleAnchor: 'start', titleAlign: 'left', titleFontWeight: 'normal', tickCount: 8, labelFlush: false }, scale: { domain: [0, { expr: 'xTop' }], nice: false } },
             x2: { field: 'binEnd' },
             y: { field: 'share', type: 'quantitative', title: null, scale: { domain: [0, { expr: 'yTop' }], nice: false }, axis: null },
             y2: { field: 'shareLow' },
@@ -464,27 +419,32 @@ export function motilityChart(input: AssayChartInput): ChartSpec {
         ...(['noteWT', 'noteVariant'] as const).map((k) => ({
           transform: kind(k),
           mark: { type: 'text', align: 'left', baseline: 'middle', fontSize: 11, color: '#222222', fontWeight: k === 'noteVariant' ? 'bold' : 'normal' },
-          encoding: { text: { field: 'note', type: 'nominal' }, x: { value: 386 }, y: { value: 15 } },
+          encoding: { text: { field: 'note', type: 'nominal' }, x: { value: 346 }, y: { value: 15 } },
         })),
       ],
     },
     resolve: { axis: { x: 'shared' } },
+    config: { legend: { orient: 'bottom', direction: 'horizontal', titleOrient: 'left' } },
   };
 }
+
+export { MOTILITY_METRICS };
 
 export const motility: AssayModule = {
   id: 'motility',
   label: 'In vitro motility',
-  inputs: ['motility-tracks', 'motility-velocities'],
+  inputs: [MOTILITY_TRACKS, MOTILITY_VELOCITIES],
   metrics: MOTILITY_METRICS,
+  bands: MOTILITY_BANDS,
+  settings: SETTINGS,
   analyse: analyseMotility,
   chart: motilityChart,
   methods: [
-    `From centroid tracks, a filament is immobile when its net displacement over the whole track, divided by the elapsed time, is below ${ASSAY.motilityImmobileUmS} µm/s (setting motilityImmobileUmS); this net rate carries centroid localisation noise only once, whereas summed frame-to-frame steps make a stuck filament look as if it moves at about σ·√π/Δt. A moving filament's velocity is the path length along its centroids sampled about every ${ASSAY.motilityStrideS} s (setting motilityStrideS), divided by the time between the first and last sampled frame: path length follows curved gliding paths, and steps of about a second are long compared with the noise.`,
-    `A track needs at least ${ASSAY.motilityMinFrames} frames (setting motilityMinFrames) to give a velocity; shorter tracks are left out and counted in a flag.`,
-    `A filament slower than ${ASSAY.motilityImmobileUmS} µm/s (setting motilityImmobileUmS) is immobile. Per protein preparation, the mean, median and 95th percentile (type 7 quantile, as R) are taken over the moving filaments, and the fraction immobile over all analysed filaments.`,
+    `From centroid tracks, a filament is immobile when its net displacement over the whole track, divided by the elapsed time, is below ${SETTINGS.motilityImmobileUmS} µm/s (setting motilityImmobileUmS); this net rate carries centroid localisation noise only once, whereas summed frame-to-frame steps make a stuck filament look as if it moves at about σ·√π/Δt. A moving filament's velocity is the path length along its centroids sampled about every ${SETTINGS.motilityStrideS} s (setting motilityStrideS), divided by the time between the first and last sampled frame: path length follows curved gliding paths, and steps of about a second are long compared with the noise.`,
+    `A track needs at least ${SETTINGS.motilityMinFrames} frames (setting motilityMinFrames) to give a velocity; shorter tracks are left out and counted in a flag.`,
+    `A filament slower than ${SETTINGS.motilityImmobileUmS} µm/s (setting motilityImmobileUmS) is immobile. Per protein preparation, the mean, median and 95th percentile (type 7 quantile, as R) are taken over the moving filaments, and the fraction immobile over all analysed filaments.`,
     `Filaments are technical replicates: they are summarised within their protein preparation, and the preparation is the unit counted in the comparison with WT. The mean velocity of moving filaments is the primary metric (ratio scale, an increase counts as hypercontractile); median and 95th percentile are reported only.`,
     `The fraction immobile is compared as a difference and reported without a direction: it depends mainly on the quality of the preparation (dead heads), not on the variant's mechanism.`,
-    `Flags: fewer than ${ASSAY.motilityMinFilaments} analysed filaments per preparation (setting motilityMinFilaments); an immobile fraction above ${ASSAY.motilityMaxImmobileFraction * 100}% (setting motilityMaxImmobileFraction, twice the upper end of the 5–10% typical of human β-cardiac preparations, Nag et al. 2015); no moving filament; repeated frame times; negative velocities.`,
+    `Flags: fewer than ${SETTINGS.motilityMinFilaments} analysed filaments per preparation (setting motilityMinFilaments); an immobile fraction above ${SETTINGS.motilityMaxImmobileFraction * 100}% (setting motilityMaxImmobileFraction, twice the upper end of the 5–10% typical of human β-cardiac preparations, Nag et al. 2015); no moving filament; repeated frame times; negative velocities.`,
   ],
 };

@@ -11,58 +11,23 @@
  * WT traces of its batch (their rates tell which phase a one-phase trace shows), so the module
  * analyses a batch at a time. Pure: no I/O.
  */
-import { ASSAY, FIT } from '../defaults.js';
-import { extraSumOfSquaresF } from '../numeric/compare.js';
-import { exponentialDouble, slowFraction } from '../numeric/models/exponential-double.js';
-import { exponentialDoubleFixedRate } from '../numeric/models/exponential-double-fixed.js';
-import { exponentialSingle } from '../numeric/models/exponential-single.js';
-import { fitCurve } from '../numeric/nls.js';
-import type { CurveModel, FitResult } from '../numeric/types.js';
-import type { Flag, MetricDef, UnitResult } from '../results/types.js';
-import type { SourceRef, Study, TurnoverRow } from '../study/types.js';
-import { mean, se } from '../stats/descriptive.js';
-import { assaySetting, groupBy } from './assay-common.js';
-import type { SettingsBag } from './assay-common.js';
-import { GROUP_COLOURS, brokenPaths } from './chart-common.js';
-import { groupUnits, relativeSeFlags } from './assay-common.js';
-import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
-
-/** Unit flags that qualify the turnover values: counted on the comparison rows. */
-const QUALIFIERS = ['one-phase-trace', 'window-too-short', 'not-converged', 'no-reference-rates'] as const;
-
-export const TURNOVER_METRICS: MetricDef[] = [
-  {
-    id: 'slowFraction',
-    label: 'Slow-phase fraction',
-    unit: '',
-    scale: 'difference',
-    hyper: 'down',
-    primary: true,
-    description:
-      'Slow amplitude over the sum of fast and slow amplitudes: the share of heads in the slow (super-relaxed) state. Fewer slow heads means more heads available, counted as hypercontractile.',
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'kFast',
-    label: 'Fast-phase rate',
-    unit: 's⁻¹',
-    scale: 'ratio',
-    hyper: 'none',
-    primary: false,
-    description: 'Rate constant of the fast phase of nucleotide release.',
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'kSlow',
-    label: 'Slow-phase rate',
-    unit: 's⁻¹',
-    scale: 'ratio',
-    hyper: 'none',
-    primary: false,
-    description: 'Rate constant of the slow phase of nucleotide release.',
-    carryFlags: QUALIFIERS,
-  },
-];
+import { FIT } from '../../defaults.js';
+import { extraSumOfSquaresF } from '../../numeric/compare.js';
+import { exponentialDouble, slowFraction } from '../../numeric/models/exponential-double.js';
+import { exponentialDoubleFixedRate } from '../../numeric/models/exponential-double-fixed.js';
+import { exponentialSingle } from '../../numeric/models/exponential-single.js';
+import { fitCurve } from '../../numeric/nls.js';
+import type { CurveModel, FitResult } from '../../numeric/types.js';
+import type { SourceRef } from '../../results/source.js';
+import type { Flag, UnitResult } from '../../results/types.js';
+import { mean, se } from '../../stats/descriptive.js';
+import { assaySetting, groupBy, rowsOf } from '../assay-common.js';
+import { UNIT_CHART_HEIGHT, UNIT_CHART_WIDTH, groupChannel, groupCurveLayers, groupParams } from '../chart-common.js';
+import { groupUnits, relativeSeFlags } from '../assay-common.js';
+import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
+import { TURNOVER, type TurnoverRow } from './inputs.js';
+import { TURNOVER_BANDS, TURNOVER_METRICS } from './metrics.js';
+import { TURNOVER_SETTINGS as SETTINGS } from './settings.js';
 
 /** Thresholds in force for the turnover analysis. */
 export interface TurnoverSettings {
@@ -71,12 +36,12 @@ export interface TurnoverSettings {
   minSlowTimeConstants: number;
 }
 
-/** Read the turnover settings: later bags (more specific) override earlier ones, then src/defaults.ts. */
+/** Read the turnover settings: later bags (more specific) override earlier ones, then the defaults (settings.ts). */
 export function turnoverSettings(...bags: SettingsBag[]): TurnoverSettings {
   return {
-    fTestAlpha: assaySetting('turnoverFTestAlpha', ...bags),
-    minRateRatio: assaySetting('turnoverMinRateRatio', ...bags),
-    minSlowTimeConstants: assaySetting('turnoverMinSlowTimeConstants', ...bags),
+    fTestAlpha: assaySetting(SETTINGS, 'turnoverFTestAlpha', ...bags),
+    minRateRatio: assaySetting(SETTINGS, 'turnoverMinRateRatio', ...bags),
+    minSlowTimeConstants: assaySetting(SETTINGS, 'turnoverMinSlowTimeConstants', ...bags),
   };
 }
 
@@ -123,7 +88,7 @@ function param(fit: FitResult, name: string): number {
  * A trace shorter than turnoverMinSlowTimeConstants/kSlow is flagged (slow phase not
  * followed long enough).
  * Source: model and slow fraction as in Hooijman, Stewart & Cooke 2011, Biophys J
- * 100:1969, and Sarkar et al., Sci Adv 2020 (REFERENCES.md §6).
+ * 100:1969, and Sarkar et al., Sci Adv 2020.
  * @example fitTurnoverTrace(t, 0.7·e^(−0.03t) + 0.3·e^(−0.0034t) sampled 0–1800 s, settings)
  *   // → { model: 'double', slowFraction: 0.30, kFast: 0.030, kSlow: 0.0034, … }
  */
@@ -323,7 +288,7 @@ function modelOf(trace: TraceResult): CurveModel {
  * Normalised fluorescence of a trace: (F − c)/(F̂(t_first) − c) from the chosen fit
  * (offset c, fitted value at the first time), so each fitted trace falls from 1 to 0.
  * Without a fit: (F − F_last)/(F_first − F_last) with the readings themselves.
- * @example normaliser(doubleFitWithOffset120AndAmplitude500, t, y)(300.2) // → 0.36035 (t = 60 s of the REFERENCES.md §6 curve)
+ * @example normaliser(doubleFitWithOffset120AndAmplitude500, t, y)(300.2) // → 0.36035 (t = 60 s of the double-exponential check curve: slow fraction 0.30, 0.030 and 0.0034 s⁻¹, computed)
  */
 function normaliser(trace: TraceResult, t: readonly number[], y: readonly number[]): (value: number) => number {
   if (trace.fit) {
@@ -464,7 +429,7 @@ function seOfParam(r: TraceResult, name: string): number | null {
 }
 
 /** Settings of the input file a row came from (manifest per-file settings), if any. */
-function fileSettings(study: Study, file: string | undefined): SettingsBag {
+function fileSettings(study: AssayStudy, file: string | undefined): SettingsBag {
   return study.files.find((f) => f.path === file)?.settings;
 }
 
@@ -473,9 +438,9 @@ function fileSettings(study: Study, file: string | undefined): SettingsBag {
  * the batch's WT traces give the reference rates (`referenceRates`), and each unit is summarised
  * with them.
  */
-export function analyseTurnover(study: Study): UnitResult[] {
+export function analyseTurnover(study: AssayStudy): UnitResult[] {
   const wt = new Set(study.variants.filter((v) => v.isWT).map((v) => v.id));
-  const groups = groupUnits(study.rows.turnover ?? []);
+  const groups = groupUnits(rowsOf(study, TURNOVER));
   const fitted = groups.map((g) => fitUnitTraces(g.rows, turnoverSettings(study.settings, fileSettings(study, g.rows[0]!.at.file))));
   const references = new Map<string, ReferenceRates | null>();
   for (const batch of new Set(groups.map((g) => g.batch))) {
@@ -531,10 +496,18 @@ export function thinPerTrace<T extends Record<string, unknown>>(rows: readonly T
   return out;
 }
 
+/** Time ticks of the turnover chart's log axis (s): 1–2–5 steps. */
+const LOG_TIME_TICKS = [0.1, 0.2, 0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500, 1000, 2000, 5000, 10000, 20000, 50000, 100000];
+
 /**
- * Variant-report chart: normalised fluorescence against time, readings as points and each
- * trace's chosen fit as a line; WT and variant told apart by colour, point shape and
- * line dash.
+ * Variant-report chart: normalised fluorescence against time on a log axis, readings as points
+ * and each trace's chosen fit as a line; WT (light grey, dashed, circles) drawn first and the
+ * variant (near-black, solid, crosses) over it, the legend naming the variant. On a log axis the
+ * fast and slow phases each take their own stretch of the chart, so a change in the slow-phase
+ * fraction shows as a different height of the shoulder between them. Readings and curve points
+ * at time 0 (the chase start) cannot sit on a log axis and are not drawn (they are in
+ * results.json); the axis starts at the first fitted-curve time after 0 (the early fall of the
+ * fast phase), or at the latest 20 times before the first later reading.
  */
 export function turnoverChart(input: AssayChartInput): ChartSpec {
   // Readings: at most MAX_CHART_READINGS per trace (every k-th stored reading); curves as stored.
@@ -548,66 +521,78 @@ export function turnoverChart(input: AssayChartInput): ChartSpec {
           : { group, unit: `${u.unit} (${u.batch})`, trace: r.trace, time: r.time, normFluorescence: r.normFluorescence },
       );
     });
-  const points = [...flatten(input.wtUnits, 'WT', 'points'), ...flatten(input.variantUnits, 'Variant', 'points')];
+  const positive = (r: { time: unknown }) => typeof r.time === 'number' && r.time > 0;
+  const allPoints = [...flatten(input.wtUnits, 'WT', 'points'), ...flatten(input.variantUnits, 'Variant', 'points')];
+  const allCurve = [...flatten(input.wtUnits, 'WT', 'curve'), ...flatten(input.variantUnits, 'Variant', 'curve')];
+  const times = [...allPoints, ...allCurve].filter(positive).map((r) => r.time as number);
+  // From the first fitted-curve time after the start (the curve's fall from 1 is the fast phase),
+  // but at most 20 times earlier than the first reading after the start.
+  const firstReading = Math.min(...allPoints.filter(positive).map((r) => r.time as number));
+  const firstCurve = Math.min(...allCurve.filter(positive).map((r) => r.time as number));
+  const start = Number.isFinite(firstReading) ? Math.max(Math.min(firstCurve, firstReading / 2), firstReading / 20) : Number.isFinite(firstCurve) ? firstCurve : 1;
+  const tMin = Number(start.toPrecision(3));
+  const tMax = Number((times.length ? Math.max(...times) * 1.05 : 10).toPrecision(3));
+  const ticks = LOG_TIME_TICKS.filter((t) => t >= tMin && t <= tMax);
+  const inRange = (r: { time: unknown }) => positive(r) && (r.time as number) >= tMin;
+  const points = allPoints.filter(inRange);
   // One broken path per group (see brokenPaths): the same lines as one per trace, far fewer vega operators.
-  const curve = brokenPaths([...flatten(input.wtUnits, 'WT', 'curve'), ...flatten(input.variantUnits, 'Variant', 'curve')], 'traceKey', 'time', 'normFluorescence');
-  const x = { field: 'time', type: 'quantitative', title: 'Time after chase (s)' };
-  const y = { field: 'normFluorescence', type: 'quantitative', title: 'Normalised fluorescence' };
-  const color = {
-    field: 'group',
-    type: 'nominal',
-    title: null,
-    scale: { domain: ['WT', 'Variant'], range: [GROUP_COLOURS.WT, GROUP_COLOURS.Variant] },
+  const curve = allCurve.filter(inRange);
+  const x = {
+    field: 'time',
+    type: 'quantitative',
+    title: 'Time after chase (s, log scale)',
+    scale: { type: 'log', domain: { expr: 'timeDomain' }, nice: false },
+    axis: { values: { expr: 'timeTicks' }, format: '~g' },
   };
+  const y = { field: 'normFluorescence', type: 'quantitative', title: 'Normalised fluorescence' };
   return {
     title: `Single turnover: ${input.variantLabel} beside WT of the same batches`,
     description:
       `Fluorescence of each chase trace of ${input.variantLabel} and of WT in the same batches, normalised so that each trace's fit falls from 1 at the first reading to 0 at its plateau, ` +
-      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise). A slower overall decay means a larger slow-phase fraction. Each trace shows at most ${MAX_CHART_READINGS} readings (every k-th reading of longer traces); all readings were fitted.`,
+      `with the fitted curve of each trace (double exponential where two phases were resolved, single exponential otherwise), against time on a log scale: the fast phase falls first, the slow phase later, and a larger slow-phase fraction shows as a higher shoulder between them. ` +
+      `Each trace shows at most ${MAX_CHART_READINGS} readings (every k-th reading of longer traces) and no reading at time 0; all readings were fitted.`,
     usermeta: {
       table: turnoverTable(input),
     },
-    width: 420,
-    height: 260,
+    // Axis range and ticks depend on the data: parameters, so that every turnover chart has one shape.
+    params: [...groupParams(input), { name: 'timeDomain', value: [tMin, tMax] }, { name: 'timeTicks', value: ticks }],
+    width: UNIT_CHART_WIDTH,
+    height: UNIT_CHART_HEIGHT,
     layer: [
       {
-        data: { values: curve },
-        mark: { type: 'line', strokeWidth: 1.6 },
-        encoding: {
-          x,
-          y,
-          color,
-          order: { field: 'seq', type: 'quantitative' },
-          strokeDash: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: [[4, 3], [1, 0]] } },
-        },
-      },
-      {
         data: { values: points },
-        mark: { type: 'point', filled: true, size: 12, opacity: 0.45 },
-        encoding: {
-          x,
-          y,
-          color,
-          shape: { field: 'group', type: 'nominal', title: null, scale: { domain: ['WT', 'Variant'], range: ['circle', 'triangle-up'] } },
-        },
+        mark: { type: 'point', filled: true, size: 14, opacity: 0.45 },
+        encoding: { x, y, color: groupChannel('colour'), shape: groupChannel('shape') },
       },
+      ...groupCurveLayers(
+        curve.filter((r) => r.group === 'WT'),
+        curve.filter((r) => r.group === 'Variant'),
+        'traceKey',
+        x,
+        y,
+        { strokeWidth: 1.6, interpolate: 'monotone' },
+      ),
     ],
   };
 }
 
+export { TURNOVER_METRICS };
+
 export const turnover: AssayModule = {
   id: 'turnover',
   label: 'Single turnover (mant-nucleotide chase)',
-  inputs: ['turnover'],
+  inputs: [TURNOVER],
   metrics: TURNOVER_METRICS,
+  bands: TURNOVER_BANDS,
+  settings: SETTINGS,
   analyse: analyseTurnover,
   chart: turnoverChart,
   methods: [
     `Each chase trace is fitted with ${exponentialDouble.formula} and with ${exponentialSingle.formula} by Levenberg–Marquardt nonlinear least squares, time as recorded so that amplitudes refer to t = 0.`,
-    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${ASSAY.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${ASSAY.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), both amplitudes are positive, and both rates and both amplitudes have a standard error of at most ${FIT.maxRelativeSe * 100}% of their value (a spurious split of one phase into two fits the data but leaves them loose). Otherwise only one phase is resolved and the trace is flagged.`,
+    `The two-phase model is kept only when the extra-sum-of-squares F test of the double against the single exponential gives p < ${SETTINGS.turnoverFTestAlpha} (setting turnoverFTestAlpha), the fast rate is at least ${SETTINGS.turnoverMinRateRatio} times the slow rate (setting turnoverMinRateRatio), both amplitudes are positive, and both rates and both amplitudes have a standard error of at most ${FIT.maxRelativeSe * 100}% of their value (a spurious split of one phase into two fits the data but leaves them loose). Otherwise only one phase is resolved and the trace is flagged.`,
     'A one-phase trace is placed by a stated rule: its rate is the fast phase when it is at least √(kFast·kSlow) of the WT traces of the same batch (geometric means over WT traces with two resolved phases), else the slow phase. It is then refitted with both phases and the other phase’s rate fixed at WT’s: the other amplitude is estimated from the data (it may come out near zero or below), so a trace with no slow phase gives a slow fraction near 0, and one with only a slow phase near 1, each with its standard error. A batch with no such WT trace leaves one-phase traces without a value, flagged.',
     'Slow-phase fraction = Aslow/(Afast + Aslow) (Sarkar et al., Sci Adv 2020), with its standard error by the delta method.',
     'Traces are technical replicates: each preparation’s metrics are the means of its traces’ estimable metrics (a trace left without a value is named in a flag on the preparation and on the comparison), and the preparation is the unit counted in the comparison with WT. The slow fraction is primary (difference scale; a decrease, more heads available, counts as hypercontractile); fast and slow rates are reported only.',
-    `Flags: one phase resolved; no WT reference rates in the batch; a trace shorter than ${ASSAY.turnoverMinSlowTimeConstants} slow-phase time constant(s) 1/kSlow (setting turnoverMinSlowTimeConstants); a rate or slow amplitude whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value; no converged fit.`,
+    `Flags: one phase resolved; no WT reference rates in the batch; a trace shorter than ${SETTINGS.turnoverMinSlowTimeConstants} slow-phase time constant(s) 1/kSlow (setting turnoverMinSlowTimeConstants); a rate or slow amplitude whose standard error exceeds ${FIT.maxRelativeSe * 100}% of its value; no converged fit.`,
   ],
 };

@@ -8,11 +8,13 @@
  * In the pyruvate kinase / lactate dehydrogenase coupled assay one NADH is oxidised per
  * ATP hydrolysed, so the rate of A340 loss gives the ATP turnover. Pure: no I/O.
  */
-import type { Flag } from '../results/types.js';
-import type { AtpaseRateRow, NadhRow, SourceRef } from '../study/types.js';
-import { mean } from '../stats/descriptive.js';
-import { assaySetting, groupBy, straightLineFit } from './assay-common.js';
-import type { SettingsBag } from './assay-common.js';
+import type { SourceRef } from '../../results/source.js';
+import type { Flag } from '../../results/types.js';
+import { mean } from '../../stats/descriptive.js';
+import { assaySetting, groupBy, straightLineFit } from '../assay-common.js';
+import type { SettingsBag } from '../types.js';
+import type { AtpaseRateRow, NadhRow } from './inputs.js';
+import { ATPASE_SETTINGS as SETTINGS } from './settings.js';
 
 /** Minimum readings inside the window for a slope (a line through 2 points has no error estimate). */
 const MIN_READINGS = 3;
@@ -41,7 +43,7 @@ export interface WellRate {
  * ATP turnover (µM/s) from an A340 slope, by Beer–Lambert: c = A/(ε·l), so
  * d[NADH]/dt = (dA340/dt)/(ε340·l) in M/s; turnover = −d[NADH]/dt, times 1e6 for µM/s.
  * Source: ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948, J Biol Chem 175:385).
- * @example a340SlopeToTurnoverUMS(-0.010 / 60, 1, 6220) // → 0.026795 (REFERENCES.md §6)
+ * @example a340SlopeToTurnoverUMS(-0.010 / 60, 1, 6220) // → 0.026795 (computed with ε340 = 6220 M⁻¹cm⁻¹, Horecker & Kornberg 1948)
  */
 export function a340SlopeToTurnoverUMS(slopePerS: number, pathCm: number, epsilonPerMPerCm: number): number {
   return (-slopePerS / (epsilonPerMPerCm * pathCm)) * 1e6;
@@ -92,7 +94,7 @@ function sameActin(a: number, b: number): boolean {
  * Turn NADH-coupled A340 readings into per-head ATPase rates, one row per sample well.
  *
  * Method, per well (readings grouped by file, batch and well): least-squares slope of A340
- * over the first `nadhWindowS` seconds (setting; default in src/defaults.ts); turnover
+ * over the first `nadhWindowS` seconds (setting; default in settings.ts); turnover
  * (µM/s) = −slope ÷ (ε340·path length) × 10⁶ with ε340 = `nadhEpsilon340`; minus the mean
  * turnover of the actin-only wells of the same batch at the same [actin]; ÷ [heads] (µM)
  * → s⁻¹.
@@ -105,8 +107,8 @@ function sameActin(a: number, b: number): boolean {
  *   // well → rates[0].ratePerS ≈ 2.6795 s⁻¹ (0.026795 µM/s ÷ 0.01 µM) with a 'nadh-no-background' flag
  */
 export function nadhToRates(rows: readonly NadhRow[], settings?: SettingsBag): { rates: AtpaseRateRow[]; flags: Flag[] } {
-  const windowS = assaySetting('nadhWindowS', settings);
-  const epsilon = assaySetting('nadhEpsilon340', settings);
+  const windowS = assaySetting(SETTINGS, 'nadhWindowS', settings);
+  const epsilon = assaySetting(SETTINGS, 'nadhEpsilon340', settings);
   const flags: Flag[] = [];
   const wells: WellRate[] = [];
   for (const wellRows of groupBy(rows, (r) => JSON.stringify([r.at.file, r.batch, r.well])).values()) {
@@ -163,8 +165,8 @@ export function nadhToRates(rows: readonly NadhRow[], settings?: SettingsBag): {
 /** Methods-page sentences for the NADH conversion (the ATPase module may quote them). */
 export function nadhMethods(settings?: SettingsBag): string[] {
   return [
-    `NADH-coupled traces: per well, the initial rate is the least-squares slope of A340 against time over the first ${assaySetting('nadhWindowS', settings)} s after the well's first reading (at least ${MIN_READINGS} readings).`,
-    `ATP turnover (µM/s) = −slope ÷ (ε340 · path length) × 10⁶, with ε340 = ${assaySetting('nadhEpsilon340', settings)} M⁻¹cm⁻¹ (Horecker & Kornberg 1948) and one NADH oxidised per ATP hydrolysed.`,
+    `NADH-coupled traces: per well, the initial rate is the least-squares slope of A340 against time over the first ${assaySetting(SETTINGS, 'nadhWindowS', settings)} s after the well's first reading (at least ${MIN_READINGS} readings).`,
+    `ATP turnover (µM/s) = −slope ÷ (ε340 · path length) × 10⁶, with ε340 = ${assaySetting(SETTINGS, 'nadhEpsilon340', settings)} M⁻¹cm⁻¹ (Horecker & Kornberg 1948) and one NADH oxidised per ATP hydrolysed.`,
     `The mean turnover of the actin-only wells of the same batch at the same actin concentration is subtracted, and the result is divided by the myosin head concentration to give a rate per head (s⁻¹). Without a matching actin-only well the rate is kept unsubtracted and flagged.`,
   ];
 }

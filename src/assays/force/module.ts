@@ -9,68 +9,18 @@
  * enters the one fit of its preparation; the statistics later count preparations.
  * Pure: no I/O.
  */
-import { ASSAY, FIT } from '../defaults.js';
-import { fitCurve } from '../numeric/nls.js';
-import { hillForcePca } from '../numeric/models/hill-force-pca.js';
-import type { FitResult } from '../numeric/types.js';
-import type { Flag, MetricDef, UnitResult } from '../results/types.js';
-import type { ForceRow, Study } from '../study/types.js';
-import { assaySetting } from './assay-common.js';
-import type { SettingsBag } from './assay-common.js';
-import { groupEncoding, unitChart } from './chart-common.js';
-import { groupUnits, relativeSeFlags } from './assay-common.js';
-import type { AssayChartInput, AssayModule, ChartSpec } from './types.js';
-
-/** Unit flags that make the Hill parameters extrapolations or meaningless: such a unit does not enter their comparison. */
-const EXTRAPOLATED = ['pca50-out-of-range', 'force-no-activation'] as const;
-/** Unit flags that qualify the fitted values: counted on the comparison rows. */
-const QUALIFIERS = ['too-few-points', 'poorly-determined'] as const;
-
-export const FORCE_METRICS: MetricDef[] = [
-  {
-    id: 'fmax',
-    label: 'Fmax (calcium-activated tension)',
-    unit: 'kPa',
-    scale: 'ratio',
-    hyper: 'up',
-    primary: true,
-    description: 'Maximal calcium-activated tension above passive, from the fitted Hill curve (kPa = mN/mm²).',
-    excludeFlagged: EXTRAPOLATED,
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'pCa50',
-    label: 'pCa50',
-    unit: '',
-    scale: 'difference',
-    hyper: 'up',
-    primary: true,
-    description: 'pCa at half-maximal activation; a positive difference from WT is calcium sensitisation.',
-    excludeFlagged: EXTRAPOLATED,
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'nH',
-    label: 'Hill coefficient nH',
-    unit: '',
-    scale: 'ratio',
-    hyper: 'none',
-    primary: false,
-    description: 'Steepness of the force–pCa relation (cooperativity of activation).',
-    excludeFlagged: EXTRAPOLATED,
-    carryFlags: QUALIFIERS,
-  },
-  {
-    id: 'passive',
-    label: 'Passive tension',
-    unit: 'kPa',
-    scale: 'difference',
-    hyper: 'none',
-    primary: false,
-    description: 'Fitted tension at low calcium (high pCa), compared as a difference in kPa: it lies near zero, where ratios are unstable, and a fit may put it below zero.',
-    carryFlags: ['too-few-points'],
-  },
-];
+import { FIT } from '../../defaults.js';
+import { fitCurve } from '../../numeric/nls.js';
+import { hillForcePca } from '../../numeric/models/hill-force-pca.js';
+import type { FitResult } from '../../numeric/types.js';
+import type { Flag, UnitResult } from '../../results/types.js';
+import { assaySetting, rowsOf } from '../assay-common.js';
+import { groupEncoding, unitChart } from '../chart-common.js';
+import { groupUnits, relativeSeFlags } from '../assay-common.js';
+import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
+import { FORCE_PCA, type ForceRow } from './inputs.js';
+import { FORCE_BANDS, FORCE_METRICS } from './metrics.js';
+import { FORCE_SETTINGS as SETTINGS } from './settings.js';
 
 /** Points of the fitted-curve grid per preparation (0.083 pCa apart over the usual 9.25–4.25 span: about 8 points across a steep transition). */
 const CURVE_POINTS = 61;
@@ -197,14 +147,14 @@ export function analyseForceUnit(
 }
 
 /** Settings of the input file a row came from (manifest per-file settings), if any. */
-function fileSettings(study: Study, file: string | undefined): SettingsBag {
+function fileSettings(study: AssayStudy, file: string | undefined): SettingsBag {
   return study.files.find((f) => f.path === file)?.settings;
 }
 
 /** Per-preparation analysis of a study's force–pCa rows. */
-export function analyseForce(study: Study): UnitResult[] {
-  return groupUnits(study.rows['force-pca'] ?? []).map((g) => {
-    const minPoints = assaySetting('forceMinPoints', study.settings, fileSettings(study, g.rows[0].at.file));
+export function analyseForce(study: AssayStudy): UnitResult[] {
+  return groupUnits(rowsOf(study, FORCE_PCA)).map((g) => {
+    const minPoints = assaySetting(SETTINGS, 'forceMinPoints', study.settings, fileSettings(study, g.rows[0].at.file));
     const r = analyseForceUnit(g.rows, minPoints);
     return { assay: 'force', variant: g.variant, unit: g.unit, batch: g.batch, ...r, source: g.source };
   });
@@ -224,18 +174,22 @@ export function forceChart(input: AssayChartInput): ChartSpec {
   });
 }
 
+export { FORCE_METRICS };
+
 export const force: AssayModule = {
   id: 'force',
   label: 'Force–pCa',
-  inputs: ['force-pca'],
+  inputs: [FORCE_PCA],
   metrics: FORCE_METRICS,
+  bands: FORCE_BANDS,
+  settings: SETTINGS,
   analyse: analyseForce,
   chart: forceChart,
   methods: [
     `Per preparation, all tension readings at all pCa values (replicates included) are fitted together with ${hillForcePca.formula} by Levenberg–Marquardt nonlinear least squares; start values come from a grid scan of pCa50 and nH with passive and Fmax solved linearly at each grid point.`,
     'Repeated readings at a pCa are technical replicates: they inform that preparation’s curve, and the preparation is the unit counted in the comparison with WT. Fmax (ratio scale, increase hypercontractile) and pCa50 (difference scale, increase = calcium sensitisation, hypercontractile) are primary; nH (ratio) and passive tension (difference in kPa, as it lies near zero) are reported only.',
     'A preparation whose pCa50 lies outside the measured pCa range, or whose fitted Fmax is not positive, gives extrapolated or meaningless Hill parameters: such a WT preparation is left out of the Fmax, pCa50 and nH comparisons, and a variant with such a preparation gets no comparison of them (not estimable, with the reason).',
-    `Flags: fewer than ${ASSAY.forceMinPoints} distinct pCa values (setting forceMinPoints); a fit that does not converge (shown, with no values); pCa50 outside the measured pCa range; a standard error above ${FIT.maxRelativeSe * 100}% of Fmax or nH, or of [Ca²⁺]50 (ln 10 × SE of pCa50); a fitted Fmax that is not positive. Passive tension is not checked for relative error because it is often close to zero.`,
+    `Flags: fewer than ${SETTINGS.forceMinPoints} distinct pCa values (setting forceMinPoints); a fit that does not converge (shown, with no values); pCa50 outside the measured pCa range; a standard error above ${FIT.maxRelativeSe * 100}% of Fmax or nH, or of [Ca²⁺]50 (ln 10 × SE of pCa50); a fitted Fmax that is not positive. Passive tension is not checked for relative error because it is often close to zero.`,
     'Charts show normalised force (F − Fpassive)/Fmax, each preparation normalised by its own fit, with pCa decreasing to the right.',
   ],
 };

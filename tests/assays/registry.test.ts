@@ -1,0 +1,70 @@
+/**
+ * The input kinds, row schemas, bands and settings the loader and the analysis use are the
+ * registry's (src/assays/registry.ts), derived from each assay's folder, and the committed
+ * manifest schema is the one the registry makes.
+ */
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { ASSAY_IDS, BANDS, DIFFERENCE_METRICS, KINDS, SETTINGS, assemble } from '../../src/assays/assembled.js';
+import { ASSAYS } from '../../src/assays/registry.js';
+import type { AssayModule } from '../../src/assays/types.js';
+import { manifestSchemaText } from '../../src/study/manifest-schema.js';
+import { readManifest } from '../../src/study/manifest.js';
+import { CATALOGUE, INPUT_KINDS, KIND_DEFS, MANIFEST_SCHEMA, ROW_SCHEMAS } from '../../src/study/schemas.js';
+
+const base = { title: 't', lab: 'l', dates: ['2025-01-01'], synthetic: true, genes: [{ symbol: 'G' }], variants: [{ wt: true }], direction: 'hypercontractile' };
+
+describe('the assay registry', () => {
+  it('gives the input kinds and their row schemas, each from its assay', () => {
+    expect(ASSAY_IDS).toEqual(ASSAYS.map((a) => a.id));
+    expect(INPUT_KINDS).toEqual(ASSAYS.flatMap((a) => a.inputs.map((k) => k.kind)));
+    expect(INPUT_KINDS).toEqual(['atpase-rates', 'atpase-nadh', 'motility-tracks', 'motility-velocities', 'force-pca', 'turnover']);
+    for (const a of ASSAYS) {
+      for (const def of a.inputs) {
+        expect(KIND_DEFS[def.kind]).toBe(def);
+        expect(ROW_SCHEMAS[def.kind]).toBe(def.schema);
+        expect(def.schema['x-kind']).toBe(def.kind);
+        expect(CATALOGUE[def.kind]!.columns.map((c) => c.name)).toEqual(Object.keys(def.schema.properties as object));
+        expect(KINDS.find((k) => k.def === def)!.assay).toBe(a);
+      }
+    }
+    const kindEnum = (MANIFEST_SCHEMA.properties as any).files.items.properties.kind.enum;
+    expect(kindEnum).toEqual(INPUT_KINDS);
+  });
+
+  it('gives every band and setting, each defined once in its assay, in registry order', () => {
+    const bands = ASSAYS.flatMap((a) => Object.entries(a.bands).map(([m, b]) => [`${a.id}.${m}`, b]));
+    expect(Object.entries(BANDS)).toEqual(bands);
+    for (const a of ASSAYS) for (const m of a.metrics.filter((x) => x.primary)) expect(BANDS[`${a.id}.${m.id}`]).toBeDefined();
+    expect([...DIFFERENCE_METRICS]).toEqual(ASSAYS.flatMap((a) => a.metrics.filter((m) => m.scale === 'difference').map((m) => `${a.id}.${m.id}`)));
+    expect(SETTINGS).toEqual(Object.assign({}, ...ASSAYS.map((a) => a.settings)));
+    // The defaults as they were in src/defaults.ts before the assays became folders (the demo relies on them).
+    expect(BANDS['atpase.kcat']).toEqual([0.8, 1.25]);
+    expect(BANDS['force.pCa50']).toEqual([-0.1, 0.1]);
+    expect(SETTINGS.nadhEpsilon340).toBe(6220); // Horecker & Kornberg 1948
+  });
+
+  it('lets the manifest set every setting and band of the registry, and a difference band below zero', () => {
+    const settings = Object.fromEntries(Object.entries(SETTINGS).map(([k, v]) => [k, v * 2]));
+    const bands = Object.fromEntries(Object.entries(BANDS));
+    const files = INPUT_KINDS.map((kind) => ({ path: `${kind}.csv`, kind }));
+    const m = readManifest(JSON.stringify({ ...base, files, settings, thresholds: { bands } }), 'study.json');
+    expect(m.issues).toEqual([]);
+    expect(m.manifest!.settings).toEqual(settings);
+    // atpase.basal and force.passive are difference metrics: [-0.01, 0.01] is a valid band (a ratio band must be positive).
+    const ratio = readManifest(JSON.stringify({ ...base, files, thresholds: { bands: { 'atpase.kcat': [-0.1, 0.1] } } }), 'study.json');
+    expect(ratio.issues.map((i) => i.code)).toEqual(['manifest.band-ratio']);
+  });
+
+  it('makes the committed manifest schema (regenerate: npx tsx src/study/manifest-schema.ts --write)', () => {
+    expect(readFileSync('schemas/manifest.schema.json', 'utf8')).toBe(manifestSchemaText());
+  });
+
+  it('refuses two assays that claim one id, kind or setting, and a band of no metric', () => {
+    const [atpase, motility] = ASSAYS as [AssayModule, AssayModule];
+    expect(() => assemble([atpase, atpase])).toThrow(/id 'atpase' is used twice/);
+    expect(() => assemble([atpase, { ...motility, inputs: atpase.inputs }])).toThrow(/input kind 'atpase-rates' is read by two assays/);
+    expect(() => assemble([atpase, { ...motility, settings: { atpaseMinPoints: 1 } }])).toThrow(/setting 'atpaseMinPoints'/);
+    expect(() => assemble([{ ...atpase, bands: { nothing: [0.8, 1.25] } }])).toThrow(/'nothing', which is not one of its metrics/);
+  });
+});
