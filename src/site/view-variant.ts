@@ -100,7 +100,7 @@ export function inputWarnings(v: VariantResult): Notice[] {
   const warnings = v.warnings ?? [];
   if (warnings.length === 0) return [];
   const where = (w: (typeof warnings)[number]) =>
-    `${w.at.file}${w.at.line !== undefined ? `, line ${w.at.line}${w.at.lineEnd !== undefined ? `–${w.at.lineEnd}` : ''}` : ''}${w.at.column ? `, column ${w.at.column}` : ''}${w.at.jsonPath ? `, ${w.at.jsonPath}` : ''}`;
+    `${w.at.file}${w.at.line !== undefined ? (w.at.lineEnd !== undefined && w.at.lineEnd !== w.at.line ? `, lines ${w.at.line}–${w.at.lineEnd}` : `, line ${w.at.line}`) : ''}${w.at.column ? `, column ${w.at.column}` : ''}${w.at.jsonPath ? `, ${w.at.jsonPath}` : ''}`;
   return [{ kind: 'input-warnings', title: 'Warnings about the input', items: warnings.map((w) => `${w.message} ${w.fix} [${where(w)}; ${w.code}]`) }];
 }
 
