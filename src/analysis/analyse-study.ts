@@ -7,6 +7,8 @@
  *         ──score────▶ assay and variant calls, with sentences (score.ts)
  *         ──qc───────▶ WT control charts, Westgard rules; rejected batches flag their variants
  *         ──calibrate▶ OddsPath per assay and overall; evidence ceiling per variant
+ *         ──checks───▶ warnings that need the units (study-checks.ts), with the loader's; each
+ *                      variant carries those that touch it
  *         ──────────▶ StudyResults (src/results/types.ts)
  *
  * No I/O, no clock: the build time comes in as an argument.
@@ -28,10 +30,12 @@ import type {
   UnitResult,
   VariantResult,
 } from '../results/types.js';
-import type { Exclusion, Study, Variant } from '../study/types.js';
+import { groupIssues } from '../study/group-issues.js';
+import type { Exclusion, Issue, Study, Variant } from '../study/types.js';
 import { compareAssay } from './normalise.js';
 import { assayCall, callComparisons, combiningRule, variantCall } from './score.js';
 import { wtControlCharts } from './control-charts.js';
+import { studyChecks } from './study-checks.js';
 
 export interface AnalyseOptions {
   toolVersion: string;
@@ -41,6 +45,8 @@ export interface AnalyseOptions {
   assays?: readonly AssayModule[];
   /** Per-unit results computed elsewhere (e.g. from the store: src/pipeline/analyse-units.ts); default: each module's analyse(). */
   units?: readonly UnitResult[];
+  /** Issues found while loading (warnings): with the checks that need the units, they become `issues` and each variant's `warnings`. */
+  issues?: readonly Issue[];
 }
 
 /** The comparison and decision methods, stated on the methods page and in results.json. */
@@ -184,7 +190,24 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
   );
   calibration.push(overallCal);
 
-  // 6. Variant results.
+  // 6. Checks that need the units, with the loader's issues; each variant carries the warnings about it.
+  const checks = studyChecks(study, units, modules);
+  // A column whose unit is the likely cause of an implausible fitted value: that one warning
+  // stands for the loader's cell-by-cell warnings on the same column.
+  const explained = new Set(checks.filter((i) => i.code === 'study.implausible-wt').map((i) => `${i.at.file}\0${i.at.column}`));
+  const loaded = (options.issues ?? []).filter((i) => !(i.code === 'csv.implausible' && explained.has(`${i.at.file}\0${i.at.column}`)));
+  const issues = groupIssues([...loaded, ...checks]);
+  const warningsOf = new Map<string, Issue[]>();
+  for (const i of issues) {
+    if (i.severity !== 'warning') continue;
+    for (const id of i.variants ?? []) {
+      const list = warningsOf.get(id);
+      if (list) list.push(i);
+      else warningsOf.set(id, [i]);
+    }
+  }
+
+  // 7. Variant results.
   const unitsByVariant = groupBy(units, (u) => u.variant);
   const variantResults: VariantResult[] = variants.map((v) => {
     const overall = v.isWT
@@ -223,6 +246,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
       overall,
       evidence,
       flags,
+      warnings: warningsOf.get(v.id) ?? [],
     };
   });
 
@@ -261,7 +285,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
       manifest: study.manifestRaw,
       builtAt: options.builtAt,
     },
-    issues: [],
+    issues,
   };
 }
 

@@ -31,7 +31,7 @@ export interface FileOptionDef {
   name: string;
   /**
    * 'quantity': {"value", "unit"}, one value for the file. 'quantity-per-unit': {"unit", "value"?,
-   * "byUnit"?}, a value for the whole file and/or one per biological unit.
+   * "byPreparation"?}, a value for the whole file and/or one per preparation (kept as byUnit: by biological unit).
    */
   shape: 'quantity' | 'quantity-per-unit';
   /** The physical quantity (a quantity of src/study/units.ts), e.g. 'path'. */

@@ -126,7 +126,7 @@ export function syntheticStudy(o: SyntheticOptions): { manifest: Record<string, 
   const truthOf = (l: string, u: string, b: string) => sim.truth[`${l}|${u}|${b}`];
   const files = { ...sim.files };
   if (files['motility-velocities.csv']) {
-    const lines = [BANNER, 'variant,unit,batch,movie,filament,velocity (nm/s)'];
+    const lines = [BANNER, 'variant,preparation,batch,movie,filament,velocity (nm/s)'];
     for (const [l, u, b] of unitsOf(files['motility-velocities.csv'])) {
       const t = truthOf(l, u, b);
       for (let f = 1; f <= filaments; f++) {
@@ -138,7 +138,7 @@ export function syntheticStudy(o: SyntheticOptions): { manifest: Record<string, 
     files['motility-velocities.csv'] = lines.join('\n') + '\n';
   }
   if (files['force-pca.csv']) {
-    const lines = [BANNER, 'variant,unit,batch,pCa,force (uN),area (um2)'];
+    const lines = [BANNER, 'variant,preparation,batch,pCa,force (uN),area (um2)'];
     for (const [l, u, b] of unitsOf(files['force-pca.csv'])) {
       const t = truthOf(l, u, b);
       const area = Math.round(Math.max(150, rng.normal(400, 60)));
@@ -150,7 +150,7 @@ export function syntheticStudy(o: SyntheticOptions): { manifest: Record<string, 
     files['force-pca.csv'] = lines.join('\n') + '\n';
   }
   if (files['turnover.csv']) {
-    const lines = [BANNER, 'variant,unit,batch,trace,time (s),fluorescence'];
+    const lines = [BANNER, 'variant,preparation,batch,trace,time (s),fluorescence'];
     for (const [l, u, b] of unitsOf(files['turnover.csv'])) {
       const t = truthOf(l, u, b);
       const amplitude = 100 * Math.exp(rng.normal(0, 0.1));

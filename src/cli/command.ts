@@ -6,6 +6,8 @@ export interface Io {
   stdout: { write(text: string): unknown };
   stderr: { write(text: string): unknown };
   cwd: string;
+  /** How the user runs myofolio here ('myofolio', 'npx myofolio', 'node dist/cli/myofolio.js'; src/cli/invocation.ts), for messages that name a command; default 'myofolio'. */
+  command?: string;
 }
 
 export interface Command {
@@ -24,11 +26,11 @@ export interface Command {
 export function singleFolderArgument(args: string[], io: Io, usage: string): string | null {
   const option = args.find((a) => a.startsWith('-'));
   if (option) {
-    io.stderr.write(CLI.unknownOption(option, usage));
+    io.stderr.write(CLI.unknownOption(option, usage, io.command));
     return null;
   }
   if (args.length !== 1) {
-    io.stderr.write(CLI.badArgs(usage));
+    io.stderr.write(CLI.badArgs(usage, io.command));
     return null;
   }
   return isAbsolute(args[0]) ? args[0] : join(io.cwd, args[0]);

@@ -10,6 +10,7 @@
 import { readFileSync } from 'node:fs';
 import { describeFault, openFileLimit } from '../pipeline/faults.js';
 import type { Command, Io } from './command.js';
+import { invocation } from './invocation.js';
 import { CLI } from './messages.js';
 
 export type { Command, Io } from './command.js';
@@ -36,16 +37,17 @@ export async function main(argv: string[], io: Io): Promise<number> {
   }
   if (first === '--help' || first === '-h' || first === 'help') {
     const commands = await Promise.all(Object.values(COMMANDS).map(async (load) => (await load()).command));
-    io.stdout.write(CLI.help(commands));
+    io.stdout.write(CLI.help(commands, io.command ?? 'myofolio'));
     return 0;
   }
+  const cmd = io.command ?? 'myofolio';
   if (first === undefined) {
-    io.stderr.write(CLI.noCommand());
+    io.stderr.write(CLI.noCommand(cmd));
     return 2;
   }
   const load = Object.prototype.hasOwnProperty.call(COMMANDS, first) ? COMMANDS[first] : undefined;
   if (!load) {
-    io.stderr.write(CLI.unknownCommand(first));
+    io.stderr.write(CLI.unknownCommand(first, cmd));
     return 2;
   }
   // Read now: once the files run out, the limit can no longer be read to name it.
@@ -53,7 +55,7 @@ export async function main(argv: string[], io: Io): Promise<number> {
   try {
     const { command } = await load();
     if (rest.includes('--help') || rest.includes('-h')) {
-      io.stdout.write(`usage: myofolio ${command.usage}\n${command.summary}\n`);
+      io.stdout.write(`usage: ${cmd} ${command.usage}\n${command.summary}\n`);
       return 0;
     }
     return await command.run(rest, io);
@@ -116,7 +118,7 @@ export async function runProcess(argv: string[]): Promise<void> {
     say(`${name}: stopped before it finished: an operation it waited for never completed.${name.endsWith(' build') ? ' The previous output, if any, is unchanged.' : ''} Please report this.\n`);
     process.exitCode = 1;
   });
-  const code = await main(argv, { stdout: process.stdout, stderr: process.stderr, cwd: process.cwd() });
+  const code = await main(argv, { stdout: process.stdout, stderr: process.stderr, cwd: process.cwd(), command: invocation(process.env, process.argv[1], process.cwd()) });
   settled = true;
   if (!process.exitCode) process.exitCode = code;
 }

@@ -114,9 +114,9 @@ export function demoScenario(): Scenario {
     },
     exclusions: [
       {
-        kind: 'unit',
+        kind: 'preparation',
         assay: 'force',
-        unit: 'E333V-p2',
+        preparation: 'E333V-p2',
         reason: 'The fibre tore during the first activation at pCa 4.5 (invented for the demo).',
       },
     ],

@@ -194,7 +194,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
   // ATPase rates.
   const rateUnits = unitsFor((v) => v.atpase === 'rates');
   if (rateUnits.length) {
-    const lines = [banner, 'variant,unit,batch,replicate,actin (uM),rate (1/s)'];
+    const lines = [banner, 'variant,preparation,batch,replicate,actin (uM),rate (1/s)'];
     for (const u of rateUnits) {
       for (const a of ACTIN_UM) {
         for (let w = 1; w <= WELLS_PER_CONCENTRATION; w++) {
@@ -213,7 +213,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
   if (nadhUnits.length) {
     const epsilonPerUM = ATPASE_SETTINGS.nadhEpsilon340 * 1e-6; // A340 per µM per cm
     const backgroundUMPerS = 0.0015; // actin-only ATP turnover, µM/s
-    const lines = [banner, 'variant,unit,batch,well_type,well,actin (uM),heads (uM),time (s),a340'];
+    const lines = [banner, 'variant,preparation,batch,well_type,well,actin (uM),heads (uM),time (s),a340'];
     const wellCounter = new Map<string, number>();
     const nextWell = (batch: string) => {
       const n = (wellCounter.get(batch) ?? 0) + 1;
@@ -244,7 +244,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
   // Motility: per-filament velocities (nm/s).
   const velUnits = unitsFor((v) => v.motility === 'velocities');
   if (velUnits.length) {
-    const lines = [banner, 'variant,unit,batch,movie,filament,velocity (nm/s)'];
+    const lines = [banner, 'variant,preparation,batch,movie,filament,velocity (nm/s)'];
     for (const u of velUnits) {
       for (let f = 1; f <= VELOCITY_FILAMENTS; f++) {
         const movie = `m${1 + Math.floor((f - 1) / 10)}`;
@@ -260,7 +260,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
   // Motility: centroid tracks in pixels by frame.
   const trackUnits = unitsFor((v) => v.motility === 'tracks');
   if (trackUnits.length) {
-    const lines = [banner, 'variant,unit,batch,movie,filament,frame,x (px),y (px)'];
+    const lines = [banner, 'variant,preparation,batch,movie,filament,frame,x (px),y (px)'];
     for (const u of trackUnits) {
       for (let f = 1; f <= FILAMENTS_PER_MOVIE; f++) {
         const immobile = rng.uniform() < u.truth.fractionImmobile;
@@ -288,7 +288,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
   // Force–pCa: force in µN with each preparation's cross-section in µm².
   const forceUnits = unitsFor((v) => v.force);
   if (forceUnits.length) {
-    const lines = [banner, 'variant,unit,batch,pCa,force (uN),area (um2)'];
+    const lines = [banner, 'variant,preparation,batch,pCa,force (uN),area (um2)'];
     for (const u of forceUnits) {
       const areaUm2 = Math.round(Math.max(150, rng.normal(400, 60)));
       for (const pCa of PCA) {
@@ -304,7 +304,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
   // Single turnover.
   const turnUnits = unitsFor((v) => v.turnover);
   if (turnUnits.length) {
-    const lines = [banner, 'variant,unit,batch,trace,time (s),fluorescence'];
+    const lines = [banner, 'variant,preparation,batch,trace,time (s),fluorescence'];
     for (const u of turnUnits) {
       const duration = 900 + 300 * Math.floor(rng.uniform() * 4); // 900, 1200, 1500 or 1800 s
       const amplitude = 100 * Math.exp(rng.normal(0, 0.1));

@@ -147,12 +147,11 @@ export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'so
       got.needRows.forEach((p) => mustRead.add(p));
       continue;
     }
-    const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units });
-    results.issues = issues;
+    const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units, issues });
     // analyseStudy copies the units in their order (marking exclusions): each copy takes its original's digest.
     const digests = got.digests;
     const unitDigests = digests ? new Map(results.units.map((u, i) => [u, digests[i] as string])) : undefined;
-    return { issues, results, parsedBytes, ...(unitDigests ? { unitDigests } : {}) };
+    return { issues: results.issues, results, parsedBytes, ...(unitDigests ? { unitDigests } : {}) };
   }
 }
 

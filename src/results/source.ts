@@ -31,6 +31,12 @@ export interface Issue {
   /** How to fix it, in one sentence. */
   fix: string;
   at: SourceRef;
+  /** Ids of the variants the issue is about; a warning with variants is shown on their reports. */
+  variants?: string[];
+  /** Findings merged into this issue (src/study/group-issues.ts); absent for one. */
+  count?: number;
+  /** Grouping key within one code, file and column (e.g. the unknown label); removed by groupIssues. */
+  group?: string;
 }
 
 export type ControlClass = 'pathogenic' | 'likely pathogenic' | 'benign' | 'likely benign';

@@ -187,6 +187,8 @@ export interface VariantResult {
   evidence: { level: EvidenceLevel; scope: string; sentence: string };
   /** Flags about the variant as a whole (excluded units, WT QC rejections); unit and comparison flags live on those records. */
   flags: Flag[];
+  /** Input warnings that touch this variant (also in StudyResults.issues), shown on its report. Absent in results of version 0.2.0. */
+  warnings?: Issue[];
 }
 
 export interface StudyResults {

@@ -95,6 +95,15 @@ export interface Notice {
   items: string[];
 }
 
+/** The input warnings that touch a variant (VariantResult.warnings), as the notice under its summary. */
+export function inputWarnings(v: VariantResult): Notice[] {
+  const warnings = v.warnings ?? [];
+  if (warnings.length === 0) return [];
+  const where = (w: (typeof warnings)[number]) =>
+    `${w.at.file}${w.at.line !== undefined ? (w.at.lineEnd !== undefined && w.at.lineEnd !== w.at.line ? `, lines ${w.at.line}–${w.at.lineEnd}` : `, line ${w.at.line}`) : ''}${w.at.column ? `, column ${w.at.column}` : ''}${w.at.jsonPath ? `, ${w.at.jsonPath}` : ''}`;
+  return [{ kind: 'input-warnings', title: 'Warnings about the input', items: warnings.map((w) => `${w.message} ${w.fix} [${where(w)}; ${w.code}]`) }];
+}
+
 export interface SourceRows {
   file: string;
   rows: number;
@@ -399,7 +408,7 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
         overall: functionCall(v.isWT ? 'reference' : v.overall.call),
         control: v.control ? `${v.control.class} control (${v.control.source})` : '',
         glance: { cells, rule, evidence: evidenceText(v), evidenceNote },
-        notices: [],
+        notices: inputWarnings(v),
         assays,
         forest,
         flags,

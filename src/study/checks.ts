@@ -74,7 +74,7 @@ export function checkExclusionsMatch(exclusions: readonly Exclusion[], batches: 
   const issues: Issue[] = [];
   for (const x of exclusions) {
     if (x.batch !== undefined && !batches.has(x.batch)) issues.push(issue(MSG.exclusionNoMatch(`batch '${x.batch}'`), { ...x.at, jsonPath: `${x.at.jsonPath}/batch` }));
-    if (x.unit !== undefined && !units.has(x.unit)) issues.push(issue(MSG.exclusionNoMatch(`unit '${x.unit}'`), { ...x.at, jsonPath: `${x.at.jsonPath}/unit` }));
+    if (x.unit !== undefined && !units.has(x.unit)) issues.push(issue(MSG.exclusionNoMatch(`preparation '${x.unit}'`), { ...x.at, jsonPath: `${x.at.jsonPath}/preparation` }));
   }
   return issues;
 }

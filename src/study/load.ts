@@ -17,13 +17,15 @@
  * its rows (Study.omitted), and issues and checks come out the same.
  */
 import { createHash } from 'node:crypto';
+import { checkAcrossFiles, groupKeyHashes, groupsOfDigest, groupsOfRows, hashesMeet, sharedGroups } from './across-files.js';
 import { checkExclusionsMatch, checkUnusedVariants, checkWildTypeFacts, wildTypeFacts } from './checks.js';
 import { csvDelimiter, decodeText, scanCsv } from './csv.js';
-import { readManifest } from './manifest.js';
+import { groupIssues } from './group-issues.js';
+import { readManifest, type FileSpec } from './manifest.js';
 import { MSG, issue } from './messages.js';
 import { createRowReader, StringPool } from './rows.js';
 import { KIND_DEFS, MANIFEST_NAME } from './schemas.js';
-import type { FileDigest, InputFile, InputKind, Issue, LoadOutcome, RowBase, RowsByKind, Study, Variant, WildTypeFacts } from './types.js';
+import type { ColumnUnit, FileDigest, InputFile, InputKind, Issue, LoadOutcome, RowBase, RowsByKind, Study, Variant, WildTypeFacts } from './types.js';
 
 /** The contents of a study folder, read by the CLI (see read-folder.ts) or built in memory. */
 export interface StudyFiles {
@@ -120,7 +122,7 @@ function labelsSha256(labels: FileDigest['labels']): string {
 }
 
 /** A file's digest from its rows as read (see FileDigest). */
-export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: number, issues: Issue[], seen: { variantsSeen: Set<string>; labels: Map<string, Variant>; batches: Set<string>; units: Set<string> }, variants: ReadonlyMap<string, Variant>): FileDigest {
+export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: number, issues: Issue[], seen: { variantsSeen: Set<string>; labels: Map<string, Variant>; batches: Set<string>; units: Set<string>; columns: ColumnUnit[] }, variants: ReadonlyMap<string, Variant>): FileDigest {
   const unitRows = new Map<string, [string, string, string, number]>();
   let last: [string, string, string, number] | undefined;
   for (const r of rows) {
@@ -145,6 +147,8 @@ export function fileDigest(kind: InputKind, rows: readonly RowBase[], rowCount: 
     wildType: wildTypeFacts(rows, variants),
     // The same first appearances as unitsInOrder(rows), from the walk above.
     unitOrder: [...unitRows.values()].filter(([variant, unit]) => variant !== '' || unit !== '').map(([variant, unit, batch]) => [variant, unit, batch]),
+    columns: seen.columns,
+    groupKeys: groupKeyHashes(kind, rows),
   };
 }
 
@@ -183,15 +187,42 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
   const omitted = new Map<string, FileDigest>();
   const parsed: ParsedDigest[] = [];
 
+  /** Where each file's rows sit in rowParts, and its rows (files read in this load). */
+  const slots = new Map<string, { kind: InputKind; index: number }>();
+  const rowsByPath = new Map<string, RowBase[]>();
+  /** Files in manifest order with the groups of rows two files can share (src/study/across-files.ts). */
+  const fileGroups: Array<{ path: string; kind: InputKind; groups: Iterable<string> }> = [];
+  /** Files named in the manifest that could not be read (missing, outside, not text). */
+  let unreadFiles = 0;
+
+  /** Read one file's text into typed rows, row by row as it is parsed; the issues keep the order of parse, then read. */
+  const parseOne = (spec: FileSpec, path: string, data: string | Uint8Array) => {
+    const decoded = decodeText(data);
+    if (!decoded.ok) return { problem: issue(decoded.problem, { file: path, line: decoded.line, col: decoded.col }) };
+    const text = decoded.text;
+    const rowIssues: Issue[] = [];
+    const reader = createRowReader(spec.entry.kind, csvDelimiter(text), spec, path, manifest.byLabel, rowIssues, pool, manifest.unresolved);
+    let header = true;
+    const scanned = scanCsv(text, path, (cells, line) => {
+      if (header) reader.header(cells, line);
+      else reader.row(cells, line);
+      header = false;
+    });
+    const got = reader.finish();
+    return { got, fileRows: got.rows as unknown as RowBase[], fileIssues: [...scanned.issues, ...rowIssues] };
+  };
+
   for (const spec of manifest.files) {
     const path = spec.entry.path;
     const jsonPath = `/files/${spec.index}/path`;
     if (!isInsideFolder(path)) {
       if (!readerFlagged.has(jsonPath)) issues.push(issue(MSG.pathOutside(path), { file: manifestPath, jsonPath }));
+      unreadFiles++;
       continue;
     }
     if (!hasFile(input.files, path)) {
       if (!readerFlagged.has(jsonPath)) issues.push(issue(MSG.fileNotFound(path), { file: manifestPath, jsonPath }));
+      unreadFiles++;
       continue;
     }
     // The bytes are got only when needed: not for a file left out by its digest.
@@ -208,59 +239,104 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
     if (spec.missing.length) settings.missing = spec.missing.join(' ');
     const key = options.reuse ? fileDigestKey(options.reuse.context, path, sha256, spec) : '';
     const reused = options.reuse?.get(key, path);
-    if (reused && reused.kind === spec.entry.kind && labelsResolveAlike(reused.labels, manifest.byLabel)) {
+    const parts = (rowParts[spec.entry.kind] ??= []);
+    slots.set(path, { kind: spec.entry.kind, index: parts.length });
+    if (reused && reused.kind === spec.entry.kind && labelsResolveAlike(reused.labels, manifest.byLabel) && Array.isArray(reused.columns) && Array.isArray(reused.groupKeys)) {
       for (const i of reused.issues) issues.push(i);
-      (rowParts[spec.entry.kind] ??= []).push([]);
+      parts.push([]);
       (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: reused.wildType });
       reused.variantsSeen.forEach((id) => variantsSeen.add(id));
       reused.batches.forEach((b) => batches.add(b));
       reused.units.forEach((u) => units.add(u));
       omitted.set(path, reused);
-      inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: reused.rowCount, settings, variantLabels: labelsSha256(reused.labels) });
+      fileGroups.push({ path, kind: spec.entry.kind, groups: groupsOfDigest(reused) });
+      inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: reused.rowCount, settings, variantLabels: labelsSha256(reused.labels), columns: reused.columns });
       continue;
     }
     data ??= getFile(input.files, path) as string | Uint8Array;
-    const decoded = decodeText(data);
-    if (!decoded.ok) {
-      issues.push(issue(decoded.problem, { file: path, line: decoded.line, col: decoded.col }));
+    const read = parseOne(spec, path, data);
+    if (read.problem) {
+      issues.push(read.problem);
+      slots.delete(path);
+      unreadFiles++;
       continue;
     }
-    // Rows are read while the file is parsed; the issues keep the order of parse, then read.
-    const text = decoded.text;
-    const rowIssues: Issue[] = [];
-    const reader = createRowReader(spec.entry.kind, csvDelimiter(text), spec, path, manifest.byLabel, rowIssues, pool);
-    let header = true;
-    const scanned = scanCsv(text, path, (cells, line) => {
-      if (header) reader.header(cells, line);
-      else reader.row(cells, line);
-      header = false;
-    });
-    const got = reader.finish();
-    const fileIssues = [...scanned.issues, ...rowIssues];
+    const { got, fileRows, fileIssues } = read;
     for (const i of fileIssues) issues.push(i);
-    const fileRows = got.rows as unknown as RowBase[];
-    (rowParts[spec.entry.kind] ??= []).push(fileRows);
+    parts.push(fileRows);
+    rowsByPath.set(path, fileRows);
+    fileGroups.push({ path, kind: spec.entry.kind, groups: groupsOfRows(spec.entry.kind, fileRows).keys() });
     got.variantsSeen.forEach((id) => variantsSeen.add(id));
     got.batches.forEach((b) => batches.add(b));
     got.units.forEach((u) => units.add(u));
-    if (options.reuse && !fileIssues.some((i) => i.severity === 'error')) {
+    // A file read against a manifest with entries left out (rows skipped quietly) is not kept for reuse.
+    if (options.reuse && !fileIssues.some((i) => i.severity === 'error') && !manifest.partial && manifest.unresolved.size === 0) {
       const digest = fileDigest(spec.entry.kind, fileRows, got.rowCount, fileIssues, got, byId);
       (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: digest.wildType });
       parsed.push({ path, key, digest });
     } else (wtFacts[spec.entry.kind] ??= []).push({ file: path, facts: wildTypeFacts(fileRows, byId) });
-    inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: got.rowCount, settings, variantLabels: labelsSha256(labelsOf(got.labels)) });
+    inputFiles.push({ kind: spec.entry.kind, path, sha256, rows: got.rowCount, settings, variantLabels: labelsSha256(labelsOf(got.labels)), columns: got.columns });
+  }
+
+  // Rows of one kind in several files: a group (preparation, or NADH batch) in two files is
+  // compared row by row; a file left out by its digest is read after all when it shares one.
+  const shared = sharedGroups(fileGroups);
+  if (shared.size > 0) {
+    const specs = new Map(manifest.files.map((f) => [f.entry.path, f]));
+    // Groups whose files were all read are compared row by row; a group in a file left out is
+    // compared by its key hashes first, and its files are read only when the hashes meet.
+    const reread = new Set<string>();
+    for (const [kind, groups] of shared) {
+      const hashesOf = new Map<string, Map<string, Uint32Array>>();
+      const hashes = (path: string): Map<string, Uint32Array> => {
+        let got = hashesOf.get(path);
+        if (!got) {
+          const d = omitted.get(path);
+          hashesOf.set(path, (got = new Map(d ? d.groupKeys : groupKeyHashes(kind, rowsByPath.get(path) ?? [], new Set(groups.keys())))));
+        }
+        return got;
+      };
+      for (const [g, paths] of groups) {
+        if (!paths.some((p) => omitted.has(p))) continue;
+        let meet = false;
+        for (let a = 0; a < paths.length && !meet; a++) for (let b = a + 1; b < paths.length && !meet; b++) meet = hashesMeet(hashes(paths[a]).get(g) ?? new Uint32Array(), hashes(paths[b]).get(g) ?? new Uint32Array());
+        if (meet) paths.filter((p) => omitted.has(p)).forEach((p) => reread.add(p));
+        else groups.delete(g); // no observation in common
+      }
+    }
+    for (const path of reread) {
+      const read = parseOne(specs.get(path)!, path, getFile(input.files, path) as string | Uint8Array);
+      if (read.problem) continue; // cannot happen: the digest was made from this text
+      const slot = slots.get(path)!;
+      rowParts[slot.kind]![slot.index] = read.fileRows;
+      rowsByPath.set(path, read.fileRows);
+      omitted.delete(path);
+    }
+    const order = manifest.files.map((f) => f.entry.path);
+    for (const [kind, groups] of shared) issues.push(...checkAcrossFiles(kind, groups, order, (p) => rowsByPath.get(p) ?? [], byId));
+  }
+
+  // A study with nothing to analyse is an error that says what to add.
+  const noData = unreadFiles === 0 && inputFiles.length > 0 && inputFiles.every((f) => f.rows === 0);
+  if (noData) issues.push(issue(MSG.noDataRows(inputFiles.length), { file: manifestPath, jsonPath: '/files' }));
+  if (!manifest.partial && manifest.unresolved.size === 0 && manifest.variants.length > 0 && manifest.variants.every((v) => v.isWT)) {
+    issues.push(issue(MSG.onlyWildType(), { file: manifestPath, jsonPath: '/variants' }));
   }
 
   const rows: Partial<Record<InputKind, unknown[]>> = {};
   for (const [kind, parts] of Object.entries(rowParts) as [InputKind, unknown[][]][]) rows[kind] = parts.length === 1 ? parts[0] : ([] as unknown[]).concat(...parts);
   const typedRows = rows as Partial<RowsByKind>;
   // Kinds in the order of their first file, as the rows object holds them.
-  issues.push(...checkWildTypeFacts(Object.keys(rowParts).map((k) => [k as InputKind, wtFacts[k as InputKind] ?? []]), manifest.variants));
-  issues.push(...checkUnusedVariants(manifest.variants, variantsSeen));
+  if (!manifest.droppedWildType) issues.push(...checkWildTypeFacts(Object.keys(rowParts).map((k) => [k as InputKind, wtFacts[k as InputKind] ?? []]), manifest.variants));
+  // Without any data row, the one error above stands for each file's "header but no rows" and each unused variant.
+  if (noData) {
+    for (let k = issues.length - 1; k >= 0; k--) if (issues[k].code === 'csv.no-rows') issues.splice(k, 1);
+  } else issues.push(...checkUnusedVariants(manifest.variants, variantsSeen));
   issues.push(...checkExclusionsMatch(manifest.exclusions, batches, units));
 
   const digests = options.reuse ? parsed : undefined;
-  if (issues.some((i) => i.severity === 'error')) return { issues, ...(digests ? { digests } : {}) };
+  const grouped = groupIssues(issues);
+  if (grouped.some((i) => i.severity === 'error')) return { issues: grouped, ...(digests ? { digests } : {}) };
   const json = manifest.json;
   const study: Study = {
     title: json.title,
@@ -281,5 +357,5 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
     manifestRaw: manifest.raw,
     manifestSha256: sha256Hex(input.manifest),
   };
-  return { study, issues, ...(digests ? { digests } : {}) };
+  return { study, issues: grouped, ...(digests ? { digests } : {}) };
 }

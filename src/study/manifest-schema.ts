@@ -26,9 +26,9 @@ function optionSchema(o: FileOptionDef): Record<string, unknown> {
     additionalProperties: false,
     required: ['unit'],
     description: o.description,
-    properties: { unit: unitText, value: positive, byUnit: { type: 'object', additionalProperties: positive } },
+    properties: { unit: unitText, value: positive, byPreparation: { type: 'object', additionalProperties: positive } },
     if: { not: { required: ['value'] } },
-    then: { required: ['byUnit'] },
+    then: { required: ['byPreparation'] },
   };
 }
 

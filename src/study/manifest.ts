@@ -7,58 +7,16 @@ import { ASSAY_IDS, BANDS, DIFFERENCE_METRICS, KINDS, SETTINGS } from '../assays
 import type { FileOptionDef, FileOptionValue } from '../assays/types.js';
 import { checkReferenceResidue, isWildTypeText, parseProteinChange, variantId } from './hgvs.js';
 import { locateJsonError } from './json-position.js';
+import { findDuplicateKeys } from './json-keys.js';
+import type { ManifestFile, ManifestJson, ManifestQuantity, ManifestQuantityPerUnit } from './manifest-json.js';
+import { salvageManifest } from './manifest-salvage.js';
+import { closestNames } from './suggest.js';
 import { MSG, issue, type MessageText } from './messages.js';
 import { CATALOGUE, validators } from './schemas.js';
-import type {
-  ControlClass,
-  DiseaseDirection,
-  Exclusion,
-  Gene,
-  InputKind,
-  Issue,
-  ThresholdOverrides,
-  Variant,
-} from './types.js';
+import type { Exclusion, Gene, Issue, Variant } from './types.js';
 import { conversionFactor, lookupUnit, unitChoices, UNITS, type Quantity } from './units.js';
 
-/** A value with a unit as written in the manifest. */
-export interface ManifestQuantity {
-  value: number;
-  unit: string;
-}
-
-/** A file option of shape 'quantity-per-unit' as written in the manifest. */
-export interface ManifestQuantityPerUnit {
-  unit: string;
-  value?: number;
-  byUnit?: Record<string, number>;
-}
-
-/** One files[] entry as written in the manifest; the kind's file options (pathLength, …) by name. */
-export interface ManifestFile {
-  path: string;
-  kind: InputKind;
-  units?: Record<string, string>;
-  decimal?: '.' | ',';
-  missing?: string[];
-  [option: string]: unknown;
-}
-
-interface ManifestJson {
-  title: string;
-  lab: string;
-  dates: string[];
-  synthetic: boolean;
-  description?: string;
-  genes: { symbol: string; sequence?: string; domains?: { name: string; start: number; end: number }[] }[];
-  variants: { wt?: boolean; hgvs?: string; gene?: string; label?: string; control?: { class: ControlClass; source: string }; note?: string }[];
-  direction: DiseaseDirection;
-  files: ManifestFile[];
-  thresholds?: ThresholdOverrides;
-  exclusions?: Omit<Exclusion, 'at'>[];
-  caveats?: string[];
-  settings?: Record<string, number | string | boolean>;
-}
+export type { ManifestExclusion, ManifestFile, ManifestJson, ManifestQuantity, ManifestQuantityPerUnit } from './manifest-json.js';
 
 /** A file entry with its settings converted to canonical units. */
 export interface FileSpec {
@@ -79,6 +37,12 @@ export interface ParsedManifest {
   variants: Variant[];
   /** CSV name → variant: each label, plus the short form and HGVS of a variant when no other variant uses them as label. */
   byLabel: Map<string, Variant>;
+  /** Names of variant entries that could not be read (schema or HGVS errors, reported): rows naming them are skipped without another error. */
+  unresolved: ReadonlySet<string>;
+  /** True when schema errors left parts of the manifest out (see salvageManifest). */
+  partial: boolean;
+  /** True when a variant entry left out may have been a wild type: the WT-per-batch check then cannot be trusted. */
+  droppedWildType: boolean;
   files: FileSpec[];
   exclusions: Exclusion[];
   settings: Record<string, number | string | boolean>;
@@ -100,8 +64,27 @@ function describeType(t: unknown): string {
   return t === 'integer' ? 'whole number' : String(t);
 }
 
+/**
+ * Manifest fields renamed in version 0.3.0 (a preparation was called a unit, which read like the
+ * physical units beside it): refused with the new name.
+ */
+const RENAMED_FIELDS: ReadonlyArray<{ field: string; now: string; where: RegExp }> = [
+  { field: 'unit', now: 'preparation', where: /^\/exclusions\/\d+$/ },
+  { field: 'byUnit', now: 'byPreparation', where: /^\/files\/\d+\/crossSection$/ },
+];
+
+/** The value at a JSON Pointer of a parsed JSON value (RFC 6901), or undefined. */
+function valueAt(root: unknown, pointer: string): unknown {
+  let at: unknown = root;
+  for (const token of pointer.split('/').slice(1)) {
+    if (at === null || typeof at !== 'object') return undefined;
+    at = (at as Record<string, unknown>)[token.replace(/~1/g, '/').replace(/~0/g, '~')];
+  }
+  return at;
+}
+
 /** Map one ajv error of the manifest schema to a catalogue message; undefined to drop it. */
-function manifestMessage(err: ErrorObject): { text: MessageText; path: string } | undefined {
+function manifestMessage(err: ErrorObject, raw: unknown): { text: MessageText; path: string } | undefined {
   const path = err.instancePath;
   switch (err.keyword) {
     case 'if':
@@ -112,6 +95,8 @@ function manifestMessage(err: ErrorObject): { text: MessageText; path: string } 
     }
     case 'additionalProperties': {
       const prop = (err.params as { additionalProperty: string }).additionalProperty;
+      const renamed = RENAMED_FIELDS.find((r) => r.field === prop && r.where.test(path));
+      if (renamed) return { text: MSG.renamedField(prop, renamed.now), path: `${path}/${prop}` };
       return { text: MSG.schemaUnknownField(prop), path: `${path}/${prop}` };
     }
     case 'false schema':
@@ -120,6 +105,7 @@ function manifestMessage(err: ErrorObject): { text: MessageText; path: string } 
     case 'type':
       return { text: MSG.schemaType(describeType((err.params as { type: unknown }).type)), path };
     case 'enum':
+      if (/^\/exclusions\/\d+\/kind$/.test(path) && valueAt(raw, path) === 'unit') return { text: MSG.renamedValue('unit', 'preparation'), path };
       return { text: MSG.schemaEnum((err.params as { allowedValues: unknown[] }).allowedValues), path };
     case 'const':
       return { text: MSG.schemaEnum([(err.params as { allowedValue: unknown }).allowedValue]), path };
@@ -163,9 +149,10 @@ function fileOption(o: FileOptionDef, raw: unknown, path: string, file: string, 
   const q = raw as ManifestQuantityPerUnit;
   const factor = factorOf(q.unit, quantity, path, file, issues);
   if (factor === undefined) return undefined;
+  // Per preparation in the manifest (byPreparation); the assays read it per biological unit (byUnit).
   const out: { value?: number; byUnit?: Record<string, number> } = {};
   if (q.value !== undefined) out.value = q.value * factor;
-  if (q.byUnit) out.byUnit = Object.fromEntries(Object.entries(q.byUnit).map(([u, a]) => [u, a * factor]));
+  if (q.byPreparation) out.byUnit = Object.fromEntries(Object.entries(q.byPreparation).map(([u, a]) => [u, a * factor]));
   return out;
 }
 
@@ -185,22 +172,39 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
     const reason = err instanceof Error ? err.message : String(err);
     return { issues: [issue(MSG.manifestNotJson(reason.replace(/\.$/, '')), { file })] };
   }
+  // JSON.parse keeps the last of two equal keys without a word ("synthetic": true, then false).
+  for (const d of findDuplicateKeys(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text)) {
+    issues.push(issue(MSG.duplicateJsonKey(d.key, d.firstLine), { file, line: d.line, col: d.col, jsonPath: d.pointer }));
+  }
   const validate = validators().manifest;
-  if (!validate(raw)) {
-    for (const err of validate.errors ?? []) {
-      const m = manifestMessage(err);
+  let json: ManifestJson;
+  /** Labels of variant entries left out for schema errors: rows using them are skipped without a further error. */
+  const unresolved = new Set<string>();
+  let droppedWildType = false;
+  if (validate(raw)) json = raw as ManifestJson;
+  else {
+    const errors = validate.errors ?? [];
+    for (const err of errors) {
+      const m = manifestMessage(err, raw);
       if (m) issues.push(issue(m.text, { file, jsonPath: m.path || '/' }));
     }
-    return { issues };
+    // Every other check still runs on the parts of the manifest without schema errors.
+    const salvaged = salvageManifest(raw, errors);
+    if (!salvaged) return { issues };
+    json = salvaged.json;
+    for (const label of salvaged.unresolved) unresolved.add(label);
+    droppedWildType = salvaged.droppedWildType;
   }
-  const json = raw as ManifestJson;
   const at = (jsonPath: string) => ({ file, jsonPath });
 
   // Genes and domains.
   const genes: Gene[] = [];
   const geneIndex = new Map<string, Gene>();
+  const geneByFolded = new Map<string, string>();
   json.genes.forEach((g, gi) => {
     if (geneIndex.has(g.symbol)) issues.push(issue(MSG.duplicateGene(g.symbol), at(`/genes/${gi}/symbol`)));
+    else if (geneByFolded.has(g.symbol.toUpperCase())) issues.push(issue(MSG.geneCase(g.symbol, geneByFolded.get(g.symbol.toUpperCase())!), at(`/genes/${gi}/symbol`)));
+    geneByFolded.set(g.symbol.toUpperCase(), geneByFolded.get(g.symbol.toUpperCase()) ?? g.symbol);
     const sequence = g.sequence?.replace(/\s+/g, '').toUpperCase();
     const gene: Gene = { symbol: g.symbol, ...(sequence ? { sequence } : {}), domains: [] };
     (g.domains ?? []).forEach((d, di) => {
@@ -221,14 +225,23 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
   json.variants.forEach((v, vi) => {
     const path = `/variants/${vi}`;
     let geneSymbol = v.gene;
+    const unresolvable = () => {
+      for (const name of [v.label, v.hgvs, v.wt === true ? 'WT' : undefined]) if (name !== undefined) unresolved.add(name);
+    };
+    if (genes.length === 0) {
+      unresolvable(); // no gene declared (reported by the schema): the variant cannot be read
+      return;
+    }
     if (geneSymbol === undefined) {
       if (genes.length > 1) {
         issues.push(issue(MSG.geneRequired(symbols), at(`${path}/gene`)));
+        unresolvable();
         return;
       }
       geneSymbol = symbols[0];
     } else if (!geneIndex.has(geneSymbol)) {
-      issues.push(issue(MSG.unknownGene(geneSymbol, symbols), at(`${path}/gene`)));
+      issues.push(issue(MSG.unknownGene(geneSymbol, symbols, closestNames(geneSymbol, symbols)), at(`${path}/gene`)));
+      unresolvable();
       return;
     }
     const gene = geneIndex.get(geneSymbol)!;
@@ -249,6 +262,7 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
       const parsed = parseProteinChange(v.hgvs!);
       if (!parsed.ok) {
         issues.push(issue(MSG.hgvsInvalid(v.hgvs!, parsed.reason), at(`${path}/hgvs`)));
+        unresolvable();
         return;
       }
       const c = parsed.change;
@@ -282,13 +296,33 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
     byLabel.set(variant.label, variant);
     variants.push(variant);
   });
+  // A label that names another variant (its short form or HGVS) would read that variant's rows as this one's.
+  const byName = new Map<string, Variant>();
+  for (const v of variants) for (const name of [v.short, v.hgvs]) if (!byName.has(`${v.gene}\0${name}`)) byName.set(`${v.gene}\0${name}`, v);
+  variants.forEach((v) => {
+    if (v.label === v.short || v.label === v.hgvs) return;
+    for (const gene of genes.length === 1 ? [v.gene] : symbols) {
+      const other = byName.get(`${gene}\0${v.label}`);
+      if (other && other !== v) {
+        issues.push(issue(MSG.labelNamesOther(v.label, other.isWT ? `the wild type of ${other.gene}` : `${other.gene} ${other.hgvs}`), { ...v.at, jsonPath: `${v.at.jsonPath}/label` }));
+        break;
+      }
+    }
+  });
+  // Report names (ids) must differ: they fold case and punctuation.
+  const byId = new Map<string, Variant>();
+  for (const v of variants) {
+    const first = byId.get(v.id);
+    if (first && first.gene !== v.gene) issues.push(issue(MSG.variantIdClash(`${first.gene} ${first.hgvs}`, `${v.gene} ${v.hgvs}`, v.id), v.at));
+    else if (!first) byId.set(v.id, v);
+  }
   // Short forms and HGVS are accepted in the CSV files too, where unambiguous (one gene; labels win).
   if (genes.length === 1) {
     for (const v of variants) {
       for (const alias of [v.short, v.hgvs]) if (!byLabel.has(alias)) byLabel.set(alias, v);
     }
   }
-  if (wtGenes.size === 0 && !issues.some((i) => i.at.jsonPath?.startsWith('/variants/'))) {
+  if (wtGenes.size === 0 && !droppedWildType && !issues.some((i) => i.at.jsonPath?.startsWith('/variants/'))) {
     issues.push(issue(MSG.noWildType(), at('/variants')));
   }
 
@@ -348,10 +382,11 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
       else variant = v.id;
     }
     exclusions.push({
-      kind: x.kind,
+      // A preparation is the biological unit of the analysis (Exclusion.kind 'unit').
+      kind: x.kind === 'preparation' ? 'unit' : x.kind,
       ...(x.assay !== undefined ? { assay: x.assay } : {}),
       ...(x.batch !== undefined ? { batch: x.batch } : {}),
-      ...(x.unit !== undefined ? { unit: x.unit } : {}),
+      ...(x.preparation !== undefined ? { unit: x.preparation } : {}),
       ...(variant !== undefined ? { variant } : {}),
       reason: x.reason,
       at: at(p),
@@ -379,5 +414,5 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
     settings[name] = value;
   }
 
-  return { manifest: { raw, json, genes, variants, byLabel, files, exclusions, settings }, issues };
+  return { manifest: { raw, json, genes, variants, byLabel, unresolved, partial: json !== raw, droppedWildType, files, exclusions, settings }, issues };
 }

@@ -15,12 +15,21 @@ import type { ErrorObject } from 'ajv';
 import type { CsvTable } from './csv.js';
 import { numberCellValue, parseNumberCell } from './csv.js';
 import type { FileSpec } from './manifest.js';
-import { MSG, issue } from './messages.js';
+import { MSG, issue, shown } from './messages.js';
 import { compileRowCheck } from './row-check.js';
 import type { KindReading, RowReport } from '../assays/types.js';
-import { CATALOGUE, KIND_DEFS, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
-import type { InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
+import { CATALOGUE, KIND_DEFS, RENAMED_COLUMNS, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
+import { closestNames } from './suggest.js';
+import type { ColumnUnit, InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
 import { conversionFactor, lookupUnit, normaliseUnitText, UNITS, unitChoices } from './units.js';
+
+/** The labels of the declared variants (not their aliases), in declaration order, for suggestions. */
+const labelLists = new WeakMap<ReadonlyMap<string, Variant>, string[]>();
+function declaredLabels(byLabel: ReadonlyMap<string, Variant>): string[] {
+  let got = labelLists.get(byLabel);
+  if (!got) labelLists.set(byLabel, (got = [...new Set([...byLabel.values()].map((v) => v.label))]));
+  return got;
+}
 
 /** A header column after resolution. */
 export interface ResolvedColumn {
@@ -44,6 +53,8 @@ export interface FileRows<K extends InputKind = InputKind> {
   units: Set<string>;
   /** Data rows read (excluding header and comments), whether or not they were usable. */
   rowCount: number;
+  /** Measurement columns with the unit each was read in (from a header that resolved). */
+  columns: ColumnUnit[];
 }
 
 const HEADER_UNIT = /^(.*?)\s*[([]\s*(.*?)\s*[)\]]$/;
@@ -160,9 +171,10 @@ export function createRowReader<K extends InputKind>(
   byLabel: Map<string, Variant>,
   issues: Issue[],
   pool: StringPool = new StringPool(),
+  unresolved: ReadonlySet<string> = new Set(),
 ): RowReader<K> {
   const cat = CATALOGUE[kind];
-  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), labels: new Map(), batches: new Set(), units: new Set(), rowCount: 0 };
+  const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), labels: new Map(), batches: new Set(), units: new Set(), rowCount: 0, columns: [] };
   let state: 'no-header' | 'skip' | 'read' = 'no-header';
   let headerLine = 0;
   let width = 0;
@@ -178,9 +190,12 @@ export function createRowReader<K extends InputKind>(
     // 1. Header.
     let headerOk = true;
     const columns: ResolvedColumn[] = [];
+    const units: ColumnUnit[] = [];
+    /** New names of columns given under a former name (reported once, not also as missing). */
+    const renamedTo = new Set<string>();
     const seen = new Map<string, number>();
     headerCells.forEach((cell, index) => {
-      const at: SourceRef = { file, line: headerLine, column: cell.trim(), col: index + 1 };
+      const at: SourceRef = { file, line: headerLine, column: shown(cell.trim()), col: index + 1 };
       const split = splitHeader(cell, cat.columns);
       const key = (split.def?.name ?? split.name).toLowerCase();
       if (seen.has(key)) {
@@ -190,7 +205,13 @@ export function createRowReader<K extends InputKind>(
       }
       seen.set(key, index);
       if (!split.def) {
-        if (split.name !== '') issues.push(issue(MSG.unknownColumn(split.name, kind), at));
+        const renamed = RENAMED_COLUMNS[split.name.toLowerCase()];
+        if (renamed && cat.columns.some((c) => c.name === renamed)) {
+          // The former name: refused, so that the column cannot be mistaken for physical units.
+          issues.push(issue(MSG.renamedColumn(split.name, renamed), at));
+          renamedTo.add(renamed);
+          headerOk = false;
+        } else if (split.name !== '') issues.push(issue(MSG.unknownColumn(split.name, kind), at));
         return;
       }
       const def = split.def;
@@ -236,11 +257,12 @@ export function createRowReader<K extends InputKind>(
         }
       }
       columns.push({ index, header: cell.trim(), def, factor, unit });
+      if (unit !== undefined) units.push({ name: def.name, header: shown(cell.trim()), unit, from: split.unit !== undefined ? 'header' : 'manifest', line: headerLine, col: index + 1 });
     });
     const has = (name: string) => columns.some((c) => c.def.name === name);
     const headerAt: SourceRef = { file, line: headerLine };
     for (const def of cat.columns) {
-      if (def.required && !seen.has(def.name.toLowerCase())) {
+      if (def.required && !seen.has(def.name.toLowerCase()) && !renamedTo.has(def.name)) {
         issues.push(issue(MSG.missingColumn(def.name, kind), headerAt));
         headerOk = false;
       }
@@ -258,6 +280,7 @@ export function createRowReader<K extends InputKind>(
       if (problem.severity === 'error') headerOk = false;
     }
     if (!headerOk) return;
+    out.columns = units;
     state = 'read';
     width = headerCells.length;
     readRow = rowReader(columns, reading);
@@ -302,7 +325,8 @@ export function createRowReader<K extends InputKind>(
     });
     const plausibleSlots = columns.flatMap((c, j) => (c.def.plausible ? [j] : []));
     const variantSlot = slotOf('variant');
-    const unitSlot = slotOf('unit');
+    // The preparation column: the one whose typed-row field is `unit` (named 'preparation' by convention).
+    const unitSlot = ((j) => (j < 0 ? undefined : j))(columns.findIndex((c) => c.def.field === 'unit'));
     const batchSlot = slotOf('batch');
     const cellAt = (c: ResolvedColumn, line: number): SourceRef => ({ file, line, column: c.def.name, col: c.index + 1 });
     const complete = reading.complete;
@@ -333,6 +357,13 @@ export function createRowReader<K extends InputKind>(
     let lastVariant: string | undefined;
     let lastLabel: string | undefined;
     let lastLabelVariant: Variant | undefined;
+    /** Declared labels near an undeclared one, computed once per label. */
+    const near = new Map<string, string[]>();
+    const nearLabels = (label: string): string[] => {
+      let got = near.get(label);
+      if (!got) near.set(label, (got = closestNames(label, declaredLabels(byLabel))));
+      return got;
+    };
 
     return (cells: string[], line: number): void => {
       if (cells.length !== width) {
@@ -348,7 +379,11 @@ export function createRowReader<K extends InputKind>(
         const text = cells[cellIndex[j]].trim();
         if (anyMissing && missing.has(text)) {
           if (skipsRow[j]) {
-            if (!skipped) issues.push(issue(MSG.missingSkipped(columns[j].def.name, text), cellAt(columns[j], line)));
+            if (!skipped) {
+              const label = variantSlot === undefined ? undefined : cells[cellIndex[variantSlot]].trim();
+              const v = label ? byLabel.get(label) : undefined;
+              issues.push(issue(MSG.missingSkipped(columns[j].def.name, text), cellAt(columns[j], line), { variants: v ? [v.id] : [] }));
+            }
             skipped = true;
           }
           continue;
@@ -427,7 +462,9 @@ export function createRowReader<K extends InputKind>(
           if (variant && !out.labels.has(label)) out.labels.set(label, variant);
         }
         if (!variant) {
-          issues.push(issue(MSG.unknownVariant(label), cellAt(byName.get('variant')!, line)));
+          // A variant entry the manifest could not read (already reported): its rows are left out quietly.
+          if (unresolved.has(label)) return;
+          issues.push(issue(MSG.unknownVariant(label, nearLabels(label)), cellAt(byName.get('variant')!, line), { group: label }));
           return;
         }
         if (variant.id !== lastVariant) out.variantsSeen.add((lastVariant = variant.id));
@@ -457,7 +494,7 @@ export function createRowReader<K extends InputKind>(
         if (typeof v !== 'number') continue;
         if ((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min)) {
           const u = c.def.quantity ? UNITS[c.def.quantity].canonical : '';
-          issues.push(issue(MSG.implausible(c.def.name, Number(v.toPrecision(6)), u, p.reason), cellAt(c, line)));
+          issues.push(issue(MSG.implausible(c.def.name, Number(v.toPrecision(6)), u, p.reason), cellAt(c, line), { variants: variantId ? [variantId] : [] }));
         }
       }
       for (const { column, value: v, reportedIn, note } of complete ? computed : []) {
@@ -466,7 +503,7 @@ export function createRowReader<K extends InputKind>(
         if (!p || !((p.max !== undefined && v > p.max) || (p.min !== undefined && v < p.min))) continue;
         const u = def.quantity ? UNITS[def.quantity].canonical : '';
         const c = byName.get(reportedIn);
-        issues.push(issue(MSG.implausible(column, Number(v.toPrecision(6)), u, `${p.reason} (${note})`), c ? cellAt(c, line) : { file, line }));
+        issues.push(issue(MSG.implausible(column, Number(v.toPrecision(6)), u, `${p.reason} (${note})`), c ? cellAt(c, line) : { file, line }, { variants: variantId ? [variantId] : [] }));
       }
 
       // Duplicates.
@@ -488,7 +525,7 @@ export function createRowReader<K extends InputKind>(
       } else {
         const key = joinKey(cells.map((c) => c.trim()));
         const first = firstByRow.get(key);
-        if (first !== undefined) issues.push(issue(MSG.duplicateRow(first), { file, line }));
+        if (first !== undefined) issues.push(issue(MSG.duplicateRow(first), { file, line }, { variants: variantId ? [variantId] : [] }));
         else firstByRow.set(key, line);
       }
 

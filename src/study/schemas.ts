@@ -21,6 +21,18 @@ export const INPUT_KINDS: readonly InputKind[] = KINDS.map((k) => k.def.kind);
 /** Each input kind's definition (src/assays/<assay>/inputs.ts). */
 export const KIND_DEFS: Readonly<Record<InputKind, InputKindDef>> = Object.fromEntries(KINDS.map((k) => [k.def.kind, k.def]));
 
+/**
+ * The CSV column naming the biological preparation (protein preparation, fibre, tissue piece) a row
+ * comes from; typed rows keep it in the field `unit` (the biological unit of the statistics).
+ */
+export const PREPARATION_COLUMN = 'preparation';
+
+/**
+ * Former column names, refused with the new name: 'unit' read like the physical units that sit
+ * beside it in headers and the manifest (version 0.2.0 and before).
+ */
+export const RENAMED_COLUMNS: Readonly<Record<string, string>> = { unit: PREPARATION_COLUMN };
+
 /** The manifest file name in a study folder. */
 export const MANIFEST_NAME = 'study.json';
 

@@ -1,7 +1,10 @@
 /**
- * Starter files for `myofolio init`, generated from the row schemas: one CSV per input
- * kind with a comment line per column and the header, and a manifest listing them. Pure.
+ * Starter files for `myofolio init`, generated from the schemas: one CSV per chosen input kind
+ * with a comment line per column and the header, a manifest listing them, and a field guide
+ * beside it (JSON has no comments). Pure.
  */
+import { KINDS } from '../assays/assembled.js';
+import { fieldGuide } from './reference-doc.js';
 import { CATALOGUE, INPUT_KINDS, KIND_DEFS, MANIFEST_NAME } from './schemas.js';
 import type { InputKind } from './types.js';
 import { UNITS, unitChoices } from './units.js';
@@ -32,8 +35,36 @@ export function templateFileName(kind: InputKind): string {
   return `${kind}.csv`;
 }
 
-/** Starter manifest (as an object) listing one template per kind. */
-export function manifestTemplate(today: string): Record<string, unknown> {
+/** Name of the field guide written beside the starter manifest. */
+export const GUIDE_NAME = 'study-guide.md';
+
+/** Each assay's input kinds, by assay id: `init --assays atpase` writes every kind the assay reads. */
+export const ASSAY_KINDS: Readonly<Record<string, InputKind[]>> = KINDS.reduce<Record<string, InputKind[]>>((out, k) => {
+  (out[k.assay.id] ??= []).push(k.def.kind);
+  return out;
+}, {});
+
+/**
+ * The input kinds named in an `--assays` list (comma-separated kind names, or assay ids for all of
+ * an assay's kinds), in the order of INPUT_KINDS, or the first name that is neither.
+ * @example parseKinds('force,atpase-rates') // { kinds: ['atpase-rates', 'force-pca'] }
+ * @example parseKinds('forse') // { unknown: 'forse' }
+ */
+export function parseKinds(list: string): { kinds: InputKind[] } | { unknown: string } {
+  const wanted = new Set<InputKind>();
+  for (const raw of list.split(',')) {
+    const name = raw.trim();
+    if (name === '') continue;
+    const kinds = (INPUT_KINDS as readonly string[]).includes(name) ? [name as InputKind] : ASSAY_KINDS[name];
+    if (!kinds) return { unknown: name };
+    for (const k of kinds) wanted.add(k);
+  }
+  if (wanted.size === 0) return { unknown: list };
+  return { kinds: INPUT_KINDS.filter((k) => wanted.has(k)) };
+}
+
+/** Starter manifest (as an object) listing one template per chosen kind. */
+export function manifestTemplate(today: string, kinds: readonly InputKind[] = INPUT_KINDS): Record<string, unknown> {
   return {
     title: 'New study',
     lab: 'Your lab',
@@ -43,7 +74,7 @@ export function manifestTemplate(today: string): Record<string, unknown> {
     genes: [{ symbol: 'GENE', domains: [] }],
     variants: [{ wt: true, label: 'WT' }],
     direction: 'hypercontractile',
-    files: INPUT_KINDS.map((kind) => ({ path: templateFileName(kind), kind })),
+    files: kinds.map((kind) => ({ path: templateFileName(kind), kind })),
     thresholds: {},
     exclusions: [],
     caveats: ['Research data, not a clinical test.'],
@@ -51,9 +82,9 @@ export function manifestTemplate(today: string): Record<string, unknown> {
   };
 }
 
-/** Every starter file by name. */
-export function starterFiles(today: string): Record<string, string> {
-  const files: Record<string, string> = { [MANIFEST_NAME]: JSON.stringify(manifestTemplate(today), null, 2) + '\n' };
-  for (const kind of INPUT_KINDS) files[templateFileName(kind)] = csvTemplate(kind);
+/** Every starter file by name: the manifest, its field guide and one CSV template per chosen kind. */
+export function starterFiles(today: string, kinds: readonly InputKind[] = INPUT_KINDS): Record<string, string> {
+  const files: Record<string, string> = { [MANIFEST_NAME]: JSON.stringify(manifestTemplate(today, kinds), null, 2) + '\n', [GUIDE_NAME]: fieldGuide(kinds) };
+  for (const kind of kinds) files[templateFileName(kind)] = csvTemplate(kind);
   return files;
 }

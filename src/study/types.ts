@@ -47,6 +47,21 @@ export interface Variant {
   at: SourceRef;
 }
 
+/** A measurement column of an input file and the unit its values were read in (for messages about units). */
+export interface ColumnUnit {
+  /** Column name as in the row schema, e.g. 'rate'. */
+  name: string;
+  /** The header cell as written, e.g. 'rate (1/min)'. */
+  header: string;
+  /** Unit symbol the values were read in (from the unit table; 'px' for pixels). */
+  unit: string;
+  /** Where the unit was given: in the header, or in the manifest file entry's `units`. */
+  from: 'header' | 'manifest';
+  /** Header line and 1-based column of the cell. */
+  line: number;
+  col: number;
+}
+
 /** Per-file settings from the manifest, already in canonical units. */
 export interface InputFile {
   kind: InputKind;
@@ -63,6 +78,8 @@ export interface InputFile {
    * depend on. Set by loadStudy; the store's unit entries key on it (src/pipeline/analyse-units.ts).
    */
   variantLabels?: string;
+  /** The measurement columns of the file with their units as read (set by loadStudy). */
+  columns?: ColumnUnit[];
 }
 
 export interface Exclusion {
@@ -144,6 +161,14 @@ export interface FileDigest {
   wildType: WildTypeFacts;
   /** Each unit (variant, unit, batch) in order of first appearance; NADH actin-only wells (no variant, no unit) left out. */
   unitOrder: Array<[variant: string, unit: string, batch: string]>;
+  /** The file's measurement columns with their units (InputFile.columns). */
+  columns: ColumnUnit[];
+  /**
+   * Per group two files can share (a preparation; for NADH readings a batch), the sorted 32-bit
+   * hashes of its rows' observation keys: compared with other files' without reading this one
+   * (src/study/across-files.ts).
+   */
+  groupKeys: Array<[group: string, hashes: Uint32Array]>;
 }
 
 /**

@@ -58,7 +58,7 @@ function glowStudy(): string {
     files: [{ path: 'glow.csv', kind: 'glow-wells' }],
     settings: { glowMinWells: 2 },
   };
-  const lines = ['variant,unit,batch,well,exposure (ms),glow'];
+  const lines = ['variant,preparation,batch,well,exposure (ms),glow'];
   // Invented values: rate = glow / exposure; WT about 10 per s, G12A about 15 per s, small spread.
   const spread = [0.97, 1.0, 1.03];
   for (const batch of ['B1', 'B2']) {

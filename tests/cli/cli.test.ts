@@ -1,10 +1,11 @@
 import { execFileSync } from 'node:child_process';
-import { appendFileSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { appendFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../src/cli/main.js';
 import { memoryWarning } from '../../src/cli/commands/build.js';
+import { invocation, withCommand } from '../../src/cli/invocation.js';
 
 const REPO = join(import.meta.dirname, '../..');
 const root = mkdtempSync(join(tmpdir(), 'myofolio-cli-'));
@@ -40,25 +41,62 @@ describe('myofolio CLI', () => {
     expect((await run('init', '--force', 'x')).code).toBe(2);
   });
 
-  it('init writes a starter folder, prints the next command, and refuses a non-empty folder', async () => {
+  it('init writes a starter folder with a field guide, prints the next command, and refuses a non-empty folder', async () => {
     const r = await run('init', 'starter');
     expect(r.code).toBe(0);
     expect(r.out).toContain('myofolio check starter');
     expect(readdirSync(join(root, 'starter')).sort()).toEqual([
-      'atpase-nadh.csv', 'atpase-rates.csv', 'force-pca.csv', 'motility-tracks.csv', 'motility-velocities.csv', 'study.json', 'turnover.csv',
+      'atpase-nadh.csv', 'atpase-rates.csv', 'force-pca.csv', 'motility-tracks.csv', 'motility-velocities.csv', 'study-guide.md', 'study.json', 'turnover.csv',
     ]);
     expect(readFileSync(join(root, 'starter', 'atpase-rates.csv'), 'utf8')).toContain('# actin (required): Actin concentration in the well. Units: M, mM, µM, nM.');
+    const guide = readFileSync(join(root, 'starter', 'study-guide.md'), 'utf8');
+    expect(guide).toContain('| `variants` | yes | The wild type and every variant measured. |');
+    expect(guide).toContain('## `turnover`: Single turnover');
     const again = await run('init', 'starter');
     expect(again.code).toBe(1);
     expect(again.err).toContain('is not empty');
   });
 
-  it('a fresh starter passes check with warnings only', async () => {
+  it('init --assays writes only the chosen kinds, listed in the manifest and the guide', async () => {
+    const r = await run('init', 'chosen', '--assays', 'force,atpase-rates');
+    expect(r.code, r.err).toBe(0);
+    expect(readdirSync(join(root, 'chosen')).sort()).toEqual(['atpase-rates.csv', 'force-pca.csv', 'study-guide.md', 'study.json']);
+    const m = JSON.parse(readFileSync(join(root, 'chosen', 'study.json'), 'utf8'));
+    expect(m.files).toEqual([{ path: 'atpase-rates.csv', kind: 'atpase-rates' }, { path: 'force-pca.csv', kind: 'force-pca' }]);
+    const guide = readFileSync(join(root, 'chosen', 'study-guide.md'), 'utf8');
+    expect(guide).toContain('`force-pca`: Force–pCa');
+    expect(guide).not.toContain('`turnover`: Single turnover');
+    const bad = await run('init', 'nope', '--assays', 'forse');
+    expect(bad.code).toBe(2);
+    expect(bad.err).toContain("'forse' is not an input kind or assay. Did you mean 'force'?");
+    expect(existsSync(join(root, 'nope'))).toBe(false);
+  });
+
+  it('messages name the command as the user can run it', async () => {
+    let out = '';
+    const code = await main(['init', 'named'], { stdout: { write: (s: string) => (out += s) }, stderr: { write: () => {} }, cwd: root, command: 'npx myofolio' });
+    expect(code).toBe(0);
+    expect(out).toContain('\n  npx myofolio check named\n');
+    expect(invocation({ npm_command: 'exec' }, join(REPO, 'dist/cli/myofolio.js'), REPO)).toBe('npx myofolio');
+    expect(invocation({ PATH: '' }, join(REPO, 'dist/cli/myofolio.js'), REPO)).toBe('node dist/cli/myofolio.js');
+    expect(invocation({ PATH: '' }, join(REPO, 'dist/cli/myofolio.js'), root)).toBe(`node ${join(REPO, 'dist/cli/myofolio.js')}`);
+    // A link named myofolio on the PATH that leads to this launcher: the bare name works.
+    const bin = join(root, 'bin');
+    mkdirSync(bin);
+    symlinkSync(join(REPO, 'dist/cli/myofolio.js'), join(bin, 'myofolio'));
+    expect(invocation({ PATH: bin }, join(REPO, 'dist/cli/myofolio.js'), root)).toBe('myofolio');
+    expect(withCommand("Create study.json (run 'myofolio init <dir>' for a starter).", 'npx myofolio')).toBe("Create study.json (run 'npx myofolio init <dir>' for a starter).");
+  });
+
+  it('a fresh starter fails check with one error per thing to add', async () => {
     await run('init', 'fresh');
     const r = await run('check', 'fresh');
-    expect(r.code).toBe(0);
-    expect(r.out).toContain('warning: The file has a header but no data rows.');
-    expect(r.out).not.toContain(': error:');
+    expect(r.code).toBe(1);
+    expect(r.out).toContain('study.json:/files: error: The study has no data: none of its 6 files holds a data row');
+    expect(r.out).toContain('study.json:/variants: error: The manifest declares only the wild type');
+    // The one no-data error stands for each file's "header but no rows".
+    expect(r.out).not.toContain('header but no data rows');
+    expect(r.out).toMatch(/^2 error\(s\), 0 warning\(s\)\.$/m);
   });
 
   it('a starter filled in passes check with no problems', async () => {
@@ -78,7 +116,9 @@ describe('myofolio CLI', () => {
     };
     for (const [file, lines] of Object.entries(rows)) appendFileSync(join(dir, file), lines.join('\n') + '\n');
     const r = await run('check', 'filled');
-    expect(r.out).toBe('No problems found.\n');
+    // Only the analysis's note that without known controls no evidence level is reachable.
+    expect(r.out.split('\n').filter((l) => l.includes(': error:') || l.includes(': warning:')).map((l) => l.split(': ').slice(0, 2).join(': '))).toEqual(['study.json:/variants: warning']);
+    expect(r.out).toContain('no functional evidence level (PS3 or BS3) can be reached');
     expect(r.code).toBe(0);
   });
 
@@ -90,7 +130,8 @@ describe('myofolio CLI', () => {
     expect(r.code).toBe(1);
     // The header is line 9 of the template (8 comment lines), so the row is line 10; actin is column 4.
     expect(r.out).toContain("atpase-rates.csv:10:4: error: -3 in 'actin' is out of range: it must be >= 0. — Correct the value; actin must be >= 0.");
-    expect(r.out).toMatch(/1 error\(s\), \d+ warning\(s\)\.\n$/);
+    // And the starter still declares only WT.
+    expect(r.out).toMatch(/2 error\(s\), \d+ warning\(s\)\.\n$/);
   });
 
   it('check names manifest problems by JSON path', async () => {

@@ -183,7 +183,7 @@ describe('loadAndAnalyse with the store', () => {
     expect(parsed).toBeGreaterThan(size);
   }, 180_000);
 
-  it('a new batch of a new variant in a new file, then a label naming another variant: only the files concerned are read, and the results are those of a build without cache', async () => {
+  it('a new batch of a new variant in a new file, then a label naming another variant (the old one withdrawn): only the files concerned are read, and the results are those of a build without cache', async () => {
     // Continues from the study and cache of the tests above.
     const manifestPath = join(dir, 'study.json');
     const manifest = JSON.parse(readFileSync(manifestPath, 'utf8')) as { variants: Array<Record<string, unknown>>; files: Array<Record<string, unknown>> };
@@ -211,13 +211,13 @@ describe('loadAndAnalyse with the store', () => {
     expect(await run(true)).toBe(fresh);
     expect(parsed).toBe(Buffer.byteLength(text));
 
-    // The old label now names the new variant (and the new label the old one): the same bytes
-    // give other rows. The files using either label are parsed (see the loadStudy test above),
-    // and so are the files sharing cache entries with them: an entry's file key covers the labels
-    // of each of its files as a whole, so every entry with rows in those files is looked up by
-    // its rows.
-    manifest.variants[at] = { ...manifest.variants[at], label: newLabel };
+    // The old label now names the new variant (the old variant is withdrawn: a label may not be
+    // another declared variant's short form): the same bytes give other rows. The files using the
+    // label are parsed (see the loadStudy test above), and so are the files sharing cache entries
+    // with them: an entry's file key covers the labels of each of its files as a whole, so every
+    // entry with rows in those files is looked up by its rows.
     manifest.variants[manifest.variants.length - 1] = { hgvs: `p.${newLabel}`, label: oldLabel };
+    manifest.variants.splice(at, 1);
     writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
     const swapped = await run(false);
     expect(swapped).not.toBe(fresh);

@@ -49,7 +49,7 @@ describe.each(CASES.map((c) => [c.name, c] as const))('%s', (_name, c) => {
     const { issues } = loadStudy(readStudyFolder(dir));
     for (const e of c.expect) {
       const hit = issues.find((i) => i.code === e.code && i.at.file === e.file && (e.line === undefined || i.at.line === e.line) && (e.col === undefined || i.at.col === e.col) && (e.jsonPath === undefined || i.at.jsonPath === e.jsonPath));
-      expect(hit, `${e.code} at ${where(e)}; got:\n${issues.map(formatIssue).join('\n')}`).toBeDefined();
+      expect(hit, `${e.code} at ${where(e)}; got:\n${issues.map((i) => formatIssue(i)).join('\n')}`).toBeDefined();
       expect(hit!.severity).toBe('error');
     }
   }, 10_000);
@@ -96,7 +96,7 @@ describe('header-only file', () => {
     const dir = join(root, 'header-only');
     copyDemo(dir);
     const { writeFileSync } = await import('node:fs');
-    writeFileSync(join(dir, 'force-pca.csv'), '# comment\nvariant,unit,batch,pCa,force (uN),area (um2)\n');
+    writeFileSync(join(dir, 'force-pca.csv'), '# comment\nvariant,preparation,batch,pCa,force (uN),area (um2)\n');
     const r = await runCli(['check', dir], root);
     expect(r.out).toMatch(/^force-pca\.csv:2: warning: The file has a header but no data rows\. — /m);
     expect(r.out).not.toContain(': error:');

@@ -21,7 +21,7 @@ describe('file size limit', () => {
     const file = join(dir, 'huge.csv');
     const fd = openSync(file, 'w');
     const chunk = Buffer.from('WT,WT-B1-1,B1,m1,f1,749.9\n'.repeat(40_000)); // 1.04 MB
-    writeSync(fd, Buffer.from('variant,unit,batch,movie,filament,velocity (nm/s)\n'));
+    writeSync(fd, Buffer.from('variant,preparation,batch,movie,filament,velocity (nm/s)\n'));
     for (let written = 0; written < 100e6; written += chunk.length) writeSync(fd, chunk);
     closeSync(fd);
     const m = readManifest(dir);

@@ -68,7 +68,7 @@ describe('a failing build leaves the previous site intact', () => {
   it('broken input: exit 1, site byte-identical', async () => {
     const broken = join(root, 'broken');
     copyDemo(broken);
-    writeFileSync(join(broken, 'force-pca.csv'), 'variant,unit,batch,pCa,force (uN),area (um2)\nWT,"w1,B1,9,1,400\n');
+    writeFileSync(join(broken, 'force-pca.csv'), 'variant,preparation,batch,pCa,force (uN),area (um2)\nWT,"w1,B1,9,1,400\n');
     const r = await runCli(['build', broken, '--out', site], root);
     expect(r.code).toBe(1);
     expect(r.out).toContain('the previous output, if any, is unchanged');

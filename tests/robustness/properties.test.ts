@@ -44,7 +44,7 @@ const csvFile = fc
   });
 
 /** A raw (possibly broken) file: arbitrary characters with quotes and delimiters mixed in. */
-const rawFile = fc.array(fc.oneof(fc.constantFrom(',', ';', '"', '\n', '\r', '\r\n', '#', 'WT', 'B1', '1'), fc.string({ maxLength: 4 })), { maxLength: 60 }).map((parts) => 'variant,unit,batch,actin (uM),rate (1/s)\n' + parts.join(''));
+const rawFile = fc.array(fc.oneof(fc.constantFrom(',', ';', '"', '\n', '\r', '\r\n', '#', 'WT', 'B1', '1'), fc.string({ maxLength: 4 })), { maxLength: 60 }).map((parts) => 'variant,preparation,batch,actin (uM),rate (1/s)\n' + parts.join(''));
 
 describe('CSV loader properties', () => {
   const m = baseManifest();

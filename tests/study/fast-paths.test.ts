@@ -7,10 +7,13 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { numberCellValue, scanCsv } from '../../src/study/csv.js';
+import { numberCellValue, parseCsv, scanCsv } from '../../src/study/csv.js';
+import { readManifest } from '../../src/study/manifest.js';
 import { compileRowCheck } from '../../src/study/row-check.js';
+import { readRows } from '../../src/study/rows.js';
 import { CATALOGUE, INPUT_KINDS, ROW_SCHEMAS, validators } from '../../src/study/schemas.js';
-import { loadWith } from './fixtures.js';
+import type { Issue } from '../../src/study/types.js';
+import { baseManifest, loadWith } from './fixtures.js';
 import { rowsOf as rowsOfKind } from '../../src/assays/assay-common.js';
 import { FORCE_PCA } from '../../src/assays/force/inputs.js';
 
@@ -141,12 +144,17 @@ describe('row pre-check', () => {
 
 describe('duplicate observations in large files', () => {
   it('are found far apart, past the first index capacity, with 0 and −0 alike', () => {
-    const head = 'variant,unit,batch,trace,time (s),fluorescence';
+    const head = 'variant,preparation,batch,trace,time (s),fluorescence';
     const rows = Array.from({ length: 4000 }, (_, i) => `WT,u1,B1,t${i % 4},${Math.floor(i / 4)},${i}`);
     // Lines: header 1, data 2..4001; then three repeats of earlier keys.
     rows.push('WT,u1,B1,t0,0,7', 'WT,u1,B1,t3,999,1', 'WT,u1,B1,t1,-0,2');
-    const o = loadWith('t.csv', 'turnover', [head, ...rows].join('\n'));
-    const dups = o.issues.filter((i) => i.code === 'csv.duplicate-observation');
+    // The row reader itself (loadStudy then groups the three into one message).
+    const m = baseManifest();
+    m.files = [{ path: 't.csv', kind: 'turnover' }];
+    const { manifest } = readManifest(JSON.stringify(m), 'study.json');
+    const issues: Issue[] = [];
+    readRows('turnover', parseCsv([head, ...rows].join('\n'), 't.csv'), manifest!.files[0], 't.csv', manifest!.byLabel, issues);
+    const dups = issues.filter((i) => i.code === 'csv.duplicate-observation');
     expect(dups.map((i) => [i.at.line, i.message.match(/line (\d+)/)![1]])).toEqual([
       [4002, '2'],
       [4003, '4001'],
@@ -157,7 +165,7 @@ describe('duplicate observations in large files', () => {
 
 describe('typed rows', () => {
   it('have one field order, whether every optional cell is filled or not', () => {
-    const head = 'variant,unit,batch,pCa,force (mN),area (mm²),replicate';
+    const head = 'variant,preparation,batch,pCa,force (mN),area (mm²),replicate';
     const o = loadWith('f.csv', 'force-pca', [head, 'WT,w1,B1,5,0.01,0.0004,r1', 'WT,w1,B1,6,0.01,0.0004,'].join('\n'));
     const rows = rowsOfKind(o.study!, FORCE_PCA);
     expect(rows.map((r) => Object.keys(r))).toEqual([

@@ -18,7 +18,7 @@ export function baseManifest(): Record<string, any> {
 }
 
 export const RATES = [
-  'variant,unit,batch,actin (uM),rate (1/s)',
+  'variant,preparation,batch,actin (uM),rate (1/s)',
   'WT,w1,B1,0,0.03',
   'WT,w1,B1,50,2.6',
   'R2Q,p1,B1,0,0.04',

@@ -16,7 +16,7 @@ export interface AtpaseRateRow extends RowBase {
 
 /**
  * NADH-coupled ATPase: one A340 reading of one well.
- * Actin-only background wells have wellType 'actin-only' and variant/unit empty ('').
+ * Actin-only background wells have wellType 'actin-only' and variant/unit (preparation) empty ('').
  */
 export interface NadhRow extends RowBase {
   wellType: 'sample' | 'actin-only';
@@ -41,7 +41,7 @@ const needsVariantUnit = (column: string): MessageText => ({
   severity: 'error',
   code: 'csv.empty-cell',
   message: `The cell in '${column}' is empty, but sample wells need it.`,
-  fix: `Fill in '${column}' (only actin-only wells leave variant and unit empty).`,
+  fix: `Fill in '${column}' (only actin-only wells leave variant and preparation empty).`,
 });
 
 export const ATPASE_RATES: InputKindDef<AtpaseRateRow> = {
@@ -65,7 +65,7 @@ export const ATPASE_NADH: InputKindDef<NadhRow> = {
     const pathCm = file.options.pathLength as number | undefined;
     return {
       headerProblems: !file.has('path') && pathCm === undefined ? [NEEDS_PATH_LENGTH] : [],
-      emptyCell: (column) => (column === 'variant' || column === 'unit' ? needsVariantUnit(column) : undefined),
+      emptyCell: (column) => (column === 'variant' || column === 'preparation' ? needsVariantUnit(column) : undefined),
       complete(row) {
         if (row.pathCm === undefined) row.pathCm = pathCm;
         return true;

@@ -25,8 +25,8 @@ export function tensionKPa(forceMN: number, areaMm2: number): number {
 const needsCrossSection = (unit: string): MessageText => ({
   severity: 'error',
   code: 'csv.needs-cross-section',
-  message: `Force is given without a cross-sectional area for unit '${unit}'.`,
-  fix: 'Add an area column, or "crossSection" (value or byUnit) to the file entry, or give tension instead.',
+  message: `Force is given without a cross-sectional area for preparation '${unit}'.`,
+  fix: 'Add an area column, or "crossSection" (value or byPreparation) to the file entry, or give tension instead.',
 });
 
 export const FORCE_PCA: InputKindDef<ForceRow> = {
@@ -37,7 +37,7 @@ export const FORCE_PCA: InputKindDef<ForceRow> = {
       name: 'crossSection',
       shape: 'quantity-per-unit',
       quantity: 'area',
-      description: 'Force: cross-sectional area for all preparations (value) or per unit (byUnit).',
+      description: 'Force: cross-sectional area for all preparations (value) or per preparation (byPreparation).',
       setting: 'crossSectionMm2',
     },
   ],

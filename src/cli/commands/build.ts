@@ -85,7 +85,7 @@ export const command: Command = {
   async run(args: string[], io: Io): Promise<number> {
     const parsed = parseArgs(args);
     if (typeof parsed === 'string') {
-      io.stderr.write(`myofolio build: ${parsed}.\n${CLI.badArgs(this.usage)}`);
+      io.stderr.write(`myofolio build: ${parsed}.\n${CLI.badArgs(this.usage, io.command)}`);
       return 2;
     }
     const dir = isAbsolute(parsed.study) ? parsed.study : join(io.cwd, parsed.study);
@@ -96,7 +96,7 @@ export const command: Command = {
     }
     if (isArchiveFolder(dir)) return runArchiveBuild(dir, out, { force: parsed.force, sourceDateEpoch: sourceDateEpoch(process.env) }, io);
     if (!existsSync(join(dir, MANIFEST_NAME))) {
-      io.stderr.write(`myofolio build: '${parsed.study}' has no ${MANIFEST_NAME}. Run 'myofolio init <dir>' for a starter study.\n`);
+      io.stderr.write(`myofolio build: '${parsed.study}' has no ${MANIFEST_NAME}. Run '${io.command ?? 'myofolio'} init <dir>' for a starter study.\n`);
       return 1;
     }
     const memoryNote = memoryWarning(dir, getHeapStatistics().heap_size_limit);
@@ -113,7 +113,7 @@ export const command: Command = {
       });
       progress.done();
       for (const note of outcome.notes) io.stderr.write(`myofolio build: note: ${note}\n`);
-      for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i)}\n`);
+      for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i, io.command)}\n`);
       if (!outcome.ok) {
         const errors = outcome.issues.filter((i) => i.severity === 'error').length;
         io.stdout.write(`${errors} error(s): nothing was built; the previous output, if any, is unchanged.\n`);
