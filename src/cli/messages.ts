@@ -22,10 +22,11 @@ export const CLI = {
   noCommand: (cmd = 'myofolio') => `myofolio: no command given. Run '${cmd} --help' for the list.\n`,
   badArgs: (usage: string, cmd = 'myofolio') => `usage: ${cmd} ${usage}\n`,
   unknownOption: (opt: string, usage: string, cmd = 'myofolio') => `myofolio: unknown option '${opt}'.\nusage: ${cmd} ${usage}\n`,
-  initNotEmpty: (dir: string) => `myofolio init: '${dir}' exists and is not empty; choose a new or empty folder.\n`,
-  initNotFolder: (dir: string) => `myofolio init: '${dir}' exists and is not a folder; choose a new or empty folder.\n`,
-  initDanglingLink: (dir: string) => `myofolio init: '${dir}' is a symbolic link to something that does not exist; remove the link or choose another folder.\n`,
-  initCannotWrite: (dir: string, reason: string) => `myofolio init: cannot write the starter study to '${dir}': ${reason}. Nothing was left behind; choose a folder you may write to.\n`,
+  initNotEmpty: (dir: string) => `myofolio init: '${dir}' exists and is not empty.\n  fix: choose a new or empty folder.\n`,
+  initNotFolder: (dir: string) => `myofolio init: '${dir}' exists and is not a folder.\n  fix: choose a new or empty folder.\n`,
+  initDanglingLink: (dir: string, target: string) =>
+    `myofolio init: '${dir}' is a symbolic link to '${target}', which does not exist.\n  fix: remove the link or choose another folder.\n`,
+  initCannotWrite: (dir: string, reason: string) => `myofolio init: cannot write the starter study to '${dir}': ${reason}. Nothing was left behind.\n  fix: choose a folder you may write to.\n`,
   initUnknownKind: (text: string, choices: readonly string[], near: string) => `myofolio init: '${text}' is not an input kind or assay.${near} Choose from: ${choices.join(', ')}.\n`,
   initDone: (dir: string, files: readonly string[], guide: string, cmd = 'myofolio') =>
     `Wrote a starter study to ${dir}: ${files.join(', ')}.\n` +

@@ -404,7 +404,7 @@ describe('init for a first study', () => {
       symlinkSync(join(base, 'nowhere'), join(base, 'link'));
       return join(base, 'link');
     },
-    /is a symbolic link to something that does not exist/,
+    /is a symbolic link to '.*nowhere', which does not exist\.\n  fix: remove the link/,
   );
   initFails(
     'in a place it may not write (a read-only file system, or a read-only folder)',

@@ -522,14 +522,14 @@ describe('init where it cannot write', () => {
   it('under a file: exit 1 naming the file; the file unchanged', () => {
     const file = join(root, 'init-file');
     writeFileSync(file, 'mine');
-    clean(cli(['init', join(file, 'study')]), /myofolio init: A part of the path .*init-file\/study is a file, not a folder\./);
+    clean(cli(['init', join(file, 'study')]), /myofolio init: cannot write the starter study to '.*init-file\/study': a part of the path is a file, not a folder\. Nothing was left behind/);
     expect(readFileSync(file, 'utf8')).toBe('mine');
   });
 
   it('on a symbolic link that leads nowhere: exit 1 naming the link and its target; nothing made', () => {
     const link = join(root, 'init-dangling');
     symlinkSync(join(root, 'nowhere'), link);
-    clean(cli(['init', link]), /myofolio init: .*init-dangling is a symbolic link to .*nowhere, which does not exist\./);
+    clean(cli(['init', link]), /myofolio init: '.*init-dangling' is a symbolic link to '.*nowhere', which does not exist\.\n  fix: remove the link/);
     expect(existsSync(join(root, 'nowhere'))).toBe(false);
   });
 
@@ -537,14 +537,14 @@ describe('init where it cannot write', () => {
     const parent = join(root, 'init-locked');
     mkdirSync(parent);
     chmodSync(parent, 0o555);
-    clean(cli(['init', join(parent, 'study')], { uid: 65534 }), /myofolio init: Permission denied: you may not write or read .*init-locked\/study\./);
+    clean(cli(['init', join(parent, 'study')], { uid: 65534 }), /myofolio init: cannot write the starter study to '.*init-locked\/study': permission denied\. Nothing was left behind/);
     expect(readdirSync(parent)).toEqual([]);
   });
 
   withMount('on a read-only file system: exit 1 saying so; nothing made', () => {
     const ro = join(root, 'init-ro');
     mountTmpfs(ro, 'size=64k,ro');
-    clean(cli(['init', join(ro, 'study')]), /myofolio init: The file system holding .*init-ro\/study is read-only\./);
+    clean(cli(['init', join(ro, 'study')]), /myofolio init: cannot write the starter study to '.*init-ro\/study': the file system is read-only\. Nothing was left behind/);
     expect(readdirSync(ro)).toEqual([]);
   });
 });

@@ -1,5 +1,5 @@
 /** `myofolio init <dir> [--assays <list>]`: write a starter study folder. */
-import { existsSync, lstatSync, mkdirSync, readdirSync, rmdirSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, lstatSync, mkdirSync, readdirSync, readlinkSync, rmdirSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
 import { dirname, isAbsolute, join } from 'node:path';
 import { closestNames, didYouMean } from '../../study/suggest.js';
 import { INPUT_KINDS } from '../../study/schemas.js';
@@ -100,7 +100,7 @@ export const command: Command = {
     try {
       const link = lstatSync(dir, { throwIfNoEntry: false });
       if (link?.isSymbolicLink() && !existsSync(dir)) {
-        io.stderr.write(CLI.initDanglingLink(shown));
+        io.stderr.write(CLI.initDanglingLink(shown, readlinkSync(dir)));
         return 1;
       }
       if (existsSync(dir)) {
