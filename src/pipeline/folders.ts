@@ -7,8 +7,11 @@
 import { lstatSync, mkdirSync, statSync } from 'node:fs';
 import path from 'node:path';
 
-/** Make `dir` and its missing parents (mode: as mkdir(2), less the umask). Returns nothing; throws the first failure. */
-export function makeFolders(dir: string, mode?: number): void {
+/**
+ * Make `dir` and its missing parents (mode: as mkdir(2), less the umask); throws the first failure.
+ * Each folder made is pushed to `created`, outermost first, so a caller can remove them again.
+ */
+export function makeFolders(dir: string, mode?: number, created?: string[]): void {
   const missing: string[] = [];
   for (let cur = path.resolve(dir); ; cur = path.dirname(cur)) {
     try {
@@ -26,6 +29,7 @@ export function makeFolders(dir: string, mode?: number): void {
   for (const part of missing.reverse()) {
     try {
       mkdirSync(part, mode === undefined ? {} : { mode });
+      created?.push(part);
     } catch (err) {
       if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
       // Made meanwhile by another process: fine, if it is a folder.

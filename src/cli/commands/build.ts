@@ -57,7 +57,7 @@ export const HEAP_PER_CSV_BYTE = 8;
  * A warning before a build whose CSV files would need more heap than Node allows here, with the
  * fix; '' when the study fits (or its files cannot be listed: the build then reports the problem).
  */
-export function memoryWarning(dir: string, heapLimit: number): string {
+export function memoryWarning(dir: string, heapLimit: number, cmd = 'myofolio'): string {
   let bytes = 0;
   try {
     for (const name of readdirSync(dir, { recursive: true }) as string[]) {
@@ -74,7 +74,7 @@ export function memoryWarning(dir: string, heapLimit: number): string {
   const mb = Math.ceil(need / 2 ** 20 / 1024) * 1024;
   return (
     `myofolio build: warning: this study has ${gb(bytes)} GB of CSV and may need about ${gb(need)} GB of memory, more than Node's heap limit of ${gb(heapLimit)} GB here; ` +
-    `if the build stops with "JavaScript heap out of memory", run it as NODE_OPTIONS=--max-old-space-size=${mb} node dist/cli/myofolio.js build … (on a machine with that much free memory).\n`
+    `if the build stops with "JavaScript heap out of memory", run it as NODE_OPTIONS=--max-old-space-size=${mb} ${cmd} build … (on a machine with that much free memory).\n`
   );
 }
 
@@ -89,7 +89,8 @@ export const command: Command = {
       return 2;
     }
     const dir = isAbsolute(parsed.study) ? parsed.study : join(io.cwd, parsed.study);
-    const out = isAbsolute(parsed.out) ? parsed.out : join(io.cwd, parsed.out);
+    // An empty --out stays empty, so that the build refuses it as such (not as the working folder).
+    const out = parsed.out === '' || isAbsolute(parsed.out) ? parsed.out : join(io.cwd, parsed.out);
     if (!existsSync(dir) || !statSync(dir).isDirectory()) {
       io.stderr.write(`myofolio build: cannot read the study folder '${parsed.study}': no such folder.\n`);
       return 1;
@@ -99,7 +100,7 @@ export const command: Command = {
       io.stderr.write(`myofolio build: '${parsed.study}' has no ${MANIFEST_NAME}. Run '${io.command ?? 'myofolio'} init <dir>' for a starter study.\n`);
       return 1;
     }
-    const memoryNote = memoryWarning(dir, getHeapStatistics().heap_size_limit);
+    const memoryNote = memoryWarning(dir, getHeapStatistics().heap_size_limit, io.command);
     if (memoryNote) io.stderr.write(memoryNote);
     const started = Date.now();
     const progress = createProgress(io.stderr as ProgressStream);

@@ -1,6 +1,7 @@
 /** `myofolio init <dir> [--assays <list>]`: write a starter study folder. */
-import { existsSync, lstatSync, mkdirSync, readdirSync, readlinkSync, rmdirSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
-import { dirname, isAbsolute, join } from 'node:path';
+import { existsSync, lstatSync, readdirSync, readlinkSync, rmdirSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { isAbsolute, join } from 'node:path';
+import { makeFolders } from '../../pipeline/folders.js';
 import { closestNames, didYouMean } from '../../study/suggest.js';
 import { INPUT_KINDS } from '../../study/schemas.js';
 import { ASSAY_KINDS, GUIDE_NAME, parseKinds, starterFiles } from '../../study/templates.js';
@@ -24,23 +25,6 @@ function reason(err: unknown): string {
     EMFILE: 'too many files are open',
   };
   return (code && words[code]) ?? (code ? `system error ${code}` : String(err));
-}
-
-/**
- * Make a folder and its missing parents, one level at a time (Node's recursive mkdirSync can loop
- * without end where a parent cannot hold folders, e.g. under /proc). Each folder made is pushed
- * to `created`, outermost first; the first failure throws.
- */
-function makeFolders(dir: string, created: string[]): void {
-  const missing: string[] = [];
-  for (let at = dir; !existsSync(at); at = dirname(at)) {
-    missing.unshift(at);
-    if (dirname(at) === at) break;
-  }
-  for (const d of missing) {
-    mkdirSync(d);
-    created.push(d);
-  }
 }
 
 /** Remove folders this run made (innermost first), if they are still empty. */
@@ -112,7 +96,7 @@ export const command: Command = {
           io.stderr.write(CLI.initNotEmpty(shown));
           return 1;
         }
-      } else makeFolders(dir, created);
+      } else makeFolders(dir, undefined, created);
     } catch (err) {
       removeFolders(created);
       io.stderr.write(CLI.initCannotWrite(shown, reason(err)));
