@@ -3,12 +3,10 @@ import { existsSync, readdirSync, statSync } from 'node:fs';
 import { getHeapStatistics } from 'node:v8';
 import { isAbsolute, join, relative } from 'node:path';
 import { buildStudy } from '../../pipeline/build-study.js';
-import { OutputError } from '../../pipeline/output.js';
 import { MANIFEST_NAME } from '../../study/schemas.js';
 import type { Command, Io } from '../command.js';
 import { CLI } from '../messages.js';
-import { createProgress, type ProgressStream } from '../progress.js';
-import { formatIssue, sortIssues } from './check.js';
+import { runBuild } from '../build-run.js';
 import { runArchiveBuild } from './archive-build.js';
 import { isArchiveFolder } from '../../pipeline/archive-input.js';
 
@@ -103,41 +101,23 @@ export const command: Command = {
     const memoryNote = memoryWarning(dir, getHeapStatistics().heap_size_limit, io.command);
     if (memoryNote) io.stderr.write(memoryNote);
     const started = Date.now();
-    const progress = createProgress(io.stderr as ProgressStream);
-    try {
-      const outcome = await buildStudy(dir, out, {
+    const outcome = await runBuild(io, MANIFEST_NAME, (progress) =>
+      buildStudy(dir, out, {
         force: parsed.force,
         sourceDateEpoch: sourceDateEpoch(process.env),
         onPhase: (p) => progress.onProgress(p, 0, 1),
         onProgress: progress.onProgress,
         removePrevious: 'background',
-      });
-      progress.done();
-      for (const note of outcome.notes) io.stderr.write(`myofolio build: note: ${note}\n`);
-      for (const i of sortIssues(outcome.issues, MANIFEST_NAME)) io.stdout.write(`${formatIssue(i, io.command)}\n`);
-      if (!outcome.ok) {
-        const errors = outcome.issues.filter((i) => i.severity === 'error').length;
-        io.stdout.write(`${errors} error(s): nothing was built; the previous output, if any, is unchanged.\n`);
-        return 1;
-      }
-      const r = outcome.results!;
-      const shown = relative(io.cwd, outcome.out!) || '.';
-      io.stdout.write(
-        `Built ${r.variants.length} variants, ${r.assays.length} assays, ${outcome.pages} pages in ${((Date.now() - started) / 1000).toFixed(1)} s.\n` +
-          `Open ${join(shown, 'index.html')} in a browser.\n`,
-      );
-      if (outcome.movedAside) io.stdout.write(`The folder that was there before was moved to ${relative(io.cwd, outcome.movedAside)}.\n`);
-      return 0;
-    } catch (err) {
-      progress.done();
-      if (err instanceof OutputError) {
-        io.stderr.write(`myofolio build: ${err.message}\n  fix: ${err.fix}\n`);
-        return 1;
-      }
-      const message = err instanceof Error ? err.message : String(err);
-      io.stderr.write(`myofolio build: the build failed: ${message}\nThe previous output, if any, is unchanged. Please report this with the study's check output.\n`);
-      if (process.env.MYOFOLIO_DEBUG && err instanceof Error) io.stderr.write(`${err.stack}\n`);
-      return 1;
-    }
+      }),
+    );
+    if (typeof outcome === 'number') return outcome;
+    const r = outcome.results!;
+    const shown = relative(io.cwd, outcome.out!) || '.';
+    io.stdout.write(
+      `Built ${r.variants.length} variants, ${r.assays.length} assays, ${outcome.pages} pages in ${((Date.now() - started) / 1000).toFixed(1)} s.\n` +
+        `Open ${join(shown, 'index.html')} in a browser.\n`,
+    );
+    if (outcome.movedAside) io.stdout.write(`The folder that was there before was moved to ${relative(io.cwd, outcome.movedAside)}.\n`);
+    return 0;
   },
 };
