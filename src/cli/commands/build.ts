@@ -4,7 +4,7 @@ import { getHeapStatistics } from 'node:v8';
 import { isAbsolute, join, relative } from 'node:path';
 import { buildStudy } from '../../pipeline/build-study.js';
 import { MANIFEST_NAME } from '../../study/schemas.js';
-import type { Command, Io } from '../command.js';
+import { type Command, type Io, readArguments } from '../command.js';
 import { CLI } from '../messages.js';
 import { runBuild } from '../build-run.js';
 import { runArchiveBuild } from './archive-build.js';
@@ -20,22 +20,11 @@ interface BuildArgs {
 }
 
 function parseArgs(args: string[]): BuildArgs | string {
-  let out = DEFAULT_OUT;
-  let force = false;
-  const positional: string[] = [];
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i];
-    if (a === '--out' || a === '-o') {
-      const v = args[++i];
-      if (v === undefined || v.startsWith('-')) return `option ${a} needs a folder`;
-      out = v;
-    } else if (a.startsWith('--out=')) out = a.slice('--out='.length);
-    else if (a === '--force') force = true;
-    else if (a.startsWith('-')) return `unknown option '${a}'`;
-    else positional.push(a);
-  }
-  if (positional.length !== 1) return 'give exactly one study folder';
-  return { study: positional[0], out, force };
+  const got = readArguments(args, { '--out': { alias: '-o', needs: 'a folder' } }, ['--force']);
+  if ('problem' in got) return got.problem;
+  const [study] = got.positional;
+  if (got.positional.length !== 1 || study === undefined) return 'give exactly one study folder';
+  return { study, out: got.values.get('--out') ?? DEFAULT_OUT, force: got.flags.has('--force') };
 }
 
 /** SOURCE_DATE_EPOCH (reproducible builds spec): whole seconds since 1970, or undefined. */

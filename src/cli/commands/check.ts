@@ -44,7 +44,7 @@ export const command: Command = {
     const dir = singleFolderArgument(args, io, this.usage);
     if (dir === null) return 2;
     if (!existsSync(dir) || !statSync(dir).isDirectory()) {
-      io.stderr.write(CLI.cannotRead(args[0], 'no such folder'));
+      io.stderr.write(CLI.cannotRead(args[0] ?? dir, 'no such folder'));
       return 1;
     }
     if (isArchiveFolder(dir)) return runArchiveCheck(dir, io, { formatIssue, sortIssues });
@@ -58,7 +58,7 @@ export const command: Command = {
     try {
       loaded = loadStudy(readStudyFolder(dir));
     } catch (err) {
-      io.stderr.write(CLI.cannotRead(args[0], err instanceof Error ? err.message : String(err)));
+      io.stderr.write(CLI.cannotRead(args[0] ?? dir, err instanceof Error ? err.message : String(err)));
       return 1;
     }
     let issues: Issue[] = loaded.issues;

@@ -6,7 +6,7 @@ import { closestNames, didYouMean } from '../../study/suggest.js';
 import { INPUT_KINDS } from '../../study/schemas.js';
 import { ASSAY_KINDS, GUIDE_NAME, parseKinds, starterFiles } from '../../study/templates.js';
 import type { InputKind } from '../../study/types.js';
-import type { Command, Io } from '../command.js';
+import { type Command, type Io, readArguments } from '../command.js';
 import { CLI } from '../messages.js';
 
 /** Why a folder cannot be written, in words (from the system's error code). */
@@ -41,29 +41,22 @@ function removeFolders(created: readonly string[]): void {
 type Parsed = { dir: string; shown: string; kinds: readonly InputKind[] } | { usage: string } | { exit: number };
 
 function parseArgs(args: string[], io: Io, usage: string): Parsed {
+  const got = readArguments(args, { '--assays': { needs: 'a list of input kinds, e.g. --assays atpase-rates,force-pca' } });
+  if ('problem' in got) return { usage: got.problem };
   let kinds: readonly InputKind[] = INPUT_KINDS;
-  const positional: string[] = [];
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i];
-    let list: string | undefined;
-    if (a === '--assays') {
-      list = args[++i];
-      if (list === undefined || list.startsWith('-')) return { usage: `option --assays needs a list of input kinds, e.g. --assays atpase-rates,force-pca` };
-    } else if (a.startsWith('--assays=')) list = a.slice('--assays='.length);
-    else if (a.startsWith('-')) return { usage: `unknown option '${a}'` };
-    else positional.push(a);
-    if (list !== undefined) {
-      const got = parseKinds(list);
-      if ('unknown' in got) {
-        const choices = [...INPUT_KINDS, ...Object.keys(ASSAY_KINDS)];
-        io.stderr.write(CLI.initUnknownKind(got.unknown, choices, didYouMean(closestNames(got.unknown, choices))) + CLI.badArgs(usage, io.command));
-        return { exit: 2 };
-      }
-      kinds = got.kinds;
+  const list = got.values.get('--assays');
+  if (list !== undefined) {
+    const parsed = parseKinds(list);
+    if ('unknown' in parsed) {
+      const choices = [...INPUT_KINDS, ...Object.keys(ASSAY_KINDS)];
+      io.stderr.write(CLI.initUnknownKind(parsed.unknown, choices, didYouMean(closestNames(parsed.unknown, choices))) + CLI.badArgs(usage, io.command));
+      return { exit: 2 };
     }
+    kinds = parsed.kinds;
   }
-  if (positional.length !== 1) return { usage: 'give exactly one folder' };
-  return { dir: isAbsolute(positional[0]) ? positional[0] : join(io.cwd, positional[0]), shown: positional[0], kinds };
+  const [shown] = got.positional;
+  if (got.positional.length !== 1 || shown === undefined) return { usage: 'give exactly one folder' };
+  return { dir: isAbsolute(shown) ? shown : join(io.cwd, shown), shown, kinds };
 }
 
 export const command: Command = {

@@ -7,7 +7,7 @@ import { ARCHIVE_MANIFEST_NAME } from '../../archive/manifest.js';
 import { releaseName } from '../../archive/release.js';
 import { isArchiveFolder } from '../../pipeline/archive-input.js';
 import { releaseStudy } from '../../pipeline/release-study.js';
-import type { Command, Io } from '../command.js';
+import { type Command, type Io, readArguments } from '../command.js';
 import { CLI } from '../messages.js';
 import { DEFAULT_OUT, sourceDateEpoch } from './build.js';
 import { formatIssue } from './check.js';
@@ -21,35 +21,18 @@ interface ReleaseArgs {
 }
 
 function parseArgs(args: string[]): ReleaseArgs | string {
-  let out = DEFAULT_OUT;
-  let note: string | undefined;
-  let date: string | undefined;
-  const positional: string[] = [];
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i];
-    const take = (name: string) => {
-      const v = args[++i];
-      return v === undefined || v.startsWith('-') ? undefined : v;
-    };
-    if (a === '--note') {
-      note = take(a);
-      if (note === undefined) return 'option --note needs a text, e.g. --note "sent to the cardiogenetics clinic"';
-    } else if (a.startsWith('--note=')) note = a.slice('--note='.length);
-    else if (a === '--out' || a === '-o') {
-      const v = take(a);
-      if (v === undefined) return `option ${a} needs a folder`;
-      out = v;
-    } else if (a.startsWith('--out=')) out = a.slice('--out='.length);
-    else if (a === '--date') {
-      date = take(a);
-      if (date === undefined) return 'option --date needs a date YYYY-MM-DD';
-    } else if (a.startsWith('--date=')) date = a.slice('--date='.length);
-    else if (a.startsWith('-')) return `unknown option '${a}'`;
-    else positional.push(a);
-  }
-  if (positional.length !== 2) return 'give the archive folder and the id of the study to release';
+  const got = readArguments(args, {
+    '--note': { needs: 'a text, e.g. --note "sent to the cardiogenetics clinic"' },
+    '--out': { alias: '-o', needs: 'a folder' },
+    '--date': { needs: 'a date YYYY-MM-DD' },
+  });
+  if ('problem' in got) return got.problem;
+  const [archive, study] = got.positional;
+  if (got.positional.length !== 2 || archive === undefined || study === undefined) return 'give the archive folder and the id of the study to release';
+  const note = got.values.get('--note');
   if (note === undefined) return 'say with whom or why the results are shared: --note "sent to the cardiogenetics clinic"';
-  return { archive: positional[0], study: positional[1], note, out, ...(date !== undefined ? { date } : {}) };
+  const date = got.values.get('--date');
+  return { archive, study, note, out: got.values.get('--out') ?? DEFAULT_OUT, ...(date !== undefined ? { date } : {}) };
 }
 
 export const command: Command = {
