@@ -48,6 +48,17 @@ function upperRows(factor: Float64Array, m: number, k: number): number[][] {
 }
 
 /**
+ * Entry (i, j) of a matrix given as rows; a RangeError when there is none (a caller's mistake),
+ * never undefined.
+ * @example entry([[1, 2], [3, 4]], 1, 0) // → 3
+ */
+export function entry(matrix: readonly (readonly number[])[], i: number, j: number): number {
+  const value = matrix[i]?.[j];
+  if (value === undefined) throw new RangeError(`entry (${i}, ${j}) is outside the matrix (${matrix.length} rows, row ${i} has ${matrix[i]?.length ?? 'none'})`);
+  return value;
+}
+
+/**
  * Householder QR factorisation of an m×k matrix (m ≥ k), applied at the same time to a
  * right-hand side. Returns the k×k upper triangle R and Qᵀb (first k entries), or the
  * diagonal of R containing a zero when the matrix is rank-deficient.
