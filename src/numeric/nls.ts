@@ -215,7 +215,8 @@ export function fitCurve(
   const xList: number[] = [];
   const yList: number[] = [];
   const wList: number[] = [];
-  for (const [i, xi] of x.entries()) {
+  for (let i = 0; i < x.length; i++) {
+    const xi = x[i]!;
     const yi = y[i]!;
     const w = weights ? weights[i]! : 1;
     if (Number.isFinite(xi) && Number.isFinite(yi) && Number.isFinite(w) && w > 0) {
@@ -331,18 +332,24 @@ export function fitCurve(
     // QR of the free columns of J once per iteration, applied to −r; each damping trial
     // then only rotates the damping rows into R (dampedSolveFromQr).
     const kf = freeIdx.length;
-    for (const [m, j] of freeIdx.entries()) qr.set(jac.subarray(j * n, (j + 1) * n), m * n);
+    for (let m = 0; m < kf; m++) {
+      const j = freeIdx[m]!;
+      qr.set(jac.subarray(j * n, (j + 1) * n), m * n);
+    }
     for (let i = 0; i < n; i++) qtr[i] = -r[i]!;
     householderQrInPlace(qr, n, kf, qtr);
     // Inner loop: increase damping until a step decreases the RSS.
     for (;;) {
-      for (const [m, j] of freeIdx.entries()) damping[m] = Math.sqrt(lambda * Math.max(diag[j]!, Number.MIN_VALUE));
+      for (let m = 0; m < kf; m++) damping[m] = Math.sqrt(lambda * Math.max(diag[freeIdx[m]!]!, Number.MIN_VALUE));
       if (!dampedSolveFromQr(qr, n, kf, qtr, damping, stepFree, solveWork)) {
         stop = 'singular';
         break outer;
       }
       const trial = p.slice();
-      for (const [m, j] of freeIdx.entries()) trial[j] = p[j]! + stepFree[m]!;
+      for (let m = 0; m < kf; m++) {
+        const j = freeIdx[m]!;
+        trial[j] = p[j]! + stepFree[m]!;
+      }
       const next = project(trial, lower, upper);
       let smallStep = true;
       for (let j = 0; j < k; j++) {

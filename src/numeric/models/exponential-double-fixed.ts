@@ -25,8 +25,8 @@ export function exponentialDoubleFixedRate(fixed: 'slow' | 'fast', rate: number)
   const params = slowFixed ? (['aFast', 'kFast', 'aSlow', 'offset'] as const) : (['aFast', 'aSlow', 'kSlow', 'offset'] as const);
   /** (aFast, kFast, aSlow, kSlow, c) from the parameter vector. */
   const unpack = (p: readonly number[]): [number, number, number, number, number] => {
-    const [p0, p1, p2, offset] = parameterTuple(p, 4, id);
-    return slowFixed ? [p0, p1, p2, rate, offset] : [p0, rate, p1, p2, offset];
+    const q = parameterTuple(p, 4, id);
+    return slowFixed ? [q[0], q[1], q[2], rate, q[3]] : [q[0], rate, q[1], q[2], q[3]];
   };
   return {
     id,

@@ -46,14 +46,14 @@ export const exponentialDouble: CurveModel = {
   ],
   source: 'Hooijman, Stewart & Cooke 2011, Biophys J 100:1969; Anderson et al. 2018, PNAS 115:E8143',
   f: (t, p) => {
-    const [aFast, kFast, aSlow, kSlow, offset] = doubleParams(p);
-    return aFast * Math.exp(-kFast * t) + aSlow * Math.exp(-kSlow * t) + offset;
+    const q = doubleParams(p); // [aFast, kFast, aSlow, kSlow, offset]
+    return q[0] * Math.exp(-q[1] * t) + q[2] * Math.exp(-q[3] * t) + q[4];
   },
   gradient(t, p) {
-    const [aFast, kFast, aSlow, kSlow] = doubleParams(p);
-    const eFast = Math.exp(-kFast * t);
-    const eSlow = Math.exp(-kSlow * t);
-    return [eFast, -aFast * t * eFast, eSlow, -aSlow * t * eSlow, 1];
+    const q = doubleParams(p);
+    const eFast = Math.exp(-q[1] * t);
+    const eSlow = Math.exp(-q[3] * t);
+    return [eFast, -q[0] * t * eFast, eSlow, -q[2] * t * eSlow, 1];
   },
   evaluate(x, p, values, jacobian) {
     const n = x.length;
@@ -88,7 +88,8 @@ export const exponentialDouble: CurveModel = {
     // Used only when step !== null, i.e. at least 3 evenly spaced times.
     const sumOf = (s: number) => geometricDecaySum(s, x[0]!, step!, n);
     const exps = new Float64Array((step === null ? count : 1) * n);
-    for (const [a, rate] of rates.entries()) {
+    for (let a = 0; a < count; a++) {
+      const rate = rates[a]!;
       const o = step === null ? a * n : 0;
       const ea = exps.subarray(o, o + n);
       decayInto(x, rate, step, ea);
@@ -167,7 +168,8 @@ export const exponentialDouble: CurveModel = {
     let bestFast = -1;
     let bestSlow = -1;
     let gridBest = Infinity;
-    for (const [fast, rateFast] of rates.entries()) {
+    for (let fast = 0; fast < count; fast++) {
+      const rateFast = rates[fast]!;
       const fastFast = cross[fast * count + fast]!;
       const fastSum = sums[fast]!;
       const fastY = withY[fast]!;

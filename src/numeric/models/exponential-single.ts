@@ -55,13 +55,13 @@ export const exponentialSingle: CurveModel = {
   meanings: ['decaying amplitude', 'rate constant (per time unit)', 'plateau at long times'],
   source: 'first-order kinetics; single-turnover fall-back as in Hooijman et al. 2011, Biophys J 100:1969',
   f: (t, p) => {
-    const [amplitude, k, offset] = singleParams(p);
-    return amplitude * Math.exp(-k * t) + offset;
+    const q = singleParams(p); // [amplitude, k, offset]
+    return q[0] * Math.exp(-q[1] * t) + q[2];
   },
   gradient(t, p) {
-    const [amplitude, k] = singleParams(p);
-    const e = Math.exp(-k * t);
-    return [e, -amplitude * t * e, 1];
+    const q = singleParams(p);
+    const e = Math.exp(-q[1] * t);
+    return [e, -q[0] * t * e, 1];
   },
   evaluate(x, p, values, jacobian) {
     const n = x.length;

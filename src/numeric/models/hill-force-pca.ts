@@ -84,15 +84,15 @@ export const hillForcePca: CurveModel = {
   ],
   source: 'Hill 1910, J Physiol 40:iv–vii; pCa form as in Moss 1992, Circ Res 70:865',
   f(pCa, p) {
-    const [passive, fmax, pCa50, nH] = hillParams(p);
-    return passive + fmax * activated(nH * (pCa - pCa50));
+    const q = hillParams(p); // [passive, fmax, pCa50, nH]
+    return q[0] + q[1] * activated(q[3] * (pCa - q[2]));
   },
   gradient(pCa, p) {
-    const [, fmax, pCa50, nH] = hillParams(p);
-    const s = activated(nH * (pCa - pCa50));
+    const q = hillParams(p);
+    const s = activated(q[3] * (pCa - q[2]));
     // d s/d z = −ln10·s·(1 − s), with z = nH·(pCa − pCa50).
     const ds = -LN10 * s * (1 - s);
-    return [1, s, fmax * ds * -nH, fmax * ds * (pCa - pCa50)];
+    return [1, s, q[1] * ds * -q[3], q[1] * ds * (pCa - q[2])];
   },
   start(x, y) {
     const [low, high] = range(x);

@@ -68,13 +68,13 @@ export const michaelisMentenBasal: CurveModel = {
   ],
   source: 'Michaelis & Menten 1913, Biochem Z 49:333; basal form as in De La Cruz & Ostap 2009, Methods Enzymol 455:157',
   f: (a, p) => {
-    const [basal, kcat, km] = basalParams(p);
-    return basal + (kcat * a) / (km + a);
+    const q = basalParams(p); // [basal, kcat, km]
+    return q[0] + (q[1] * a) / (q[2] + a);
   },
   gradient: (a, p) => {
-    const [, kcat, km] = basalParams(p);
-    const d = km + a;
-    return [1, a / d, (-kcat * a) / (d * d)];
+    const q = basalParams(p);
+    const d = q[2] + a;
+    return [1, a / d, (-q[1] * a) / (d * d)];
   },
   start(x, y) {
     const best = bestKm(x, y, true);
@@ -94,13 +94,13 @@ export const michaelisMenten: CurveModel = {
   meanings: ['maximal rate', 'substrate concentration at half-maximal rate'],
   source: 'Michaelis & Menten 1913, Biochem Z 49:333',
   f: (a, p) => {
-    const [vm, k] = plainParams(p);
-    return (vm * a) / (k + a);
+    const q = plainParams(p); // [vm, k]
+    return (q[0] * a) / (q[1] + a);
   },
   gradient: (a, p) => {
-    const [vm, k] = plainParams(p);
-    const d = k + a;
-    return [a / d, (-vm * a) / (d * d)];
+    const q = plainParams(p);
+    const d = q[1] + a;
+    return [a / d, (-q[0] * a) / (d * d)];
   },
   start(x, y) {
     const best = bestKm(x, y, false);

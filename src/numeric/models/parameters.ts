@@ -1,8 +1,10 @@
 /**
  * Typed access to a model's parameter vector. `parameterTuple(p, 3, id)` gives p back as a
  * tuple of exactly 3 numbers (no copy), so a model can name its parameters by destructuring
- * (`const [amplitude, k, offset] = …`); a vector of another length is a caller's mistake
- * (the vector must follow the model's `params`) and throws a RangeError naming the model.
+ * (`const [amplitude, k, offset] = …`) or index it (`q[1]`, no `!` needed); a vector of another
+ * length is a caller's mistake (the vector must follow the model's `params`) and throws a
+ * RangeError naming the model. Functions called once per point (f, gradient) index the tuple:
+ * array destructuring costs several times a plain read in V8.
  * @example parameterTuple([2, 0.1, 1], 3, 'exponential-single') // → [2, 0.1, 1], typed [number, number, number]
  */
 
