@@ -264,6 +264,7 @@ describe('sizes that do not fit are refused (a RangeError naming the helper, not
     expect(solve3([[2, 0, 0], [0, 3, 0], [0, 0, 4]], [2, 3, 4])).toEqual([1, 1, 1]);
   });
   it('a model refuses a parameter vector of another length, naming itself', () => {
+    expect(() => exponentialDouble.start([0, 1, 2, 3], [1, 0.5, 0.25])).toThrow(/exponential-double start: 4 times but 3 values/);
     expect(() => exponentialDouble.f(0, [0.7, 0.03, 0.3, 0.0034])).toThrow(/exponential-double: 4 parameter values given for its 5 parameters/);
     expect(() => hillForcePca.gradient!(5, [2, 30, 5.8])).toThrow(/hill-force-pca: 3 parameter values given for its 4 parameters/);
   });

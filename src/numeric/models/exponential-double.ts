@@ -74,8 +74,11 @@ export const exponentialDouble: CurveModel = {
   },
   start(x, y) {
     const n = x.length;
+    if (y.length !== n) throw new RangeError(`exponential-double start: ${n} times but ${y.length} values`);
     const rates = rateCandidates(x, RATE_GRID_POINTS);
     const count = rates.length;
+    // Indices below stay within the sizes they run over: n points (x, y and the decay buffers),
+    // count grid rates (rates, sums, withY) and count² Gram entries (cross).
     // Gram sums per grid rate, so each (kfast, kslow) pair costs one 3×3 solve (normal
     // equations are accurate enough for a starting value). Evenly spaced times give the sums
     // of exponentials in closed form (geometricDecaySum); only Σe·y needs a pass.
