@@ -39,7 +39,7 @@
  */
 import { FIT } from '../defaults.js';
 import { tQuantile } from '../stats/distributions.js';
-import { dampedSolveFromQr, householderQrInPlace, inverseNormalMatrixColumns } from './linalg.js';
+import { dampedSolveFromQr, entry, householderQrInPlace, inverseNormalMatrixColumns } from './linalg.js';
 import type { CurveModel, FitOptions, FitResult, ParameterEstimate, StopReason } from './types.js';
 
 /** Above this condition number of the column-scaled Jacobian a stop is reported as singular: (JᵀJ)⁻¹ then loses ~ 2·log10(1e10) = 20 of ~16 digits, i.e. the SEs are meaningless. NIST StRD problems here stay below 1e2. */
@@ -54,6 +54,11 @@ const INITIAL_DAMPING = 1e-3;
 const MAX_DAMPING = 1e32;
 const CBRT_EPS = Math.cbrt(Number.EPSILON);
 
+/**
+ * The points of a fit. Every array here has the same length n (the points kept), and every
+ * work buffer of a fit is allocated from n and the parameter count k, so the `!` on indexed
+ * reads in the loops below only records that each index is within those sizes.
+ */
 interface Data {
   x: Float64Array;
   y: Float64Array;
@@ -79,12 +84,14 @@ function residuals(
   jac?: Float64Array,
   state?: { jacobianFinite: boolean },
 ): number {
-  const n = data.x.length;
+  const { x, y, sqrtW, unitWeights } = data;
+  const n = x.length;
   let rss = 0;
   if (model.evaluate) {
-    model.evaluate(data.x, p, out, jac);
+    model.evaluate(x, p, out, jac);
     for (let i = 0; i < n; i++) {
-      const v = data.unitWeights ? out[i] - data.y[i] : data.sqrtW[i] * (out[i] - data.y[i]);
+      const difference = out[i]! - y[i]!;
+      const v = unitWeights ? difference : sqrtW[i]! * difference;
       if (!Number.isFinite(v)) return NaN;
       out[i] = v;
       rss += v * v;
@@ -93,7 +100,7 @@ function residuals(
     return Number.isFinite(rss) ? rss : NaN;
   }
   for (let i = 0; i < n; i++) {
-    const v = data.sqrtW[i] * (model.f(data.x[i], p) - data.y[i]);
+    const v = sqrtW[i]! * (model.f(x[i]!, p) - y[i]!);
     if (!Number.isFinite(v)) return NaN;
     out[i] = v;
     rss += v * v;
@@ -112,7 +119,7 @@ function weighJacobian(data: Data, jac: Float64Array, k: number): boolean {
   for (let j = 0; j < k; j++) {
     const o = j * n;
     for (let i = 0; i < n; i++) {
-      const v = data.sqrtW[i] * jac[o + i];
+      const v = data.sqrtW[i]! * jac[o + i]!;
       if (!Number.isFinite(v)) finite = false;
       jac[o + i] = v;
     }
@@ -140,10 +147,11 @@ function jacobian(
   }
   if (model.gradient) {
     for (let i = 0; i < n; i++) {
-      const g = model.gradient(data.x[i], p);
-      const w = data.sqrtW[i];
+      const g = model.gradient(data.x[i]!, p);
+      if (g.length !== k) throw new RangeError(`${model.id}: the gradient has ${g.length} values for ${k} parameters`);
+      const w = data.sqrtW[i]!;
       for (let j = 0; j < k; j++) {
-        const v = w * g[j];
+        const v = w * g[j]!;
         if (!Number.isFinite(v)) return false;
         out[j * n + i] = v;
       }
@@ -152,22 +160,23 @@ function jacobian(
   }
   const trial = p.slice();
   for (let j = 0; j < k; j++) {
-    const h = CBRT_EPS * (p[j] !== 0 ? Math.abs(p[j]) : 1);
-    const up = p[j] + h <= upper[j];
-    const down = p[j] - h >= lower[j];
+    const pj = p[j]!;
+    const h = CBRT_EPS * (pj !== 0 ? Math.abs(pj) : 1);
+    const up = pj + h <= upper[j]!;
+    const down = pj - h >= lower[j]!;
     for (let i = 0; i < n; i++) {
-      const xi = data.x[i];
+      const xi = data.x[i]!;
       let plus = NaN;
       let minus = NaN;
       if (up) {
-        trial[j] = p[j] + h;
+        trial[j] = pj + h;
         plus = model.f(xi, trial);
       }
       if (down) {
-        trial[j] = p[j] - h;
+        trial[j] = pj - h;
         minus = model.f(xi, trial);
       }
-      trial[j] = p[j];
+      trial[j] = pj;
       let d: number;
       if (Number.isFinite(plus) && Number.isFinite(minus)) d = (plus - minus) / (2 * h);
       else {
@@ -176,7 +185,7 @@ function jacobian(
         else if (Number.isFinite(minus)) d = (centre - minus) / h;
         else return false;
       }
-      const v = data.sqrtW[i] * d;
+      const v = data.sqrtW[i]! * d;
       if (!Number.isFinite(v)) return false;
       out[j * n + i] = v;
     }
@@ -184,8 +193,9 @@ function jacobian(
   return true;
 }
 
+/** p projected into the box [lower, upper] (all three of the model's k entries). */
 function project(p: readonly number[], lower: readonly number[], upper: readonly number[]): number[] {
-  return p.map((v, j) => Math.min(upper[j], Math.max(lower[j], v)));
+  return p.map((v, j) => Math.min(upper[j]!, Math.max(lower[j]!, v)));
 }
 
 /** Fit `model` to the points (x_i, y_i); see the file comment for the method. Never throws on numerical trouble. */
@@ -198,16 +208,20 @@ export function fitCurve(
   if (x.length !== y.length) throw new Error(`fitCurve: x has ${x.length} values but y has ${y.length}`);
   const weights = options.weights;
   if (weights && weights.length !== x.length) throw new Error(`fitCurve: ${weights.length} weights for ${x.length} points`);
+  const k = model.params.length;
+  if (options.start && options.start.length !== k) throw new Error(`fitCurve: ${options.start.length} start values for the ${k} parameters of ${model.id}`);
 
-  // 1. Data: keep points with finite x, y and a finite positive weight.
+  // 1. Data: keep points with finite x, y and a finite positive weight (y and weights have x's length, checked above).
   const xList: number[] = [];
   const yList: number[] = [];
   const wList: number[] = [];
   for (let i = 0; i < x.length; i++) {
-    const w = weights ? weights[i] : 1;
-    if (Number.isFinite(x[i]) && Number.isFinite(y[i]) && Number.isFinite(w) && w > 0) {
-      xList.push(x[i]);
-      yList.push(y[i]);
+    const xi = x[i]!;
+    const yi = y[i]!;
+    const w = weights ? weights[i]! : 1;
+    if (Number.isFinite(xi) && Number.isFinite(yi) && Number.isFinite(w) && w > 0) {
+      xList.push(xi);
+      yList.push(yi);
       wList.push(Math.sqrt(w));
     }
   }
@@ -219,7 +233,6 @@ export function fitCurve(
     xList,
     yList,
   };
-  const k = model.params.length;
   const n = xList.length;
   const lower = model.params.map((_, j) => options.lower?.[j] ?? model.lower?.[j] ?? -Infinity);
   const upper = model.params.map((_, j) => options.upper?.[j] ?? model.upper?.[j] ?? Infinity);
@@ -235,6 +248,7 @@ export function fitCurve(
       start = new Array(k).fill(NaN);
     }
   } else start = new Array(k).fill(NaN);
+  if (start.length !== k) throw new Error(`fitCurve: the start rule of ${model.id} gave ${start.length} values for its ${k} parameters`);
   let p = project(start, lower, upper);
   const finish = (stop: StopReason, converged: boolean, iterations: number) =>
     summarise(model, data, p, lower, upper, stop, converged, iterations);
@@ -290,23 +304,26 @@ export function fitCurve(
       let c = 0;
       const o = j * n;
       for (let i = 0; i < n; i++) {
-        const v = jac[o + i];
-        g += v * r[i];
+        const v = jac[o + i]!;
+        g += v * r[i]!;
         c += v * v;
       }
       gradient[j] = g;
       colNorm[j] = c;
-      if (c > diag[j]) diag[j] = c;
+      if (c > diag[j]!) diag[j] = c;
     }
     // Active set: a parameter at a bound whose descent direction −g points outward stays fixed.
     freeIdx.length = 0;
     for (let j = 0; j < k; j++) {
-      if (!((p[j] <= lower[j] && gradient[j] > 0) || (p[j] >= upper[j] && gradient[j] < 0))) freeIdx.push(j);
+      const pj = p[j]!;
+      const gj = gradient[j]!;
+      if (!((pj <= lower[j]! && gj > 0) || (pj >= upper[j]! && gj < 0))) freeIdx.push(j);
     }
     const rNorm = Math.sqrt(rss);
     let scaledGradient = 0;
     for (const j of freeIdx) {
-      if (colNorm[j] > 0) scaledGradient = Math.max(scaledGradient, Math.abs(gradient[j]) / (Math.sqrt(colNorm[j]) * rNorm));
+      const c = colNorm[j]!;
+      if (c > 0) scaledGradient = Math.max(scaledGradient, Math.abs(gradient[j]!) / (Math.sqrt(c) * rNorm));
     }
     if (scaledGradient <= FIT.gradientTolerance) {
       stop = 'converged-gradient';
@@ -315,34 +332,45 @@ export function fitCurve(
     // QR of the free columns of J once per iteration, applied to −r; each damping trial
     // then only rotates the damping rows into R (dampedSolveFromQr).
     const kf = freeIdx.length;
-    for (let m = 0; m < kf; m++) qr.set(jac.subarray(freeIdx[m] * n, (freeIdx[m] + 1) * n), m * n);
-    for (let i = 0; i < n; i++) qtr[i] = -r[i];
+    for (let m = 0; m < kf; m++) {
+      const j = freeIdx[m]!;
+      qr.set(jac.subarray(j * n, (j + 1) * n), m * n);
+    }
+    for (let i = 0; i < n; i++) qtr[i] = -r[i]!;
     householderQrInPlace(qr, n, kf, qtr);
     // Inner loop: increase damping until a step decreases the RSS.
     for (;;) {
-      for (let m = 0; m < kf; m++) damping[m] = Math.sqrt(lambda * Math.max(diag[freeIdx[m]], Number.MIN_VALUE));
+      for (let m = 0; m < kf; m++) damping[m] = Math.sqrt(lambda * Math.max(diag[freeIdx[m]!]!, Number.MIN_VALUE));
       if (!dampedSolveFromQr(qr, n, kf, qtr, damping, stepFree, solveWork)) {
         stop = 'singular';
         break outer;
       }
       const trial = p.slice();
-      for (let m = 0; m < kf; m++) trial[freeIdx[m]] = p[freeIdx[m]] + stepFree[m];
+      for (let m = 0; m < kf; m++) {
+        const j = freeIdx[m]!;
+        trial[j] = p[j]! + stepFree[m]!;
+      }
       const next = project(trial, lower, upper);
       let smallStep = true;
       for (let j = 0; j < k; j++) {
-        step[j] = next[j] - p[j];
-        if (!(Math.abs(step[j]) <= FIT.stepTolerance * (Math.abs(p[j]) + FIT.stepTolerance))) smallStep = false;
+        const pj = p[j]!;
+        const sj = next[j]! - pj;
+        step[j] = sj;
+        if (!(Math.abs(sj) <= FIT.stepTolerance * (Math.abs(pj) + FIT.stepTolerance))) smallStep = false;
       }
       // Predicted RSS from the linear model: ‖r + J·step‖², accumulated column by column.
       linear.set(r);
       for (let j = 0; j < k; j++) {
-        const sj = step[j];
+        const sj = step[j]!;
         if (sj === 0) continue;
         const o = j * n;
-        for (let i = 0; i < n; i++) linear[i] += jac[o + i] * sj;
+        for (let i = 0; i < n; i++) linear[i]! += jac[o + i]! * sj;
       }
       let predictedRss = 0;
-      for (let i = 0; i < n; i++) predictedRss += linear[i] * linear[i];
+      for (let i = 0; i < n; i++) {
+        const v = linear[i]!;
+        predictedRss += v * v;
+      }
       const predicted = rss - predictedRss;
       const trialRss = residuals(model, data, next, rTrial, jacTrial, trialState);
       const finite = !Number.isNaN(trialRss);
@@ -362,7 +390,7 @@ export function fitCurve(
         }
         lambda *= Math.max(1 / 3, 1 - Math.pow(2 * rho - 1, 3));
         nu = 2;
-        if (p.some((v, j) => Math.abs(v) > divergenceLimit[j])) {
+        if (p.some((v, j) => Math.abs(v) > divergenceLimit[j]!)) {
           stop = 'diverged';
           break outer;
         }
@@ -390,7 +418,7 @@ export function fitCurve(
   }
   // A run that ends at the iteration limit with a parameter still growing fast is on its
   // way to infinity (e.g. a saturating curve fitted to straight-line data): say so.
-  if (stop === 'max-iterations' && p.some((v, j) => Math.abs(v) > RUNAWAY_GROWTH * Math.max(Math.abs(start[j]), Math.abs(halfway[j])))) {
+  if (stop === 'max-iterations' && p.some((v, j) => Math.abs(v) > RUNAWAY_GROWTH * Math.max(Math.abs(start[j]!), Math.abs(halfway[j]!)))) {
     stop = 'diverged';
   }
   const converged = stop === 'converged-rss' || stop === 'converged-step' || stop === 'converged-gradient';
@@ -419,6 +447,7 @@ function summarise(
   const k = model.params.length;
   const n = data.x.length;
   const p = model.canonical ? model.canonical(pIn) : pIn.slice();
+  if (p.length !== k) throw new RangeError(`${model.id}: the canonical form has ${p.length} values for ${k} parameters`);
   let stop = stopIn;
   let converged = convergedIn;
   const df = n - k;
@@ -447,14 +476,17 @@ function summarise(
   }
   const t = df > 0 ? tCritical(df) : NaN;
   const parameters: ParameterEstimate[] = model.params.map((name, j) => {
-    const variance = covariance ? covariance[j][j] : NaN;
+    const value = p[j]!;
+    const variance = covariance ? entry(covariance, j, j) : NaN;
     const se = variance >= 0 ? Math.sqrt(variance) : NaN;
-    const estimate: ParameterEstimate = { name, estimate: p[j], se, ciLow: p[j] - t * se, ciHigh: p[j] + t * se };
-    if (p[j] <= lower[j] || p[j] >= upper[j]) estimate.atBound = true;
+    const estimate: ParameterEstimate = { name, estimate: value, se, ciLow: value - t * se, ciHigh: value + t * se };
+    if (value <= lower[j]! || value >= upper[j]!) estimate.atBound = true;
     return estimate;
   });
   const correlation = model.params.map((_, i) =>
-    model.params.map((__, j) => (covariance ? covariance[i][j] / Math.sqrt(covariance[i][i] * covariance[j][j]) : NaN)),
+    model.params.map((__, j) =>
+      covariance ? entry(covariance, i, j) / Math.sqrt(entry(covariance, i, i) * entry(covariance, j, j)) : NaN,
+    ),
   );
   // R²: unweighted, 1 − Σ(y − f)² / Σ(y − ȳ)².
   let r2 = NaN;
@@ -463,9 +495,9 @@ function summarise(
     let tss = 0;
     let sse = 0;
     for (let i = 0; i < n; i++) {
-      tss += (data.y[i] - mean) ** 2;
+      tss += (data.y[i]! - mean) ** 2;
       // f − y from the weighted residual √w·(f − y).
-      sse += (resid[i] / data.sqrtW[i]) ** 2;
+      sse += (resid[i]! / data.sqrtW[i]!) ** 2;
     }
     r2 = tss > 0 ? 1 - sse / tss : NaN;
   }

@@ -13,7 +13,7 @@ export interface CurveModel {
   formula: string;
   /** Parameter names in the order of the parameter vector. */
   params: readonly string[];
-  /** Model value at x for parameters p. */
+  /** Model value at x for parameters p (one value per entry of `params`; the built-in models throw a RangeError otherwise). */
   f(x: number, p: readonly number[]): number;
   /** Optional analytic partial derivatives ∂f/∂p_j at x (same order as params). */
   gradient?(x: number, p: readonly number[]): number[];
@@ -89,7 +89,7 @@ export interface FitResult {
 export interface FitOptions {
   /** Weights per point (1/variance); default all 1. */
   weights?: readonly number[];
-  /** Starting values; default model.start(x, y). */
+  /** Starting values, one per parameter (another length throws); default model.start(x, y). */
   start?: readonly number[];
   /** Maximum iterations; default in src/defaults.ts. */
   maxIterations?: number;

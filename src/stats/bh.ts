@@ -20,7 +20,7 @@ export function benjaminiHochberg(pValues: readonly (number | null | undefined)[
   usable.sort((a, b) => a.p - b.p || a.index - b.index);
   let running = Infinity;
   for (let rank = m; rank >= 1; rank--) {
-    const item = usable[rank - 1];
+    const item = usable[rank - 1]!; // rank runs from m down to 1
     running = Math.min(running, (m * item.p) / rank);
     out[item.index] = Math.min(1, running);
   }

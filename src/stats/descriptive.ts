@@ -64,7 +64,10 @@ export function quantileSorted(sorted: readonly number[], p: number): number {
   const h = (n - 1) * p;
   const low = Math.floor(h);
   const high = Math.min(low + 1, n - 1);
-  return sorted[low] + (h - low) * (sorted[high] - sorted[low]);
+  // 0 ≤ low ≤ high ≤ n − 1, as n ≥ 1 and 0 ≤ p ≤ 1.
+  const below = sorted[low]!;
+  const above = sorted[high]!;
+  return below + (h - low) * (above - below);
 }
 
 /**

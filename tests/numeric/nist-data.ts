@@ -3,6 +3,7 @@
  * NIST StRD [V]: data, both starts, certified values, certified SDs, RSS.
  */
 import type { CurveModel } from '../../src/numeric/types.js';
+import { parameterTuple, type ParameterTuple } from '../../src/numeric/models/parameters.js';
 
 export interface NistCase {
   name: string;
@@ -20,16 +21,18 @@ function pairs(text: string): { x: number[]; y: number[] } {
   const x: number[] = [];
   const y: number[] = [];
   for (const pair of text.split(';')) {
-    const [yv, xv] = pair.trim().split(/\s+/).map(Number);
+    const values = pair.trim().split(/\s+/).map(Number);
+    const [yv, xv] = values;
+    if (values.length !== 2 || yv === undefined || xv === undefined) throw new Error(`not a "y x" pair: '${pair}'`);
     x.push(xv);
     y.push(yv);
   }
   return { x, y };
 }
 
-/** A model with finite-difference Jacobian (no gradient), as NIST's SE tolerance assumes. */
-function nistModel(id: string, params: string[], f: (x: number, b: readonly number[]) => number): CurveModel {
-  return { id, formula: id, params, f, start: () => params.map(() => NaN) };
+/** A model with finite-difference Jacobian (no gradient), as NIST's SE tolerance assumes; f gets b as a tuple of one value per parameter. */
+function nistModel<const P extends readonly string[]>(id: string, params: P, f: (x: number, b: ParameterTuple<P['length']>) => number): CurveModel {
+  return { id, formula: id, params, f: (x, b) => f(x, parameterTuple<P['length']>(b, params.length, id)), start: () => params.map(() => NaN) };
 }
 
 const misra1a = pairs('10.07 77.6; 14.73 114.9; 17.94 141.1; 23.93 190.8; 29.61 239.9; 35.18 289.0; 40.02 332.8; 44.82 378.4; 50.76 434.8; 55.05 477.3; 61.01 536.8; 66.40 593.1; 75.47 689.1; 81.78 760.0');

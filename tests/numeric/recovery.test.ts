@@ -23,6 +23,7 @@ import { hillForcePca } from '../../src/numeric/models/hill-force-pca.js';
 import { exponentialDouble, slowFraction } from '../../src/numeric/models/exponential-double.js';
 import { median } from '../../src/stats/descriptive.js';
 import { createRandom } from '../../src/stats/random.js';
+import { at, param } from './checked.js';
 
 interface Row {
   label: string;
@@ -53,17 +54,17 @@ function simulate(
   }
   for (const { index, tolerance, absolute } of row.checks) {
     const name = model.params[index];
-    const truth = row.truth[index];
+    const truth = at(row.truth, index);
     const flagged = (fit: FitResult) => {
-      const p = fit.parameters[index];
+      const p = at(fit.parameters, index);
       return !fit.converged || !(p.se / Math.abs(p.estimate) <= FIT.maxRelativeSe) || extraFlag(fit);
     };
-    const converged = fits.filter((f) => f.converged).map((f) => f.parameters[index].estimate);
+    const converged = fits.filter((f) => f.converged).map((f) => at(f.parameters, index).estimate);
     const mid = median(converged);
     const error = absolute ? Math.abs(mid - truth) : Math.abs(mid / truth - 1);
     expect(error, `${row.label}: median ${name} ${mid} vs truth ${truth}`).toBeLessThanOrEqual(tolerance);
     const unflagged = fits.filter((f) => !flagged(f));
-    const covered = unflagged.filter((f) => f.parameters[index].ciLow <= truth && truth <= f.parameters[index].ciHigh).length;
+    const covered = unflagged.filter((f) => at(f.parameters, index).ciLow <= truth && truth <= at(f.parameters, index).ciHigh).length;
     const flaggedShare = 1 - unflagged.length / fits.length;
     expect(flaggedShare, `${row.label}: flagged share for ${name}`).toBeLessThanOrEqual(row.maxFlagged);
     const silentMiss = (unflagged.length - covered) / fits.length;
@@ -94,15 +95,16 @@ describe('Michaelis–Menten with basal term: recovery across KM (actin 0–100 
       row,
       150,
       (v, random) => random.normal(0, 0.04 * v + 0.02),
-      (fit) => fit.parameters[2].estimate > maxActin,
+      (fit) => param(fit, 'km').estimate > maxActin,
     );
+    const kmTruth = at(row.truth, 2);
     // A KM beyond the range: every converged fit either is flagged or has a CI that covers the truth
     // or is wide (relative SE ≥ 10%): never a narrow interval far from the truth.
     for (const fit of fits) {
-      const km = fit.parameters[2];
+      const km = param(fit, 'km');
       const flagged = !fit.converged || km.estimate > maxActin || !(km.se / km.estimate <= FIT.maxRelativeSe);
-      const covers = km.ciLow <= row.truth[2] && row.truth[2] <= km.ciHigh;
-      const preciseAndWrong = !flagged && !covers && km.se / km.estimate < 0.1 && Math.abs(km.estimate / row.truth[2] - 1) > 0.5;
+      const covers = km.ciLow <= kmTruth && kmTruth <= km.ciHigh;
+      const preciseAndWrong = !flagged && !covers && km.se / km.estimate < 0.1 && Math.abs(km.estimate / kmTruth - 1) > 0.5;
       expect(preciseAndWrong, `${row.label}: KM ${km.estimate} ± ${km.se}`).toBe(false);
     }
   });
@@ -141,7 +143,7 @@ describe('double exponential: recovery with rates 10× down to 3× apart (0–18
     const fractions = fits.filter((f) => f.converged).map((f) => slowFraction(f).estimate);
     expect(Math.abs(median(fractions) - 0.3), `${row.label}: slow fraction`).toBeLessThanOrEqual(0.02);
     for (const f of fits.filter((g) => g.converged)) {
-      expect(f.parameters[1].estimate).toBeGreaterThan(f.parameters[3].estimate);
+      expect(param(f, 'kFast').estimate).toBeGreaterThan(param(f, 'kSlow').estimate);
     }
   });
 });

@@ -22,6 +22,7 @@ import { hillForcePca } from '../../src/numeric/models/hill-force-pca.js';
 import { michaelisMenten, michaelisMentenBasal } from '../../src/numeric/models/michaelis-menten-basal.js';
 import type { CurveModel } from '../../src/numeric/types.js';
 import { createRandom } from '../../src/stats/random.js';
+import { at, param } from './checked.js';
 
 const relative = (got: number, want: number) => Math.abs(got - want) / Math.abs(want);
 
@@ -39,7 +40,7 @@ describe('lineOnBasis equals linearLeastSquares (computed from the same inputs)'
     const y = g.map((v) => 0.3 + 4 * v + random.normal(0, 0.2));
     const fast = lineOnBasis(g, y, intercept)!;
     const plain = linearLeastSquares(intercept ? [g.map(() => 1), g] : [g], y)!;
-    const [a, b] = intercept ? plain.coefficients : [0, plain.coefficients[0]];
+    const [a, b] = intercept ? [at(plain.coefficients, 0), at(plain.coefficients, 1)] : [0, at(plain.coefficients, 0)];
     expect(Math.abs(fast.a - a)).toBeLessThan(1e-12);
     expect(relative(fast.b, b)).toBeLessThan(1e-12);
     expect(relative(fast.rss, plain.rss)).toBeLessThan(1e-10);
@@ -71,11 +72,13 @@ describe('solveSymmetric3 equals solve3 (computed from the same inputs)', () => 
   it('random symmetric systems and a singular one', () => {
     const random = createRandom(9);
     const out = new Float64Array(3);
+    const draw = () => random.normal(0, 1);
     for (let trial = 0; trial < 50; trial++) {
-      const [a00, a01, a02, a11, a12, a22, b0, b1, b2] = Array.from({ length: 9 }, () => random.normal(0, 1));
+      // Nine draws in order: the six distinct entries of the matrix, then the right-hand side.
+      const [a00, a01, a02, a11, a12, a22, b0, b1, b2] = [draw(), draw(), draw(), draw(), draw(), draw(), draw(), draw(), draw()];
       const want = solve3([[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]], [b0, b1, b2])!;
       expect(solveSymmetric3(a00, a01, a02, a11, a12, a22, b0, b1, b2, out)).toBe(true);
-      want.forEach((v, j) => expect(Math.abs(out[j] - v)).toBeLessThan(1e-12 * Math.max(1, Math.abs(v))));
+      want.forEach((v, j) => expect(Math.abs(at(out, j) - v)).toBeLessThan(1e-12 * Math.max(1, Math.abs(v))));
     }
     expect(solveSymmetric3(1, 2, 3, 4, 6, 9, 1, 1, 1, out)).toBe(false);
   });
@@ -91,23 +94,23 @@ describe('start rules', () => {
     const start = exponentialSingle.start(t, y);
     const fit = fitCurve(exponentialSingle, t, y);
     expect(fit.converged).toBe(true);
-    const startRss = y.reduce((s, v, i) => s + (exponentialSingle.f(t[i], start) - v) ** 2, 0);
+    const startRss = y.reduce((s, v, i) => s + (exponentialSingle.f(at(t, i), start) - v) ** 2, 0);
     expect(relative(startRss, fit.rss)).toBeLessThan(1e-9);
-    expect(relative(start[1], fit.parameters[1].estimate)).toBeLessThan(1e-5);
+    expect(relative(at(start, 1), param(fit, 'k').estimate)).toBeLessThan(1e-5);
   });
 
   it('double exponential: noise-free rates found to within 20% before any iteration', () => {
     const y = t.map((v) => exponentialDouble.f(v, [0.7, 0.03, 0.3, 0.0034, 0.05]));
     const start = exponentialDouble.start(t, y);
-    expect(relative(start[1], 0.03)).toBeLessThan(0.2);
-    expect(relative(start[3], 0.0034)).toBeLessThan(0.2);
+    expect(relative(at(start, 1), 0.03)).toBeLessThan(0.2);
+    expect(relative(at(start, 3), 0.0034)).toBeLessThan(0.2);
   });
 
   it('Hill: noise-free pCa50 within half a grid step (0.025) and nH = 3 from the candidate list', () => {
     const pCa = [9, 6.4, 6.2, 6.0, 5.9, 5.8, 5.7, 5.6, 5.4, 4.5];
     const y = pCa.map((v) => hillForcePca.f(v, [2, 30, 5.83, 3]));
     const start = hillForcePca.start(pCa, y);
-    expect(Math.abs(start[2] - 5.83)).toBeLessThanOrEqual(0.025 + 1e-12);
+    expect(Math.abs(at(start, 2) - 5.83)).toBeLessThanOrEqual(0.025 + 1e-12);
     expect(start[3]).toBe(3);
   });
 });
@@ -120,8 +123,9 @@ function checkEvaluate(model: CurveModel, p: number[], xs: number[]): void {
   const jac = new Float64Array(n * p.length);
   model.evaluate!(x, p, values, jac);
   xs.forEach((xi, i) => {
-    expect(Math.abs(values[i] - model.f(xi, p))).toBeLessThanOrEqual(1e-15 * Math.max(1, Math.abs(values[i])));
-    model.gradient!(xi, p).forEach((g, j) => expect(Math.abs(jac[j * n + i] - g)).toBeLessThanOrEqual(1e-15 * Math.max(1, Math.abs(g))));
+    const value = at(values, i);
+    expect(Math.abs(value - model.f(xi, p))).toBeLessThanOrEqual(1e-15 * Math.max(1, Math.abs(value)));
+    model.gradient!(xi, p).forEach((g, j) => expect(Math.abs(at(jac, j * n + i) - g)).toBeLessThanOrEqual(1e-15 * Math.max(1, Math.abs(g))));
   });
 }
 
@@ -140,17 +144,17 @@ describe('evaluate fast path', () => {
     expect(fast.converged).toBe(true);
     expect(plain.converged).toBe(true);
     expect(relative(fast.rss, plain.rss)).toBeLessThan(1e-12);
-    fast.parameters.forEach((q, j) => {
-      expect(relative(q.estimate, plain.parameters[j].estimate)).toBeLessThan(1e-8);
-      expect(relative(q.se, plain.parameters[j].se)).toBeLessThan(1e-6);
+    fast.parameters.forEach((q) => {
+      expect(relative(q.estimate, param(plain, q.name).estimate)).toBeLessThan(1e-8);
+      expect(relative(q.se, param(plain, q.name).se)).toBeLessThan(1e-6);
     });
   });
 
   it('Michaelis–Menten models still start near the optimum on Puromycin treated (R datasets::Puromycin inputs)', () => {
     const conc = [0.02, 0.02, 0.06, 0.06, 0.11, 0.11, 0.22, 0.22, 0.56, 0.56, 1.1, 1.1];
     const treated = [76, 47, 97, 107, 123, 139, 159, 152, 191, 201, 207, 200];
-    expect(relative(michaelisMenten.start(conc, treated)[1], 0.06412)).toBeLessThan(0.2);
-    expect(relative(michaelisMentenBasal.start(conc, treated)[2], 0.1047)).toBeLessThan(0.2);
+    expect(relative(at(michaelisMenten.start(conc, treated), 1), 0.06412)).toBeLessThan(0.2);
+    expect(relative(at(michaelisMentenBasal.start(conc, treated), 2), 0.1047)).toBeLessThan(0.2);
   });
 });
 
@@ -170,7 +174,7 @@ describe('evenStep and decayInto (exact identities)', () => {
       decayInto(t, k, step, fast);
       t.forEach((v, i) => {
         const want = Math.exp(-k * v);
-        expect(Math.abs(fast[i] - want)).toBeLessThanOrEqual(1e-13 * want + 1e-300);
+        expect(Math.abs(at(fast, i) - want)).toBeLessThanOrEqual(1e-13 * want + 1e-300);
       });
     }
   });
@@ -193,15 +197,15 @@ describe('Hill start equals the documented rule evaluated plainly (computed from
           const fit = linearLeastSquares([pCa.map(() => 1), g], y)!;
           if (fit.rss < wantRss) {
             wantRss = fit.rss;
-            want = [fit.coefficients[0], fit.coefficients[1], pCa50, nH];
+            want = [at(fit.coefficients, 0), at(fit.coefficients, 1), pCa50, nH];
           }
         }
       }
       const got = hillForcePca.start(pCa, y);
-      expect(got[2]).toBeCloseTo(want[2], 12);
-      expect(got[3]).toBe(want[3]);
-      expect(relative(got[0], want[0])).toBeLessThan(1e-9);
-      expect(relative(got[1], want[1])).toBeLessThan(1e-9);
+      expect(got[2]).toBeCloseTo(at(want, 2), 12);
+      expect(got[3]).toBe(at(want, 3));
+      expect(relative(at(got, 0), at(want, 0))).toBeLessThan(1e-9);
+      expect(relative(at(got, 1), at(want, 1))).toBeLessThan(1e-9);
     }
   });
 });
@@ -229,13 +233,13 @@ describe('double-exponential start: closed-form sums (even times) and data passe
     const random = createRandom(44);
     const y = t.map((v) => exponentialDouble.f(v, [0.7, 0.03, 0.3, 0.0034, 0.05]) + random.normal(0, 0.01));
     const uneven = t.slice();
-    uneven[200] += 1e-3; // beyond evenStep's slack (1e-9 of the 1795.5 s span), far below the 4.5 s step
+    uneven[200] = at(t, 200) + 1e-3; // beyond evenStep's slack (1e-9 of the 1795.5 s span), far below the 4.5 s step
     expect(evenStep(t)).not.toBeNull();
     expect(evenStep(uneven)).toBeNull();
     const a = exponentialDouble.start(t, y);
     const b = exponentialDouble.start(uneven, y);
-    expect(relative(a[1], b[1])).toBeLessThan(1e-3);
-    expect(relative(a[3], b[3])).toBeLessThan(1e-3);
+    expect(relative(at(a, 1), at(b, 1))).toBeLessThan(1e-3);
+    expect(relative(at(a, 3), at(b, 3))).toBeLessThan(1e-3);
   });
 });
 
@@ -248,5 +252,20 @@ describe('double-exponential start on uneven times: Gram sums formed several per
     // Regression pin: the output of the implementation with one pass over the data per Gram sum
     // (commit 7e6da64), recorded; each sum still adds its terms in the same order, so no bit may change.
     expect(exponentialDouble.start(t, y)).toEqual([0.7216110375559701, 0.02938396373006559, 0.28628401806000237, 0.003263115054747947, 0.05135797621851321]);
+  });
+});
+
+describe('sizes that do not fit are refused (a RangeError naming the helper, not NaN)', () => {
+  it('basis and matrix shapes', () => {
+    expect(() => lineOnBasis([0, 1], [1, 3, 5], true)).toThrow(/lineOnBasis: the basis has 2 values for 3 observations/);
+    expect(() => linearLeastSquares([[1, 1, 1], [0, 1]], [1, 3, 5])).toThrow(/linearLeastSquares: basis column 1 has 2 values for 3 observations/);
+    expect(() => solve3([[2, 0, 0], [0, 3, 0]], [2, 3, 4])).toThrow(/solve3: needs a 3×3 matrix and 3 right-hand sides; got 2 rows of 3, 3 and 3/);
+    expect(() => solve3([[2, 0, 0], [0, 3, 0], [0, 0, 4]], [2, 3])).toThrow(/solve3: needs a 3×3 matrix/);
+    expect(solve3([[2, 0, 0], [0, 3, 0], [0, 0, 4]], [2, 3, 4])).toEqual([1, 1, 1]);
+  });
+  it('a model refuses a parameter vector of another length, naming itself', () => {
+    expect(() => exponentialDouble.start([0, 1, 2, 3], [1, 0.5, 0.25])).toThrow(/exponential-double start: 4 times but 3 values/);
+    expect(() => exponentialDouble.f(0, [0.7, 0.03, 0.3, 0.0034])).toThrow(/exponential-double: 4 parameter values given for its 5 parameters/);
+    expect(() => hillForcePca.gradient!(5, [2, 30, 5.8])).toThrow(/hill-force-pca: 3 parameter values given for its 4 parameters/);
   });
 });

@@ -33,8 +33,12 @@ describe('createRandom', () => {
   });
   it('integer(n) covers 0..n−1 evenly', () => {
     const random = createRandom(3);
-    const counts = [0, 0, 0, 0];
-    for (let i = 0; i < 40_000; i++) counts[random.integer(4)]++;
-    for (const c of counts) expect(Math.abs(c - 10_000)).toBeLessThan(400);
+    const counts = new Map<number, number>();
+    for (let i = 0; i < 40_000; i++) {
+      const value = random.integer(4);
+      counts.set(value, (counts.get(value) ?? 0) + 1);
+    }
+    expect([...counts.keys()].sort()).toEqual([0, 1, 2, 3]);
+    for (const c of counts.values()) expect(Math.abs(c - 10_000)).toBeLessThan(400);
   });
 });

@@ -17,15 +17,19 @@
  */
 import type { CurveModel } from '../types.js';
 import { exponentialSingle } from './exponential-single.js';
+import { parameterTuple } from './parameters.js';
 
 export function exponentialDoubleFixedRate(fixed: 'slow' | 'fast', rate: number): CurveModel {
   const slowFixed = fixed === 'slow';
+  const id = `exponential-double-${fixed}-rate-fixed`;
   const params = slowFixed ? (['aFast', 'kFast', 'aSlow', 'offset'] as const) : (['aFast', 'aSlow', 'kSlow', 'offset'] as const);
   /** (aFast, kFast, aSlow, kSlow, c) from the parameter vector. */
-  const unpack = (p: readonly number[]): [number, number, number, number, number] =>
-    slowFixed ? [p[0]!, p[1]!, p[2]!, rate, p[3]!] : [p[0]!, rate, p[1]!, p[2]!, p[3]!];
+  const unpack = (p: readonly number[]): [number, number, number, number, number] => {
+    const q = parameterTuple(p, 4, id);
+    return slowFixed ? [q[0], q[1], q[2], rate, q[3]] : [q[0], rate, q[1], q[2], q[3]];
+  };
   return {
-    id: `exponential-double-${fixed}-rate-fixed`,
+    id,
     formula: `y = Afast·exp(−kfast·t) + Aslow·exp(−kslow·t) + c, ${slowFixed ? 'kslow' : 'kfast'} fixed at ${rate.toPrecision(3)}`,
     params,
     source: 'Hooijman, Stewart & Cooke 2011, Biophys J 100:1969 (the two-phase model); one rate fixed as stated',
@@ -40,7 +44,7 @@ export function exponentialDoubleFixedRate(fixed: 'slow' | 'fast', rate: number)
       return slowFixed ? [eF, -aF * t * eF, eS, 1] : [eF, eS, -aS * t * eS, 1];
     },
     start(x, y) {
-      const [a, k, c] = exponentialSingle.start(x, y) as [number, number, number];
+      const [a, k, c] = parameterTuple(exponentialSingle.start(x, y), 3, exponentialSingle.id);
       return slowFixed ? [a, k, 0, c] : [0, a, k, c];
     },
     lower: slowFixed ? [undefined, 0, undefined, undefined] : [undefined, undefined, 0, undefined],

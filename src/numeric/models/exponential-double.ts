@@ -21,6 +21,7 @@
  */
 import type { CurveModel, FitResult } from '../types.js';
 import { rateCandidates } from './exponential-single.js';
+import { parameterTuple } from './parameters.js';
 import { brentMinimise, decayInto, evenStep, geometricDecaySum, range, solveSymmetric3 } from './start-helpers.js';
 
 const RATE_GRID_POINTS = 30;
@@ -28,6 +29,9 @@ const RATE_GRID_POINTS = 30;
 const RATE_REFINE_TOLERANCE = 0.02;
 /** Smallest ratio kfast/kslow in the start scan. */
 const START_MIN_RATIO = 1.5;
+
+/** (Afast, kfast, Aslow, kslow, c) from a parameter vector. */
+const doubleParams = (p: readonly number[]) => parameterTuple(p, 5, 'exponential-double');
 
 export const exponentialDouble: CurveModel = {
   id: 'exponential-double',
@@ -41,32 +45,40 @@ export const exponentialDouble: CurveModel = {
     'plateau at long times',
   ],
   source: 'Hooijman, Stewart & Cooke 2011, Biophys J 100:1969; Anderson et al. 2018, PNAS 115:E8143',
-  f: (t, p) => p[0] * Math.exp(-p[1] * t) + p[2] * Math.exp(-p[3] * t) + p[4],
+  f: (t, p) => {
+    const q = doubleParams(p); // [aFast, kFast, aSlow, kSlow, offset]
+    return q[0] * Math.exp(-q[1] * t) + q[2] * Math.exp(-q[3] * t) + q[4];
+  },
   gradient(t, p) {
-    const eFast = Math.exp(-p[1] * t);
-    const eSlow = Math.exp(-p[3] * t);
-    return [eFast, -p[0] * t * eFast, eSlow, -p[2] * t * eSlow, 1];
+    const q = doubleParams(p);
+    const eFast = Math.exp(-q[1] * t);
+    const eSlow = Math.exp(-q[3] * t);
+    return [eFast, -q[0] * t * eFast, eSlow, -q[2] * t * eSlow, 1];
   },
   evaluate(x, p, values, jacobian) {
     const n = x.length;
+    const [aFast, kFast, aSlow, kSlow, offset] = doubleParams(p);
     for (let i = 0; i < n; i++) {
-      const t = x[i];
-      const eFast = Math.exp(-p[1] * t);
-      const eSlow = Math.exp(-p[3] * t);
-      values[i] = p[0] * eFast + p[2] * eSlow + p[4];
+      const t = x[i]!;
+      const eFast = Math.exp(-kFast * t);
+      const eSlow = Math.exp(-kSlow * t);
+      values[i] = aFast * eFast + aSlow * eSlow + offset;
       if (jacobian) {
         jacobian[i] = eFast;
-        jacobian[n + i] = -p[0] * t * eFast;
+        jacobian[n + i] = -aFast * t * eFast;
         jacobian[2 * n + i] = eSlow;
-        jacobian[3 * n + i] = -p[2] * t * eSlow;
+        jacobian[3 * n + i] = -aSlow * t * eSlow;
         jacobian[4 * n + i] = 1;
       }
     }
   },
   start(x, y) {
     const n = x.length;
+    if (y.length !== n) throw new RangeError(`exponential-double start: ${n} times but ${y.length} values`);
     const rates = rateCandidates(x, RATE_GRID_POINTS);
     const count = rates.length;
+    // Indices below stay within the sizes they run over: n points (x, y and the decay buffers),
+    // count grid rates (rates, sums, withY) and count² Gram entries (cross).
     // Gram sums per grid rate, so each (kfast, kslow) pair costs one 3×3 solve (normal
     // equations are accurate enough for a starting value). Evenly spaced times give the sums
     // of exponentials in closed form (geometricDecaySum); only Σe·y needs a pass.
@@ -74,20 +86,22 @@ export const exponentialDouble: CurveModel = {
     const withY = new Float64Array(count);
     const cross = new Float64Array(count * count);
     let sumY = 0;
-    for (let i = 0; i < n; i++) sumY += y[i];
+    for (let i = 0; i < n; i++) sumY += y[i]!;
     const step = evenStep(x);
-    const sumOf = (s: number) => geometricDecaySum(s, x[0], step!, n);
+    // Used only when step !== null, i.e. at least 3 evenly spaced times.
+    const sumOf = (s: number) => geometricDecaySum(s, x[0]!, step!, n);
     const exps = new Float64Array((step === null ? count : 1) * n);
     for (let a = 0; a < count; a++) {
+      const rate = rates[a]!;
       const o = step === null ? a * n : 0;
       const ea = exps.subarray(o, o + n);
-      decayInto(x, rates[a], step, ea);
+      decayInto(x, rate, step, ea);
       if (step !== null) {
         let sy = 0;
-        for (let i = 0; i < n; i++) sy += ea[i] * y[i];
+        for (let i = 0; i < n; i++) sy += ea[i]! * y[i]!;
         withY[a] = sy;
-        sums[a] = sumOf(rates[a]);
-        for (let b = 0; b <= a; b++) cross[a * count + b] = cross[b * count + a] = sumOf(rates[a] + rates[b]);
+        sums[a] = sumOf(rate);
+        for (let b = 0; b <= a; b++) cross[a * count + b] = cross[b * count + a] = sumOf(rate + rates[b]!);
         continue;
       }
       // Every sum runs over i in order, one accumulator each; several sums share a pass so that
@@ -96,8 +110,8 @@ export const exponentialDouble: CurveModel = {
       let s1 = 0;
       let ss = 0;
       for (let i = 0; i < n; i++) {
-        const v = ea[i];
-        sy += v * y[i];
+        const v = ea[i]!;
+        sy += v * y[i]!;
         s1 += v;
         ss += v * v;
       }
@@ -115,11 +129,11 @@ export const exponentialDouble: CurveModel = {
         let t2 = 0;
         let t3 = 0;
         for (let i = 0; i < n; i++) {
-          const v = ea[i];
-          s0 += v * exps[o0 + i];
-          t1 += v * exps[o1 + i];
-          t2 += v * exps[o2 + i];
-          t3 += v * exps[o3 + i];
+          const v = ea[i]!;
+          s0 += v * exps[o0 + i]!;
+          t1 += v * exps[o1 + i]!;
+          t2 += v * exps[o2 + i]!;
+          t3 += v * exps[o3 + i]!;
         }
         cross[a * count + b] = cross[b * count + a] = s0;
         cross[a * count + b + 1] = cross[(b + 1) * count + a] = t1;
@@ -129,24 +143,28 @@ export const exponentialDouble: CurveModel = {
       for (; b < a; b++) {
         const ob = b * n;
         let sab = 0;
-        for (let i = 0; i < n; i++) sab += ea[i] * exps[ob + i];
+        for (let i = 0; i < n; i++) sab += ea[i]! * exps[ob + i]!;
         cross[a * count + b] = sab;
         cross[b * count + a] = sab;
       }
     }
     const [yLow, yHigh] = range(y);
     const spread = yHigh - yLow;
-    let best: number[] = [spread / 2, rates[count - 5], spread / 2, rates[4], yLow];
+    // The grid has RATE_GRID_POINTS (30) rates: the fallback takes the 5th from each end.
+    let best: [number, number, number, number, number] = [spread / 2, rates[count - 5]!, spread / 2, rates[4]!, yLow];
     let bestScore = Infinity;
     const c = new Float64Array(3);
     /** RSS up to the constant Σy² (cᵀGc − 2cᵀb = −cᵀb at the normal-equation solution); keeps the best. */
     const score = (kFast: number, kSlow: number, ff: number, fs: number, f1: number, fy: number, ss: number, s1: number, sy: number): number => {
       if (!solveSymmetric3(ff, fs, f1, ss, s1, n, fy, sy, sumY, c)) return Infinity;
-      const value = -(c[0] * fy + c[1] * sy + c[2] * sumY);
+      const aFast = c[0]!;
+      const aSlow = c[1]!;
+      const offset = c[2]!;
+      const value = -(aFast * fy + aSlow * sy + offset * sumY);
       if (!Number.isFinite(value)) return Infinity;
       if (value < bestScore) {
         bestScore = value;
-        best = [c[0], kFast, c[1], kSlow, c[2]];
+        best = [aFast, kFast, aSlow, kSlow, offset];
       }
       return value;
     };
@@ -154,18 +172,23 @@ export const exponentialDouble: CurveModel = {
     let bestSlow = -1;
     let gridBest = Infinity;
     for (let fast = 0; fast < count; fast++) {
+      const rateFast = rates[fast]!;
+      const fastFast = cross[fast * count + fast]!;
+      const fastSum = sums[fast]!;
+      const fastY = withY[fast]!;
       for (let slow = 0; slow < fast; slow++) {
-        if (rates[fast] < START_MIN_RATIO * rates[slow]) continue;
+        const rateSlow = rates[slow]!;
+        if (rateFast < START_MIN_RATIO * rateSlow) continue;
         const value = score(
-          rates[fast],
-          rates[slow],
-          cross[fast * count + fast],
-          cross[fast * count + slow],
-          sums[fast],
-          withY[fast],
-          cross[slow * count + slow],
-          sums[slow],
-          withY[slow],
+          rateFast,
+          rateSlow,
+          fastFast,
+          cross[fast * count + slow]!,
+          fastSum,
+          fastY,
+          cross[slow * count + slow]!,
+          sums[slow]!,
+          withY[slow]!,
         );
         if (value < gridBest) {
           gridBest = value;
@@ -183,7 +206,7 @@ export const exponentialDouble: CurveModel = {
     const refine = (moving: 'fast' | 'slow', kOther: number, lowK: number, highK: number): number => {
       decayInto(x, kOther, step, other);
       let oy = 0;
-      for (let i = 0; i < n; i++) oy += other[i] * y[i];
+      for (let i = 0; i < n; i++) oy += other[i]! * y[i]!;
       let oo: number;
       let o1: number;
       if (step !== null) {
@@ -193,8 +216,9 @@ export const exponentialDouble: CurveModel = {
         oo = 0;
         o1 = 0;
         for (let i = 0; i < n; i++) {
-          oo += other[i] * other[i];
-          o1 += other[i];
+          const v = other[i]!;
+          oo += v * v;
+          o1 += v;
         }
       }
       let kBest = NaN;
@@ -203,7 +227,7 @@ export const exponentialDouble: CurveModel = {
         const k = Math.exp(u);
         decayInto(x, k, step, e);
         let ey = 0;
-        for (let i = 0; i < n; i++) ey += e[i] * y[i];
+        for (let i = 0; i < n; i++) ey += e[i]! * y[i]!;
         let ee: number;
         let e1: number;
         let eo: number;
@@ -216,10 +240,10 @@ export const exponentialDouble: CurveModel = {
           e1 = 0;
           eo = 0;
           for (let i = 0; i < n; i++) {
-            const v = e[i];
+            const v = e[i]!;
             ee += v * v;
             e1 += v;
-            eo += v * other[i];
+            eo += v * other[i]!;
           }
         }
         const value = moving === 'fast' ? score(k, kOther, ee, eo, e1, ey, oo, o1, oy) : score(kOther, k, oo, eo, o1, oy, ee, e1, ey);
@@ -232,9 +256,10 @@ export const exponentialDouble: CurveModel = {
       if (lowK < highK) brentMinimise(at, Math.log(lowK), Math.log(highK), RATE_REFINE_TOLERANCE);
       return kBest;
     };
-    const neighbours = (index: number): [number, number] => [rates[Math.max(0, index - 1)], rates[Math.min(count - 1, index + 1)]];
+    // bestFast and bestSlow are grid indices (a pair was scored), so every index here is on the grid.
+    const neighbours = (index: number): [number, number] => [rates[Math.max(0, index - 1)]!, rates[Math.min(count - 1, index + 1)]!];
     const [fastLow, fastHigh] = neighbours(bestFast);
-    const kSlowGrid = rates[bestSlow];
+    const kSlowGrid = rates[bestSlow]!;
     const kFast = refine('fast', kSlowGrid, Math.max(fastLow, START_MIN_RATIO * kSlowGrid), fastHigh);
     const kFastNow = Number.isFinite(kFast) && best[1] === kFast ? kFast : best[1];
     const [slowLow, slowHigh] = neighbours(bestSlow);
@@ -242,7 +267,8 @@ export const exponentialDouble: CurveModel = {
     return best;
   },
   canonical(p) {
-    return p[3] > p[1] ? [p[2], p[3], p[0], p[1], p[4]] : p.slice();
+    const [aFast, kFast, aSlow, kSlow, offset] = doubleParams(p);
+    return kSlow > kFast ? [aSlow, kSlow, aFast, kFast, offset] : p.slice();
   },
   lower: [undefined, 0, undefined, 0, undefined],
 };
@@ -258,14 +284,18 @@ export function slowFraction(fit: FitResult): { estimate: number; se: number } {
   const get = (name: string) => fit.parameters.findIndex((q) => q.name === name);
   const iFast = get('aFast');
   const iSlow = get('aSlow');
-  if (iFast < 0 || iSlow < 0) return { estimate: NaN, se: NaN };
-  const aFast = fit.parameters[iFast].estimate;
-  const aSlow = fit.parameters[iSlow].estimate;
+  const fast = fit.parameters[iFast];
+  const slow = fit.parameters[iSlow];
+  if (!fast || !slow) return { estimate: NaN, se: NaN };
+  const correlation = fit.correlation[iFast]?.[iSlow];
+  if (correlation === undefined) throw new RangeError(`slowFraction: the fit's correlation matrix has no entry (${iFast}, ${iSlow})`);
+  const aFast = fast.estimate;
+  const aSlow = slow.estimate;
   const total = aFast + aSlow;
   const estimate = aSlow / total;
-  const seFast = fit.parameters[iFast].se;
-  const seSlow = fit.parameters[iSlow].se;
-  const covariance = fit.correlation[iFast][iSlow] * seFast * seSlow;
+  const seFast = fast.se;
+  const seSlow = slow.se;
+  const covariance = correlation * seFast * seSlow;
   // ∂f/∂Afast = −Aslow/total², ∂f/∂Aslow = Afast/total².
   const dFast = -aSlow / (total * total);
   const dSlow = aFast / (total * total);

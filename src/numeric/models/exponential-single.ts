@@ -16,6 +16,7 @@
  * @example exponentialSingle.f(10, [2, 0.1, 1]) // → 1.735759 (2·e⁻¹ + 1)
  */
 import type { CurveModel } from '../types.js';
+import { parameterTuple } from './parameters.js';
 import { brentMinimise, decayInto, evenStep, lineOnBasis, logGrid, range } from './start-helpers.js';
 
 const RATE_GRID_POINTS = 15;
@@ -37,12 +38,15 @@ export function rateCandidates(t: readonly number[], count: number): number[] {
   const sorted = [...t].sort((a, b) => a - b);
   let minStep = Infinity;
   for (let i = 1; i < sorted.length; i++) {
-    const d = sorted[i] - sorted[i - 1];
+    const d = sorted[i]! - sorted[i - 1]!;
     if (d > 0 && d < minStep) minStep = d;
   }
   const fastest = Math.max(100 / span, Number.isFinite(minStep) ? 1 / minStep : 0);
   return logGrid(0.1 / span, fastest, count);
 }
+
+/** (A, k, c) from a parameter vector. */
+const singleParams = (p: readonly number[]) => parameterTuple(p, 3, 'exponential-single');
 
 export const exponentialSingle: CurveModel = {
   id: 'exponential-single',
@@ -50,20 +54,25 @@ export const exponentialSingle: CurveModel = {
   params: ['amplitude', 'k', 'offset'],
   meanings: ['decaying amplitude', 'rate constant (per time unit)', 'plateau at long times'],
   source: 'first-order kinetics; single-turnover fall-back as in Hooijman et al. 2011, Biophys J 100:1969',
-  f: (t, p) => p[0] * Math.exp(-p[1] * t) + p[2],
+  f: (t, p) => {
+    const q = singleParams(p); // [amplitude, k, offset]
+    return q[0] * Math.exp(-q[1] * t) + q[2];
+  },
   gradient(t, p) {
-    const e = Math.exp(-p[1] * t);
-    return [e, -p[0] * t * e, 1];
+    const q = singleParams(p);
+    const e = Math.exp(-q[1] * t);
+    return [e, -q[0] * t * e, 1];
   },
   evaluate(x, p, values, jacobian) {
     const n = x.length;
+    const [amplitude, k, offset] = singleParams(p);
     for (let i = 0; i < n; i++) {
-      const t = x[i];
-      const e = Math.exp(-p[1] * t);
-      values[i] = p[0] * e + p[2];
+      const t = x[i]!;
+      const e = Math.exp(-k * t);
+      values[i] = amplitude * e + offset;
       if (jacobian) {
         jacobian[i] = e;
-        jacobian[n + i] = -p[0] * t * e;
+        jacobian[n + i] = -amplitude * t * e;
         jacobian[2 * n + i] = 1;
       }
     }
@@ -96,8 +105,8 @@ export const exponentialSingle: CurveModel = {
     });
     if (bestIndex >= 0) {
       // Refine ln k between the neighbours of the best grid rate.
-      const lowK = rates[Math.max(0, bestIndex - 1)];
-      const highK = rates[Math.min(rates.length - 1, bestIndex + 1)];
+      const lowK = rates[Math.max(0, bestIndex - 1)]!;
+      const highK = rates[Math.min(rates.length - 1, bestIndex + 1)]!;
       brentMinimise((u) => rssAt(Math.exp(u)), Math.log(lowK), Math.log(highK), RATE_REFINE_TOLERANCE);
     }
     return best;

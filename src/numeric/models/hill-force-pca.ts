@@ -22,6 +22,7 @@
  * @example hillForcePca.f(5.8, [2, 30, 5.8, 3]) // → 17 (passive + fmax/2)
  */
 import type { CurveModel } from '../types.js';
+import { parameterTuple } from './parameters.js';
 import { lineOnBasis, linearGrid, range } from './start-helpers.js';
 
 const LN10 = Math.LN10;
@@ -68,6 +69,9 @@ function activated(z: number): number {
   return 1 / (1 + Math.exp(LN10 * z));
 }
 
+/** (Fpassive, Fmax, pCa50, nH) from a parameter vector. */
+const hillParams = (p: readonly number[]) => parameterTuple(p, 4, 'hill-force-pca');
+
 export const hillForcePca: CurveModel = {
   id: 'hill-force-pca',
   formula: 'F = Fpassive + Fmax/(1 + 10^(nH·(pCa − pCa50)))',
@@ -80,13 +84,15 @@ export const hillForcePca: CurveModel = {
   ],
   source: 'Hill 1910, J Physiol 40:iv–vii; pCa form as in Moss 1992, Circ Res 70:865',
   f(pCa, p) {
-    return p[0] + p[1] * activated(p[3] * (pCa - p[2]));
+    const q = hillParams(p); // [passive, fmax, pCa50, nH]
+    return q[0] + q[1] * activated(q[3] * (pCa - q[2]));
   },
   gradient(pCa, p) {
-    const s = activated(p[3] * (pCa - p[2]));
+    const q = hillParams(p);
+    const s = activated(q[3] * (pCa - q[2]));
     // d s/d z = −ln10·s·(1 − s), with z = nH·(pCa − pCa50).
     const ds = -LN10 * s * (1 - s);
-    return [1, s, p[1] * ds * -p[3], p[1] * ds * (pCa - p[2])];
+    return [1, s, q[1] * ds * -q[3], q[1] * ds * (pCa - q[2])];
   },
   start(x, y) {
     const [low, high] = range(x);
@@ -100,11 +106,12 @@ export const hillForcePca: CurveModel = {
     for (const pCa50 of linearGrid(low - 0.5, high + 0.5, steps)) {
       // b = 10^(pCa − pCa50) once per point; 10^(nH·(pCa − pCa50)) = b^nH by products.
       for (let i = 0; i < n; i++) {
-        base[i] = Math.exp(LN10 * (x[i] - pCa50));
-        root[i] = Math.sqrt(base[i]);
+        const b = Math.exp(LN10 * (x[i]! - pCa50));
+        base[i] = b;
+        root[i] = Math.sqrt(b);
       }
       for (const nH of NH_CANDIDATES) {
-        for (let i = 0; i < n; i++) g[i] = 1 / (1 + powerOf(base[i], root[i], nH, x[i] - pCa50));
+        for (let i = 0; i < n; i++) g[i] = 1 / (1 + powerOf(base[i]!, root[i]!, nH, x[i]! - pCa50));
         const fit = lineOnBasis(g, y, true);
         if (fit && fit.rss < bestRss) {
           bestRss = fit.rss;

@@ -18,6 +18,7 @@
  * // → vm 212.68, k 0.06412 (R: nls(rate ~ Vm*conc/(K+conc)), An Introduction to R §11.7.1)
  */
 import type { CurveModel } from '../types.js';
+import { parameterTuple } from './parameters.js';
 import { lineOnBasis, logGrid, range } from './start-helpers.js';
 
 const KM_GRID_POINTS = 40;
@@ -39,7 +40,10 @@ function bestKm(x: readonly number[], y: readonly number[], withBasal: boolean):
   let bestRss = Infinity;
   const g = new Float64Array(x.length);
   for (const km of kmCandidates(x)) {
-    for (let i = 0; i < x.length; i++) g[i] = x[i] / (km + x[i]);
+    for (let i = 0; i < x.length; i++) {
+      const xi = x[i]!;
+      g[i] = xi / (km + xi);
+    }
     const fit = lineOnBasis(g, y, withBasal);
     if (fit && fit.rss < bestRss) {
       bestRss = fit.rss;
@@ -48,6 +52,9 @@ function bestKm(x: readonly number[], y: readonly number[], withBasal: boolean):
   }
   return best;
 }
+
+/** (basal, kcat, KM) from a parameter vector of the model with basal term. */
+const basalParams = (p: readonly number[]) => parameterTuple(p, 3, 'michaelis-menten-basal');
 
 /** v = v0 + kcat·[A]/(KM + [A]); params ['basal', 'kcat', 'km']. */
 export const michaelisMentenBasal: CurveModel = {
@@ -60,10 +67,14 @@ export const michaelisMentenBasal: CurveModel = {
     'actin concentration at half-maximal activation (µM)',
   ],
   source: 'Michaelis & Menten 1913, Biochem Z 49:333; basal form as in De La Cruz & Ostap 2009, Methods Enzymol 455:157',
-  f: (a, p) => p[0] + (p[1] * a) / (p[2] + a),
+  f: (a, p) => {
+    const q = basalParams(p); // [basal, kcat, km]
+    return q[0] + (q[1] * a) / (q[2] + a);
+  },
   gradient: (a, p) => {
-    const d = p[2] + a;
-    return [1, a / d, (-p[1] * a) / (d * d)];
+    const q = basalParams(p);
+    const d = q[2] + a;
+    return [1, a / d, (-q[1] * a) / (d * d)];
   },
   start(x, y) {
     const best = bestKm(x, y, true);
@@ -72,6 +83,9 @@ export const michaelisMentenBasal: CurveModel = {
   lower: [undefined, undefined, 0],
 };
 
+/** (Vm, K) from a parameter vector of the plain model. */
+const plainParams = (p: readonly number[]) => parameterTuple(p, 2, 'michaelis-menten');
+
 /** v = Vm·[A]/(K + [A]); params ['vm', 'k']. */
 export const michaelisMenten: CurveModel = {
   id: 'michaelis-menten',
@@ -79,10 +93,14 @@ export const michaelisMenten: CurveModel = {
   params: ['vm', 'k'],
   meanings: ['maximal rate', 'substrate concentration at half-maximal rate'],
   source: 'Michaelis & Menten 1913, Biochem Z 49:333',
-  f: (a, p) => (p[0] * a) / (p[1] + a),
+  f: (a, p) => {
+    const q = plainParams(p); // [vm, k]
+    return (q[0] * a) / (q[1] + a);
+  },
   gradient: (a, p) => {
-    const d = p[1] + a;
-    return [a / d, (-p[0] * a) / (d * d)];
+    const q = plainParams(p);
+    const d = q[1] + a;
+    return [a / d, (-q[0] * a) / (d * d)];
   },
   start(x, y) {
     const best = bestKm(x, y, false);

@@ -25,16 +25,19 @@ export function linearLeastSquares(
 ): { coefficients: number[]; rss: number } | null {
   const n = y.length;
   const k = columns.length;
+  for (const [j, column] of columns.entries()) {
+    if (column.length !== n) throw new RangeError(`linearLeastSquares: basis column ${j} has ${column.length} values for ${n} observations`);
+  }
   if (n < k) return null;
   const rows: number[][] = [];
-  for (let i = 0; i < n; i++) rows.push(columns.map((c) => c[i]));
-  const coefficients = dampedLeastSquares(rows, y.slice(), new Array(k).fill(0));
+  for (let i = 0; i < n; i++) rows.push(columns.map((c) => c[i]!));
+  const coefficients = dampedLeastSquares(rows, y.slice(), new Array<number>(k).fill(0));
   if (!coefficients || !coefficients.every(Number.isFinite)) return null;
   let rss = 0;
-  for (let i = 0; i < n; i++) {
+  for (const [i, yi] of y.entries()) {
     let f = 0;
-    for (let j = 0; j < k; j++) f += coefficients[j] * columns[j][i];
-    rss += (y[i] - f) ** 2;
+    for (const [j, column] of columns.entries()) f += coefficients[j]! * column[i]!;
+    rss += (yi - f) ** 2;
   }
   return { coefficients, rss };
 }
@@ -75,19 +78,34 @@ export function range(values: readonly number[]): [number, number] {
  * @example solve3([[2, 0, 0], [0, 3, 0], [0, 0, 4]], [2, 3, 4]) // → [1, 1, 1]
  */
 export function solve3(a: readonly (readonly number[])[], b: readonly number[]): number[] | null {
-  const det = (m: readonly (readonly number[])[]) =>
-    m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) -
-    m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0]) +
-    m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
-  const d = det(a);
+  const [row0, row1, row2] = a;
+  if (a.length !== 3 || !isTriple(row0) || !isTriple(row1) || !isTriple(row2) || !isTriple(b)) {
+    throw new RangeError(`solve3: needs a 3×3 matrix and 3 right-hand sides; got ${a.length} rows of ${a.map((row) => row.length).join(', ')} and ${b.length}`);
+  }
+  const d = det3(row0, row1, row2);
   const scale = Math.max(...a.flat().map(Math.abs));
   if (!(Math.abs(d) > 1e-13 * scale * scale * scale)) return null;
-  const out: number[] = [];
-  for (let c = 0; c < 3; c++) {
-    const m = a.map((row, i) => row.map((v, j) => (j === c ? b[i] : v)));
-    out.push(det(m) / d);
-  }
-  return out;
+  // Cramer's rule: column c of the matrix replaced by b.
+  const [a00, a01, a02] = row0;
+  const [a10, a11, a12] = row1;
+  const [a20, a21, a22] = row2;
+  const [b0, b1, b2] = b;
+  return [
+    det3([b0, a01, a02], [b1, a11, a12], [b2, a21, a22]) / d,
+    det3([a00, b0, a02], [a10, b1, a12], [a20, b2, a22]) / d,
+    det3([a00, a01, b0], [a10, a11, b1], [a20, a21, b2]) / d,
+  ];
+}
+
+type Triple = readonly [number, number, number];
+
+function isTriple(row: readonly number[] | undefined): row is Triple {
+  return row !== undefined && row.length === 3;
+}
+
+/** Determinant of the 3×3 matrix with the given rows, by cofactor expansion along the first row. */
+function det3([m00, m01, m02]: Triple, [m10, m11, m12]: Triple, [m20, m21, m22]: Triple): number {
+  return m00 * (m11 * m22 - m12 * m21) - m01 * (m10 * m22 - m12 * m20) + m02 * (m10 * m21 - m11 * m20);
 }
 
 /**
@@ -105,23 +123,24 @@ export function lineOnBasis(
   intercept: boolean,
 ): { a: number; b: number; rss: number } | null {
   const n = y.length;
+  if (g.length !== n) throw new RangeError(`lineOnBasis: the basis has ${g.length} values for ${n} observations`);
   let a = 0;
   let b: number;
   if (intercept) {
     let mg = 0;
     let my = 0;
     for (let i = 0; i < n; i++) {
-      mg += g[i];
-      my += y[i];
+      mg += g[i]!;
+      my += y[i]!;
     }
     mg /= n;
     my /= n;
     let sgg = 0;
     let sgy = 0;
     for (let i = 0; i < n; i++) {
-      const dg = g[i] - mg;
+      const dg = g[i]! - mg;
       sgg += dg * dg;
-      sgy += dg * (y[i] - my);
+      sgy += dg * (y[i]! - my);
     }
     if (!(sgg > 0)) return null;
     b = sgy / sgg;
@@ -130,15 +149,16 @@ export function lineOnBasis(
     let sgg = 0;
     let sgy = 0;
     for (let i = 0; i < n; i++) {
-      sgg += g[i] * g[i];
-      sgy += g[i] * y[i];
+      const gi = g[i]!;
+      sgg += gi * gi;
+      sgy += gi * y[i]!;
     }
     if (!(sgg > 0)) return null;
     b = sgy / sgg;
   }
   let rss = 0;
   for (let i = 0; i < n; i++) {
-    const e = y[i] - a - b * g[i];
+    const e = y[i]! - a - b * g[i]!;
     rss += e * e;
   }
   if (!Number.isFinite(a) || !Number.isFinite(b) || !Number.isFinite(rss)) return null;
@@ -268,12 +288,14 @@ export function solveSymmetric3(
  */
 export function evenStep(t: readonly number[]): number | null {
   const n = t.length;
-  if (n < 3) return null;
-  const span = t[n - 1] - t[0];
+  const first = t[0];
+  const last = t[n - 1];
+  if (n < 3 || first === undefined || last === undefined) return null;
+  const span = last - first;
   const step = span / (n - 1);
   if (!(step > 0) || !Number.isFinite(step)) return null;
   const slack = 1e-9 * span;
-  for (let i = 1; i < n - 1; i++) if (!(Math.abs(t[i] - (t[0] + i * step)) <= slack)) return null;
+  for (let i = 1; i < n - 1; i++) if (!(Math.abs(t[i]! - (first + i * step)) <= slack)) return null;
   return step;
 }
 
@@ -287,11 +309,13 @@ export function evenStep(t: readonly number[]): number | null {
 export function decayInto(t: readonly number[], k: number, step: number | null, out: Float64Array): void {
   const n = t.length;
   if (step === null) {
-    for (let i = 0; i < n; i++) out[i] = Math.exp(-k * t[i]);
+    for (let i = 0; i < n; i++) out[i] = Math.exp(-k * t[i]!);
     return;
   }
+  const first = t[0];
+  if (first === undefined) return;
   const q = Math.exp(-k * step);
-  let e = Math.exp(-k * t[0]);
+  let e = Math.exp(-k * first);
   for (let i = 0; i < n; i++) {
     out[i] = e;
     e *= q;
