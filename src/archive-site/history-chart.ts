@@ -76,7 +76,7 @@ function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMa
 /** The table under the chart: every row, also those without an estimate. */
 export function historyTable(m: MetricHistory): ChartDef['table'] {
   return {
-    columns: ['Study and analysis', 'Scale', 'Effect', '95% CI', 'WT-like band', 'n units (variant / WT)', 'Call'],
+    columns: ['Study and analysis', 'Scale', 'Effect', '95% CI', 'WT-like band', 'n preparations (variant / WT)', 'Call'],
     rows: m.rows.map((r) => [
       rowName(r).replace('\n', ', '),
       r.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',

@@ -186,6 +186,39 @@ export function flagChip(code: string): FlagChip {
   return { code, label: words?.label ?? code, href: words ? `${PATHS.glossary}#${flagAnchor(code)}` : '', anchor: flagAnchor(code) };
 }
 
+/** One exclusion from the manifest as a page states it (results.json's exclusions, worded). */
+export interface ExclusionView {
+  /** What was excluded, e.g. 'Preparation E333V-p2 (Force–pCa)'. */
+  what: string;
+  reason: string;
+}
+
+/**
+ * The words pages use for an exclusion's kind. results.json keeps the kind 'unit' (its schema is
+ * stable); the study's column, and every page, calls it a preparation.
+ */
+const EXCLUSION_WORDS: Record<string, string> = { batch: 'Batch', unit: 'Preparation', preparation: 'Preparation', variant: 'Variant' };
+
+/**
+ * An exclusion worded for a page: the kind as the study names it (never 'unit'), the excluded
+ * batch, preparation or variant, then (as asked) the variant it belongs to and the assay; names
+ * of assays and variants come from `names` (ids when not given).
+ * @example exclusionView({ kind: 'unit', assay: 'force', unit: 'E333V-p2', reason: 'Torn.' }, { assay: (id) => 'Force–pCa' }) // → { what: 'Preparation E333V-p2 (Force–pCa)', reason: 'Torn.' }
+ */
+export function exclusionView(
+  e: { kind: string; assay?: string; batch?: string; unit?: string; variant?: string; reason: string },
+  names: { assay?: (id: string) => string; variant?: (id: string) => string; ofVariant?: boolean },
+): ExclusionView {
+  const word = EXCLUSION_WORDS[e.kind] ?? (e.kind ? e.kind.charAt(0).toUpperCase() + e.kind.slice(1) : 'Data');
+  const variantName = (id: string) => names.variant?.(id) ?? id;
+  const id = e.kind === 'batch' ? e.batch : e.kind === 'variant' ? (e.variant !== undefined ? variantName(e.variant) : undefined) : (e.unit ?? e.batch);
+  let what = id ? `${word} ${id}` : word;
+  if (e.kind !== 'batch' && e.kind !== 'variant' && e.batch !== undefined && e.unit !== undefined) what += ` (batch ${e.batch})`;
+  if (e.kind !== 'variant' && e.variant !== undefined && names.ofVariant) what += ` of ${variantName(e.variant)}`;
+  if (e.assay !== undefined && names.assay) what += ` (${names.assay(e.assay)})`;
+  return { what, reason: e.reason };
+}
+
 /**
  * Compress sorted line numbers into ranges. Example: lineRanges([2, 3, 4, 9]) → '2–4, 9'.
  */

@@ -12,9 +12,11 @@ import {
   type CalibrationView,
   type CallView,
   type ChartBlock,
+  type ExclusionView,
   type FlagChip,
   type FlagView,
   type RenderFn,
+  exclusionView,
   flagChip,
   flagView,
   functionCall,
@@ -143,7 +145,7 @@ export interface VariantPage {
   flags: FlagView[];
   /** Each flag code on this report once, with its words: the single-file report explains them in place of the glossary link. */
   flagCodes: Array<{ code: string; label: string; explanation: string; anchor: string }>;
-  exclusions: StudyResults['exclusions'];
+  exclusions: ExclusionView[];
   sources: { variant: SourceRows[]; wt: SourceRows[]; wtBatches: string };
   evidence: { level: string; scope: string; sentence: string; calibration: CalibrationView | null; controls: ControlRow[] };
   /** Running header and footer of the printed report. */
@@ -384,9 +386,9 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
       ];
       const flagCodes = [...new Map(flags.map((f) => [f.code, { code: f.code, label: f.label, explanation: f.explanation, anchor: f.anchor }])).values()].sort((a, b) => (a.code < b.code ? -1 : 1));
       const myBatches = new Set(myUnits.map((u) => `${u.assay}|${u.batch}`));
-      const exclusions = results.exclusions.filter(
-        (e) => e.variant === v.id || (e.unit !== undefined && myUnits.some((u) => u.unit === e.unit)) || (e.kind === 'batch' && e.batch !== undefined && [...myBatches].some((k) => k.endsWith(`|${e.batch}`) && (!e.assay || k.startsWith(`${e.assay}|`)))),
-      );
+      const exclusions = results.exclusions
+        .filter((e) => e.variant === v.id || (e.unit !== undefined && myUnits.some((u) => u.unit === e.unit)) || (e.kind === 'batch' && e.batch !== undefined && [...myBatches].some((k) => k.endsWith(`|${e.batch}`) && (!e.assay || k.startsWith(`${e.assay}|`)))))
+        .map((e) => exclusionView(e, { assay: (id) => results.assays.find((a) => a.id === id)?.label ?? id, variant: (id) => names.get(id) ?? id }));
       // Paired WT: the WT preparations of the batches this variant was measured in (its own rows for WT).
       const pairedWt = v.isWT ? [] : wtUnits.filter((u) => myBatches.has(`${u.assay}|${u.batch}`));
       const cal = results.calibration.find((c) => c.scope === v.evidence.scope);

@@ -170,6 +170,25 @@ describe('flags in plain words', () => {
   });
 });
 
+describe('preparations, in the study\'s words', () => {
+  // The study's column is 'preparation'; results.json keeps the exclusion kind 'unit' (schema), pages never say it.
+  const visible = (html: string) => text(html.replace(/<svg[\s\S]*?<\/svg>/g, ' ').replace(/<script[\s\S]*?<\/script>/g, ' ').replace(/<style[\s\S]*?<\/style>/g, ' ').replace(/<code>[^<]*<\/code>/g, ' '));
+
+  it('names an excluded preparation "Preparation", on the variant\'s report and the assay pages', () => {
+    expect(fx.exclusions.some((e) => e.kind === 'unit')).toBe(true);
+    expect(visible(pages.get('variants/synm1-g120s.html')!)).toContain('Preparation synm1-g120s-prep9 excluded: Preparation aggregated.');
+    expect(visible(pages.get('assays/atpase.html')!)).toContain('Preparation synm1-g120s-prep9 of G120S excluded: Preparation aggregated.');
+    expect(visible(pages.get('assays/motility.html')!)).toContain('Batch B5 excluded: Flow cell leaked');
+  });
+
+  it('never calls a preparation a "unit" on any page (physical units aside)', () => {
+    // Allowed: flag codes (machine words, in <code>), and the metric's physical unit ("in the metric's unit", "in their units", the metrics table's "Unit" column).
+    const physical = /metric’s unit|in their units|own units|<th scope="col">Unit<\/th>/g;
+    const found = [...pages].flatMap(([page, html]) => (visible(html.replace(physical, ' ')).match(/.{0,40}\bunits?\b.{0,40}/gi) ?? []).map((w) => `${page}: ${w}`));
+    expect(found).toEqual([]);
+  });
+});
+
 describe('caveats', () => {
   it('are listed once: a study caveat that only repeats a standard one is left out', () => {
     expect(repeatsStandardCaveat('Research data, not a clinical test.')).toBe(true);
