@@ -4,7 +4,7 @@
  */
 import type { MetricComparison, StudyResults } from '../results/types.js';
 import { type ChartDef, axisTitle, chartTitle, effectScale, fmt, fmtCi, fmtP, metricLabel, unitSuffix, variantById, variantNames } from './chart-def.js';
-import { BAND_FILL, CI_COLOUR, LABEL_COLOUR, METRIC_MARK_STYLE, REFERENCE, callScale, metricMark } from './palette.js';
+import { BAND_FILL, CI_COLOUR, type ControlSide, LABEL_COLOUR, METRIC_MARK_STYLE, REFERENCE, callScale, controlRingLayer, controlSide, metricMark } from './palette.js';
 
 /** Variants an effects chart labels one row each; larger studies get a ranked plot without names. */
 export const EFFECTS_LABELLED_MAX = 150;
@@ -36,9 +36,9 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
   const hyper = def?.hyper ?? 'none';
   const rows = est.map((c, i) => {
     const control = byId.get(c.variant)?.control?.class;
-    return { row: names.get(c.variant) ?? c.variant, rank: i + 1, effect: c.effect, lo: c.ciLow, hi: c.ciHigh, call: metricMark(c.call, hyper), control: control ? controlNote(control) : '' };
+    return { row: names.get(c.variant) ?? c.variant, rank: i + 1, effect: c.effect, lo: c.ciLow, hi: c.ciHigh, call: metricMark(c.call, hyper), control: control ? controlNote(control) : '', ...(control ? { ring: controlSide(control) } : {}) };
   });
-  const controls = rows.filter((r) => r.control !== '');
+  const controls = rows.filter((r): r is (typeof rows)[number] & { ring: ControlSide } => r.ring !== undefined);
   // Up to EFFECTS_LABELLED_MAX variants, one labelled row each, in rank order (sorted by the rank
   // field: an explicit list of names becomes one nested expression per name in vega, which
   // overflows the stack at about 10,000). Beyond that, a ranked plot of fixed height without names:
@@ -78,10 +78,11 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
           shape: { field: 'call', type: 'nominal', title: legendTitle, scale: callScale(METRIC_MARK_STYLE, calls, 'shape') },
         },
       },
-      // Known controls: a ring round the mark and the control's class written beside its row, right of the plot.
+      // Known controls: a ring round the mark (solid or dashed by the control's side, as on every
+      // all-variant plot) and the control's class written beside its row, right of the plot.
       ...(controls.length > 0
         ? [
-            { data: { values: controls }, mark: { type: 'point', filled: false, size: labelled ? 300 : 160, stroke: '#1d1d1f', strokeWidth: 1.2, opacity: 1 }, encoding: { y, x: x('effect') } },
+            controlRingLayer(controls, { y, x: x('effect') }, labelled ? 300 : 160, { orient: 'bottom', direction: 'horizontal', columns: 2 }),
             {
               data: { values: controls },
               mark: { type: 'text', align: 'left', baseline: 'middle', fontSize: 11, fontStyle: 'italic', color: LABEL_COLOUR, x: EFFECTS_WIDTH + 6 },

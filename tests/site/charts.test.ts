@@ -360,6 +360,42 @@ describe('marks by biological direction (one legend meaning everywhere)', () => 
     expect(d.table.rows.find((row) => row[0] === 'R505W')?.at(-1)).toBe('pathogenic');
     expect(d.description).toContain('R505W (pathogenic control)');
   });
+
+  // Rings as vega draws them: an unfilled circle path in the ring colour, solid ('1,0') or dashed ('3,2').
+  const rings = (svg: string) => [...svg.matchAll(/<path transform="translate\(([-0-9.]+),([-0-9.]+)\)" d="M([0-9.]+),0A[^"]*" stroke="#1d1d1f" stroke-width="1.3" stroke-dasharray="([0-9,]+)"\/>/g)].map((m) => ({ x: Number(m[1]), y: Number(m[2]), r: Number(m[3]), dash: m[4] }));
+
+  it('rings known controls on every all-variant plot (effects, cross-assay scatter, residue map), with a legend that says so', async () => {
+    const r = makeFixture();
+    const defs = [effectsChart(r, 'atpase', 'kcat')!, ...scatterCharts(r), residueMapChart(r, 'SYNM1')!];
+    expect(defs.length).toBeGreaterThanOrEqual(3);
+    for (const d of defs) {
+      const svg = await renderSvg(d.spec, { key: d.key });
+      expect(svg, d.key).toContain('>Known control (ringed)</text>');
+      expect(svg, d.key).toContain('>pathogenic or likely pathogenic</text>');
+      expect(svg, d.key).toContain('>benign or likely benign</text>');
+      // R505W (pathogenic) and V630I (benign): one ring each round the mark, plus one legend symbol per side.
+      const found = rings(svg);
+      expect(found.filter((g) => g.dash === '1,0').length, d.key).toBe(2);
+      expect(found.filter((g) => g.dash === '3,2').length, d.key).toBe(2);
+      expect(d.description, d.key).toMatch(/R505W \(pathogenic control\)/);
+      expect(d.description, d.key).toMatch(/V630I \(benign control\)/);
+      const col = d.table.columns.indexOf('Known control');
+      expect(col, d.key).toBeGreaterThan(0);
+      expect(d.table.rows.find((row) => row[0] === 'R505W')?.[col], d.key).toBe('pathogenic');
+      expect(d.table.rows.find((row) => row[0] === 'G120S')?.[col], d.key).toBe('—');
+    }
+  });
+
+  it('draws each ring of the scatter round its control\'s mark', async () => {
+    const r = makeFixture();
+    const d = scatterCharts(r)[0]!;
+    const svg = await renderSvg(d.spec, { key: d.key });
+    // The marks are filled points; the plotted rings (larger than the legend's) must each share a centre with one.
+    const marks = [...svg.matchAll(/<path transform="translate\(([-0-9.]+),([-0-9.]+)\)" d="[^"]*" fill="#[0-9a-f]{6}" stroke="#ffffff"/g)].map((m) => ({ x: Number(m[1]), y: Number(m[2]) }));
+    const plotted = rings(svg).filter((g) => g.r > 8);
+    expect(plotted.length).toBe(2);
+    for (const g of plotted) expect(marks.some((m) => Math.abs(m.x - g.x) < 0.2 && Math.abs(m.y - g.y) < 0.2)).toBe(true);
+  });
 });
 
 describe('per-variant assay charts', () => {
