@@ -39,7 +39,7 @@ interface Param {
  * `params`), not literals: charts with the same rows (studies) and calls then share one shape,
  * compiled once (src/charts/render.ts), as the study's own forest plots do.
  */
-function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMark[], params: Param[]) {
+function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMark[], params: Param[], differenceTitle: string) {
   const log = scale === 'ratio';
   const fitted0 = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
   params.push({ name: `${scale}Domain`, value: fitted0.scale.domain });
@@ -50,7 +50,7 @@ function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMa
   }
   const fitted = { scale: { ...fitted0.scale, domain: { expr: `${scale}Domain` } }, axis };
   const y = { field: 'row', type: 'nominal', sort: order, title: null, axis: { labelLimit: 720, labelExpr: "split(datum.label, '\\n')", labelLineHeight: 14, labelOffset: -7 } };
-  const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
+  const xTitle = log ? 'Ratio to paired WT (log scale)' : differenceTitle;
   const x = (field: string) => ({ field, type: 'quantitative', scale: fitted.scale, axis: fitted.axis, title: xTitle });
   return {
     width: 380,
@@ -101,7 +101,8 @@ export function historyChart(variantName: string, m: MetricHistory): ChartDef | 
   const params: Param[] = [];
   const panels = scales.map((s) => {
     const rows = estimable.filter((r) => r.scale === s).map(toRow);
-    return panel(rows, rows.map((r) => r.row), s, calls, params);
+    // A difference is in the metric's unit (one metric: one unit), named on its axis as on the study's forest plots.
+    return panel(rows, rows.map((r) => r.row), s, calls, params, m.unit ? `Difference from paired WT (${m.unit})` : `${m.label}: difference from paired WT`);
   });
   const title = `${m.label} (${m.assayLabel}) of ${variantName}, study by study`;
   const spec = {

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
 import { fmtP as formatP } from '../../src/results/format.js';
 import { EFFECTS_LABELLED_MAX, effectsChart } from '../../src/charts/effects.js';
-import { forestChart } from '../../src/charts/forest.js';
+import { forestChart, forestPanels } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
 import { chartKey, drawRaw, drawRawDirect, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, splitSpec, stripRedundant } from '../../src/charts/render.js';
 import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
@@ -384,6 +384,50 @@ describe('marks by biological direction (one legend meaning everywhere)', () => 
       expect(d.table.rows.find((row) => row[0] === 'R505W')?.[col], d.key).toBe('pathogenic');
       expect(d.table.rows.find((row) => row[0] === 'G120S')?.[col], d.key).toBe('—');
     }
+  });
+
+  it('never puts differences in two units on one axis of the forest plot: a panel per unit, its axis titled with the unit', async () => {
+    const r = makeFixture();
+    // The fixture's assay definitions are shared between tests: changed here on a copy.
+    r.assays = structuredClone(r.assays);
+    // G120S with differences in three units: KM made a difference in µM, a basal rate in s⁻¹, and the fraction immobile (no unit).
+    const atpase = r.assays.find((a) => a.id === 'atpase')!;
+    const fraction = r.assays.find((a) => a.id === 'motility')!.metrics.find((m) => m.id === 'fractionImmobile')!.label;
+    Object.assign(atpase.metrics.find((m) => m.id === 'km')!, { scale: 'difference' });
+    atpase.metrics.push({ id: 'basal', label: 'Basal rate', unit: 's⁻¹', scale: 'difference', hyper: 'none', primary: false, description: 'Rate without actin.' });
+    const km = r.comparisons.find((c) => c.variant === 'synm1-g120s' && c.metric === 'km')!;
+    Object.assign(km, { scale: 'difference', effect: 3.2, ciLow: 1.1, ciHigh: 5.3, band: [-5, 5], call: 'within WT range' });
+    r.comparisons.push({ ...km, metric: 'basal', unit: 's⁻¹', effect: 0.004, ciLow: -0.002, ciHigh: 0.01, band: [-0.01, 0.01] });
+    const v = r.variants.find((x) => x.id === 'synm1-g120s')!;
+    const d = forestChart(r, v, v.short)!;
+    const panels = (d.spec as { vconcat: Array<{ data: { values: Array<{ row: string }> }; layer: Array<{ encoding: { x?: { title?: unknown } } }> }> }).vconcat;
+    const title = (p: (typeof panels)[number]) => [p.layer[0]!.encoding.x!.title].flat().join(' ');
+    const titles = ['Ratio to paired WT (log scale)', 'Difference from paired WT (µM)', `${fraction}: difference from paired WT`, 'Difference from paired WT (s⁻¹)'];
+    expect(panels.map(title)).toEqual(titles);
+    // kcat and mean velocity (ratios) share the log axis; each difference is alone on its unit's axis.
+    expect(panels.map((p) => p.data.values.length)).toEqual([2, 1, 1, 1]);
+    expect(panels[1]!.data.values[0]!.row).toMatch(/\nKM/);
+    expect(panels[2]!.data.values[0]!.row).toContain(fraction.replace(/\s*\([^)]*\)/g, ''));
+    expect(panels[3]!.data.values[0]!.row).toMatch(/\nBasal rate/);
+    // In the drawn SVG: one axis per unit, each titled with its unit, and no bare 'Difference from paired WT' axis.
+    const svg = await renderSvg(d.spec, { key: d.key });
+    const axisTitles = [...svg.matchAll(/<text[^>]*font-weight="bold"[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]).filter((t) => /paired WT/.test(t!) && t !== d.title);
+    expect(axisTitles).toEqual(titles);
+    // Each difference axis has its own range: KM's runs past 5 µM, the basal rate's stays within ±0.02 s⁻¹.
+    const params = Object.fromEntries((d.spec.params as Array<{ name: string; value: [number, number] }>).map((p) => [p.name, p.value]));
+    expect(params.panel1Domain![1]).toBeGreaterThan(5);
+    expect(Math.max(...params.panel3Domain!.map(Math.abs))).toBeLessThan(0.02);
+  });
+
+  it('sorts difference rows into panels by unit: rows of one unit share a panel, rows without a unit never do', () => {
+    const row = (name: string, scale: 'ratio' | 'difference', unit: string) => ({ row: name, metricName: name, scale, unit, effect: 0, lo: null, hi: null, bandLo: -1, bandHi: 1, call: 'within WT range' as const });
+    const panels = forestPanels([row('A', 'ratio', 's⁻¹'), row('B', 'difference', 'kPa'), row('pCa50', 'difference', ''), row('C', 'difference', 'kPa'), row('Fraction', 'difference', ''), row('D', 'ratio', 'µM')]);
+    expect(panels.map((p) => [p.axisTitle, p.rows.map((x) => x.row)])).toEqual([
+      ['Ratio to paired WT (log scale)', ['A', 'D']],
+      ['Difference from paired WT (kPa)', ['B', 'C']],
+      ['pCa50: difference from paired WT', ['pCa50']],
+      ['Fraction: difference from paired WT', ['Fraction']],
+    ]);
   });
 
   it('draws each ring of the scatter round its control\'s mark', async () => {
