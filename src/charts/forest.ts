@@ -97,7 +97,7 @@ function panel(p: ForestPanel, index: number, calls: MetricMark[], params: Param
   const legendTitle = 'Metric call (direction it implies)';
   return {
     width: FOREST_WIDTH,
-    height: Math.max(40, rows.length * FOREST_ROW),
+    height: rows.length * FOREST_ROW,
     data: { values: rows },
     layer: [
       { mark: { type: 'rect', color: BAND_FILL }, encoding: { y, x: x('bandLo'), x2: { field: 'bandHi' } } },
@@ -183,7 +183,7 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
   const diffPanels = layout.filter((p) => p.scale === 'difference').length;
   const description =
     `Forest plot: each metric of ${name} as ${ratio.length ? 'a ratio to WT on a log axis' : ''}` +
-    `${ratio.length && diff.length ? ' or ' : ''}${diff.length ? `a difference from WT on a linear axis in the metric's own unit (${diffPanels} ${diffPanels === 1 ? 'panel' : 'panels'}, one per unit)` : ''}, ` +
+    `${ratio.length && diff.length ? ' or ' : ''}${diff.length ? (diffPanels === 1 ? 'a difference from WT on a linear axis in its unit of measurement' : `a difference from WT on linear axes, one per unit of measurement (${diffPanels} panels)`) : ''}, ` +
     `with its 95% confidence interval; shaded areas are the WT-like bands. ${parts.join('; ')}.`;
   return { key: `forest:${variant.id}`, title, description, spec, table: forestTable(results, variant) };
 }

@@ -100,7 +100,7 @@ describe('absolute values beside every effect', () => {
   it('show the variant and WT means in their unit, the effect, CI, band, q and n', () => {
     const html = pages.get('variants/synm1-g120s.html')!;
     const row = html.split('<tr').find((r) => r.startsWith('><th scope="row">kcat'))!;
-    const cells = [...row.matchAll(/<td class="num">([^<]*)<\/td>/g)].map((m) => decode(m[1]!));
+    const cells = [...row.matchAll(/<td class="num(?: count)?">([^<]*)<\/td>/g)].map((m) => decode(m[1]!));
     expect(cells).toEqual(['7.51 s⁻¹', '4.95 s⁻¹', '1.52×', '1.31 to 1.76', '0.80 to 1.25', '0.0020', '3 / 3']);
     // A difference metric at its band's precision (band ±0.1: 3 decimals), negative ends with the minus sign.
     const fi = html.split('<tr').find((r) => r.includes('<th scope="row">Fraction immobile'))!;
@@ -183,7 +183,7 @@ describe('preparations, in the study\'s words', () => {
 
   it('never calls a preparation a "unit" on any page (physical units aside)', () => {
     // Allowed: flag codes (machine words, in <code>), and the metric's physical unit ("in the metric's unit", "in their units", the metrics table's "Unit" column).
-    const physical = /metric’s unit|in their units|own units|<th scope="col">Unit<\/th>/g;
+    const physical = /metric’s unit|in their units|own units|unit of measurement|<th scope="col">Unit<\/th>/g;
     const found = [...pages].flatMap(([page, html]) => (visible(html.replace(physical, ' ')).match(/.{0,40}\bunits?\b.{0,40}/gi) ?? []).map((w) => `${page}: ${w}`));
     expect(found).toEqual([]);
   });
