@@ -112,6 +112,8 @@ export function historyChart(variantName: string, m: MetricHistory): ChartDef | 
     vconcat: panels,
     spacing: 18,
     resolve: { scale: { color: 'shared', shape: 'shared' }, legend: { color: 'shared', shape: 'shared' } },
+    // The legend under the plot, its title whole (at the right, vega cut it to 'Metric call (direction it i…').
+    config: { legend: { orient: 'bottom', direction: 'horizontal', columns: 3, titleOrient: 'top', titleAnchor: 'start', labelLimit: 260, titleLimit: 400 } },
   };
   const parts = estimable.map((r) => `${rowName(r).replace('\n', ', ')}: ${fmt(r.effect)} (95% CI ${fmtCi(r.ciLow, r.ciHigh)}), ${r.call}`);
   const missing = m.rows.length - estimable.length;
