@@ -174,6 +174,11 @@ function latestEvidence(v: Pick<VariantHistory, 'latest' | 'overall'>): string {
   return row?.control ? `n/a (calibration control, ${row.control})` : v.latest.evidence;
 }
 
+/** An agreement status in the pages' words (the status itself when it has none). */
+function agreementWords(status: string): string {
+  return AGREEMENT_WORDS[status] ?? status;
+}
+
 function historyPage(v: VariantHistory, studies: readonly BuiltStudy[], report: ReturnType<typeof reportLinks>): HistoryPage {
   const path = ARCHIVE_PATHS.history(v.gene, v.hgvs);
   const link = (to: string) => relLink(path, to);
@@ -231,7 +236,7 @@ function historyPage(v: VariantHistory, studies: readonly BuiltStudy[], report: 
         assayLabel: m.assayLabel,
         unit: m.unit,
         // With one study counted, a metric has nothing to be compared with (its release rows are not compared).
-        agreement: v.concordance.status === 'single study' ? AGREEMENT_WORDS['single study'] : (AGREEMENT_WORDS[m.agreement] ?? m.agreement),
+        agreement: agreementWords(v.concordance.status === 'single study' ? 'single study' : m.agreement),
         discordant: m.agreement === 'discordant',
         notes: m.notes,
         chart,

@@ -28,11 +28,12 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
   const est = comps
     .filter((c): c is MetricComparison & { effect: number } => c.effect !== null && Number.isFinite(c.effect))
     .sort((a, b) => a.effect - b.effect || (a.variant < b.variant ? -1 : 1));
-  if (est.length === 0) return null;
+  const [lowest] = est;
+  if (!lowest) return null;
   const def = results.assays.find((a) => a.id === assayId)?.metrics.find((m) => m.id === metricId);
-  const scale = est[0].scale;
+  const scale = lowest.scale;
   const log = scale === 'ratio';
-  const band = results.settings.bands[`${assayId}.${metricId}`] ?? est[0].band;
+  const band = results.settings.bands[`${assayId}.${metricId}`] ?? lowest.band;
   const hyper = def?.hyper ?? 'none';
   const rows = est.map((c, i) => {
     const control = byId.get(c.variant)?.control?.class;
@@ -95,11 +96,14 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
   };
   if (!labelled) for (const c of controls) Object.assign(c, { controlLabel: `${c.row}: ${c.control}` });
   const countBy = (call: string) => rows.filter((r) => r.call === call).length;
+  // One row per estimable comparison, and there is at least one (checked above).
+  const first = rows[0]!;
+  const last = rows[rows.length - 1]!;
   const description =
     `${rows.length} variants sorted by ${log ? 'ratio to' : 'difference from'} paired WT for ${label}, with 95% confidence intervals; ` +
     `the shaded WT-like band runs from ${fmt(band[0])} to ${fmt(band[1])}. ` +
     calls.map((c) => `${countBy(c)} ${c}`).join(', ') +
-    `. Lowest: ${rows[0].row} ${fmt(rows[0].effect)}; highest: ${rows[rows.length - 1].row} ${fmt(rows[rows.length - 1].effect)}.` +
+    `. Lowest: ${first.row} ${fmt(first.effect)}; highest: ${last.row} ${fmt(last.effect)}.` +
     (controls.length ? ` Known controls, ringed and named at the right: ${controls.map((c) => `${c.row} (${c.control}) ${fmt(c.effect)}`).join('; ')}.` : '');
   const table = {
     columns: ['Variant', 'Effect', '95% CI', 'q', 'Call', 'Direction it implies', 'Known control'],

@@ -17,7 +17,7 @@ import { controlNote } from './effects.js';
 import { textWidth } from './text-width.js';
 
 /** Colours of domain bars, alternating so neighbouring domains stay apart. */
-const DOMAIN_FILLS = ['#c9d6e3', '#e3d5c1'];
+const DOMAIN_FILLS = ['#c9d6e3', '#e3d5c1'] as const;
 /** Width of the plot in px (about 680 px with lane names: an A4 page at 100%). */
 export const RESIDUE_MAP_WIDTH = 560;
 /** Lane heights tried, smallest first, until every label of the lane is placed. */

@@ -51,9 +51,10 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
     const control = byId.get(id)?.control?.class;
     return { id, name: names.get(id) ?? id, x: x.effect as number, xlo: x.ciLow, xhi: x.ciHigh, y: y.effect as number, ylo: y.ciLow, yhi: y.ciHigh, call: byId.get(id)?.overall.call ?? ('indeterminate' as FunctionCall), control };
   });
-  if (rows.length < 2) return null;
-  const first = ca.get(ids[0]) as MetricComparison;
-  const second = cb.get(ids[0]) as MetricComparison;
+  const [firstId] = ids;
+  if (rows.length < 2 || firstId === undefined) return null;
+  const first = ca.get(firstId) as MetricComparison;
+  const second = cb.get(firstId) as MetricComparison;
   const la = metricLabel(results, a.assay, a.metric);
   const lb = metricLabel(results, b.assay, b.metric);
   const xLog = first.scale === 'ratio';
@@ -143,9 +144,11 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
 export function scatterCharts(results: StudyResults): ChartDef[] {
   const picks = primaryMetrics(results).slice(0, 4);
   const out: ChartDef[] = [];
-  for (let i = 0; i < picks.length; i++) for (let j = i + 1; j < picks.length; j++) {
-    const c = scatterChart(results, picks[i], picks[j]);
-    if (c) out.push(c);
-  }
+  picks.forEach((a, i) => {
+    for (const b of picks.slice(i + 1)) {
+      const c = scatterChart(results, a, b);
+      if (c) out.push(c);
+    }
+  });
   return out;
 }

@@ -110,8 +110,9 @@ export type BlockFn = (inputs: unknown, make: () => Promise<BlockContent>) => Pr
  */
 export async function renderBlocks(defs: Array<ChartDef | null>, render: RenderFn = renderSvg): Promise<ChartBlock[]> {
   const present = defs.filter((d): d is ChartDef => d !== null);
-  const svgs = await Promise.all(present.map((d) => render(d.spec, { key: d.key, title: d.title, description: d.description })));
-  return present.map((d, i) => ({ id: `chart-${slug(d.key)}`, title: d.title, description: d.description, svg: svgs[i], table: d.table }));
+  return Promise.all(
+    present.map(async (d) => ({ id: `chart-${slug(d.key)}`, title: d.title, description: d.description, svg: await render(d.spec, { key: d.key, title: d.title, description: d.description }), table: d.table })),
+  );
 }
 
 /**
@@ -124,7 +125,8 @@ export async function mapLimit<T, R>(items: readonly T[], limit: number, fn: (it
   const lane = async () => {
     while (next < items.length) {
       const i = next++;
-      out[i] = await fn(items[i], i);
+      // i < items.length (the loop's condition): an item of the list, even if T itself admits undefined.
+      out[i] = await fn(items[i] as T, i);
     }
   };
   await Promise.all(Array.from({ length: Math.max(1, Math.min(limit, items.length)) }, lane));
@@ -224,14 +226,13 @@ export function exclusionView(
  */
 export function lineRanges(lines: number[]): string {
   const s = [...new Set(lines)].sort((a, b) => a - b);
-  const parts: string[] = [];
-  for (let i = 0; i < s.length; ) {
-    let j = i;
-    while (j + 1 < s.length && s[j + 1] === s[j] + 1) j++;
-    parts.push(i === j ? `${s[i]}` : `${s[i]}–${s[j]}`);
-    i = j + 1;
+  const runs: Array<[number, number]> = [];
+  for (const n of s) {
+    const run = runs[runs.length - 1];
+    if (run && n === run[1] + 1) run[1] = n;
+    else runs.push([n, n]);
   }
-  return parts.join(', ');
+  return runs.map(([from, to]) => (from === to ? `${from}` : `${from}–${to}`)).join(', ');
 }
 
 /** Published OddsPath thresholds (Brnich et al. 2020, Genome Med 12:3, Table 3; strict inequalities). */

@@ -115,7 +115,7 @@ export async function assayPages(results: StudyResults, slugs: Map<string, strin
         baseline: cc.baseline,
         rejected: cc.rejectedBatches.join(', '),
         warnings: cc.warningBatches.join(', '),
-        chart: controlBlocks[i],
+        chart: controlBlocks[i] ?? null,
       }));
       return {
         path: PATHS.assay(a.id),

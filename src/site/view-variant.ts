@@ -221,7 +221,7 @@ function variantFlagCodes(v: VariantResult, comps: StudyResults['comparisons'], 
 /** The first sentence of a text (the combining rule's second sentence is its error bound, stated on the methods page). */
 export function firstSentence(text: string): string {
   const m = /^(.*?[.!?])(?:\s+(?=[A-Z])|$)/s.exec(text.trim());
-  return (m ? m[1] : text).trim();
+  return (m?.[1] ?? text).trim();
 }
 
 /**

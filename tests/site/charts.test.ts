@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import type { StudyResults } from '../../src/results/types.js';
 import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
 import { fmtP as formatP } from '../../src/results/format.js';
 import { EFFECTS_LABELLED_MAX, effectsChart } from '../../src/charts/effects.js';
@@ -123,7 +124,9 @@ describe('assay unit charts (ATPase, force)', () => {
     ]);
     // WT's 2 curves of 3 points in one path with a break between them, then the variant's curve in a layer of its own, drawn over WT's.
     const layers = spec.layer as Array<{ data: { values: Array<Record<string, unknown>> }; mark: { type: string; color?: string; strokeDash?: number[] } }>;
-    const [wtCurve, variantCurve] = layers.filter((l) => l.mark.type === 'line');
+    const lines = layers.filter((l) => l.mark.type === 'line');
+    expect(lines).toHaveLength(2);
+    const [wtCurve, variantCurve] = lines as [(typeof lines)[number], (typeof lines)[number]];
     expect(wtCurve.data.values).toHaveLength(7);
     expect(wtCurve.data.values.filter((r) => r.rate === null).map((r) => r.seq)).toEqual([3]);
     expect(variantCurve.data.values).toHaveLength(3);
@@ -156,10 +159,13 @@ describe('effects chart at consortium scale', () => {
   }, 60_000);
 });
 
+/** The fixture's G120S (its second variant, after WT). */
+const g120s = (r: StudyResults) => r.variants.find((v) => v.id === 'synm1-g120s')!;
+
 describe('study chart specs', () => {
   const r = makeFixture();
   const all = () => [
-    forestChart(r, r.variants[1], 'G120S'),
+    forestChart(r, g120s(r), 'G120S'),
     effectsChart(r, 'atpase', 'kcat'),
     effectsChart(r, 'motility', 'fractionImmobile'),
     residueMapChart(r, 'SYNM1'),
@@ -185,16 +191,16 @@ describe('study chart specs', () => {
   });
 
   it('puts ratio metrics on a log axis and difference metrics on their own linear panel', () => {
-    const spec = forestChart(r, r.variants[1], 'G120S')!.spec as { vconcat: Array<{ layer: Array<{ encoding: { x: { scale: { type?: string } } } }> }> };
-    expect(spec.vconcat).toHaveLength(2);
-    expect(spec.vconcat[0].layer[0].encoding.x.scale.type).toBe('log');
-    expect(spec.vconcat[1].layer[0].encoding.x.scale.type).toBeUndefined();
+    const spec = forestChart(r, g120s(r), 'G120S')!.spec as { vconcat: Array<{ layer: Array<{ encoding: { x: { scale: { type?: string } } } }> }> };
+    expect(spec.vconcat.map((panel) => panel.layer[0]?.encoding.x.scale.type)).toEqual(['log', undefined]);
   });
 
   it('labels each row in full, the assay above the metric, however long the metric name', async () => {
     const long = makeFixture();
-    long.assays[1].metrics[0].label = '95th percentile velocity of moving filaments in the slowest field';
-    const d = forestChart(long, long.variants[1], 'G120S')!;
+    // The fixture's assay definitions are shared between tests: changed here on a copy.
+    long.assays = structuredClone(long.assays);
+    long.assays[1]!.metrics[0]!.label = '95th percentile velocity of moving filaments in the slowest field';
+    const d = forestChart(long, g120s(long), 'G120S')!;
     const svg = await renderSvg(d.spec, { key: d.key, title: d.title, description: d.description });
     // On one line this label (68 characters) was cut to about 44 by vega's text-width estimate.
     expect(svg).not.toContain('…');
@@ -207,11 +213,11 @@ describe('study chart specs', () => {
     const effects = def.table.rows.map((row) => Number(row[1])).filter(Number.isFinite);
     expect(effects).toEqual([...effects].sort((a, b) => a - b));
     // Fixture values: L260P 0.55 is the lowest, G120S 1.52 the highest (invented).
-    expect(def.table.rows[0][0]).toBe('L260P');
+    expect(def.table.rows[0]?.[0]).toBe('L260P');
   });
 
   it('marks Westgard violations by shape as well as colour', () => {
-    const def = leveyJenningsChart(r, r.controlCharts[0])!;
+    const def = leveyJenningsChart(r, r.controlCharts[0]!)!;
     const text = JSON.stringify(def.spec);
     expect(text).toContain('"shape":{"field":"status"');
     expect(def.table.rows.find((row) => row[0] === 'B8')?.[4]).toBe('rejected');
@@ -331,8 +337,10 @@ describe('marks by biological direction (one legend meaning everywhere)', () => 
 
   it('draws a decrease of a "decrease is hypercontractile" metric as ▲ in the hyper colour, on the effects plot and the forest plot', async () => {
     const r = makeFixture();
-    // The fixture's kcat declared as a metric whose decrease is hypercontractile, with one variant's kcat decreased.
-    r.assays[0].metrics[0].hyper = 'down';
+    // The fixture's kcat declared as a metric whose decrease is hypercontractile (on a copy: the
+    // fixture's assay definitions are shared between tests), with one variant's kcat decreased.
+    r.assays = structuredClone(r.assays);
+    r.assays[0]!.metrics[0]!.hyper = 'down';
     const target = r.comparisons.find((c) => c.assay === 'atpase' && c.metric === 'kcat')!;
     // Every other comparison within WT range, so that the only change drawn is this one.
     for (const c of r.comparisons) if (c !== target) c.call = 'within WT range';
