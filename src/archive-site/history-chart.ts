@@ -8,6 +8,7 @@
 import type { MetricHistory, MetricRow } from '../archive/history-types.js';
 import { releaseName } from '../archive/release.js';
 import { type ChartDef, effectScale, fmt, fmtCi } from '../charts/chart-def.js';
+import { fmtBand } from '../results/format.js';
 import { assayById } from '../assays/registry.js';
 import { BAND_FILL, CI_COLOUR, METRIC_MARK_STYLE, type MetricMark, REFERENCE, callScale, metricMark } from '../charts/palette.js';
 import type { MetricScale } from '../results/types.js';
@@ -82,7 +83,7 @@ export function historyTable(m: MetricHistory): ChartDef['table'] {
       r.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',
       fmt(r.effect),
       fmtCi(r.ciLow, r.ciHigh),
-      `${fmt(r.band[0])}–${fmt(r.band[1])}`,
+      fmtBand(r.band, r.scale),
       `${r.nVariantUnits} / ${r.nWtUnits}`,
       r.call,
     ]),

@@ -7,7 +7,8 @@
  */
 import { groupBy } from '../assays/assay-common.js';
 import type { MetricComparison, MetricScale, StudyResults, VariantResult } from '../results/types.js';
-import { type ChartDef, axisTitle, chartTitle, effectScale, fmt, fmtCi, fmtP, metricLabel, shortMetricLabel } from './chart-def.js';
+import { fmtBand, fmtEffect, fmtEffectCi } from '../results/format.js';
+import { type ChartDef, axisTitle, chartTitle, effectScale, fmtP, metricLabel, shortMetricLabel } from './chart-def.js';
 import { BAND_FILL, CI_COLOUR, METRIC_MARK_STYLE, type MetricMark, REFERENCE, callScale, metricMark } from './palette.js';
 
 /** Width in px of each forest panel (about 680 px with the two-line row names: an A4 page at 100%). */
@@ -178,7 +179,7 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
   };
   const parts = estimable.map((c) => {
     const mark = metricMark(c.call, results.assays.find((a) => a.id === c.assay)?.metrics.find((m) => m.id === c.metric)?.hyper ?? 'none');
-    return `${metricLabel(results, c.assay, c.metric)} ${fmt(c.effect)} (95% CI ${fmtCi(c.ciLow, c.ciHigh)}), ${c.call}${mark !== c.call ? ` (${mark})` : ''}`;
+    return `${metricLabel(results, c.assay, c.metric)} ${fmtEffect(c.effect, c.scale, c.band)}${c.scale === 'difference' && c.unit ? ` ${c.unit}` : ''} (95% CI ${fmtEffectCi(c.ciLow, c.ciHigh, c.scale, c.effect, c.band)}), ${c.call}${mark !== c.call ? ` (${mark})` : ''}`;
   });
   const diffPanels = layout.filter((p) => p.scale === 'difference').length;
   const description =
@@ -188,16 +189,20 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
   return { key: `forest:${variant.id}`, title, description, spec, table: forestTable(results, variant) };
 }
 
-/** The numbers table under a variant's forest plot: every comparison, with its q value. */
+/**
+ * The numbers table under a variant's forest plot: every comparison, with its q value, each number
+ * written as the report's table of metrics writes it (src/results/format.ts: effect, CI and band
+ * at one precision; a negative range as '−0.100 to 0.100').
+ */
 export function forestTable(results: StudyResults, variant: VariantResult): ChartDef['table'] {
   return {
     columns: ['Metric', 'Scale', 'Effect', '95% CI', 'WT-like band', 'q', 'Call'],
     rows: comparisonsOf(results, variant.id).map((c) => [
       metricLabel(results, c.assay, c.metric),
-      c.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',
-      fmt(c.effect),
-      fmtCi(c.ciLow, c.ciHigh),
-      `${fmt(c.band[0])}–${fmt(c.band[1])}`,
+      c.scale === 'ratio' ? 'ratio to WT' : c.unit ? `difference from WT (${c.unit})` : 'difference from WT',
+      fmtEffect(c.effect, c.scale, c.band),
+      fmtEffectCi(c.ciLow, c.ciHigh, c.scale, c.effect, c.band),
+      fmtBand(c.band, c.scale),
       fmtP(c.q),
       c.call,
     ]),
