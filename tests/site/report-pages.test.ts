@@ -106,6 +106,14 @@ describe('absolute values beside every effect', () => {
     const fi = html.split('<tr').find((r) => r.includes('<th scope="row">Fraction immobile'))!;
     expect([...fi.matchAll(/<td class="num">([^<]*)<\/td>/g)].map((m) => decode(m[1]!)).slice(0, 5)).toEqual(['0.041', '0.093', '−0.052', '−0.081 to −0.023', '−0.100 to 0.100']);
   });
+
+  it('write the same numbers the same way in the table under the forest plot', () => {
+    const html = pages.get('variants/synm1-g120s.html')!;
+    const forest = html.slice(html.indexOf('Normalised metrics of G120S against paired WT</caption>'));
+    const row = (metric: string) => [...forest.split('<tr').find((r) => r.includes(metric))!.matchAll(/<td[^>]*>([^<]*)<\/td>/g)].map((m) => decode(m[1]!));
+    expect(row('In vitro motility: Fraction immobile').slice(0, 4)).toEqual(['difference from WT', '−0.052', '−0.081 to −0.023', '−0.100 to 0.100']);
+    expect(row('Actin-activated ATPase: kcat').slice(0, 4)).toEqual(['ratio to WT', '1.52×', '1.31 to 1.76', '0.80 to 1.25']);
+  });
 });
 
 describe('marks by biological direction', () => {
