@@ -222,9 +222,12 @@ export function exclusionView(
 }
 
 /**
- * Compress sorted line numbers into ranges. Example: lineRanges([2, 3, 4, 9]) → '2–4, 9'.
+ * Compress line numbers into ranges. Beyond `maxRuns` runs, the first ones and a count of the rest,
+ * with the span they lie in (a report's table stays readable; every line is in results.json).
+ * @example lineRanges([2, 3, 4, 9]) // → '2–4, 9'
+ * @example lineRanges([1, 3, 5, 7], 2) // → '1, 3 and 2 more runs, all within lines 1–7'
  */
-export function lineRanges(lines: number[]): string {
+export function lineRanges(lines: number[], maxRuns = Infinity): string {
   const s = [...new Set(lines)].sort((a, b) => a - b);
   const runs: Array<[number, number]> = [];
   for (const n of s) {
@@ -232,7 +235,12 @@ export function lineRanges(lines: number[]): string {
     if (run && n === run[1] + 1) run[1] = n;
     else runs.push([n, n]);
   }
-  return runs.map(([from, to]) => (from === to ? `${from}` : `${from}–${to}`)).join(', ');
+  const text = (run: [number, number]) => (run[0] === run[1] ? `${run[0]}` : `${run[0]}–${run[1]}`);
+  const first = runs[0];
+  const last = runs[runs.length - 1];
+  if (runs.length <= maxRuns || !first || !last) return runs.map(text).join(', ');
+  const more = runs.length - maxRuns;
+  return `${runs.slice(0, maxRuns).map(text).join(', ')} and ${more} more run${more === 1 ? '' : 's'}, all within lines ${first[0]}–${last[1]}`;
 }
 
 /** Published OddsPath thresholds (Brnich et al. 2020, Genome Med 12:3, Table 3; strict inequalities). */

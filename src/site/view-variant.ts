@@ -241,6 +241,9 @@ export function keyComparison(call: FunctionCall, comps: readonly MetricComparis
 }
 
 /** Each file's rows as a count and line ranges, from units' sources (a SourceRef is one contiguous run of lines). */
+/** Runs of lines a report lists per file before it counts the rest (results.json has every line). */
+const PROVENANCE_RUNS = 12;
+
 export function sourceRows(units: readonly UnitResult[]): SourceRows[] {
   const lines = new Map<string, Array<[number, number]>>();
   for (const u of units) {
@@ -254,7 +257,7 @@ export function sourceRows(units: readonly UnitResult[]): SourceRows[] {
     const all: number[] = [];
     for (const [a, b] of lines.get(file) ?? []) for (let l = a; l <= b; l++) all.push(l);
     const unique = [...new Set(all)];
-    return { file, rows: unique.length, lines: lineRanges(unique) || 'whole file' };
+    return { file, rows: unique.length, lines: lineRanges(unique, PROVENANCE_RUNS) || 'whole file' };
   });
 }
 

@@ -261,6 +261,9 @@ describe('formatting and paths (common practice, no source)', () => {
     expect(rootPrefix('index.html')).toBe('./');
     expect(relLink('variants/a.html', 'index.html')).toBe('../index.html');
     expect(lineRanges([9, 2, 3, 4, 4])).toBe('2–4, 9');
+    expect(lineRanges([1, 3, 5, 7], 2)).toBe('1, 3 and 2 more runs, all within lines 1–7');
+    expect(lineRanges([1, 2, 5], 2)).toBe('1–2, 5');
+    expect(lineRanges([], 2)).toBe('');
   });
 });
 
