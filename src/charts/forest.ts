@@ -160,12 +160,12 @@ export function forestChart(results: StudyResults, variant: VariantResult, name:
     unit: c.unit ?? defOf(c)?.unit ?? '',
     metricName: defOf(c)?.label ?? c.metric,
   });
-  const sorted = estimable.map(toRow);
-  const ratio = sorted.filter((r) => r.scale === 'ratio');
-  const diff = sorted.filter((r) => r.scale === 'difference');
-  const calls = [...new Set(sorted.map((r) => r.call))];
+  const rows = estimable.map(toRow);
+  const ratio = rows.filter((r) => r.scale === 'ratio');
+  const diff = rows.filter((r) => r.scale === 'difference');
+  const calls = [...new Set(rows.map((r) => r.call))];
   const params: Param[] = [];
-  const layout = forestPanels(sorted);
+  const layout = forestPanels(rows);
   const panels = layout.map((p, i) => panel(p, i, calls, params));
   const title = forestTitle(name);
   const spec = {
