@@ -8,6 +8,7 @@
 import type { MetricHistory, MetricRow } from '../archive/history-types.js';
 import { releaseName } from '../archive/release.js';
 import { type ChartDef, effectScale, fmt, fmtCi } from '../charts/chart-def.js';
+import { fmtBand } from '../results/format.js';
 import { assayById } from '../assays/registry.js';
 import { BAND_FILL, CI_COLOUR, METRIC_MARK_STYLE, type MetricMark, REFERENCE, callScale, metricMark } from '../charts/palette.js';
 import type { MetricScale } from '../results/types.js';
@@ -39,7 +40,7 @@ interface Param {
  * `params`), not literals: charts with the same rows (studies) and calls then share one shape,
  * compiled once (src/charts/render.ts), as the study's own forest plots do.
  */
-function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMark[], params: Param[]) {
+function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMark[], params: Param[], differenceTitle: string) {
   const log = scale === 'ratio';
   const fitted0 = effectScale(rows.flatMap((r) => [r.effect, r.lo, r.hi, r.bandLo, r.bandHi]), log);
   params.push({ name: `${scale}Domain`, value: fitted0.scale.domain });
@@ -50,7 +51,7 @@ function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMa
   }
   const fitted = { scale: { ...fitted0.scale, domain: { expr: `${scale}Domain` } }, axis };
   const y = { field: 'row', type: 'nominal', sort: order, title: null, axis: { labelLimit: 720, labelExpr: "split(datum.label, '\\n')", labelLineHeight: 14, labelOffset: -7 } };
-  const xTitle = log ? 'Ratio to paired WT (log scale)' : 'Difference from paired WT';
+  const xTitle = log ? 'Ratio to paired WT (log scale)' : differenceTitle;
   const x = (field: string) => ({ field, type: 'quantitative', scale: fitted.scale, axis: fitted.axis, title: xTitle });
   return {
     width: 380,
@@ -76,13 +77,13 @@ function panel(rows: Row[], order: string[], scale: MetricScale, calls: MetricMa
 /** The table under the chart: every row, also those without an estimate. */
 export function historyTable(m: MetricHistory): ChartDef['table'] {
   return {
-    columns: ['Study and analysis', 'Scale', 'Effect', '95% CI', 'WT-like band', 'n units (variant / WT)', 'Call'],
+    columns: ['Study and analysis', 'Scale', 'Effect', '95% CI', 'WT-like band', 'n preparations (variant / WT)', 'Call'],
     rows: m.rows.map((r) => [
       rowName(r).replace('\n', ', '),
       r.scale === 'ratio' ? 'ratio to WT' : 'difference from WT',
       fmt(r.effect),
       fmtCi(r.ciLow, r.ciHigh),
-      `${fmt(r.band[0])}–${fmt(r.band[1])}`,
+      fmtBand(r.band, r.scale),
       `${r.nVariantUnits} / ${r.nWtUnits}`,
       r.call,
     ]),
@@ -101,7 +102,8 @@ export function historyChart(variantName: string, m: MetricHistory): ChartDef | 
   const params: Param[] = [];
   const panels = scales.map((s) => {
     const rows = estimable.filter((r) => r.scale === s).map(toRow);
-    return panel(rows, rows.map((r) => r.row), s, calls, params);
+    // A difference is in the metric's unit (one metric: one unit), named on its axis as on the study's forest plots.
+    return panel(rows, rows.map((r) => r.row), s, calls, params, m.unit ? `Difference from paired WT (${m.unit})` : `${m.label}: difference from paired WT`);
   });
   const title = `${m.label} (${m.assayLabel}) of ${variantName}, study by study`;
   const spec = {
@@ -111,6 +113,8 @@ export function historyChart(variantName: string, m: MetricHistory): ChartDef | 
     vconcat: panels,
     spacing: 18,
     resolve: { scale: { color: 'shared', shape: 'shared' }, legend: { color: 'shared', shape: 'shared' } },
+    // The legend under the plot, its title whole (at the right, vega cut it to 'Metric call (direction it i…').
+    config: { legend: { orient: 'bottom', direction: 'horizontal', columns: 3, titleOrient: 'top', titleAnchor: 'start', labelLimit: 260, titleLimit: 400 } },
   };
   const parts = estimable.map((r) => `${rowName(r).replace('\n', ', ')}: ${fmt(r.effect)} (95% CI ${fmtCi(r.ciLow, r.ciHigh)}), ${r.call}`);
   const missing = m.rows.length - estimable.length;

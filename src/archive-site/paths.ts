@@ -5,6 +5,7 @@
  *   genes/<gene>.html              every variant of a gene measured in any study, with its latest call
  *   variants/<gene>-<hgvs>.html    a variant's history across studies and releases
  *   changes/<study-id>.html        what changed since the study's latest release
+ *   charts/<history>-<metric>.svg  every chart of a history page as a file of its own (for slides)
  *   studies/<study-id>/…           the study's own full site, as `myofolio build` writes it alone
  */
 import { slug } from '../site/paths.js';
@@ -34,6 +35,8 @@ export const ARCHIVE_PATHS = {
   gene: (symbol: string) => `genes/${slug(symbol)}.html`,
   history: (gene: string, hgvs: string) => `variants/${historySlug(gene, hgvs)}.html`,
   changes: (studyId: string) => `changes/${studyId}.html`,
+  /** A history page's chart as an SVG file: named for the variant and the metric, the same in every build. */
+  chart: (gene: string, hgvs: string, metricSlug: string) => `charts/${historySlug(gene, hgvs)}-${metricSlug}.svg`,
   studyRoot: (studyId: string) => `studies/${studyId}/`,
   study: (studyId: string) => `studies/${studyId}/index.html`,
   css: 'assets/site.css',

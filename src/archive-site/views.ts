@@ -94,6 +94,8 @@ export interface HistoryMetric {
   discordant: boolean;
   notes: string[];
   chart: ChartDef | null;
+  /** The chart's own SVG file, from the archive root (ARCHIVE_PATHS.chart); null without a chart. */
+  chartFile: string | null;
   table: ChartDef['table'];
 }
 
@@ -162,10 +164,26 @@ const AGREEMENT_WORDS: Record<string, string> = {
   'not comparable': 'not comparable',
 };
 
+/**
+ * The evidence of a variant's latest call as pages state it: a calibration control is not scored
+ * as evidence for itself, so its level reads 'n/a (calibration control, <class>)' as in the table
+ * of calls, never 'none'.
+ */
+function latestEvidence(v: Pick<VariantHistory, 'latest' | 'overall'>): string {
+  const row = v.overall.find((o) => o.studyId === v.latest.studyId && o.label === v.latest.label);
+  return row?.control ? `n/a (calibration control, ${row.control})` : v.latest.evidence;
+}
+
+/** An agreement status in the pages' words (the status itself when it has none). */
+function agreementWords(status: string): string {
+  return AGREEMENT_WORDS[status] ?? status;
+}
+
 function historyPage(v: VariantHistory, studies: readonly BuiltStudy[], report: ReturnType<typeof reportLinks>): HistoryPage {
   const path = ARCHIVE_PATHS.history(v.gene, v.hgvs);
   const link = (to: string) => relLink(path, to);
   const name = `${v.gene} ${v.hgvs}`;
+  const metricSlugs = uniqueSlugs(v.metrics.map((m) => m.key));
   const currentReport = (studyId: string, variantId: string, origin: string) => {
     if (origin !== 'current build') return null;
     const to = report(studyId, variantId);
@@ -191,7 +209,7 @@ function historyPage(v: VariantHistory, studies: readonly BuiltStudy[], report: 
     agreement: AGREEMENT_WORDS[v.concordance.status] ?? v.concordance.status,
     discordant: v.concordance.status === 'discordant',
     sentence: v.concordance.sentence,
-    latest: { call: functionCall(v.latest.call), evidence: v.latest.evidence, from: v.latest.label, withdrawn: v.latest.withdrawn },
+    latest: { call: functionCall(v.latest.call), evidence: latestEvidence(v), from: v.latest.label, withdrawn: v.latest.withdrawn },
     studies: v.studies.map((s) => {
       const row = [...v.overall].reverse().find((o) => o.studyId === s.studyId && o.origin === 'current build');
       return {
@@ -210,24 +228,28 @@ function historyPage(v: VariantHistory, studies: readonly BuiltStudy[], report: 
       evidence: o.control ? `n/a (calibration control, ${o.control})` : o.evidence,
       sentence: o.sentence,
     })),
-    metrics: v.metrics.map((m) => ({
-      key: m.key,
-      label: m.label,
-      assayLabel: m.assayLabel,
-      unit: m.unit,
-      // With one study counted, a metric has nothing to be compared with (its release rows are not compared).
-      agreement: v.concordance.status === 'single study' ? AGREEMENT_WORDS['single study'] : (AGREEMENT_WORDS[m.agreement] ?? m.agreement),
-      discordant: m.agreement === 'discordant',
-      notes: m.notes,
-      chart: historyChart(name, m),
-      table: historyTable(m),
-    })),
+    metrics: v.metrics.map((m) => {
+      const chart = historyChart(name, m);
+      return {
+        key: m.key,
+        label: m.label,
+        assayLabel: m.assayLabel,
+        unit: m.unit,
+        // With one study counted, a metric has nothing to be compared with (its release rows are not compared).
+        agreement: agreementWords(v.concordance.status === 'single study' ? 'single study' : m.agreement),
+        discordant: m.agreement === 'discordant',
+        notes: m.notes,
+        chart,
+        chartFile: chart ? ARCHIVE_PATHS.chart(v.gene, v.hgvs, metricSlugs.get(m.key) as string) : null,
+        table: historyTable(m),
+      };
+    }),
     changes,
     notes: v.notes,
   };
 }
 
-function genePage(g: GeneHistory): GenePage {
+function genePage(g: GeneHistory, histories: ReadonlyMap<string, VariantHistory>): GenePage {
   const path = ARCHIVE_PATHS.gene(g.symbol);
   return {
     kind: 'gene',
@@ -244,7 +266,7 @@ function genePage(g: GeneHistory): GenePage {
       domain: v.domain ?? '—',
       studies: v.studies,
       latest: functionCall(v.latest.call),
-      evidence: v.latest.evidence,
+      evidence: latestEvidence(histories.get(v.key) ?? { ...v, overall: [] }),
       from: v.latest.label,
       withdrawn: v.latest.withdrawn,
       agreement: AGREEMENT_WORDS[v.concordance] ?? v.concordance,
@@ -309,7 +331,8 @@ export function discordanceInBrief(v: VariantHistory): string {
 /** Every page of the archive site. */
 export function archivePages(manifest: ArchiveManifest, history: ArchiveHistory, studies: readonly BuiltStudy[], toolVersion: string): ArchivePages {
   const report = reportLinks(studies);
-  const genes = history.genes.map(genePage);
+  const byKey = new Map(history.variants.map((v) => [v.key, v]));
+  const genes = history.genes.map((g) => genePage(g, byKey));
   const histories = history.variants.map((v) => historyPage(v, studies, report));
   const changes = studies.map((s) => changesPage(s, report));
   const byId = new Map(studies.map((s) => [s.ref.id, s]));

@@ -5,17 +5,22 @@
  * build is linked from the previous output (a hard link, else a copy), and only the others are drawn
  * and rendered. So a rebuild after one study changed renders the pages that show that study.
  *
- *   page data ──key──▶ same as before? ──yes──▶ link the previous file
+ *   page data ──key──▶ same as before? ──yes──▶ link the previous file (and its chart files)
  *                                       └─no──▶ charts drawn (the build's render, through the store)
  *                                               ──▶ one Eleventy run over templates/archive/ for these pages
+ *                                               ──▶ each chart also as charts/<history>-<metric>.svg
+ *
+ * A history page's chart files are named in its data (HistoryMetric.chartFile), so a page and its
+ * charts are reused together, or drawn together when any of them is missing from the previous output.
  */
 import { createHash } from 'node:crypto';
 import { copyFileSync, existsSync, linkSync, mkdirSync } from 'node:fs';
-import { cp } from 'node:fs/promises';
+import { cp, writeFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import { renderSvg } from '../charts/render.js';
+import { standaloneSvg } from '../site/chart-files.js';
 import { type ChartBlock, type RenderFn, renderBlocks } from '../site/view-common.js';
 import type { ArchivePages, ChangesPage, GenePage, HistoryPage, HomePage } from './views.js';
 
@@ -48,15 +53,20 @@ function pageKey(fingerprint: string, frame: unknown, page: Page): string {
   return createHash('sha256').update(JSON.stringify([fingerprint, frame, page])).digest('hex');
 }
 
-/** A history page with its charts drawn. */
+/** The chart files a page shows (site-relative paths): a history page's, none for the others. */
+export function chartFilesOf(p: Page): string[] {
+  return p.kind === 'history' ? p.metrics.flatMap((m) => (m.chartFile ? [m.chartFile] : [])) : [];
+}
+
+/** A history page with its charts drawn, each block naming its own SVG file (for the page's download link). */
 async function drawHistory(p: HistoryPage, render: RenderFn) {
   const blocks = await renderBlocks(p.metrics.map((m) => m.chart), render);
   let i = 0;
   return {
     ...p,
     metrics: p.metrics.map((m) => {
-      const block: ChartBlock | null = m.chart ? blocks[i++] ?? null : null;
-      return { ...m, chart: block ? { ...block, table: m.table } : null };
+      const block: ChartBlock | null = m.chart ? (blocks[i++] ?? null) : null;
+      return { ...m, chart: block ? { ...block, table: m.table, ...(m.chartFile ? { file: m.chartFile } : {}) } : null };
     }),
   };
 }
@@ -78,7 +88,9 @@ export async function writeArchivePages(
       const key = pageKey(options.fingerprint, pages.frame, p);
       keys[p.path] = key;
       const prev = options.previous;
-      if (prev && prev.keys[p.path] === key && linkOrCopy(join(prev.dir, p.path), join(outDir, p.path))) {
+      // Reused only with every file it needs (the page and its charts), or drawn anew.
+      const files = [p.path, ...chartFilesOf(p)];
+      if (prev && prev.keys[p.path] === key && files.every((f) => existsSync(join(prev.dir, f))) && files.every((f) => linkOrCopy(join(prev.dir, f), join(outDir, f)))) {
         reused++;
         return false;
       }
@@ -101,6 +113,15 @@ export async function writeArchivePages(
     });
     elev.disableLogger();
     await elev.write();
+    // Each drawn chart as a file of its own, the SVG the page shows.
+    for (const h of drawn) {
+      for (const m of h.metrics) {
+        if (!m.chart?.file) continue;
+        const to = join(outDir, m.chart.file);
+        mkdirSync(dirname(to), { recursive: true });
+        await writeFile(to, standaloneSvg(m.chart.svg));
+      }
+    }
   }
   mkdirSync(join(outDir, 'assets'), { recursive: true });
   await cp(join(templatesDir, 'assets', 'site.css'), join(outDir, 'assets', 'site.css'));

@@ -113,7 +113,8 @@ export function wrapText(text: string, maxWidth: number, fontSize: number, bold:
     } else line = next;
   }
   if (line) lines.push(line);
-  return lines.length === 1 ? lines[0] : lines;
+  const [only, ...more] = lines;
+  return only !== undefined && more.length === 0 ? only : lines;
 }
 
 /**

@@ -4,7 +4,7 @@
  */
 import type { MetricComparison, StudyResults } from '../results/types.js';
 import { type ChartDef, axisTitle, chartTitle, effectScale, fmt, fmtCi, fmtP, metricLabel, unitSuffix, variantById, variantNames } from './chart-def.js';
-import { BAND_FILL, CI_COLOUR, LABEL_COLOUR, METRIC_MARK_STYLE, REFERENCE, callScale, metricMark } from './palette.js';
+import { BAND_FILL, CI_COLOUR, type ControlSide, LABEL_COLOUR, METRIC_MARK_STYLE, REFERENCE, callScale, controlRingLayer, controlSide, metricMark } from './palette.js';
 
 /** Variants an effects chart labels one row each; larger studies get a ranked plot without names. */
 export const EFFECTS_LABELLED_MAX = 150;
@@ -28,17 +28,18 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
   const est = comps
     .filter((c): c is MetricComparison & { effect: number } => c.effect !== null && Number.isFinite(c.effect))
     .sort((a, b) => a.effect - b.effect || (a.variant < b.variant ? -1 : 1));
-  if (est.length === 0) return null;
+  const [lowest] = est;
+  if (!lowest) return null;
   const def = results.assays.find((a) => a.id === assayId)?.metrics.find((m) => m.id === metricId);
-  const scale = est[0].scale;
+  const scale = lowest.scale;
   const log = scale === 'ratio';
-  const band = results.settings.bands[`${assayId}.${metricId}`] ?? est[0].band;
+  const band = results.settings.bands[`${assayId}.${metricId}`] ?? lowest.band;
   const hyper = def?.hyper ?? 'none';
   const rows = est.map((c, i) => {
     const control = byId.get(c.variant)?.control?.class;
-    return { row: names.get(c.variant) ?? c.variant, rank: i + 1, effect: c.effect, lo: c.ciLow, hi: c.ciHigh, call: metricMark(c.call, hyper), control: control ? controlNote(control) : '' };
+    return { row: names.get(c.variant) ?? c.variant, rank: i + 1, effect: c.effect, lo: c.ciLow, hi: c.ciHigh, call: metricMark(c.call, hyper), control: control ? controlNote(control) : '', ...(control ? { ring: controlSide(control) } : {}) };
   });
-  const controls = rows.filter((r) => r.control !== '');
+  const controls = rows.filter((r): r is (typeof rows)[number] & { ring: ControlSide } => r.ring !== undefined);
   // Up to EFFECTS_LABELLED_MAX variants, one labelled row each, in rank order (sorted by the rank
   // field: an explicit list of names becomes one nested expression per name in vega, which
   // overflows the stack at about 10,000). Beyond that, a ranked plot of fixed height without names:
@@ -78,10 +79,11 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
           shape: { field: 'call', type: 'nominal', title: legendTitle, scale: callScale(METRIC_MARK_STYLE, calls, 'shape') },
         },
       },
-      // Known controls: a ring round the mark and the control's class written beside its row, right of the plot.
+      // Known controls: a ring round the mark (solid or dashed by the control's side, as on every
+      // all-variant plot) and the control's class written beside its row, right of the plot.
       ...(controls.length > 0
         ? [
-            { data: { values: controls }, mark: { type: 'point', filled: false, size: labelled ? 300 : 160, stroke: '#1d1d1f', strokeWidth: 1.2, opacity: 1 }, encoding: { y, x: x('effect') } },
+            controlRingLayer(controls, { y, x: x('effect') }, labelled ? 300 : 160, { orient: 'bottom', direction: 'horizontal', columns: 2 }),
             {
               data: { values: controls },
               mark: { type: 'text', align: 'left', baseline: 'middle', fontSize: 11, fontStyle: 'italic', color: LABEL_COLOUR, x: EFFECTS_WIDTH + 6 },
@@ -94,11 +96,14 @@ export function effectsChart(results: StudyResults, assayId: string, metricId: s
   };
   if (!labelled) for (const c of controls) Object.assign(c, { controlLabel: `${c.row}: ${c.control}` });
   const countBy = (call: string) => rows.filter((r) => r.call === call).length;
+  // One row per estimable comparison, and there is at least one (checked above).
+  const first = rows[0]!;
+  const last = rows[rows.length - 1]!;
   const description =
     `${rows.length} variants sorted by ${log ? 'ratio to' : 'difference from'} paired WT for ${label}, with 95% confidence intervals; ` +
     `the shaded WT-like band runs from ${fmt(band[0])} to ${fmt(band[1])}. ` +
     calls.map((c) => `${countBy(c)} ${c}`).join(', ') +
-    `. Lowest: ${rows[0].row} ${fmt(rows[0].effect)}; highest: ${rows[rows.length - 1].row} ${fmt(rows[rows.length - 1].effect)}.` +
+    `. Lowest: ${first.row} ${fmt(first.effect)}; highest: ${last.row} ${fmt(last.effect)}.` +
     (controls.length ? ` Known controls, ringed and named at the right: ${controls.map((c) => `${c.row} (${c.control}) ${fmt(c.effect)}`).join('; ')}.` : '');
   const table = {
     columns: ['Variant', 'Effect', '95% CI', 'q', 'Call', 'Direction it implies', 'Known control'],

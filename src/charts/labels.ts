@@ -168,7 +168,7 @@ export function placeLabels(requests: readonly LabelRequest[], options: PlaceOpt
   const h = fontSize * (INK_ABOVE_MIDDLE + INK_BELOW_MIDDLE);
   requests.forEach((req, index) => {
     const w = textWidth(req.text, fontSize);
-    const own = markBoxes[index];
+    const own = { x0: req.x - req.r, y0: req.y - req.r, x1: req.x + req.r, y1: req.y + req.r };
     for (const c of candidates(req, w + 2 * pad, h + 2 * pad, 2, Math.max(8, fontSize), maxDistance, directions)) {
       const box = { x0: c.cx - w / 2 - pad, x1: c.cx + w / 2 + pad, y0: c.cy - h / 2 - pad, y1: c.cy + h / 2 + pad };
       if (box.x0 < 0 || box.y0 < 0 || box.x1 > width || box.y1 > height) continue;

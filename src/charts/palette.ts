@@ -14,6 +14,7 @@
  * The hues (vermilion-brown, cobalt, teal, slate, plum, ochre, grey) differ in lightness as well
  * as hue, so they stay apart under deuteranopia and protanopia; hollow and filled shapes differ too.
  */
+import type { ControlClass } from '../results/source.js';
 import type { FunctionCall, HyperDirection, MetricCall } from '../results/types.js';
 
 export interface CallStyle {
@@ -105,6 +106,47 @@ export const QC_STATUS_STYLE = {
   'warning (1-2s)': { colour: INDETERMINATE.colour, shape: 'M0,-1L1,0L0,1L-1,0ZM0,-0.5L-0.5,0L0,0.5L0.5,0Z', glyph: '◇' },
   rejected: { colour: '#1d1d1f', shape: 'M-1,-0.65L-0.65,-1L0,-0.35L0.65,-1L1,-0.65L0.35,0L1,0.65L0.65,1L0,0.35L-0.65,1L-1,0.65L-0.35,0Z', glyph: '✖' },
 } as const satisfies Record<string, CallStyle>;
+
+/**
+ * Known calibration controls (the manifest's control classes) are ringed on every plot of all
+ * variants (effects, cross-assay scatter, residue map), each chart with a legend entry for the
+ * rings: a solid near-black ring for a pathogenic or likely pathogenic control, a dashed one for a
+ * benign or likely benign control. The exact class is in each chart's table and description.
+ */
+export type ControlSide = 'pathogenic or likely pathogenic' | 'benign or likely benign';
+export const CONTROL_RING = { colour: '#1d1d1f', strokeWidth: 1.3 } as const;
+/** Dash pattern of each side's ring (vega strokeDash: [] draws a solid line). */
+export const CONTROL_RING_DASH: Record<ControlSide, number[]> = { 'pathogenic or likely pathogenic': [1, 0], 'benign or likely benign': [3, 2] };
+/** Title of the rings' legend. */
+export const CONTROL_LEGEND_TITLE = 'Known control (ringed)';
+
+/** Which ring a control class gets. @example controlSide('likely benign') // → 'benign or likely benign' */
+export function controlSide(cls: ControlClass): ControlSide {
+  return cls === 'pathogenic' || cls === 'likely pathogenic' ? 'pathogenic or likely pathogenic' : 'benign or likely benign';
+}
+
+/**
+ * The layer that rings known controls: `values` are the controls' rows, each with a `ring` field
+ * (its ControlSide); `position` the x and y encodings of their marks; `size` the ring's area (px²),
+ * larger than the mark's. The rings' legend lists only the sides present.
+ */
+export function controlRingLayer(values: ReadonlyArray<{ ring: ControlSide }>, position: Record<string, unknown>, size: number, legend: Record<string, unknown> = {}): Record<string, unknown> {
+  const domain = (Object.keys(CONTROL_RING_DASH) as ControlSide[]).filter((side) => values.some((v) => v.ring === side));
+  return {
+    data: { values },
+    mark: { type: 'point', filled: false, size, color: CONTROL_RING.colour, strokeWidth: CONTROL_RING.strokeWidth, opacity: 1 },
+    encoding: {
+      ...position,
+      strokeDash: {
+        field: 'ring',
+        type: 'nominal',
+        title: CONTROL_LEGEND_TITLE,
+        scale: { domain, range: domain.map((side) => CONTROL_RING_DASH[side]) },
+        legend: { symbolSize: 200, symbolStrokeWidth: CONTROL_RING.strokeWidth, symbolStrokeColor: CONTROL_RING.colour, labelLimit: 300, ...legend },
+      },
+    },
+  };
+}
 
 /** Fill of WT-like bands and the colour of reference lines. */
 export const BAND_FILL = '#d9e7df';

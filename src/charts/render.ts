@@ -70,7 +70,7 @@ function idPrefix(key: string): string {
 /** Rename every id (and its url(#…)/href="#…" references) to `<prefix>-<n>` in order of appearance. */
 export function renumberIds(svg: string, prefix: string): string {
   const ids: string[] = [];
-  for (const m of svg.matchAll(/\sid="([^"]+)"/g)) if (!ids.includes(m[1])) ids.push(m[1]);
+  for (const [, id] of svg.matchAll(/\sid="([^"]+)"/g)) if (id !== undefined && !ids.includes(id)) ids.push(id);
   if (ids.length === 0) return svg;
   const map = new Map(ids.map((id, i) => [id, `${prefix}-${i + 1}`]));
   const alternation = ids.map((id) => id.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')).join('|');

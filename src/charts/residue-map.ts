@@ -12,11 +12,12 @@
 import type { FunctionCall, StudyResults } from '../results/types.js';
 import { type ChartDef, chartTitle, variantNames } from './chart-def.js';
 import { type PlacedLabel, axisPosition, labelLayers, placeLabels } from './labels.js';
-import { FUNCTION_CALL_STYLE, LABEL_COLOUR, LEADER_COLOUR, callScale } from './palette.js';
+import { FUNCTION_CALL_STYLE, LABEL_COLOUR, LEADER_COLOUR, callScale, controlRingLayer, controlSide } from './palette.js';
+import { controlNote } from './effects.js';
 import { textWidth } from './text-width.js';
 
 /** Colours of domain bars, alternating so neighbouring domains stay apart. */
-const DOMAIN_FILLS = ['#c9d6e3', '#e3d5c1'];
+const DOMAIN_FILLS = ['#c9d6e3', '#e3d5c1'] as const;
 /** Width of the plot in px (about 680 px with lane names: an A4 page at 100%). */
 export const RESIDUE_MAP_WIDTH = 560;
 /** Lane heights tried, smallest first, until every label of the lane is placed. */
@@ -24,6 +25,8 @@ const RESIDUE_LANE_MIN = 34;
 export const RESIDUE_LANE_MAX = 130;
 const LANE_STEP = 16;
 const POINT_SIZE = 100;
+/** Area (px²) of the ring round a known control's mark. */
+const RING_SIZE = 300;
 const LABEL_FONT = 11;
 const DOMAIN_FONT = 11;
 
@@ -36,7 +39,7 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
   if (variants.length === 0 && domains.length === 0) return null;
   const maxResidue = Math.max(g?.length ?? 0, ...variants.map((v) => v.residue as number), ...domains.map((d) => d.end), 1);
   const points = variants
-    .map((v) => ({ id: v.id, residue: v.residue as number, name: names.get(v.id) ?? v.short, call: v.overall.call, domain: v.domain ?? '' }))
+    .map((v) => ({ id: v.id, residue: v.residue as number, name: names.get(v.id) ?? v.short, call: v.overall.call, domain: v.domain ?? '', control: v.control?.class }))
     .sort((a, b) => a.residue - b.residue || (a.name < b.name ? -1 : 1));
   const W = RESIDUE_MAP_WIDTH;
   const xDomain: [number, number] = [1, maxResidue];
@@ -45,7 +48,8 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
   const lanes = (Object.keys(FUNCTION_CALL_STYLE) as FunctionCall[]).filter((c) => calls.includes(c));
 
   // Lanes top to bottom; each as tall as its labels need. Marks sit on the lane's middle line.
-  const radius = Math.sqrt(POINT_SIZE) / 2 + 0.5;
+  // A mark's extent: its point, or a known control's ring round it (labels keep clear of both).
+  const radiusOf = (p: (typeof points)[number]) => Math.sqrt(p.control ? RING_SIZE : POINT_SIZE) / 2 + 0.5;
   let top = 0;
   const laneRows: Array<{ call: FunctionCall; y: number; top: number; height: number }> = [];
   const labels: PlacedLabel[] = [];
@@ -56,7 +60,7 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
     let best: ReturnType<typeof placeLabels> | null = null;
     for (; height <= RESIDUE_LANE_MAX; height += LANE_STEP) {
       best = placeLabels(
-        mine.map((p) => ({ id: p.id, text: p.name, x: px(p.residue), y: height / 2, r: radius, colour: FUNCTION_CALL_STYLE[call].colour })),
+        mine.map((p) => ({ id: p.id, text: p.name, x: px(p.residue), y: height / 2, r: radiusOf(p), colour: FUNCTION_CALL_STYLE[call].colour })),
         { width: W, height, fontSize: LABEL_FONT, directions: 'vertical', maxDistance: height / 2 },
       );
       if (best.unplaced.length === 0) break;
@@ -77,6 +81,7 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
   }
   const plotHeight = Math.max(40, top);
   const laneY = new Map(laneRows.map((l) => [l.call, l.y]));
+  const controls = points.flatMap((p) => (p.control ? [{ residue: p.residue, y: laneY.get(p.call) as number, ring: controlSide(p.control) }] : []));
 
   const x = { type: 'quantitative', scale: { domain: xDomain, nice: false, zero: false }, title: `Residue (${gene})` };
   const pxField = (field: string) => ({ field, type: 'quantitative', scale: null, axis: null });
@@ -98,6 +103,8 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
         mark: { type: 'point', filled: true, size: POINT_SIZE, opacity: 1, stroke: '#ffffff', strokeWidth: 0.8 },
         encoding: { x: { field: 'residue', ...x, axis: null }, y: pxField('y'), color: colour, shape },
       },
+      // Known controls: a ring round the mark, solid or dashed by the control's side (the legend says which).
+      ...(controls.length > 0 ? [controlRingLayer(controls, { x: { field: 'residue', ...x, axis: null }, y: pxField('y') }, RING_SIZE)] : []),
     ],
   };
   // Domain names inside their bars when they fit, else centred below the bar when that row has room, else left off (the description names every domain).
@@ -143,7 +150,7 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
     vconcat: [variantPanel, domainPanel],
     spacing: 4,
     resolve: { scale: { x: 'shared' } },
-    config: { view: { stroke: null } },
+    config: { view: { stroke: null }, legend: { orient: 'bottom', direction: 'horizontal', titleOrient: 'left', titleAnchor: 'start' } },
   };
   const description =
     `Map of ${gene} residues 1–${maxResidue}` +
@@ -151,10 +158,11 @@ export function residueMapChart(results: StudyResults, gene: string): ChartDef |
     `. ${points.length} variants with a residue, in a lane per overall call: ` +
     (points.map((p) => `${p.name} at ${p.residue}, ${p.call}`).join('; ') || 'none') +
     '.' +
+    (controls.length ? ` Known controls, ringed (solid: pathogenic side; dashed: benign side): ${points.flatMap((p) => (p.control ? [`${p.name} (${controlNote(p.control)})`] : [])).join('; ')}.` : '') +
     (unlabelled.length ? ` Not labelled for want of room: ${unlabelled.join(', ')} (all are in the table).` : '');
   const table = {
-    columns: ['Variant', 'Residue', 'Domain', 'Overall call'],
-    rows: points.map((p) => [p.name, String(p.residue), p.domain || '—', p.call]),
+    columns: ['Variant', 'Residue', 'Domain', 'Overall call', 'Known control'],
+    rows: points.map((p) => [p.name, String(p.residue), p.domain || '—', p.call, p.control ?? '—']),
     ...(unlabelled.length ? { note: `Variants without a label on the map (no room beside their mark): ${unlabelled.join(', ')}.` } : {}),
   };
   return { key: `residues:${gene}`, title, description, spec, table };

@@ -8,15 +8,17 @@
 import type { FunctionCall, MetricComparison, StudyResults } from '../results/types.js';
 import { type ChartDef, axisTitle, chartTitle, effectScale, fmt, fmtCi, metricLabel, variantById, variantNames } from './chart-def.js';
 import { axisPosition, labelLayers, placeLabels } from './labels.js';
-import { BAND_FILL, CI_COLOUR, FUNCTION_CALL_STYLE, LABEL_COLOUR, LEADER_COLOUR, callScale } from './palette.js';
+import { BAND_FILL, CI_COLOUR, FUNCTION_CALL_STYLE, LABEL_COLOUR, LEADER_COLOUR, callScale, controlRingLayer, controlSide } from './palette.js';
+import { controlNote } from './effects.js';
 
 type Pick = { assay: string; metric: string };
 
 /** Plot area of a scatter, px: fits an A4 page at 100% with its axes and legend (about 680 px in all). */
 export const SCATTER_WIDTH = 580;
 export const SCATTER_HEIGHT = 440;
-/** Point size (area, px²) and label font size. */
+/** Point size (area, px²) and label font size; a known control's ring is larger than its point. */
 const POINT_SIZE = 100;
+const RING_SIZE = 300;
 const LABEL_FONT = 11;
 /** Up to this many variants every one is offered a label; beyond it only variants with a call other than within WT range. */
 export const SCATTER_LABEL_ALL_MAX = 60;
@@ -46,11 +48,13 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
   const rows = ids.map((id) => {
     const x = ca.get(id) as MetricComparison;
     const y = cb.get(id) as MetricComparison;
-    return { id, name: names.get(id) ?? id, x: x.effect as number, xlo: x.ciLow, xhi: x.ciHigh, y: y.effect as number, ylo: y.ciLow, yhi: y.ciHigh, call: byId.get(id)?.overall.call ?? ('indeterminate' as FunctionCall) };
+    const control = byId.get(id)?.control?.class;
+    return { id, name: names.get(id) ?? id, x: x.effect as number, xlo: x.ciLow, xhi: x.ciHigh, y: y.effect as number, ylo: y.ciLow, yhi: y.ciHigh, call: byId.get(id)?.overall.call ?? ('indeterminate' as FunctionCall), control };
   });
-  if (rows.length < 2) return null;
-  const first = ca.get(ids[0]) as MetricComparison;
-  const second = cb.get(ids[0]) as MetricComparison;
+  const [firstId] = ids;
+  if (rows.length < 2 || firstId === undefined) return null;
+  const first = ca.get(firstId) as MetricComparison;
+  const second = cb.get(firstId) as MetricComparison;
   const la = metricLabel(results, a.assay, a.metric);
   const lb = metricLabel(results, b.assay, b.metric);
   const xLog = first.scale === 'ratio';
@@ -73,11 +77,13 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
   const offered = rows
     .filter((r) => rows.length <= SCATTER_LABEL_ALL_MAX || r.call !== 'within WT range')
     .sort((p, q) => LABEL_PRIORITY[p.call] - LABEL_PRIORITY[q.call] || (crowd.get(q.id) ?? 0) - (crowd.get(p.id) ?? 0) || (p.name < q.name ? -1 : 1));
-  const radius = Math.sqrt(POINT_SIZE) / 2 + 0.5;
+  // A mark's extent: its point, or a known control's ring round it (labels keep clear of both).
+  const radiusOf = (r: (typeof rows)[number]) => Math.sqrt(r.control ? RING_SIZE : POINT_SIZE) / 2 + 0.5;
   const { placed, unplaced } = placeLabels(
-    offered.map((r) => ({ id: r.id, text: r.name, x: px(r.x), y: py(r.y), r: radius, colour: FUNCTION_CALL_STYLE[r.call].colour })),
-    { width: SCATTER_WIDTH, height: SCATTER_HEIGHT, fontSize: LABEL_FONT, maxDistance: 150, obstacles: rows.filter((r) => !offered.includes(r)).map((r) => ({ x0: px(r.x) - radius, x1: px(r.x) + radius, y0: py(r.y) - radius, y1: py(r.y) + radius })) },
+    offered.map((r) => ({ id: r.id, text: r.name, x: px(r.x), y: py(r.y), r: radiusOf(r), colour: FUNCTION_CALL_STYLE[r.call].colour })),
+    { width: SCATTER_WIDTH, height: SCATTER_HEIGHT, fontSize: LABEL_FONT, maxDistance: 150, obstacles: rows.filter((r) => !offered.includes(r)).map((r) => ({ x0: px(r.x) - radiusOf(r), x1: px(r.x) + radiusOf(r), y0: py(r.y) - radiusOf(r), y1: py(r.y) + radiusOf(r) })) },
   );
+  const controls = rows.flatMap((r) => (r.control ? [{ name: r.name, x: r.x, y: r.y, ring: controlSide(r.control), control: r.control }] : []));
   const labelled = new Set(placed.map((p) => p.id));
   const unlabelled = rows.filter((r) => !labelled.has(r.id)).map((r) => r.name);
 
@@ -112,6 +118,8 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
           shape: { field: 'call', type: 'nominal', title: 'Overall call', scale: callScale(FUNCTION_CALL_STYLE, calls as never, 'shape') },
         },
       },
+      // Known controls: a ring round the mark, solid or dashed by the control's side (the legend says which).
+      ...(controls.length > 0 ? [controlRingLayer(controls.map(({ x, y, ring }) => ({ x, y, ring })), { x: X('x'), y: Y('y') }, RING_SIZE, { orient: 'top', direction: 'horizontal', columns: 2 })] : []),
       ...labelLayers(placed, LABEL_FONT, LABEL_COLOUR, LEADER_COLOUR),
     ],
     config: { legend: { orient: 'bottom', direction: 'horizontal', columns: 3, titleOrient: 'left', titleAnchor: 'start' } },
@@ -121,10 +129,11 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
     `the shaded rectangle is where both lie inside their WT-like bands. ` +
     rows.map((r) => `${r.name} ${fmt(r.x)} and ${fmt(r.y)}, ${r.call}`).join('; ') +
     '.' +
+    (controls.length ? ` Known controls, ringed (solid: pathogenic side; dashed: benign side): ${controls.map((c) => `${c.name} (${controlNote(c.control)})`).join('; ')}.` : '') +
     (unlabelled.length ? ` Not labelled for want of room: ${unlabelled.join(', ')} (all are in the table).` : '');
   const table = {
-    columns: ['Variant', la, '95% CI', lb, '95% CI', 'Overall call'],
-    rows: rows.map((r) => [r.name, fmt(r.x), fmtCi(r.xlo, r.xhi), fmt(r.y), fmtCi(r.ylo, r.yhi), r.call]),
+    columns: ['Variant', la, '95% CI', lb, '95% CI', 'Overall call', 'Known control'],
+    rows: rows.map((r) => [r.name, fmt(r.x), fmtCi(r.xlo, r.xhi), fmt(r.y), fmtCi(r.ylo, r.yhi), r.call, r.control ?? '—']),
     ...(unlabelled.length ? { note: `Variants without a label on the chart (no room beside their mark): ${unlabelled.join(', ')}.` } : {}),
   };
   void unplaced;
@@ -135,9 +144,11 @@ export function scatterChart(results: StudyResults, a: Pick, b: Pick): ChartDef 
 export function scatterCharts(results: StudyResults): ChartDef[] {
   const picks = primaryMetrics(results).slice(0, 4);
   const out: ChartDef[] = [];
-  for (let i = 0; i < picks.length; i++) for (let j = i + 1; j < picks.length; j++) {
-    const c = scatterChart(results, picks[i], picks[j]);
-    if (c) out.push(c);
-  }
+  picks.forEach((a, i) => {
+    for (const b of picks.slice(i + 1)) {
+      const c = scatterChart(results, a, b);
+      if (c) out.push(c);
+    }
+  });
   return out;
 }

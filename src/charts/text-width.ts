@@ -54,7 +54,8 @@ function tableOf(widths: readonly number[]): Map<string, number> {
   for (let c = 0xa0; c <= 0x17f; c++) chars.push(String.fromCharCode(c));
   chars.push(...EXTRA);
   if (chars.length !== widths.length) throw new Error(`text-width: ${chars.length} characters but ${widths.length} widths`);
-  return new Map(chars.map((ch, i) => [ch, widths[i] / 2048]));
+  // chars[i] exists for every i of widths: the lengths are equal (checked above).
+  return new Map(widths.map((w, i) => [chars[i]!, w / 2048]));
 }
 
 const TABLES = { normal: tableOf(BOOK), bold: tableOf(BOLD) };

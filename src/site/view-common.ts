@@ -110,8 +110,9 @@ export type BlockFn = (inputs: unknown, make: () => Promise<BlockContent>) => Pr
  */
 export async function renderBlocks(defs: Array<ChartDef | null>, render: RenderFn = renderSvg): Promise<ChartBlock[]> {
   const present = defs.filter((d): d is ChartDef => d !== null);
-  const svgs = await Promise.all(present.map((d) => render(d.spec, { key: d.key, title: d.title, description: d.description })));
-  return present.map((d, i) => ({ id: `chart-${slug(d.key)}`, title: d.title, description: d.description, svg: svgs[i], table: d.table }));
+  return Promise.all(
+    present.map(async (d) => ({ id: `chart-${slug(d.key)}`, title: d.title, description: d.description, svg: await render(d.spec, { key: d.key, title: d.title, description: d.description }), table: d.table })),
+  );
 }
 
 /**
@@ -124,7 +125,8 @@ export async function mapLimit<T, R>(items: readonly T[], limit: number, fn: (it
   const lane = async () => {
     while (next < items.length) {
       const i = next++;
-      out[i] = await fn(items[i], i);
+      // i < items.length (the loop's condition): an item of the list, even if T itself admits undefined.
+      out[i] = await fn(items[i] as T, i);
     }
   };
   await Promise.all(Array.from({ length: Math.max(1, Math.min(limit, items.length)) }, lane));
@@ -186,19 +188,59 @@ export function flagChip(code: string): FlagChip {
   return { code, label: words?.label ?? code, href: words ? `${PATHS.glossary}#${flagAnchor(code)}` : '', anchor: flagAnchor(code) };
 }
 
+/** One exclusion from the manifest as a page states it (results.json's exclusions, worded). */
+export interface ExclusionView {
+  /** What was excluded, e.g. 'Preparation E333V-p2 (Force–pCa)'. */
+  what: string;
+  reason: string;
+}
+
 /**
- * Compress sorted line numbers into ranges. Example: lineRanges([2, 3, 4, 9]) → '2–4, 9'.
+ * The words pages use for an exclusion's kind. results.json keeps the kind 'unit' (its schema is
+ * stable); the study's column, and every page, calls it a preparation.
  */
-export function lineRanges(lines: number[]): string {
+const EXCLUSION_WORDS: Record<string, string> = { batch: 'Batch', unit: 'Preparation', preparation: 'Preparation', variant: 'Variant' };
+
+/**
+ * An exclusion worded for a page: the kind as the study names it (never 'unit'), the excluded
+ * batch, preparation or variant, then (as asked) the variant it belongs to and the assay; names
+ * of assays and variants come from `names` (ids when not given).
+ * @example exclusionView({ kind: 'unit', assay: 'force', unit: 'E333V-p2', reason: 'Torn.' }, { assay: (id) => 'Force–pCa' }) // → { what: 'Preparation E333V-p2 (Force–pCa)', reason: 'Torn.' }
+ */
+export function exclusionView(
+  e: { kind: string; assay?: string; batch?: string; unit?: string; variant?: string; reason: string },
+  names: { assay?: (id: string) => string; variant?: (id: string) => string; ofVariant?: boolean },
+): ExclusionView {
+  const word = EXCLUSION_WORDS[e.kind] ?? (e.kind ? e.kind.charAt(0).toUpperCase() + e.kind.slice(1) : 'Data');
+  const variantName = (id: string) => names.variant?.(id) ?? id;
+  const id = e.kind === 'batch' ? e.batch : e.kind === 'variant' ? (e.variant !== undefined ? variantName(e.variant) : undefined) : (e.unit ?? e.batch);
+  let what = id ? `${word} ${id}` : word;
+  if (e.kind !== 'batch' && e.kind !== 'variant' && e.batch !== undefined && e.unit !== undefined) what += ` (batch ${e.batch})`;
+  if (e.kind !== 'variant' && e.variant !== undefined && names.ofVariant) what += ` of ${variantName(e.variant)}`;
+  if (e.assay !== undefined && names.assay) what += ` (${names.assay(e.assay)})`;
+  return { what, reason: e.reason };
+}
+
+/**
+ * Compress line numbers into ranges. Beyond `maxRuns` runs, the first ones and a count of the rest,
+ * with the span they lie in (a report's table stays readable; every line is in results.json).
+ * @example lineRanges([2, 3, 4, 9]) // → '2–4, 9'
+ * @example lineRanges([1, 3, 5, 7], 2) // → '1, 3 and 2 more runs, all within lines 1–7'
+ */
+export function lineRanges(lines: number[], maxRuns = Infinity): string {
   const s = [...new Set(lines)].sort((a, b) => a - b);
-  const parts: string[] = [];
-  for (let i = 0; i < s.length; ) {
-    let j = i;
-    while (j + 1 < s.length && s[j + 1] === s[j] + 1) j++;
-    parts.push(i === j ? `${s[i]}` : `${s[i]}–${s[j]}`);
-    i = j + 1;
+  const runs: Array<[number, number]> = [];
+  for (const n of s) {
+    const run = runs[runs.length - 1];
+    if (run && n === run[1] + 1) run[1] = n;
+    else runs.push([n, n]);
   }
-  return parts.join(', ');
+  const text = (run: [number, number]) => (run[0] === run[1] ? `${run[0]}` : `${run[0]}–${run[1]}`);
+  const first = runs[0];
+  const last = runs[runs.length - 1];
+  if (runs.length <= maxRuns || !first || !last) return runs.map(text).join(', ');
+  const more = runs.length - maxRuns;
+  return `${runs.slice(0, maxRuns).map(text).join(', ')} and ${more} more run${more === 1 ? '' : 's'}, all within lines ${first[0]}–${last[1]}`;
 }
 
 /** Published OddsPath thresholds (Brnich et al. 2020, Genome Med 12:3, Table 3; strict inequalities). */

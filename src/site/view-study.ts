@@ -9,7 +9,7 @@ import { FLAG_WORDS, flagAnchor } from '../results/flag-words.js';
 import { fmt, fmtBand } from '../results/format.js';
 import type { Calibration, StudyResults } from '../results/types.js';
 import { PATHS } from './paths.js';
-import { type CalibrationView, type CallView, type ChartBlock, ODDSPATH_THRESHOLDS, type RenderFn, functionCall, renderBlocks } from './view-common.js';
+import { type CalibrationView, type CallView, type ChartBlock, type ExclusionView, ODDSPATH_THRESHOLDS, exclusionView, type RenderFn, functionCall, renderBlocks } from './view-common.js';
 
 /** One known control in a calibration: how it read out and whether, and why, it was counted. */
 export interface ControlRow {
@@ -60,10 +60,13 @@ export function controlRows(results: StudyResults, scope: string, slugs: Map<str
     });
 }
 
+/** What a flag is attached to, in the study's words (the level 'unit' is a preparation). */
+const LEVEL_WORDS: Record<string, string> = { unit: 'a preparation', comparison: 'a comparison with WT', variant: 'a variant' };
+
 /** Every flag code with its words, for the glossary page, in alphabetical order of the words. */
 export function glossaryData() {
   return Object.entries(FLAG_WORDS)
-    .map(([code, w]) => ({ code, anchor: flagAnchor(code), label: w.label, explanation: w.explanation, levels: w.levels.join(', ') }))
+    .map(([code, w]) => ({ code, anchor: flagAnchor(code), label: w.label, explanation: w.explanation, levels: w.levels.map((l) => LEVEL_WORDS[l] ?? l).join(', ') }))
     .sort((a, b) => a.label.localeCompare(b.label, 'en'));
 }
 
@@ -92,10 +95,12 @@ export interface AssayPage {
   calibration: CalibrationView | null;
   controlCharts: Array<{ metric: string; baseline: string; rejected: string; warnings: string; chart: ChartBlock | null }>;
   controls: ControlRow[];
-  exclusions: StudyResults['exclusions'];
+  exclusions: ExclusionView[];
 }
 
 export async function assayPages(results: StudyResults, slugs: Map<string, string>, render?: RenderFn): Promise<AssayPage[]> {
+  const names = variantNames(results);
+  const variantName = (id: string) => names.get(id) ?? id;
   // Every chart of every assay is asked for at once, so a worker pool draws them side by side.
   return Promise.all(
     results.assays.map(async (a) => {
@@ -110,7 +115,7 @@ export async function assayPages(results: StudyResults, slugs: Map<string, strin
         baseline: cc.baseline,
         rejected: cc.rejectedBatches.join(', '),
         warnings: cc.warningBatches.join(', '),
-        chart: controlBlocks[i],
+        chart: controlBlocks[i] ?? null,
       }));
       return {
         path: PATHS.assay(a.id),
@@ -124,7 +129,7 @@ export async function assayPages(results: StudyResults, slugs: Map<string, strin
         calibration: cal ? fmtCalibration(cal) : null,
         controlCharts,
         controls: cal ? controlRows(results, cal.scope, slugs) : [],
-        exclusions: results.exclusions.filter((e) => e.assay === a.id || e.assay === undefined),
+        exclusions: results.exclusions.filter((e) => e.assay === a.id || e.assay === undefined).map((e) => exclusionView(e, { variant: variantName, ofVariant: true })),
       };
     }),
   );

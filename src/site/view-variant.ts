@@ -12,9 +12,11 @@ import {
   type CalibrationView,
   type CallView,
   type ChartBlock,
+  type ExclusionView,
   type FlagChip,
   type FlagView,
   type RenderFn,
+  exclusionView,
   flagChip,
   flagView,
   functionCall,
@@ -143,7 +145,7 @@ export interface VariantPage {
   flags: FlagView[];
   /** Each flag code on this report once, with its words: the single-file report explains them in place of the glossary link. */
   flagCodes: Array<{ code: string; label: string; explanation: string; anchor: string }>;
-  exclusions: StudyResults['exclusions'];
+  exclusions: ExclusionView[];
   sources: { variant: SourceRows[]; wt: SourceRows[]; wtBatches: string };
   evidence: { level: string; scope: string; sentence: string; calibration: CalibrationView | null; controls: ControlRow[] };
   /** Running header and footer of the printed report. */
@@ -219,7 +221,7 @@ function variantFlagCodes(v: VariantResult, comps: StudyResults['comparisons'], 
 /** The first sentence of a text (the combining rule's second sentence is its error bound, stated on the methods page). */
 export function firstSentence(text: string): string {
   const m = /^(.*?[.!?])(?:\s+(?=[A-Z])|$)/s.exec(text.trim());
-  return (m ? m[1] : text).trim();
+  return (m?.[1] ?? text).trim();
 }
 
 /**
@@ -239,6 +241,9 @@ export function keyComparison(call: FunctionCall, comps: readonly MetricComparis
 }
 
 /** Each file's rows as a count and line ranges, from units' sources (a SourceRef is one contiguous run of lines). */
+/** Runs of lines a report lists per file before it counts the rest (results.json has every line). */
+const PROVENANCE_RUNS = 12;
+
 export function sourceRows(units: readonly UnitResult[]): SourceRows[] {
   const lines = new Map<string, Array<[number, number]>>();
   for (const u of units) {
@@ -252,7 +257,7 @@ export function sourceRows(units: readonly UnitResult[]): SourceRows[] {
     const all: number[] = [];
     for (const [a, b] of lines.get(file) ?? []) for (let l = a; l <= b; l++) all.push(l);
     const unique = [...new Set(all)];
-    return { file, rows: unique.length, lines: lineRanges(unique) || 'whole file' };
+    return { file, rows: unique.length, lines: lineRanges(unique, PROVENANCE_RUNS) || 'whole file' };
   });
 }
 
@@ -384,9 +389,9 @@ export function variantPageBuilder(results: StudyResults, slugs: Map<string, str
       ];
       const flagCodes = [...new Map(flags.map((f) => [f.code, { code: f.code, label: f.label, explanation: f.explanation, anchor: f.anchor }])).values()].sort((a, b) => (a.code < b.code ? -1 : 1));
       const myBatches = new Set(myUnits.map((u) => `${u.assay}|${u.batch}`));
-      const exclusions = results.exclusions.filter(
-        (e) => e.variant === v.id || (e.unit !== undefined && myUnits.some((u) => u.unit === e.unit)) || (e.kind === 'batch' && e.batch !== undefined && [...myBatches].some((k) => k.endsWith(`|${e.batch}`) && (!e.assay || k.startsWith(`${e.assay}|`)))),
-      );
+      const exclusions = results.exclusions
+        .filter((e) => e.variant === v.id || (e.unit !== undefined && myUnits.some((u) => u.unit === e.unit)) || (e.kind === 'batch' && e.batch !== undefined && [...myBatches].some((k) => k.endsWith(`|${e.batch}`) && (!e.assay || k.startsWith(`${e.assay}|`)))))
+        .map((e) => exclusionView(e, { assay: (id) => results.assays.find((a) => a.id === id)?.label ?? id, variant: (id) => names.get(id) ?? id }));
       // Paired WT: the WT preparations of the batches this variant was measured in (its own rows for WT).
       const pairedWt = v.isWT ? [] : wtUnits.filter((u) => myBatches.has(`${u.assay}|${u.batch}`));
       const cal = results.calibration.find((c) => c.scope === v.evidence.scope);

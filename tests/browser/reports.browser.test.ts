@@ -147,6 +147,68 @@ describe.skipIf(!available)(`reports in Chromium${available ? '' : ' (skipped: /
     if (format === 'A4') execFileSync('pdftoppm', ['-r', '70', '-png', '-f', '1', '-l', '1', '-singlefile', pdf, join(SCREENSHOTS, 'report-pdf-page1')]);
   });
 
+  it.skipIf(!existsSync(PDFTOTEXT)).each([['A4'], ['Letter']])('prints the tall forest plot whole and at full size on %s (no page shrunk to fit a wide table)', async (format) => {
+    const url = pathToFileURL(join(demo, 'variants', 'zzmyo1-n147l.html')).href;
+    const { page } = await open(url);
+    const title = 'Normalised metrics of N147L against paired WT';
+    const axis = 'Ratio to paired WT (log scale)';
+    const last = 'Slow-phase fraction: difference from paired WT';
+    // On screen the chart is drawn at its own size: the distance from its title to its ratio axis title, in px.
+    const onScreen = await page.evaluate(
+      ([t, a]) => {
+        const texts = [...document.querySelectorAll('#chart-forest-zzmyo1-n147l svg text')];
+        const x = (s: string) => texts.find((e) => e.textContent === s)!.getBoundingClientRect().left;
+        return x(a!) - x(t!);
+      },
+      [title, axis],
+    );
+    expect(onScreen).toBeGreaterThan(200);
+    const pdf = join(work, `n147l-${format}.pdf`);
+    await page.pdf({ path: pdf, format, printBackground: true });
+    await page.close();
+    // Lines of the PDF with their page and left edge (pdftotext -bbox-layout: pages, lines, words in pt).
+    const xml = execFileSync(PDFTOTEXT, ['-bbox-layout', pdf, '-'], { encoding: 'utf8' });
+    const lines: Array<{ page: number; text: string; x: number }> = [];
+    xml.split('<page ').slice(1).forEach((p, i) => {
+      for (const l of p.split('<line ').slice(1)) {
+        const words = [...l.matchAll(/<word xMin="([\d.]+)"[^>]*>([^<]*)<\/word>/g)];
+        if (words.length) lines.push({ page: i + 1, text: words.map((w) => w[2]).join(' '), x: Number(words[0]![1]) });
+      }
+    });
+    const find = (s: string) => lines.filter((l) => l.text === s);
+    expect(find(title), 'forest title').toHaveLength(1);
+    expect(find(axis), 'ratio axis').toHaveLength(1);
+    expect(find(last), 'last difference axis').toHaveLength(1);
+    // Whole: its title, first axis and last axis on one page.
+    expect(find(axis)[0]!.page).toBe(find(title)[0]!.page);
+    expect(find(last)[0]!.page).toBe(find(title)[0]!.page);
+    // Full size: the same distance on paper (pt → CSS px at 96 px per inch), within 2%.
+    const onPaper = ((find(axis)[0]!.x - find(title)[0]!.x) * 96) / 72;
+    expect(onPaper / onScreen).toBeGreaterThan(0.98);
+    expect(onPaper / onScreen).toBeLessThan(1.02);
+  });
+
+  it('lays out no printed page wider than its paper: A4 portrait for reports and assay pages, landscape for the index', async () => {
+    // A4's width between the print margins (210 − 2 × 12 mm, at 96 px per inch); the index prints across (297 − 24 mm).
+    const portrait = Math.floor((186 * 96) / 25.4);
+    const landscape = Math.floor((273 * 96) / 25.4);
+    const wide: string[] = [];
+    for (const [path, width] of [['variants/zzmyo1-n147l.html', portrait], ['variants/zzmyo1-e333v.html', portrait], ['downloads/reports/zzmyo1-n147l.html', portrait], ['assays/force.html', portrait], ['methods.html', portrait], ['index.html', landscape]] as const) {
+      const { page } = await open(pathToFileURL(join(demo, path)).href, { width, height: 900 });
+      await page.emulateMedia({ media: 'print' });
+      const scroll = await page.evaluate(() => document.documentElement.scrollWidth);
+      if (scroll > width) wide.push(`${path}: ${scroll} px on a ${width} px page`);
+      await page.close();
+    }
+    expect(wide).toEqual([]);
+    // The index's pages are printed across the paper.
+    const { page } = await open(pathToFileURL(join(demo, 'index.html')).href);
+    const boxes = [...(await page.pdf({ format: 'A4' })).toString('latin1').matchAll(/\/MediaBox\s*\[\s*0 0 ([\d.]+) ([\d.]+)\s*\]/g)];
+    await page.close();
+    expect(boxes.length).toBeGreaterThan(0);
+    for (const b of boxes) expect(Number(b[1])).toBeGreaterThan(Number(b[2]));
+  });
+
   it('(3) shows every index column at 1,366 px without sideways scrolling, the first column sticky', async () => {
     const { page, problems } = await open(pathToFileURL(join(demo, 'index.html')).href);
     const wrap = page.locator('.index-wrap');

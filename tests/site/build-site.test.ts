@@ -40,7 +40,7 @@ describe('buildSite on the synthetic fixture', () => {
       for (const href of links(html)) {
         expect(href, `${page}: ${href}`).not.toMatch(/^(\/|[a-z]+:)/i);
         if (href.startsWith('#')) continue;
-        const target = posix.normalize(posix.join(posix.dirname(page), href.split('#')[0]));
+        const target = posix.normalize(posix.join(posix.dirname(page), href.split('#')[0] ?? ''));
         if (target.startsWith('downloads/')) continue;
         expect(existsSync(join(dir, target)), `${page} → ${href}`).toBe(true);
       }
@@ -129,7 +129,7 @@ describe('buildSite on the synthetic fixture', () => {
     const html = await readFile(join(withCharts, 'variants/synm1-g120s.html'), 'utf8');
     expect(html).toContain('Actin-activated ATPase: G120S beside paired WT');
     // 3 variant units + 3 WT units of the same batches, 6 points each (fixture).
-    const table = html.slice(html.indexOf('<figure class="chart"')).split('</figure>')[0];
+    const table = html.slice(html.indexOf('<figure class="chart"')).split('</figure>')[0] ?? '';
     expect(table).toContain('<svg');
     expect(table.match(/<tr>/g)?.length).toBe(1 + 36);
     expect(table).toContain('<th scope="col">actinUM</th>');

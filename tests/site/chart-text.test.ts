@@ -72,7 +72,8 @@ describe('the box check itself (it can fail)', () => {
     // 12 marks crowded within 6 px of one spot: a few labels go beside their marks, the rest further out with a leader.
     const crowd = Array.from({ length: 12 }, (_, i) => ({ id: `v${i}`, text: `V${i}00K`, x: 100 + 6 * Math.cos(i), y: 60 + 6 * Math.sin(i), r: 5 }));
     const { placed, unplaced } = placeLabels(crowd, { width: 200, height: 120, fontSize: 11 });
-    expect(placed[0].leader).toBeUndefined();
+    expect(placed[0]?.leader).toBeUndefined();
+    expect(placed.length).toBeGreaterThan(0);
     // Beside the mark there is room for a few; the rest hang further out on leader lines.
     expect(placed.filter((p) => p.leader === undefined).length).toBeLessThanOrEqual(8);
     expect(placed.filter((p) => p.leader !== undefined).length).toBeGreaterThan(0);
@@ -99,7 +100,7 @@ describe('text on every chart of the demo study', () => {
 function crowded(n: number, calls: FunctionCall[] = ['hypercontractile', 'within WT range', 'indeterminate']): StudyResults {
   const r = makeFixture();
   const template = r.variants.find((v) => !v.isWT)!;
-  const variants = Array.from({ length: n }, (_, i) => ({ ...template, id: `v${i}`, short: `X${100 + i}Y`, residue: 300 + 3 * i, overall: { ...template.overall, call: calls[i % calls.length] }, control: undefined }));
+  const variants = Array.from({ length: n }, (_, i) => ({ ...template, id: `v${i}`, short: `X${100 + i}Y`, residue: 300 + 3 * i, overall: { ...template.overall, call: calls[i % calls.length]! }, control: undefined }));
   const base = (assay: string, metric: string) => r.comparisons.find((c) => c.assay === assay && c.metric === metric)!;
   let seed = 7;
   const next = () => ((seed = (seed * 16807) % 2147483647) / 2147483647);
@@ -116,13 +117,13 @@ describe('text on crowded charts', () => {
   for (const n of [12, 40, SCATTER_LABEL_ALL_MAX + 20]) {
     it(`${n} variants crowded on the scatter and the residue map: no overlap, and every unlabelled variant named`, async () => {
       const r = crowded(n);
-      const defs = [...scatterCharts(r).filter((d) => d.key === 'scatter:atpase.kcat:motility.velocity'), residueMapChart(r, r.study.genes[0].symbol)!];
+      const defs = [...scatterCharts(r).filter((d) => d.key === 'scatter:atpase.kcat:motility.velocity'), residueMapChart(r, r.study.genes[0]!.symbol)!];
       expect(defs).toHaveLength(2);
       for (const d of defs) {
         expect(await textProblems(d.key, d.spec)).toEqual([]);
         const { texts } = svgBoxes(await drawRaw(d.spec));
         const labelled = new Set(texts.filter((t) => t.role === 'mark').map((t) => t.text));
-        const missing = d.table.rows.map((row) => row[0]).filter((name) => !labelled.has(name));
+        const missing = d.table.rows.map(([name = '']) => name).filter((name) => !labelled.has(name));
         // Whoever has no label on the chart is named in the table's note (and every variant is in the table).
         for (const name of missing) expect(d.table.note ?? '', `${d.key} ${name}`).toContain(name);
         if (n <= 12) expect(missing, d.key).toEqual([]);
@@ -134,15 +135,17 @@ describe('text on crowded charts', () => {
 describe('Levey–Jennings markers', () => {
   it('sit side by side in run order without overlapping, however many runs', async () => {
     const r = makeFixture();
-    const cc = r.controlCharts[0];
+    const cc = r.controlCharts[0]!;
     for (const n of [9, 60, 200]) {
-      const points = Array.from({ length: n }, (_, i) => ({ ...cc.points[i % cc.points.length], batch: `B${Math.floor(i / 3) + 1}` }));
+      const points = Array.from({ length: n }, (_, i) => ({ ...cc.points[i % cc.points.length]!, batch: `B${Math.floor(i / 3) + 1}` }));
       const def = leveyJenningsChart(r, { ...cc, points })!;
       const { symbols } = svgBoxes(await drawRaw(def.spec));
       const marks = symbols.filter((s) => s.role === 'mark');
       expect(marks).toHaveLength(n);
       // In run order: each marker right of the one before.
-      for (let i = 1; i < marks.length; i++) expect(marks[i].x0 + marks[i].x1).toBeGreaterThan(marks[i - 1].x0 + marks[i - 1].x1);
+      const centres = marks.map((s) => s.x0 + s.x1);
+      expect(centres).toEqual([...centres].sort((a, b) => a - b));
+      expect(new Set(centres).size).toBe(centres.length);
       expect(overlappingPairs(marks, (s) => `${Math.round(s.x0)},${Math.round(s.y0)}`, 0.2)).toEqual([]);
     }
   }, 60_000);

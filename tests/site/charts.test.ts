@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
+import type { StudyResults } from '../../src/results/types.js';
 import { effectScale, fmt, fmtP } from '../../src/charts/chart-def.js';
 import { fmtP as formatP } from '../../src/results/format.js';
 import { EFFECTS_LABELLED_MAX, effectsChart } from '../../src/charts/effects.js';
-import { forestChart } from '../../src/charts/forest.js';
+import { forestChart, forestPanels } from '../../src/charts/forest.js';
 import { leveyJenningsChart } from '../../src/charts/levey-jennings.js';
 import { chartKey, drawRaw, drawRawDirect, renderSvg, renumberIds, roundDecimal, roundSvgGeometry, splitSpec, stripRedundant } from '../../src/charts/render.js';
 import { drawnSpec, specTable } from '../../src/charts/assay-charts.js';
@@ -123,7 +124,9 @@ describe('assay unit charts (ATPase, force)', () => {
     ]);
     // WT's 2 curves of 3 points in one path with a break between them, then the variant's curve in a layer of its own, drawn over WT's.
     const layers = spec.layer as Array<{ data: { values: Array<Record<string, unknown>> }; mark: { type: string; color?: string; strokeDash?: number[] } }>;
-    const [wtCurve, variantCurve] = layers.filter((l) => l.mark.type === 'line');
+    const lines = layers.filter((l) => l.mark.type === 'line');
+    expect(lines).toHaveLength(2);
+    const [wtCurve, variantCurve] = lines as [(typeof lines)[number], (typeof lines)[number]];
     expect(wtCurve.data.values).toHaveLength(7);
     expect(wtCurve.data.values.filter((r) => r.rate === null).map((r) => r.seq)).toEqual([3]);
     expect(variantCurve.data.values).toHaveLength(3);
@@ -156,10 +159,13 @@ describe('effects chart at consortium scale', () => {
   }, 60_000);
 });
 
+/** The fixture's G120S (its second variant, after WT). */
+const g120s = (r: StudyResults) => r.variants.find((v) => v.id === 'synm1-g120s')!;
+
 describe('study chart specs', () => {
   const r = makeFixture();
   const all = () => [
-    forestChart(r, r.variants[1], 'G120S'),
+    forestChart(r, g120s(r), 'G120S'),
     effectsChart(r, 'atpase', 'kcat'),
     effectsChart(r, 'motility', 'fractionImmobile'),
     residueMapChart(r, 'SYNM1'),
@@ -185,16 +191,16 @@ describe('study chart specs', () => {
   });
 
   it('puts ratio metrics on a log axis and difference metrics on their own linear panel', () => {
-    const spec = forestChart(r, r.variants[1], 'G120S')!.spec as { vconcat: Array<{ layer: Array<{ encoding: { x: { scale: { type?: string } } } }> }> };
-    expect(spec.vconcat).toHaveLength(2);
-    expect(spec.vconcat[0].layer[0].encoding.x.scale.type).toBe('log');
-    expect(spec.vconcat[1].layer[0].encoding.x.scale.type).toBeUndefined();
+    const spec = forestChart(r, g120s(r), 'G120S')!.spec as { vconcat: Array<{ layer: Array<{ encoding: { x: { scale: { type?: string } } } }> }> };
+    expect(spec.vconcat.map((panel) => panel.layer[0]?.encoding.x.scale.type)).toEqual(['log', undefined]);
   });
 
   it('labels each row in full, the assay above the metric, however long the metric name', async () => {
     const long = makeFixture();
-    long.assays[1].metrics[0].label = '95th percentile velocity of moving filaments in the slowest field';
-    const d = forestChart(long, long.variants[1], 'G120S')!;
+    // The fixture's assay definitions are shared between tests: changed here on a copy.
+    long.assays = structuredClone(long.assays);
+    long.assays[1]!.metrics[0]!.label = '95th percentile velocity of moving filaments in the slowest field';
+    const d = forestChart(long, g120s(long), 'G120S')!;
     const svg = await renderSvg(d.spec, { key: d.key, title: d.title, description: d.description });
     // On one line this label (68 characters) was cut to about 44 by vega's text-width estimate.
     expect(svg).not.toContain('…');
@@ -207,11 +213,11 @@ describe('study chart specs', () => {
     const effects = def.table.rows.map((row) => Number(row[1])).filter(Number.isFinite);
     expect(effects).toEqual([...effects].sort((a, b) => a - b));
     // Fixture values: L260P 0.55 is the lowest, G120S 1.52 the highest (invented).
-    expect(def.table.rows[0][0]).toBe('L260P');
+    expect(def.table.rows[0]?.[0]).toBe('L260P');
   });
 
   it('marks Westgard violations by shape as well as colour', () => {
-    const def = leveyJenningsChart(r, r.controlCharts[0])!;
+    const def = leveyJenningsChart(r, r.controlCharts[0]!)!;
     const text = JSON.stringify(def.spec);
     expect(text).toContain('"shape":{"field":"status"');
     expect(def.table.rows.find((row) => row[0] === 'B8')?.[4]).toBe('rejected');
@@ -255,6 +261,9 @@ describe('formatting and paths (common practice, no source)', () => {
     expect(rootPrefix('index.html')).toBe('./');
     expect(relLink('variants/a.html', 'index.html')).toBe('../index.html');
     expect(lineRanges([9, 2, 3, 4, 4])).toBe('2–4, 9');
+    expect(lineRanges([1, 3, 5, 7], 2)).toBe('1, 3 and 2 more runs, all within lines 1–7');
+    expect(lineRanges([1, 2, 5], 2)).toBe('1–2, 5');
+    expect(lineRanges([], 2)).toBe('');
   });
 });
 
@@ -331,8 +340,10 @@ describe('marks by biological direction (one legend meaning everywhere)', () => 
 
   it('draws a decrease of a "decrease is hypercontractile" metric as ▲ in the hyper colour, on the effects plot and the forest plot', async () => {
     const r = makeFixture();
-    // The fixture's kcat declared as a metric whose decrease is hypercontractile, with one variant's kcat decreased.
-    r.assays[0].metrics[0].hyper = 'down';
+    // The fixture's kcat declared as a metric whose decrease is hypercontractile (on a copy: the
+    // fixture's assay definitions are shared between tests), with one variant's kcat decreased.
+    r.assays = structuredClone(r.assays);
+    r.assays[0]!.metrics[0]!.hyper = 'down';
     const target = r.comparisons.find((c) => c.assay === 'atpase' && c.metric === 'kcat')!;
     // Every other comparison within WT range, so that the only change drawn is this one.
     for (const c of r.comparisons) if (c !== target) c.call = 'within WT range';
@@ -359,6 +370,86 @@ describe('marks by biological direction (one legend meaning everywhere)', () => 
     expect(d.table.columns).toContain('Known control');
     expect(d.table.rows.find((row) => row[0] === 'R505W')?.at(-1)).toBe('pathogenic');
     expect(d.description).toContain('R505W (pathogenic control)');
+  });
+
+  // Rings as vega draws them: an unfilled circle path in the ring colour, solid ('1,0') or dashed ('3,2').
+  const rings = (svg: string) => [...svg.matchAll(/<path transform="translate\(([-0-9.]+),([-0-9.]+)\)" d="M([0-9.]+),0A[^"]*" stroke="#1d1d1f" stroke-width="1.3" stroke-dasharray="([0-9,]+)"\/>/g)].map((m) => ({ x: Number(m[1]), y: Number(m[2]), r: Number(m[3]), dash: m[4] }));
+
+  it('rings known controls on every all-variant plot (effects, cross-assay scatter, residue map), with a legend that says so', async () => {
+    const r = makeFixture();
+    const defs = [effectsChart(r, 'atpase', 'kcat')!, ...scatterCharts(r), residueMapChart(r, 'SYNM1')!];
+    expect(defs.length).toBeGreaterThanOrEqual(3);
+    for (const d of defs) {
+      const svg = await renderSvg(d.spec, { key: d.key });
+      expect(svg, d.key).toContain('>Known control (ringed)</text>');
+      expect(svg, d.key).toContain('>pathogenic or likely pathogenic</text>');
+      expect(svg, d.key).toContain('>benign or likely benign</text>');
+      // R505W (pathogenic) and V630I (benign): one ring each round the mark, plus one legend symbol per side.
+      const found = rings(svg);
+      expect(found.filter((g) => g.dash === '1,0').length, d.key).toBe(2);
+      expect(found.filter((g) => g.dash === '3,2').length, d.key).toBe(2);
+      expect(d.description, d.key).toMatch(/R505W \(pathogenic control\)/);
+      expect(d.description, d.key).toMatch(/V630I \(benign control\)/);
+      const col = d.table.columns.indexOf('Known control');
+      expect(col, d.key).toBeGreaterThan(0);
+      expect(d.table.rows.find((row) => row[0] === 'R505W')?.[col], d.key).toBe('pathogenic');
+      expect(d.table.rows.find((row) => row[0] === 'G120S')?.[col], d.key).toBe('—');
+    }
+  });
+
+  it('never puts differences in two units on one axis of the forest plot: a panel per unit, its axis titled with the unit', async () => {
+    const r = makeFixture();
+    // The fixture's assay definitions are shared between tests: changed here on a copy.
+    r.assays = structuredClone(r.assays);
+    // G120S with differences in three units: KM made a difference in µM, a basal rate in s⁻¹, and the fraction immobile (no unit).
+    const atpase = r.assays.find((a) => a.id === 'atpase')!;
+    const fraction = r.assays.find((a) => a.id === 'motility')!.metrics.find((m) => m.id === 'fractionImmobile')!.label;
+    Object.assign(atpase.metrics.find((m) => m.id === 'km')!, { scale: 'difference' });
+    atpase.metrics.push({ id: 'basal', label: 'Basal rate', unit: 's⁻¹', scale: 'difference', hyper: 'none', primary: false, description: 'Rate without actin.' });
+    const km = r.comparisons.find((c) => c.variant === 'synm1-g120s' && c.metric === 'km')!;
+    Object.assign(km, { scale: 'difference', effect: 3.2, ciLow: 1.1, ciHigh: 5.3, band: [-5, 5], call: 'within WT range' });
+    r.comparisons.push({ ...km, metric: 'basal', unit: 's⁻¹', effect: 0.004, ciLow: -0.002, ciHigh: 0.01, band: [-0.01, 0.01] });
+    const v = r.variants.find((x) => x.id === 'synm1-g120s')!;
+    const d = forestChart(r, v, v.short)!;
+    const panels = (d.spec as { vconcat: Array<{ data: { values: Array<{ row: string }> }; layer: Array<{ encoding: { x?: { title?: unknown } } }> }> }).vconcat;
+    const title = (p: (typeof panels)[number]) => [p.layer[0]!.encoding.x!.title].flat().join(' ');
+    const titles = ['Ratio to paired WT (log scale)', 'Difference from paired WT (µM)', `${fraction}: difference from paired WT`, 'Difference from paired WT (s⁻¹)'];
+    expect(panels.map(title)).toEqual(titles);
+    // kcat and mean velocity (ratios) share the log axis; each difference is alone on its unit's axis.
+    expect(panels.map((p) => p.data.values.length)).toEqual([2, 1, 1, 1]);
+    expect(panels[1]!.data.values[0]!.row).toMatch(/\nKM/);
+    expect(panels[2]!.data.values[0]!.row).toContain(fraction.replace(/\s*\([^)]*\)/g, ''));
+    expect(panels[3]!.data.values[0]!.row).toMatch(/\nBasal rate/);
+    // In the drawn SVG: one axis per unit, each titled with its unit, and no bare 'Difference from paired WT' axis.
+    const svg = await renderSvg(d.spec, { key: d.key });
+    const axisTitles = [...svg.matchAll(/<text[^>]*font-weight="bold"[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]).filter((t) => /paired WT/.test(t!) && t !== d.title);
+    expect(axisTitles).toEqual(titles);
+    // Each difference axis has its own range: KM's runs past 5 µM, the basal rate's stays within ±0.02 s⁻¹.
+    const params = Object.fromEntries((d.spec.params as Array<{ name: string; value: [number, number] }>).map((p) => [p.name, p.value]));
+    expect(params.panel1Domain![1]).toBeGreaterThan(5);
+    expect(Math.max(...params.panel3Domain!.map(Math.abs))).toBeLessThan(0.02);
+  });
+
+  it('sorts difference rows into panels by unit: rows of one unit share a panel, rows without a unit never do', () => {
+    const row = (name: string, scale: 'ratio' | 'difference', unit: string) => ({ row: name, metricName: name, scale, unit, effect: 0, lo: null, hi: null, bandLo: -1, bandHi: 1, call: 'within WT range' as const });
+    const panels = forestPanels([row('A', 'ratio', 's⁻¹'), row('B', 'difference', 'kPa'), row('pCa50', 'difference', ''), row('C', 'difference', 'kPa'), row('Fraction', 'difference', ''), row('D', 'ratio', 'µM')]);
+    expect(panels.map((p) => [p.axisTitle, p.rows.map((x) => x.row)])).toEqual([
+      ['Ratio to paired WT (log scale)', ['A', 'D']],
+      ['Difference from paired WT (kPa)', ['B', 'C']],
+      ['pCa50: difference from paired WT', ['pCa50']],
+      ['Fraction: difference from paired WT', ['Fraction']],
+    ]);
+  });
+
+  it('draws each ring of the scatter round its control\'s mark', async () => {
+    const r = makeFixture();
+    const d = scatterCharts(r)[0]!;
+    const svg = await renderSvg(d.spec, { key: d.key });
+    // The marks are filled points; the plotted rings (larger than the legend's) must each share a centre with one.
+    const marks = [...svg.matchAll(/<path transform="translate\(([-0-9.]+),([-0-9.]+)\)" d="[^"]*" fill="#[0-9a-f]{6}" stroke="#ffffff"/g)].map((m) => ({ x: Number(m[1]), y: Number(m[2]) }));
+    const plotted = rings(svg).filter((g) => g.r > 8);
+    expect(plotted.length).toBe(2);
+    for (const g of plotted) expect(marks.some((m) => Math.abs(m.x - g.x) < 0.2 && Math.abs(m.y - g.y) < 0.2)).toBe(true);
   });
 });
 

@@ -36,5 +36,5 @@ export async function readPages(dir: string): Promise<Map<string, string>> {
 
 /** href/src attribute values of HTML (outside inline SVG namespaces). */
 export function links(html: string): string[] {
-  return [...html.matchAll(/\s(?:href|src)="([^"]*)"/g)].map((m) => m[1]);
+  return [...html.matchAll(/\s(?:href|src)="([^"]*)"/g)].map(([, value = '']) => value);
 }

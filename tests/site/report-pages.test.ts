@@ -100,11 +100,19 @@ describe('absolute values beside every effect', () => {
   it('show the variant and WT means in their unit, the effect, CI, band, q and n', () => {
     const html = pages.get('variants/synm1-g120s.html')!;
     const row = html.split('<tr').find((r) => r.startsWith('><th scope="row">kcat'))!;
-    const cells = [...row.matchAll(/<td class="num">([^<]*)<\/td>/g)].map((m) => decode(m[1]!));
+    const cells = [...row.matchAll(/<td class="num(?: count)?">([^<]*)<\/td>/g)].map((m) => decode(m[1]!));
     expect(cells).toEqual(['7.51 s⁻¹', '4.95 s⁻¹', '1.52×', '1.31 to 1.76', '0.80 to 1.25', '0.0020', '3 / 3']);
     // A difference metric at its band's precision (band ±0.1: 3 decimals), negative ends with the minus sign.
     const fi = html.split('<tr').find((r) => r.includes('<th scope="row">Fraction immobile'))!;
     expect([...fi.matchAll(/<td class="num">([^<]*)<\/td>/g)].map((m) => decode(m[1]!)).slice(0, 5)).toEqual(['0.041', '0.093', '−0.052', '−0.081 to −0.023', '−0.100 to 0.100']);
+  });
+
+  it('write the same numbers the same way in the table under the forest plot', () => {
+    const html = pages.get('variants/synm1-g120s.html')!;
+    const forest = html.slice(html.indexOf('Normalised metrics of G120S against paired WT</caption>'));
+    const row = (metric: string) => [...forest.split('<tr').find((r) => r.includes(metric))!.matchAll(/<td[^>]*>([^<]*)<\/td>/g)].map((m) => decode(m[1]!));
+    expect(row('In vitro motility: Fraction immobile').slice(0, 4)).toEqual(['difference from WT', '−0.052', '−0.081 to −0.023', '−0.100 to 0.100']);
+    expect(row('Actin-activated ATPase: kcat').slice(0, 4)).toEqual(['ratio to WT', '1.52×', '1.31 to 1.76', '0.80 to 1.25']);
   });
 });
 
@@ -167,6 +175,25 @@ describe('flags in plain words', () => {
     expect(text(index.split('<tbody>')[1]!)).not.toContain('km-above-range');
     const report = pages.get('variants/synm1-g120s.html')!;
     expect(report).toContain('href="../glossary.html#flag-km-above-range">KM above the actin range</a>');
+  });
+});
+
+describe('preparations, in the study\'s words', () => {
+  // The study's column is 'preparation'; results.json keeps the exclusion kind 'unit' (schema), pages never say it.
+  const visible = (html: string) => text(html.replace(/<svg[\s\S]*?<\/svg>/g, ' ').replace(/<script[\s\S]*?<\/script>/g, ' ').replace(/<style[\s\S]*?<\/style>/g, ' ').replace(/<code>[^<]*<\/code>/g, ' '));
+
+  it('names an excluded preparation "Preparation", on the variant\'s report and the assay pages', () => {
+    expect(fx.exclusions.some((e) => e.kind === 'unit')).toBe(true);
+    expect(visible(pages.get('variants/synm1-g120s.html')!)).toContain('Preparation synm1-g120s-prep9 excluded: Preparation aggregated.');
+    expect(visible(pages.get('assays/atpase.html')!)).toContain('Preparation synm1-g120s-prep9 of G120S excluded: Preparation aggregated.');
+    expect(visible(pages.get('assays/motility.html')!)).toContain('Batch B5 excluded: Flow cell leaked');
+  });
+
+  it('never calls a preparation a "unit" on any page (physical units aside)', () => {
+    // Allowed: flag codes (machine words, in <code>), and the metric's physical unit ("in the metric's unit", "in their units", the metrics table's "Unit" column).
+    const physical = /metric’s unit|in their units|own units|unit of measurement|<th scope="col">Unit<\/th>/g;
+    const found = [...pages].flatMap(([page, html]) => (visible(html.replace(physical, ' ')).match(/.{0,40}\bunits?\b.{0,40}/gi) ?? []).map((w) => `${page}: ${w}`));
+    expect(found).toEqual([]);
   });
 });
 

@@ -43,9 +43,9 @@ function apply(m: Matrix, x: number, y: number): [number, number] {
 /** The matrix of an SVG transform attribute made of translate() and rotate() (what vega writes). */
 export function parseTransform(text: string | undefined): Matrix {
   let m = IDENTITY;
-  for (const op of (text ?? '').matchAll(/(translate|rotate)\(([^)]*)\)/g)) {
-    const args = op[2].split(/[\s,]+/).filter(Boolean).map(Number);
-    if (op[1] === 'translate') m = multiply(m, [1, 0, 0, 1, args[0] ?? 0, args[1] ?? 0]);
+  for (const [, kind, list = ''] of (text ?? '').matchAll(/(translate|rotate)\(([^)]*)\)/g)) {
+    const args = list.split(/[\s,]+/).filter(Boolean).map(Number);
+    if (kind === 'translate') m = multiply(m, [1, 0, 0, 1, args[0] ?? 0, args[1] ?? 0]);
     else {
       const a = ((args[0] ?? 0) * Math.PI) / 180;
       m = multiply(m, [Math.cos(a), Math.sin(a), -Math.sin(a), Math.cos(a), 0, 0]);
@@ -56,7 +56,7 @@ export function parseTransform(text: string | undefined): Matrix {
 
 function attrs(tag: string): Record<string, string> {
   const out: Record<string, string> = {};
-  for (const a of tag.matchAll(/([\w:-]+)="([^"]*)"/g)) out[a[1]] = a[2];
+  for (const [, name, value] of tag.matchAll(/([\w:-]+)="([^"]*)"/g)) if (name !== undefined && value !== undefined) out[name] = value;
   return out;
 }
 
@@ -67,12 +67,12 @@ function pathRadius(d: string): number {
   let r = 0;
   let x = 0;
   let y = 0;
-  for (const seg of d.matchAll(/([MLHVAZmlhvaz])([^MLHVAZmlhvaz]*)/g)) {
-    const n = seg[2].split(/[\s,]+/).filter(Boolean).map(Number);
-    switch (seg[1]) {
+  for (const [, command, list = ''] of d.matchAll(/([MLHVAZmlhvaz])([^MLHVAZmlhvaz]*)/g)) {
+    const n = list.split(/[\s,]+/).filter(Boolean).map(Number);
+    switch (command) {
       case 'M':
       case 'L':
-        for (let i = 0; i + 1 < n.length; i += 2) [x, y] = [n[i], n[i + 1]];
+        for (let i = 0; i + 1 < n.length; i += 2) [x, y] = [n[i] ?? x, n[i + 1] ?? y];
         break;
       case 'h':
         x += n[0] ?? 0;
@@ -105,12 +105,13 @@ function pathRadius(d: string): number {
 export function svgBoxes(svg: string): { texts: TextBox[]; symbols: SymbolBox[] } {
   const texts: TextBox[] = [];
   const symbols: SymbolBox[] = [];
-  const stack: Array<{ m: Matrix; role: string }> = [{ m: IDENTITY, role: '' }];
+  const root = { m: IDENTITY, role: '' };
+  const stack: Array<{ m: Matrix; role: string }> = [root];
   const tokens = svg.match(/<[^>]+>|[^<]+/g) ?? [];
   for (let i = 0; i < tokens.length; i++) {
-    const tok = tokens[i];
+    const tok = tokens[i] ?? '';
     if (!tok.startsWith('<')) continue;
-    const top = stack[stack.length - 1];
+    const top = stack[stack.length - 1] ?? root;
     if (tok.startsWith('</g')) {
       stack.pop();
       continue;
@@ -135,8 +136,8 @@ export function svgBoxes(svg: string): { texts: TextBox[]; symbols: SymbolBox[] 
     const lines: Array<{ text: string; dy: number }> = [];
     let j = i + 1;
     let pendingDy = 0;
-    for (; j < tokens.length && !tokens[j].startsWith('</text'); j++) {
-      const t = tokens[j];
+    for (; j < tokens.length && !(tokens[j] ?? '').startsWith('</text'); j++) {
+      const t = tokens[j] ?? '';
       if (t.startsWith('<tspan')) pendingDy += Number(attrs(t).dy ?? 0);
       else if (!t.startsWith('<')) {
         lines.push({ text: decode(t), dy: pendingDy });
@@ -177,6 +178,8 @@ export function overlap(a: Box, b: Box): number {
 /** Pairs of boxes that overlap by more than `tolerance` px, described for a failure message. */
 export function overlappingPairs<T extends Box>(boxes: readonly T[], describe: (b: T) => string, tolerance = 0.5): string[] {
   const out: string[] = [];
-  for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) if (overlap(boxes[i], boxes[j]) > tolerance) out.push(`${describe(boxes[i])} × ${describe(boxes[j])}`);
+  boxes.forEach((a, i) => {
+    for (const b of boxes.slice(i + 1)) if (overlap(a, b) > tolerance) out.push(`${describe(a)} × ${describe(b)}`);
+  });
   return out;
 }
