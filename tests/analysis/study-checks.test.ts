@@ -1,6 +1,6 @@
 /**
  * Checks that need the fitted units: plausibility of WT means and preparations against the trade's
- * typical ranges (src/defaults.ts PLAUSIBLE: kcat 4–7 s⁻¹, velocity 0.7–1.0 µm/s, Fmax 20–40 kPa,
+ * typical ranges (each assay's `plausible` in src/assays/<assay>/metrics.ts: kcat 4–7 s⁻¹, velocity 0.7–1.0 µm/s, Fmax 20–40 kPa,
  * pCa50 5.5–6.0, typical WT values from memory; turnover rates 0.030 and 0.0034 s⁻¹, Sarkar et
  * al., Sci Adv 2020); one preparation label in two batches; too few known controls.
  * Unit values are constructed; the expected numbers are computed by hand from them (a value read in

@@ -19,7 +19,7 @@ import { groupEncoding, unitChart } from '../chart-common.js';
 import { groupUnits, relativeSeFlags } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { FORCE_PCA, type ForceRow } from './inputs.js';
-import { FORCE_BANDS, FORCE_METRICS } from './metrics.js';
+import { FORCE_BANDS, FORCE_METRICS, FORCE_PLAUSIBLE } from './metrics.js';
 import { FORCE_SETTINGS as SETTINGS } from './settings.js';
 
 /** Points of the fitted-curve grid per preparation (0.083 pCa apart over the usual 9.25–4.25 span: about 8 points across a steep transition). */
@@ -182,6 +182,7 @@ export const force: AssayModule = {
   inputs: [FORCE_PCA],
   metrics: FORCE_METRICS,
   bands: FORCE_BANDS,
+  plausible: FORCE_PLAUSIBLE,
   settings: SETTINGS,
   analyse: analyseForce,
   chart: forceChart,

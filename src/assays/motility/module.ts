@@ -18,7 +18,7 @@ import { assaySetting, roundForPlot, rowsOf } from '../assay-common.js';
 import { groupUnits, sourceRanges } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { MOTILITY_TRACKS, MOTILITY_VELOCITIES, type TrackRow, type VelocityRow } from './inputs.js';
-import { MOTILITY_BANDS, MOTILITY_METRICS } from './metrics.js';
+import { MOTILITY_BANDS, MOTILITY_METRICS, MOTILITY_PLAUSIBLE } from './metrics.js';
 import { MOTILITY_SETTINGS as SETTINGS } from './settings.js';
 import { tracksToFilaments } from './tracks.js';
 import type { FilamentVelocity } from './tracks.js';
@@ -436,6 +436,7 @@ export const motility: AssayModule = {
   inputs: [MOTILITY_TRACKS, MOTILITY_VELOCITIES],
   metrics: MOTILITY_METRICS,
   bands: MOTILITY_BANDS,
+  plausible: MOTILITY_PLAUSIBLE,
   settings: SETTINGS,
   analyse: analyseMotility,
   chart: motilityChart,
