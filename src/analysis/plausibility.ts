@@ -71,7 +71,8 @@ function quantityOf(column: ColumnUnit): Quantity | undefined {
 function causesIn(key: string, file: InputFile, value: number): Cause[] {
   const p = PLAUSIBLE[key];
   const out: Cause[] = [];
-  for (const c of p?.causes ?? []) {
+  if (!p) return out;
+  for (const c of p.causes) {
     if (c.kind !== file.kind) continue;
     const column = (file.columns ?? []).find((x) => x.name === c.column);
     if (!column && c.power !== 0) continue;
@@ -183,7 +184,7 @@ export function plausibilityIssues(units: readonly UnitResult[], assays: Readonl
         }
         if (odd.length === 0) continue;
         // One warning per metric and file, naming the preparations, at their rows.
-        const [cause] = causesIn(key, file, odd[0].value);
+        const [cause] = causesIn(key, file, odd[0]!.value);
         const spans = odd.map((o) => o.u.source.find((x) => x.file === path)).filter((x): x is SourceRef => x !== undefined);
         const first = spans[0] ?? { file: path };
         const lastLine = Math.max(...spans.map((x) => x.lineEnd ?? x.line ?? 0));
@@ -198,7 +199,7 @@ export function plausibilityIssues(units: readonly UnitResult[], assays: Readonl
         });
       }
       for (const [column, { cause, findings }] of wtByCause) {
-        const unit = a.metrics.find((d) => d.label === findings[0].metric)?.unit ?? '';
+        const unit = a.metrics.find((d) => d.label === findings[0]?.metric)?.unit ?? '';
         const text = findings.map((f) => ({ ...f, typical: `${f.typical} for ${f.of}`, basis: `${f.geometric ? 'geometric ' : ''}mean of ${f.n} preparation${f.n === 1 ? '' : 's'}` }));
         issues.push(issue(MSG.implausibleWildType(text, causeText(cause, path, unit)), causeAt(cause, path), { variants: touched, group: `${a.id}\0${column}` }));
       }

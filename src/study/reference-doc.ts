@@ -6,7 +6,7 @@
  */
 import { ASSAY_IDS, BANDS, KINDS, SETTINGS } from '../assays/assembled.js';
 import { STATS } from '../defaults.js';
-import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME, MANIFEST_SCHEMA } from './schemas.js';
+import { catalogueOf, INPUT_KINDS, MANIFEST_NAME, MANIFEST_SCHEMA } from './schemas.js';
 import type { InputKind } from './types.js';
 import { UNITS, type Quantity } from './units.js';
 
@@ -17,7 +17,7 @@ const cell = (s: string) => s.replace(/\|/g, '\\|').replace(/\n/g, ' ');
 
 /** Markdown table of one input kind's columns (one row per column, in schema order). */
 export function columnTable(kind: (typeof INPUT_KINDS)[number]): string {
-  const cat = CATALOGUE[kind];
+  const cat = catalogueOf(kind);
   const rows = cat.columns.map((c) => {
     const need = c.required ? 'yes' : cat.alternatives.some((g) => g.includes(c.name)) ? 'one of ' + cat.alternatives.find((g) => g.includes(c.name))!.join('/') : 'no';
     const units = c.quantity ? UNITS[c.quantity].units.map((u) => u.symbol).join(', ') + (c.pixels ? ', px' : '') : '—';
@@ -68,7 +68,7 @@ export function fieldGuide(kinds: readonly InputKind[]): string {
   out.push('## CSV rules', '', ...CSV_RULES, '');
   out.push('## Units', '', unitsTable(), '');
   for (const kind of kinds) {
-    const cat = CATALOGUE[kind];
+    const cat = catalogueOf(kind);
     out.push(`## \`${kind}\`: ${cat.title}`, '', cell(cat.description), '', columnTable(kind), '');
   }
   return out.join('\n');
@@ -121,7 +121,7 @@ export function inputReference(): string {
   out.push('### CSV rules', '', ...CSV_RULES, '');
   out.push('### Units', '', unitsTable(), '');
   for (const kind of INPUT_KINDS) {
-    const cat = CATALOGUE[kind];
+    const cat = catalogueOf(kind);
     out.push(`### \`${kind}\`: ${cat.title}`, '', cell(cat.description), '', columnTable(kind), '');
   }
   return out.join('\n');

@@ -61,7 +61,9 @@ export function analyseForceUnit(
   rows: readonly ForceRow[],
   minPoints: number,
 ): Pick<UnitResult, 'metrics' | 'metricSe' | 'fit' | 'flags' | 'nTechnical' | 'plot'> {
-  const at = rows[0].at;
+  const [head] = rows;
+  if (!head) throw new Error('analyseForceUnit: a preparation without rows');
+  const at = head.at;
   const x = rows.map((r) => r.pCa);
   const y = rows.map((r) => r.tensionKPa);
   const flags: Flag[] = [];
@@ -124,8 +126,7 @@ export function analyseForceUnit(
   }
 
   const estimates = fit.parameters.map((p) => p.estimate);
-  const passive = metrics.passive;
-  const fmax = metrics.fmax;
+  const { passive = null, fmax = null } = metrics;
   const normalise = (tension: number) => (passive !== null && fmax !== null && fmax !== 0 ? (tension - passive) / fmax : NaN);
   const points = rows.map((r) => {
     const point: Record<string, number | string> = { pCa: r.pCa, tension: r.tensionKPa };
@@ -154,7 +155,7 @@ function fileSettings(study: AssayStudy, file: string | undefined): SettingsBag 
 /** Per-preparation analysis of a study's force–pCa rows. */
 export function analyseForce(study: AssayStudy): UnitResult[] {
   return groupUnits(rowsOf(study, FORCE_PCA)).map((g) => {
-    const minPoints = assaySetting(SETTINGS, 'forceMinPoints', study.settings, fileSettings(study, g.rows[0].at.file));
+    const minPoints = assaySetting(SETTINGS, 'forceMinPoints', study.settings, fileSettings(study, g.rows[0]!.at.file)); // a group holds at least one row
     const r = analyseForceUnit(g.rows, minPoints);
     return { assay: 'force', variant: g.variant, unit: g.unit, batch: g.batch, ...r, source: g.source };
   });

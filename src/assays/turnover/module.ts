@@ -491,7 +491,7 @@ export function thinPerTrace<T extends Record<string, unknown>>(rows: readonly T
   const out: T[] = [];
   for (const list of byTrace.values()) {
     const every = Math.max(1, Math.ceil(list.length / max));
-    for (let i = 0; i < list.length; i += every) out.push(list[i]);
+    for (let i = 0; i < list.length; i += every) out.push(list[i]!);
   }
   return out;
 }
