@@ -1,7 +1,7 @@
 /**
  * Every default of the tool that belongs to no one assay, defined once. Each is documented
  * beside its value; the manifest may override those marked "(manifest: …)". An assay's own
- * defaults (its settings and the WT-like bands of its metrics) are defined once in its folder
+ * defaults (its settings, the WT-like bands and typical ranges of its metrics) are defined once in its folder
  * (src/assays/<assay>/settings.ts and metrics.ts) and assembled by src/assays/assembled.ts.
  */
 
@@ -82,29 +82,15 @@ export const CALIBRATION = {
 } as const;
 
 /**
- * Plausible values of fitted and summarised metrics (src/analysis/plausibility.ts), checked in
- * `check` and `build` as warnings: a WT mean or a preparation far outside the trade's typical
- * range points to a unit header that does not match the values (a rate headed 1/min with values in
- * 1/s gives kcat 60 times too low). Per metric key: the typical WT range in the metric's canonical
- * unit with its source, and the comparison scale (ratio: bounds are factors; difference: shifts).
- * `of` names what the typical range was measured on (shown in messages), `source` where it is from.
- * Ratio metrics: the study's WT mean is plausible within typical ÷ PLAUSIBLE_SPREAD.wildTypeFactor …
- * × that factor, one preparation within ÷/× preparationFactor; difference metrics (pCa50): within
- * typical ∓ wildTypeShift, ∓ preparationShift. The spreads are common practice, no source: ten and
- * forty times are wide enough for other sarcomeric myosins, temperatures and strong variants, and a
- * unit 60 (minutes for seconds) or 1000 times (a prefix) off lands beyond both.
+ * How far from a metric's typical range a study's WT mean and one preparation may lie before
+ * `check` and `build` warn (src/analysis/plausibility.ts). Each metric's typical range, with its
+ * source and the columns whose units shape it, is defined in its assay's folder
+ * (src/assays/<assay>/metrics.ts, `plausible`). Ratio metrics: the WT mean is plausible within
+ * typical ÷ wildTypeFactor … × wildTypeFactor, one preparation within ÷/× preparationFactor;
+ * difference metrics (pCa50): within typical ∓ wildTypeShift, ∓ preparationShift. Common practice,
+ * no source: ten and forty times are wide enough for other sarcomeric myosins, temperatures and
+ * strong variants, and a unit 60 (minutes for seconds) or 1000 times (a prefix) off lands beyond both.
  */
-export const PLAUSIBLE: Record<string, { typical: [number, number]; scale: 'ratio' | 'difference'; of: string; source: string }> = {
-  'atpase.kcat': { typical: [4, 7], scale: 'ratio', of: 'human β-cardiac myosin', source: 'typical WT values of the trade, from memory' },
-  'atpase.km': { typical: [10, 100], scale: 'ratio', of: 'human β-cardiac myosin', source: '"tens of µM", typical WT values of the trade, from memory' },
-  'motility.velocity': { typical: [0.7, 1.0], scale: 'ratio', of: 'human β-cardiac myosin', source: 'typical WT values of the trade, from memory' },
-  'force.fmax': { typical: [20, 40], scale: 'ratio', of: 'human cardiomyocytes', source: 'typical values of the trade (kN/m² = kPa), from memory' },
-  'force.pCa50': { typical: [5.5, 6.0], scale: 'difference', of: 'cardiac preparations', source: 'typical values of the trade, from memory' },
-  'turnover.kFast': { typical: [0.03, 0.03], scale: 'ratio', of: 'human β-cardiac two-headed myosin (Sarkar et al., Sci Adv 2020)', source: 'fast phase 0.030 s⁻¹, Sarkar et al., Sci Adv 2020' },
-  'turnover.kSlow': { typical: [0.0034, 0.0034], scale: 'ratio', of: 'human β-cardiac two-headed myosin (Sarkar et al., Sci Adv 2020)', source: 'slow phase 0.0034 s⁻¹, Sarkar et al., Sci Adv 2020' },
-};
-
-/** How far from the typical range (PLAUSIBLE) a WT mean and one preparation may lie. Common practice, no source (see PLAUSIBLE). */
 export const PLAUSIBLE_SPREAD = {
   wildTypeFactor: 10,
   preparationFactor: 40,

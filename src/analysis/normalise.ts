@@ -95,7 +95,7 @@ export function compareAssay(assay: string, metrics: readonly MetricDef[], units
       const pairedWt = batches.flatMap((b) => wtByBatch.get(b) ?? []);
       const wtOut = wtLeftOut.filter((u) => batches.includes(u.batch));
       if (wtOut.length > 0) {
-        const first = flaggedWith(wtOut[0], def.excludeFlagged)!;
+        const first = flaggedWith(wtOut[0]!, def.excludeFlagged)!;
         flags.push({
           code: 'wt-units-left-out',
           severity: 'warning',
@@ -114,7 +114,7 @@ export function compareAssay(assay: string, metrics: readonly MetricDef[], units
         sentence: '',
       };
       if (extrapolated.length > 0) {
-        const first = flaggedWith(extrapolated[0], def.excludeFlagged)!;
+        const first = flaggedWith(extrapolated[0]!, def.excludeFlagged)!;
         flags.push({
           code: first.code,
           severity: 'warning',

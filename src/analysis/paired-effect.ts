@@ -201,14 +201,14 @@ function bestLogRho(design: Design): number {
 
 /** Satterthwaite df of Var(δ̂) at (σ²_v, σ²_WT), from the observed REML information. */
 function satterthwaiteDf(design: Design, sv2: number, sw2: number): number {
-  const x = [Math.log(sv2), Math.log(sw2)];
+  const [x0, x1] = [Math.log(sv2), Math.log(sw2)];
   const f = (a: number, b: number) => minus2Reml(design, a, b);
   const step = 1e-4;
-  const f0 = f(x[0], x[1]);
-  const haa = (f(x[0] + step, x[1]) - 2 * f0 + f(x[0] - step, x[1])) / (step * step);
-  const hbb = (f(x[0], x[1] + step) - 2 * f0 + f(x[0], x[1] - step)) / (step * step);
+  const f0 = f(x0, x1);
+  const haa = (f(x0 + step, x1) - 2 * f0 + f(x0 - step, x1)) / (step * step);
+  const hbb = (f(x0, x1 + step) - 2 * f0 + f(x0, x1 - step)) / (step * step);
   const hab =
-    (f(x[0] + step, x[1] + step) - f(x[0] + step, x[1] - step) - f(x[0] - step, x[1] + step) + f(x[0] - step, x[1] - step)) /
+    (f(x0 + step, x1 + step) - f(x0 + step, x1 - step) - f(x0 - step, x1 + step) + f(x0 - step, x1 - step)) /
     (4 * step * step);
   const det = haa * hbb - hab * hab;
   // A = 2·H⁻¹ (information = H/2 for H the Hessian of −2ℓ).

@@ -5,7 +5,8 @@
  * 0.08 s⁻¹, Fmax of 25 Pa. Pure: reads the fitted units (UnitResult), the metrics' units
  * (MetricDef) and how each file's columns were read (InputFile.columns); no I/O.
  *
- *   units ──per metric with a typical range (PLAUSIBLE, src/defaults.ts) and per input file──▶
+ *   units ──per metric with a typical range (its assay's `plausible`, via PLAUSIBLE of
+ *           src/assays/assembled.ts) and per input file──▶
  *     the study's WT mean (geometric for ratio metrics) outside typical ÷/× wildTypeFactor
  *       ──▶ one warning at the header cell of the column whose unit is the likely cause,
  *           with the unit that would bring the mean into the typical range, if one does
@@ -13,45 +14,17 @@
  *     WT mean of its file, on the same side) ──▶ one warning per metric and file, at the rows
  *
  * Which columns can cause which metric, and how (a value proportional to the column, or to its
- * inverse), is stated per metric in CAUSES below.
+ * inverse), each assay states beside the metric's typical range (PlausibleRange.causes); the
+ * spreads around the typical range are PLAUSIBLE_SPREAD (src/defaults.ts).
  */
-import { PLAUSIBLE, PLAUSIBLE_SPREAD } from '../defaults.js';
+import { PLAUSIBLE } from '../assays/assembled.js';
+import { PLAUSIBLE_SPREAD } from '../defaults.js';
 import type { MetricDef, UnitResult } from '../results/types.js';
 import { MSG, issue } from '../study/messages.js';
 import type { ColumnUnit, InputFile, InputKind, Issue, SourceRef, Variant } from '../study/types.js';
 import { lookupUnit, UNITS, type Quantity } from '../study/units.js';
 
-/**
- * Columns whose unit shapes a metric: the metric is proportional to the column's value raised to
- * `power` (1: a rate column and kcat; −1: a time column and a rate constant; 0: no unit, named only).
- */
-export const CAUSES: Record<string, ReadonlyArray<{ kind: InputKind; column: string; power: 1 | -1 | 0 }>> = {
-  'atpase.kcat': [
-    { kind: 'atpase-rates', column: 'rate', power: 1 },
-    { kind: 'atpase-nadh', column: 'heads', power: -1 },
-    { kind: 'atpase-nadh', column: 'time', power: -1 },
-    { kind: 'atpase-nadh', column: 'path', power: -1 },
-  ],
-  'atpase.km': [
-    { kind: 'atpase-rates', column: 'actin', power: 1 },
-    { kind: 'atpase-nadh', column: 'actin', power: 1 },
-  ],
-  'motility.velocity': [
-    { kind: 'motility-velocities', column: 'velocity', power: 1 },
-    { kind: 'motility-tracks', column: 'x', power: 1 },
-    { kind: 'motility-tracks', column: 'time', power: -1 },
-  ],
-  'force.fmax': [
-    { kind: 'force-pca', column: 'tension', power: 1 },
-    { kind: 'force-pca', column: 'force', power: 1 },
-    { kind: 'force-pca', column: 'area', power: -1 },
-  ],
-  'force.pCa50': [{ kind: 'force-pca', column: 'pCa', power: 0 }],
-  'turnover.kFast': [{ kind: 'turnover', column: 'time', power: -1 }],
-  'turnover.kSlow': [{ kind: 'turnover', column: 'time', power: -1 }],
-};
-
-/** Plausible bounds of a metric for the WT mean or for one preparation (see PLAUSIBLE in src/defaults.ts). */
+/** Plausible bounds of a metric for the WT mean or for one preparation (see PLAUSIBLE_SPREAD in src/defaults.ts). */
 export function plausibleBounds(key: string, level: 'wildType' | 'preparation'): [number, number] | undefined {
   const p = PLAUSIBLE[key];
   if (!p) return undefined;
@@ -98,7 +71,8 @@ function quantityOf(column: ColumnUnit): Quantity | undefined {
 function causesIn(key: string, file: InputFile, value: number): Cause[] {
   const p = PLAUSIBLE[key];
   const out: Cause[] = [];
-  for (const c of CAUSES[key] ?? []) {
+  if (!p) return out;
+  for (const c of p.causes) {
     if (c.kind !== file.kind) continue;
     const column = (file.columns ?? []).find((x) => x.name === c.column);
     if (!column && c.power !== 0) continue;
@@ -210,7 +184,7 @@ export function plausibilityIssues(units: readonly UnitResult[], assays: Readonl
         }
         if (odd.length === 0) continue;
         // One warning per metric and file, naming the preparations, at their rows.
-        const [cause] = causesIn(key, file, odd[0].value);
+        const [cause] = causesIn(key, file, odd[0]!.value);
         const spans = odd.map((o) => o.u.source.find((x) => x.file === path)).filter((x): x is SourceRef => x !== undefined);
         const first = spans[0] ?? { file: path };
         const lastLine = Math.max(...spans.map((x) => x.lineEnd ?? x.line ?? 0));
@@ -225,7 +199,7 @@ export function plausibilityIssues(units: readonly UnitResult[], assays: Readonl
         });
       }
       for (const [column, { cause, findings }] of wtByCause) {
-        const unit = a.metrics.find((d) => d.label === findings[0].metric)?.unit ?? '';
+        const unit = a.metrics.find((d) => d.label === findings[0]?.metric)?.unit ?? '';
         const text = findings.map((f) => ({ ...f, typical: `${f.typical} for ${f.of}`, basis: `${f.geometric ? 'geometric ' : ''}mean of ${f.n} preparation${f.n === 1 ? '' : 's'}` }));
         issues.push(issue(MSG.implausibleWildType(text, causeText(cause, path, unit)), causeAt(cause, path), { variants: touched, group: `${a.id}\0${column}` }));
       }

@@ -34,8 +34,10 @@ export function preparationsInBatches(units: readonly UnitResult[], assays: Read
     }
     for (const [variant, preps] of seen) {
       const many = [...preps].filter(([, list]) => new Set(list.map((u) => u.batch)).size > 1);
-      if (many.length === 0) continue;
-      const second = many[0][1].find((u) => u.batch !== many[0][1][0].batch)!;
+      const [, list] = many[0] ?? [];
+      if (!list) continue;
+      // A preparation in two batches: its list holds a unit of another batch than its first.
+      const second = list.find((u) => u.batch !== list[0]!.batch)!;
       const at = second.source[0] ?? { file: MANIFEST_NAME };
       issues.push(
         issue(

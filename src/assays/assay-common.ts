@@ -66,19 +66,21 @@ export function straightLineFit(
   y: readonly number[],
 ): { slope: number; intercept: number; slopeSe: number; n: number } {
   const n = x.length;
+  if (y.length !== n) throw new Error(`straightLineFit: ${n} x values but ${y.length} y values`);
   const mx = mean(x);
   const my = mean(y);
   let sxx = 0;
   let sxy = 0;
   for (let i = 0; i < n; i++) {
-    sxx += (x[i] - mx) * (x[i] - mx);
-    sxy += (x[i] - mx) * (y[i] - my);
+    const dx = x[i]! - mx;
+    sxx += dx * dx;
+    sxy += dx * (y[i]! - my);
   }
   const slope = sxx > 0 ? sxy / sxx : NaN;
   const intercept = my - slope * mx;
   let rss = 0;
   for (let i = 0; i < n; i++) {
-    const r = y[i] - intercept - slope * x[i];
+    const r = y[i]! - intercept - slope * x[i]!;
     rss += r * r;
   }
   const slopeSe = n > 2 && sxx > 0 ? Math.sqrt(rss / (n - 2) / sxx) : NaN;
@@ -109,10 +111,11 @@ export function roundForPlot(value: number): number {
   const magnitude = Math.abs(value);
   const s = 11 - Math.floor(Math.log10(magnitude));
   if (s > 22 || s < -22) return Number(value.toPrecision(12));
-  const scaled = s >= 0 ? magnitude * POWERS_OF_TEN[s] : magnitude / POWERS_OF_TEN[-s];
+  // |s| ≤ 22: within POWERS_OF_TEN.
+  const scaled = s >= 0 ? magnitude * POWERS_OF_TEN[s]! : magnitude / POWERS_OF_TEN[-s]!;
   const n = Math.round(scaled);
   if (Math.abs(scaled - Math.floor(scaled) - 0.5) < TIE_BAND || n < 1e11 || n >= 1e12) return Number(value.toPrecision(12));
-  const rounded = s >= 0 ? n / POWERS_OF_TEN[s] : n * POWERS_OF_TEN[-s];
+  const rounded = s >= 0 ? n / POWERS_OF_TEN[s]! : n * POWERS_OF_TEN[-s]!;
   return value < 0 ? -rounded : rounded;
 }
 
@@ -210,8 +213,9 @@ export function unitsInOrder(rows: readonly RowBase[], from = 0, to = rows.lengt
   const seen = new Map<string, Map<string, Set<string>>>();
   const out: Array<[string, string, string]> = [];
   let last: RowBase | undefined;
-  for (let i = from; i < to; i++) {
-    const r = rows[i];
+  const end = Math.min(to, rows.length);
+  for (let i = from; i < end; i++) {
+    const r = rows[i]!;
     if (r.variant === '' && r.unit === '') continue;
     // Files are written unit by unit: a row of the previous row's unit adds nothing.
     if (last && r.variant === last.variant && r.unit === last.unit && r.batch === last.batch) continue;

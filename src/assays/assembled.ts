@@ -4,8 +4,12 @@
  * Each is defined once, in its assay's folder; `assemble` checks that the assays fit together.
  * Pure.
  */
+import type { MetricScale } from '../results/types.js';
 import { ASSAYS } from './registry.js';
-import type { AssayModule, InputKindDef } from './types.js';
+import type { AssayModule, InputKindDef, PlausibleRange } from './types.js';
+
+/** A metric's typical range with the metric's scale (ratio: bounds are factors; difference: shifts). */
+export type PlausibleMetric = PlausibleRange & { scale: MetricScale };
 
 export interface Assembled {
   /** Assay ids, in report order. */
@@ -18,15 +22,18 @@ export interface Assembled {
   differenceMetrics: Set<string>;
   /** Default of every assay setting, by name (manifest: settings.<name>). */
   settings: Record<string, number>;
+  /** Typical range per metric key `<assay>.<metric>`, for the metrics that have one. */
+  plausible: Record<string, PlausibleMetric>;
 }
 
 /**
  * Assemble a list of assay modules; throws when two assays claim one id, input kind, file option
  * or setting name, when a band names no metric of its assay, or a kind differs from its schema's
- * x-kind. These are mistakes in the code, found when it is first loaded.
+ * x-kind, and when a metric has no plausible entry (a range, or null to say it has none) or a
+ * range is not a range or names a column its assay's kinds do not have. These are mistakes in the code, found when it is first loaded.
  */
 export function assemble(assays: readonly AssayModule[]): Assembled {
-  const out: Assembled = { assayIds: [], kinds: [], bands: {}, differenceMetrics: new Set(), settings: {} };
+  const out: Assembled = { assayIds: [], kinds: [], bands: {}, differenceMetrics: new Set(), settings: {}, plausible: {} };
   const kindNames = new Set<string>();
   const optionNames = new Set<string>();
   for (const a of assays) {
@@ -48,6 +55,22 @@ export function assemble(assays: readonly AssayModule[]): Assembled {
       out.bands[`${a.id}.${metric}`] = [band[0], band[1]];
     }
     for (const m of a.metrics) if (m.scale === 'difference') out.differenceMetrics.add(`${a.id}.${m.id}`);
+    for (const metric of Object.keys(a.plausible)) {
+      if (!a.metrics.some((x) => x.id === metric)) throw new Error(`assay registry: ${a.id} has a plausible range for '${metric}', which is not one of its metrics`);
+    }
+    for (const m of a.metrics) {
+      const p = a.plausible[m.id];
+      if (p === undefined) throw new Error(`assay registry: ${a.id}.${m.id} has no plausible entry: give its typical range, or null when its values are not checked against one`);
+      if (p === null) continue;
+      const [lo, hi] = p.typical;
+      if (!(lo <= hi) || (m.scale === 'ratio' && !(lo > 0))) throw new Error(`assay registry: the typical range of ${a.id}.${m.id} is not a range${m.scale === 'ratio' ? ' of positive values' : ''}`);
+      for (const c of p.causes) {
+        const kind = a.inputs.find((k) => k.kind === c.kind);
+        if (!kind) throw new Error(`assay registry: a cause of ${a.id}.${m.id} names the input kind '${c.kind}', which ${a.id} does not read`);
+        if (!(c.column in ((kind.schema.properties as object | undefined) ?? {}))) throw new Error(`assay registry: a cause of ${a.id}.${m.id} names the column '${c.column}', which '${c.kind}' does not have`);
+      }
+      out.plausible[`${a.id}.${m.id}`] = { ...p, scale: m.scale };
+    }
     for (const [name, value] of Object.entries(a.settings)) {
       if (name in out.settings) throw new Error(`assay registry: the setting '${name}' is declared by two assays`);
       out.settings[name] = value;
@@ -68,3 +91,5 @@ export const BANDS: Readonly<Record<string, [number, number]>> = ASSEMBLED.bands
 export const DIFFERENCE_METRICS: ReadonlySet<string> = ASSEMBLED.differenceMetrics;
 /** Default of every assay setting, by name (manifest: settings.<name>). */
 export const SETTINGS: Readonly<Record<string, number>> = ASSEMBLED.settings;
+/** Typical range per metric key `<assay>.<metric>`, for the metrics that have one (src/analysis/plausibility.ts). */
+export const PLAUSIBLE: Readonly<Record<string, PlausibleMetric>> = ASSEMBLED.plausible;

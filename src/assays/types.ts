@@ -45,6 +45,29 @@ export interface FileOptionDef {
 /** A file option after conversion: a number, or for 'quantity-per-unit' a value and/or one per unit. */
 export type FileOptionValue = number | { value?: number; byUnit?: Record<string, number> };
 
+/**
+ * A metric's typical value in the trade, against which fitted values are checked
+ * (src/analysis/plausibility.ts): a study's WT mean or a preparation far outside it points to a
+ * unit header that does not match the values (a rate headed 1/min with values in 1/s gives kcat 60
+ * times too low). The bounds checked are the typical range widened by PLAUSIBLE_SPREAD
+ * (src/defaults.ts): as factors for ratio metrics, as shifts for difference metrics (the metric's
+ * scale).
+ */
+export interface PlausibleRange {
+  /** The typical WT range in the metric's canonical unit. */
+  typical: readonly [number, number];
+  /** What the typical range was measured on (shown in messages). */
+  of: string;
+  /** Where the typical range is from (a source, or "from memory"). */
+  source: string;
+  /**
+   * Columns of the assay's input kinds whose unit shapes the metric: the metric is proportional to
+   * the column's value raised to `power` (1: a rate column and kcat; −1: a time column and a rate
+   * constant; 0: no unit, the column is only named). Messages name the likely cause among them.
+   */
+  causes: ReadonlyArray<{ kind: string; column: string; power: 1 | -1 | 0 }>;
+}
+
 /** What a kind's reading rules see of one file. */
 export interface KindFile {
   /** The file's options in canonical units, by name (absent when the manifest gives none). */
@@ -129,6 +152,12 @@ export interface AssayModule {
    * metrics: [low, high] of variant/WT; difference metrics: [low, high] of variant − WT.
    */
   bands: Readonly<Record<string, readonly [number, number]>>;
+  /**
+   * Typical range per metric id, or null for a metric whose fitted values are not checked against
+   * one (no typical value in the trade, or one derived from other metrics). Every metric has an
+   * entry, so that a new metric is a choice, never an oversight (src/assays/assembled.ts checks).
+   */
+  plausible: Readonly<Record<string, PlausibleRange | null>>;
   /** Default of each setting of the assay (manifest: settings.<name>); names are unique across assays. */
   settings: Readonly<Record<string, number>>;
   /** Per-unit analysis: rows → one UnitResult per (variant, unit). Pure: no I/O. */

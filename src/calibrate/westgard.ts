@@ -81,8 +81,9 @@ function allOnSameSide(z: number[], from: number, to: number, limit: number): bo
   let above = true;
   let below = true;
   for (let k = from; k <= to; k++) {
-    if (!(z[k] > limit)) above = false;
-    if (!(z[k] < -limit)) below = false;
+    const zk = z[k]!; // from ≥ 0 and to < z.length at every call
+    if (!(zk > limit)) above = false;
+    if (!(zk < -limit)) below = false;
   }
   return above || below;
 }
@@ -127,29 +128,31 @@ export function westgard(points: ControlValue[], established: EstablishedBaselin
   const runHigh = new Set<string>();
   const runLow = new Set<string>();
   points.forEach((p, i) => {
-    if (z[i] > 2) runHigh.add(runKey(p));
-    if (z[i] < -2) runLow.add(runKey(p));
+    const zi = z[i]!; // z has one value per point
+    if (zi > 2) runHigh.add(runKey(p));
+    if (zi < -2) runLow.add(runKey(p));
   });
 
-  for (let i = 0; i < points.length; i++) {
-    const zi = z[i];
-    if (Math.abs(zi) > 2) rules[i].add('1-2s');
-    if (Math.abs(zi) > 3) rules[i].add('1-3s');
-    if (i >= 1 && allOnSameSide(z, i - 1, i, 2)) rules[i].add('2-2s');
-    const run = runKey(points[i]);
-    if (Math.abs(zi) > 2 && runHigh.has(run) && runLow.has(run)) rules[i].add('R-4s');
-    if (i >= 3 && allOnSameSide(z, i - 3, i, 1)) rules[i].add('4-1s');
-    if (i >= 9 && allOnSameSide(z, i - 9, i, 0)) rules[i].add('10-x');
-  }
+  points.forEach((p, i) => {
+    const zi = z[i]!;
+    const ruled = rules[i]!; // one set per point
+    if (Math.abs(zi) > 2) ruled.add('1-2s');
+    if (Math.abs(zi) > 3) ruled.add('1-3s');
+    if (i >= 1 && allOnSameSide(z, i - 1, i, 2)) ruled.add('2-2s');
+    const run = runKey(p);
+    if (Math.abs(zi) > 2 && runHigh.has(run) && runLow.has(run)) ruled.add('R-4s');
+    if (i >= 3 && allOnSameSide(z, i - 3, i, 1)) ruled.add('4-1s');
+    if (i >= 9 && allOnSameSide(z, i - 9, i, 0)) ruled.add('10-x');
+  });
 
   const rejected: string[] = [];
   const warned: string[] = [];
   const out: WestgardPoint[] = points.map((p, i) => {
-    const list = WESTGARD_RULES.filter((r) => rules[i].has(r));
+    const list = WESTGARD_RULES.filter((r) => rules[i]!.has(r));
     if (list.some((r) => REJECTION_RULES.has(r))) {
       if (!rejected.includes(p.batch)) rejected.push(p.batch);
     } else if (list.length > 0 && !warned.includes(p.batch)) warned.push(p.batch);
-    return { batch: p.batch, value: p.value, z: z[i], rules: list };
+    return { batch: p.batch, value: p.value, z: z[i]!, rules: list };
   });
   return { points: out, rejectedBatches: rejected, warningBatches: warned.filter((b) => !rejected.includes(b)) };
 }

@@ -17,7 +17,7 @@
  * never a false error).
  */
 import { MSG, issue } from './messages.js';
-import { CATALOGUE } from './schemas.js';
+import { catalogueOf } from './schemas.js';
 import type { FileDigest, InputKind, Issue, RowBase, Variant } from './types.js';
 import { UNITS } from './units.js';
 
@@ -75,7 +75,7 @@ export function sharedGroups(files: ReadonlyArray<{ path: string; kind: InputKin
 
 /** Typed-row fields of a kind's observation key, in key order ('frame' is read as time). */
 function keyFields(kind: InputKind): Array<{ name: string; field: string; unit: string }> {
-  const cat = CATALOGUE[kind];
+  const cat = catalogueOf(kind);
   const out: Array<{ name: string; field: string; unit: string }> = [];
   for (const name of cat.rowKey) {
     const def = cat.columns.find((c) => c.name === (name === 'frame' ? 'time' : name));
@@ -117,13 +117,13 @@ export function observationHash(kind: InputKind): (row: RowBase) => number {
   return (row) => {
     const r = row as unknown as Record<string, unknown>;
     let h = 0x811c9dc5;
-    for (let f = 0; f < fields.length; f++) {
-      const v = r[fields[f]];
+    for (const field of fields) {
+      const v = r[field];
       if (typeof v === 'number') {
         float[0] = v === 0 ? 0 : v;
         h = Math.imul(h ^ 2, 0x01000193);
-        h = Math.imul(h ^ halves[0], 0x01000193);
-        h = Math.imul(h ^ halves[1], 0x01000193);
+        h = Math.imul(h ^ halves[0]!, 0x01000193); // halves: the two 32-bit words of one float64
+        h = Math.imul(h ^ halves[1]!, 0x01000193);
       } else if (typeof v === 'string') {
         h = Math.imul(h ^ 3, 0x01000193);
         for (let i = 0; i < v.length; i++) h = Math.imul(h ^ v.charCodeAt(i), 0x01000193);
@@ -156,8 +156,9 @@ export function hashesMeet(a: Uint32Array, b: Uint32Array): boolean {
   let i = 0;
   let j = 0;
   while (i < a.length && j < b.length) {
-    if (a[i] === b[j]) return true;
-    if (a[i] < b[j]) i++;
+    const [x, y] = [a[i]!, b[j]!]; // i, j within bounds by the loop condition
+    if (x === y) return true;
+    if (x < y) i++;
     else j++;
   }
   return false;

@@ -64,7 +64,7 @@ function bytePosition(bytes: Uint8Array, offset: number): { line: number; col: n
 export function firstInvalidUtf8(b: Uint8Array): number {
   let i = 0;
   while (i < b.length) {
-    const c = b[i];
+    const c = b[i]!;
     if (c < 0x80) {
       i++;
       continue;
@@ -106,12 +106,12 @@ export function decodeText(data: Uint8Array | string): DecodeResult {
     const bytes = data as Uint8Array;
     const at = firstInvalidUtf8(bytes);
     if (at < 0) return { ok: false, problem: MSG.encoding() };
-    return { ok: false, problem: MSG.encodingByte(bytes[at]), ...bytePosition(bytes, at) };
+    return { ok: false, problem: MSG.encodingByte(bytes[at]!), ...bytePosition(bytes, at) };
   }
   const nul = text.indexOf('\0');
   if (nul >= 0) {
     const before = text.slice(0, nul).split(/\r\n|\n|\r/);
-    return { ok: false, problem: MSG.nulCharacter(), line: before.length, col: [...before[before.length - 1]].length + 1 };
+    return { ok: false, problem: MSG.nulCharacter(), line: before.length, col: [...before[before.length - 1]!].length + 1 };
   }
   return { ok: true, text };
 }
@@ -165,7 +165,7 @@ function lineAt(starts: Uint32Array, offset: number): number {
   let hi = starts.length - 1;
   while (lo < hi) {
     const mid = (lo + hi + 1) >> 1;
-    if (starts[mid] <= offset) lo = mid;
+    if (starts[mid]! <= offset) lo = mid;
     else hi = mid - 1;
   }
   return lo + 1;
@@ -205,7 +205,7 @@ function guessNewline(text: string): '\n' | '\r\n' | '\r' {
 
 /** Are all cells empty or whitespace (papaparse's skipEmptyLines: 'greedy')? */
 function blankRow(cells: string[]): boolean {
-  for (let i = 0; i < cells.length; i++) if (cells[i].length > 0 && cells[i].trim() !== '') return false;
+  for (const cell of cells) if (cell.length > 0 && cell.trim() !== '') return false;
   return true;
 }
 
@@ -240,7 +240,7 @@ export function scanCsv(input: string, file: string, onRow: CsvRowSink, options:
     // Line breaks inside the row's cells; a break at the very end of the last cell (a stray CR
     // before the row's own line ending) is on the row's last line and does not count.
     let inner = 0;
-    for (let i = 0; i < cells.length; i++) inner += countBreaks(cells[i]);
+    for (const cell of cells) inner += countBreaks(cell);
     const lastCell = cells[cells.length - 1] ?? '';
     const lastCode = lastCell.charCodeAt(lastCell.length - 1);
     if (lastCode === 10 || lastCode === 13) inner--;
@@ -299,7 +299,7 @@ export function scanCsv(input: string, file: string, onRow: CsvRowSink, options:
           if (err.code === 'MissingQuotes' && text[offset] !== '"' && text[offset - 1] === '"') offset--;
           const at = lineAt(table, offset);
           if (err.code === 'MissingQuotes') line = Math.min(line, at); // the row starts where its quote opens
-          issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at, col: offset - table[at - 1] + 1 }));
+          issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line: at, col: offset - table[at - 1]! + 1 }));
         } else issues.push(issue(MSG.quotes(err.message.toLowerCase()), { file, line }));
       }
       onRow(cells, line);
@@ -417,8 +417,8 @@ function scanNumber(t: string, sep: number): number {
   const e = exp - fracDigits;
   let v: number;
   if (e === 0) v = m;
-  else if (e > 0 && e <= 22) v = m * POW10[e];
-  else if (e < 0 && e >= -22) v = m / POW10[-e];
+  else if (e > 0 && e <= 22) v = m * POW10[e]!;
+  else if (e < 0 && e >= -22) v = m / POW10[-e]!;
   else return Infinity;
   return neg ? -v : v;
 }

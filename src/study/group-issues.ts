@@ -38,7 +38,8 @@ export function rangesText(ranges: ReadonlyArray<[number, number]>, max = SHOWN_
   const one = ([a, b]: [number, number]) => (a === b ? String(a) : `${a}–${b}`);
   const shown = ranges.slice(0, max).map(one).join(', ');
   const rest = ranges.length - max;
-  const word = ranges.length === 1 && ranges[0][0] === ranges[0][1] ? 'line' : 'lines';
+  const [only] = ranges;
+  const word = ranges.length === 1 && only !== undefined && only[0] === only[1] ? 'line' : 'lines';
   return `${word} ${shown}${rest > 0 ? ` and ${rest} more range${rest === 1 ? '' : 's'}` : ''}`;
 }
 
@@ -70,8 +71,9 @@ function strip(i: Issue): Issue {
   return rest;
 }
 
+/** One issue for a group of issues (groups are made from at least one issue each). */
 function merge(list: Issue[]): Issue {
-  const first = strip(list[0]);
+  const first = strip(list[0]!);
   const total = list.reduce((n, i) => n + (i.count ?? 1), 0);
   if (list.length === 1) return first;
   const lines: number[] = [];
@@ -84,6 +86,6 @@ function merge(list: Issue[]): Issue {
   const where = first.at.column !== undefined ? `cells of '${first.at.column}'` : 'rows';
   const more = total - (first.count ?? 1);
   const message = `${first.message} The same on ${count(more)} more ${more === 1 ? where.replace(/s( of|$)/, '$1') : where} (${count(total)} in all, ${rangesText(ranges)}).`;
-  const at = { ...first.at, lineEnd: ranges[ranges.length - 1][1] };
+  const at = { ...first.at, lineEnd: ranges[ranges.length - 1]![1] }; // at least two issues, so at least one range
   return { ...first, message, at, count: total, ...(variants.length > 0 ? { variants } : {}) };
 }

@@ -52,8 +52,9 @@ function residueCode(token: string): { one: string; three: string } | undefined 
   if (token.length === 3) {
     const one = ONE_LETTER[token.toLowerCase()];
     // Three-letter codes are written with a capital first letter (Arg, not ARG or arg).
-    if (one && token[0] === token[0].toUpperCase() && token.slice(1) === token.slice(1).toLowerCase()) {
-      return { one, three: AMINO_ACIDS[one] };
+    const three = one === undefined ? undefined : AMINO_ACIDS[one];
+    if (one && three && token.slice(0, 1) === token.slice(0, 1).toUpperCase() && token.slice(1) === token.slice(1).toLowerCase()) {
+      return { one, three };
     }
   }
   return undefined;
@@ -75,7 +76,7 @@ export function parseProteinChange(input: string): HgvsParse {
       reason: 'expected a protein substitution such as p.Arg403Gln, p.R403Q or R403Q (or p.Lys847del, p.Arg403Ter, p.Arg403=)',
     };
   }
-  const [, refToken, posText, altToken] = m;
+  const [, refToken = '', posText = '', altToken = ''] = m; // every group of the pattern takes part in a match
   const ref = residueCode(refToken);
   if (!ref || ref.one === '*') return { ok: false, reason: `'${refToken}' is not an amino-acid code` };
   const residue = Number(posText);
@@ -104,7 +105,7 @@ export function parseProteinChange(input: string): HgvsParse {
  */
 export function checkReferenceResidue(change: ProteinChange, sequence: string): { found?: string; beyondEnd: boolean } | undefined {
   if (change.residue > sequence.length) return { beyondEnd: true };
-  const found = sequence[change.residue - 1].toUpperCase();
+  const found = sequence.charAt(change.residue - 1).toUpperCase(); // 1 ≤ residue ≤ length
   const expected = ONE_LETTER[change.refAA.toLowerCase()];
   return found === expected ? undefined : { found: AMINO_ACIDS[found] ?? found, beyondEnd: false };
 }

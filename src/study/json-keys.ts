@@ -110,7 +110,7 @@ export function findDuplicateKeys(text: string): DuplicateKey[] {
       }
     } else {
       // A number, true, false or null: skip to the next delimiter.
-      while (i < n && !/[\s,\]}]/.test(text[i])) i++;
+      while (i < n && !/[\s,\]}]/.test(text.charAt(i))) i++;
     }
   }
   return found;

@@ -75,11 +75,11 @@ export function locateJsonError(text: string): JsonSyntaxProblem | undefined {
     skipWs();
     const top = stack[stack.length - 1];
     if (state === 'afterValue' && top === undefined) {
-      if (i < n) return fail(`unexpected ${describeChar(text[i])} after the end of the JSON value`);
+      if (i < n) return fail(`unexpected ${describeChar(text.charAt(i))} after the end of the JSON value`);
       return undefined;
     }
     if (i >= n) return fail(stack.length ? `the text ends before every '${top === 'o' ? '{' : '['}' is closed` : 'the text is empty');
-    const ch = text[i];
+    const ch = text.charAt(i); // i < n
     switch (state) {
       case 'firstValue':
       case 'value': {

@@ -299,7 +299,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
       for (const [g, paths] of groups) {
         if (!paths.some((p) => omitted.has(p))) continue;
         let meet = false;
-        for (let a = 0; a < paths.length && !meet; a++) for (let b = a + 1; b < paths.length && !meet; b++) meet = hashesMeet(hashes(paths[a]).get(g) ?? new Uint32Array(), hashes(paths[b]).get(g) ?? new Uint32Array());
+        for (let a = 0; a < paths.length && !meet; a++) for (let b = a + 1; b < paths.length && !meet; b++) meet = hashesMeet(hashes(paths[a]!).get(g) ?? new Uint32Array(), hashes(paths[b]!).get(g) ?? new Uint32Array());
         if (meet) paths.filter((p) => omitted.has(p)).forEach((p) => reread.add(p));
         else groups.delete(g); // no observation in common
       }
@@ -330,7 +330,7 @@ export function loadStudy(input: StudyFiles, options: LoadOptions = {}): LoadOut
   if (!manifest.droppedWildType) issues.push(...checkWildTypeFacts(Object.keys(rowParts).map((k) => [k as InputKind, wtFacts[k as InputKind] ?? []]), manifest.variants));
   // Without any data row, the one error above stands for each file's "header but no rows" and each unused variant.
   if (noData) {
-    for (let k = issues.length - 1; k >= 0; k--) if (issues[k].code === 'csv.no-rows') issues.splice(k, 1);
+    for (let k = issues.length - 1; k >= 0; k--) if (issues[k]!.code === 'csv.no-rows') issues.splice(k, 1);
   } else issues.push(...checkUnusedVariants(manifest.variants, variantsSeen));
   issues.push(...checkExclusionsMatch(manifest.exclusions, batches, units));
 

@@ -43,13 +43,13 @@ export function salvageManifest(raw: unknown, errors: readonly ErrorObject[]): S
     else bad.set(field, new Set([item]));
   };
   for (const err of errors) {
-    const parts = err.instancePath.split('/').slice(1).map(token);
-    if (parts.length === 0) {
+    const [field, item] = err.instancePath.split('/').slice(1).map(token);
+    if (field === undefined) {
       if (err.keyword === 'required') mark((err.params as { missingProperty: string }).missingProperty);
       else if (err.keyword !== 'additionalProperties' && err.keyword !== 'if') return undefined;
       continue;
     }
-    mark(parts[0], parts[1]);
+    mark(field, item);
   }
 
   const list = (field: string): unknown[] => {

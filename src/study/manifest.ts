@@ -12,7 +12,7 @@ import type { ManifestFile, ManifestJson, ManifestQuantity, ManifestQuantityPerU
 import { salvageManifest } from './manifest-salvage.js';
 import { closestNames } from './suggest.js';
 import { MSG, issue, type MessageText } from './messages.js';
-import { CATALOGUE, validators } from './schemas.js';
+import { catalogueOf, validators } from './schemas.js';
 import type { Exclusion, Gene, Issue, Variant } from './types.js';
 import { conversionFactor, lookupUnit, unitChoices, UNITS, type Quantity } from './units.js';
 
@@ -238,7 +238,7 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
         unresolvable();
         return;
       }
-      geneSymbol = symbols[0];
+      geneSymbol = symbols[0]!; // genes.length is 1 here
     } else if (!geneIndex.has(geneSymbol)) {
       issues.push(issue(MSG.unknownGene(geneSymbol, symbols, closestNames(geneSymbol, symbols)), at(`${path}/gene`)));
       unresolvable();
@@ -333,7 +333,7 @@ export function readManifest(text: string, file: string): { manifest?: ParsedMan
     const path = `/files/${fi}`;
     if (seenPaths.has(f.path)) issues.push(issue(MSG.duplicateFile(f.path), at(`${path}/path`)));
     seenPaths.add(f.path);
-    const cat = CATALOGUE[f.kind];
+    const cat = catalogueOf(f.kind);
     const units: Record<string, string> = {};
     for (const [column, unitText] of Object.entries(f.units ?? {})) {
       const def = cat.columns.find((c) => c.name.toLowerCase() === column.toLowerCase());

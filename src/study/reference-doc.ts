@@ -6,7 +6,7 @@
  */
 import { ASSAY_IDS, BANDS, KINDS, SETTINGS } from '../assays/assembled.js';
 import { STATS } from '../defaults.js';
-import { CATALOGUE, INPUT_KINDS, MANIFEST_NAME, MANIFEST_SCHEMA } from './schemas.js';
+import { catalogueOf, INPUT_KINDS, MANIFEST_NAME, MANIFEST_SCHEMA } from './schemas.js';
 import type { InputKind } from './types.js';
 import { UNITS, type Quantity } from './units.js';
 
@@ -17,7 +17,7 @@ const cell = (s: string) => s.replace(/\|/g, '\\|').replace(/\n/g, ' ');
 
 /** Markdown table of one input kind's columns (one row per column, in schema order). */
 export function columnTable(kind: (typeof INPUT_KINDS)[number]): string {
-  const cat = CATALOGUE[kind];
+  const cat = catalogueOf(kind);
   const rows = cat.columns.map((c) => {
     const need = c.required ? 'yes' : cat.alternatives.some((g) => g.includes(c.name)) ? 'one of ' + cat.alternatives.find((g) => g.includes(c.name))!.join('/') : 'no';
     const units = c.quantity ? UNITS[c.quantity].units.map((u) => u.symbol).join(', ') + (c.pixels ? ', px' : '') : '—';
@@ -68,7 +68,7 @@ export function fieldGuide(kinds: readonly InputKind[]): string {
   out.push('## CSV rules', '', ...CSV_RULES, '');
   out.push('## Units', '', unitsTable(), '');
   for (const kind of kinds) {
-    const cat = CATALOGUE[kind];
+    const cat = catalogueOf(kind);
     out.push(`## \`${kind}\`: ${cat.title}`, '', cell(cat.description), '', columnTable(kind), '');
   }
   return out.join('\n');
@@ -95,7 +95,7 @@ const CSV_RULES: readonly string[] = [
   '- UTF-8 with or without BOM; delimiter `,` or `;`, read from the header line; lines starting with `#` are comments; blank lines are skipped.',
   '- Units go in the header (`actin (uM)`, `actin [µM]`, `actin_uM`, `velocity (nm/s)`, `velocity_nm_s`) or in the manifest `units`; µ may be written `u`. A measurement column without a unit, or with an unknown unit, is an error. Values are converted on load to µM, µm/s, s, kPa (= mN/mm²), µm, 1/s.',
   '- Numbers are strict: `12`, `-0.5`, `.5`, `1e-3` and `00123` (= 123, in number columns only; text columns keep the text) are numbers; `1,2` is an error unless the file declares a decimal comma; `NA`, dates, units and thousands separators are errors unless declared as missing-value tokens.',
-  '- Every variant in a CSV must be declared in the manifest; every batch that holds a variant must hold WT for the same input kind; repeated observations are errors, also when the repeat is in another file of the same kind (rows of one preparation may be split over several files), identical rows warnings; implausible values are warnings, and so are fitted values far outside the typical range of the trade (`PLAUSIBLE` in `src/defaults.ts`), with the column whose unit is the likely cause.',
+  '- Every variant in a CSV must be declared in the manifest; every batch that holds a variant must hold WT for the same input kind; repeated observations are errors, also when the repeat is in another file of the same kind (rows of one preparation may be split over several files), identical rows warnings; implausible values are warnings, and so are fitted values far outside the typical range of the trade (`plausible` of each assay, in `src/assays/<assay>/metrics.ts`), with the column whose unit is the likely cause.',
   '- A problem found in many cells (a whole column in the wrong unit, a file in decimal commas, a misspelt label) is reported once, with the number of cells and their lines.',
 ];
 
@@ -121,7 +121,7 @@ export function inputReference(): string {
   out.push('### CSV rules', '', ...CSV_RULES, '');
   out.push('### Units', '', unitsTable(), '');
   for (const kind of INPUT_KINDS) {
-    const cat = CATALOGUE[kind];
+    const cat = catalogueOf(kind);
     out.push(`### \`${kind}\`: ${cat.title}`, '', cell(cat.description), '', columnTable(kind), '');
   }
   return out.join('\n');

@@ -71,9 +71,9 @@ function compileValue(node: Node): ((v: string | number) => boolean) | undefined
     }
   }
   if (checks.length === 0) return () => true;
-  if (checks.length === 1) return checks[0];
+  if (checks.length === 1) return checks[0]!;
   return (v) => {
-    for (let i = 0; i < checks.length; i++) if (!checks[i](v)) return false;
+    for (const check of checks) if (!check(v)) return false;
     return true;
   };
 }
@@ -96,7 +96,7 @@ function compileObject(node: Node, slotOf: (name: string) => number | undefined)
           slots.push(slot);
         }
         checks.push((vals) => {
-          for (let i = 0; i < slots.length; i++) if (vals[slots[i]] === undefined) return false;
+          for (const slot of slots) if (vals[slot] === undefined) return false;
           return true;
         });
         break;
@@ -138,7 +138,7 @@ function compileObject(node: Node, slotOf: (name: string) => number | undefined)
     }
   }
   return (vals) => {
-    for (let i = 0; i < checks.length; i++) if (!checks[i](vals)) return false;
+    for (const check of checks) if (!check(vals)) return false;
     return true;
   };
 }

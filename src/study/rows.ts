@@ -18,7 +18,7 @@ import type { FileSpec } from './manifest.js';
 import { MSG, issue, shown } from './messages.js';
 import { compileRowCheck } from './row-check.js';
 import type { KindReading, RowReport } from '../assays/types.js';
-import { CATALOGUE, KIND_DEFS, RENAMED_COLUMNS, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
+import { catalogueOf, KIND_DEFS, RENAMED_COLUMNS, ROW_SCHEMAS, validators, type ColumnDef } from './schemas.js';
 import { closestNames } from './suggest.js';
 import type { ColumnUnit, InputKind, Issue, RowsByKind, SourceRef, Variant } from './types.js';
 import { conversionFactor, lookupUnit, normaliseUnitText, UNITS, unitChoices } from './units.js';
@@ -71,7 +71,7 @@ export function splitHeader(header: string, columns: readonly ColumnDef[]): { de
   if (exact) return { def: exact, name: exact.name };
   const m = HEADER_UNIT.exec(text);
   if (m) {
-    const def = find(m[1]);
+    const def = find(m[1] ?? '');
     if (def) return { def, name: def.name, unit: m[2] };
   }
   for (let i = text.indexOf('_'); i > 0; i = text.indexOf('_', i + 1)) {
@@ -157,6 +157,10 @@ export function readRows<K extends InputKind>(
   return reader.finish();
 }
 
+function noKind(kind: string): never {
+  throw new Error(`no input kind '${kind}' in the registry`);
+}
+
 /**
  * Row by row form of `readRows`, for reading a file while it is parsed (no table of rows kept).
  * Issues are appended to `issues` in the same order as `readRows` gives them. Strings kept in the
@@ -173,7 +177,8 @@ export function createRowReader<K extends InputKind>(
   pool: StringPool = new StringPool(),
   unresolved: ReadonlySet<string> = new Set(),
 ): RowReader<K> {
-  const cat = CATALOGUE[kind];
+  // Kinds come from the registry (the manifest schema allows no other): a miss is a mistake in the code.
+  const cat = catalogueOf(kind);
   const out: FileRows<K> = { kind, rows: [] as unknown as RowsByKind[K], variantsSeen: new Set(), labels: new Map(), batches: new Set(), units: new Set(), rowCount: 0, columns: [] };
   let state: 'no-header' | 'skip' | 'read' = 'no-header';
   let headerLine = 0;
@@ -289,11 +294,13 @@ export function createRowReader<K extends InputKind>(
   /** Compile the per-row work for the resolved columns: everything looked up once here. */
   function rowReader(columns: ResolvedColumn[], reading: KindReading): (cells: string[], line: number) => void {
     const validate = validators().rows[kind];
+    const rowSchema = ROW_SCHEMAS[kind];
+    if (!validate || !rowSchema) noKind(kind);
     const n = columns.length;
     const byName = new Map(columns.map((c) => [c.def.name, c]));
     const slotByName = new Map(columns.map((c, j) => [c.def.name, j]));
     const slotOf = (name: string) => slotByName.get(name);
-    const fastValid = compileRowCheck(ROW_SCHEMAS[kind], slotOf);
+    const fastValid = compileRowCheck(rowSchema, slotOf);
     const keyColumns = cat.rowKey.filter((k) => byName.has(k));
     const keySlots = keyColumns.map((k) => slotOf(k)!);
     // A key column stands in for the others of its alternative group (e.g. frame for time).
@@ -376,13 +383,14 @@ export function createRowReader<K extends InputKind>(
       let failed: Set<string> | undefined;
       for (let j = 0; j < n; j++) {
         vals[j] = undefined;
-        const text = cells[cellIndex[j]].trim();
+        // j < n = columns.length, and every header index is below width = cells.length.
+        const text = cells[cellIndex[j]!]!.trim();
         if (anyMissing && missing.has(text)) {
           if (skipsRow[j]) {
             if (!skipped) {
-              const label = variantSlot === undefined ? undefined : cells[cellIndex[variantSlot]].trim();
+              const label = variantSlot === undefined ? undefined : cells[cellIndex[variantSlot]!]!.trim();
               const v = label ? byLabel.get(label) : undefined;
-              issues.push(issue(MSG.missingSkipped(columns[j].def.name, text), cellAt(columns[j], line), { variants: v ? [v.id] : [] }));
+              issues.push(issue(MSG.missingSkipped(columns[j]!.def.name, text), cellAt(columns[j]!, line), { variants: v ? [v.id] : [] }));
             }
             skipped = true;
           }
@@ -396,8 +404,8 @@ export function createRowReader<K extends InputKind>(
             lastText[j] = text;
             lastId[j] = pool.id(text);
           }
-          ids[j] = lastId[j];
-          vals[j] = strings[lastId[j]];
+          ids[j] = lastId[j]!;
+          vals[j] = strings[lastId[j]!];
           continue;
         }
         let value = numberCellValue(text, decimal, type === 2);
@@ -406,7 +414,7 @@ export function createRowReader<K extends InputKind>(
           const parsed = parseNumberCell(text, decimal, type === 2);
           if (parsed.ok) value = parsed.value;
           else {
-            const c = columns[j];
+            const c = columns[j]!;
             const msg =
               parsed.reason === 'decimal-comma' ? MSG.decimalCommaUndeclared(c.def.name, text)
               : parsed.reason === 'decimal-point' ? MSG.decimalPointWithComma(c.def.name, text)
@@ -418,13 +426,13 @@ export function createRowReader<K extends InputKind>(
             continue;
           }
         }
-        vals[j] = value * factor[j];
+        vals[j] = value * factor[j]!;
       }
       if (skipped) return;
       if (bad || !fastValid || !fastValid(vals)) {
         // The row object as the row schema sees it (column order), validated by ajv for the errors.
         const obj: Record<string, string | number> = {};
-        for (let j = 0; j < n; j++) if (vals[j] !== undefined) obj[columns[j].def.name] = vals[j]!;
+        for (let j = 0; j < n; j++) if (vals[j] !== undefined) obj[columns[j]!.def.name] = vals[j]!;
         if (!validate(obj)) {
           for (const err of validate.errors ?? []) {
             if (err.keyword === 'if') continue;
@@ -476,8 +484,8 @@ export function createRowReader<K extends InputKind>(
       const batch = vals[batchSlot!] as string;
       const typed: Record<string, unknown> = { variant: variantId, unit, batch, at: { file, line } };
       for (let k = 0; k < fieldSlots.length; k++) {
-        const v = vals[fieldSlots[k]];
-        if (v !== undefined) typed[fieldNames[k]] = v;
+        const v = vals[fieldSlots[k]!];
+        if (v !== undefined) typed[fieldNames[k]!] = v;
       }
       if (complete) {
         rowLine = line;
@@ -487,8 +495,8 @@ export function createRowReader<K extends InputKind>(
 
       // Plausibility (canonical units).
       for (let k = 0; k < plausibleSlots.length; k++) {
-        const j = plausibleSlots[k];
-        const c = columns[j];
+        const j = plausibleSlots[k]!;
+        const c = columns[j]!;
         const p = c.def.plausible!;
         const v = vals[j];
         if (typeof v !== 'number') continue;
@@ -511,7 +519,7 @@ export function createRowReader<K extends InputKind>(
         // Two keys are equal exactly when their JSON texts are: texts by their pool id, numbers
         // as JSON writes them (every non-finite number as null, −0 as 0), a missing cell apart.
         for (let k = 0; k < keySlots.length; k++) {
-          const j = keySlots[k];
+          const j = keySlots[k]!;
           const v = vals[j];
           keyParts[k] = v === undefined ? '-' : kindOf[j] === 0 ? `s${ids[j]}` : Number.isFinite(v) ? String(v) : 'null';
         }
@@ -519,7 +527,7 @@ export function createRowReader<K extends InputKind>(
         const first = firstByKey.get(key);
         if (first === undefined) firstByKey.set(key, line);
         else {
-          issues.push(issue(MSG.duplicateKey(first, keyColumns.map((k, i) => `${k} ${vals[keySlots[i]] ?? ''}`).join(', ')), { file, line }));
+          issues.push(issue(MSG.duplicateKey(first, keyColumns.map((k, i) => `${k} ${vals[keySlots[i]!] ?? ''}`).join(', ')), { file, line }));
           return;
         }
       } else {

@@ -138,13 +138,31 @@ function makeAjv(): Ajv2020 {
   return ajv;
 }
 
+/**
+ * The catalogue entry of an input kind. Kinds come from the registry (the manifest schema allows
+ * no other, and a file entry of another kind is dropped before its kind is looked up), so a miss is
+ * a mistake in the code.
+ */
+export function catalogueOf(kind: InputKind): KindCatalogue {
+  const cat = CATALOGUE[kind];
+  if (!cat) throw new Error(`no input kind '${kind}' in the assay registry`);
+  return cat;
+}
+
+/** The row schema of an input kind (see catalogueOf). */
+function rowSchemaOf(kind: InputKind): Record<string, unknown> {
+  const schema = ROW_SCHEMAS[kind];
+  if (!schema) throw new Error(`no input kind '${kind}' in the assay registry`);
+  return schema;
+}
+
 let ajv: Ajv2020 | undefined;
 let manifestValidator: ValidateFunction | undefined;
 const rowValidators = new Map<InputKind, ValidateFunction>();
 
 function rowValidator(kind: InputKind): ValidateFunction {
   let v = rowValidators.get(kind);
-  if (!v) rowValidators.set(kind, (v = (ajv ??= makeAjv()).compile(ROW_SCHEMAS[kind])));
+  if (!v) rowValidators.set(kind, (v = (ajv ??= makeAjv()).compile(rowSchemaOf(kind))));
   return v;
 }
 

@@ -28,18 +28,19 @@ export function editDistance(a: string, b: string, limit = Infinity): number {
   let cur = new Array<number>(m + 1).fill(0);
   for (let i = 1; i <= n; i++) {
     cur[0] = i;
-    let rowMin = cur[0];
+    let rowMin = i;
+    // Every index below is within 0…m, the length of the three rows less one.
     for (let j = 1; j <= m; j++) {
       const cost = a.charCodeAt(i - 1) === b.charCodeAt(j - 1) ? 0 : 1;
-      let d = Math.min(prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + cost);
-      if (i > 1 && j > 1 && a.charCodeAt(i - 1) === b.charCodeAt(j - 2) && a.charCodeAt(i - 2) === b.charCodeAt(j - 1)) d = Math.min(d, prev2[j - 2] + 1);
+      let d = Math.min(prev[j]! + 1, cur[j - 1]! + 1, prev[j - 1]! + cost);
+      if (i > 1 && j > 1 && a.charCodeAt(i - 1) === b.charCodeAt(j - 2) && a.charCodeAt(i - 2) === b.charCodeAt(j - 1)) d = Math.min(d, prev2[j - 2]! + 1);
       cur[j] = d;
       if (d < rowMin) rowMin = d;
     }
     if (rowMin > limit) return Infinity;
     [prev2, prev, cur] = [prev, cur, prev2];
   }
-  return prev[m];
+  return prev[m]!;
 }
 
 /** Longest name compared (a longer text is no near-miss of a label, and comparing it costs its length squared). */

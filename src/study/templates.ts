@@ -5,19 +5,19 @@
  */
 import { KINDS } from '../assays/assembled.js';
 import { fieldGuide } from './reference-doc.js';
-import { CATALOGUE, INPUT_KINDS, KIND_DEFS, MANIFEST_NAME } from './schemas.js';
+import { catalogueOf, INPUT_KINDS, KIND_DEFS, MANIFEST_NAME } from './schemas.js';
 import type { InputKind } from './types.js';
 import { UNITS, unitChoices } from './units.js';
 
 /** The header cell of a column in templates: name plus its canonical unit. */
 export function templateHeader(kind: InputKind, name: string): string {
-  const def = CATALOGUE[kind].columns.find((c) => c.name === name)!;
+  const def = catalogueOf(kind).columns.find((c) => c.name === name)!;
   return def.quantity ? `${name} (${UNITS[def.quantity].canonical})` : name;
 }
 
 /** CSV template text of one input kind. */
 export function csvTemplate(kind: InputKind): string {
-  const cat = CATALOGUE[kind];
+  const cat = catalogueOf(kind);
   // All columns but those the kind leaves out of templates (the second of an alternative pair, helpers).
   const cols = cat.columns.filter((c) => !(KIND_DEFS[kind]?.templateSkip ?? []).includes(c.name));
   const lines = [`# ${cat.title}. ${cat.description}`, '# Lines starting with # are comments. One row per observation; delete these comments if you like.'];

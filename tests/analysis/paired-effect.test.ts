@@ -18,29 +18,29 @@ function olsBatchModel(batches: Array<{ batch: string; variant: number[]; wt: nu
   const xty = Array(p).fill(0);
   for (const r of rows) {
     for (let i = 0; i < p; i++) {
-      xty[i] += r.x[i] * r.y;
-      for (let j = 0; j < p; j++) xtx[i][j] += r.x[i] * r.x[j];
+      xty[i] += r.x[i]! * r.y;
+      for (let j = 0; j < p; j++) xtx[i]![j] += r.x[i]! * r.x[j]!;
     }
   }
   // Invert X'X by Gauss–Jordan.
   const aug = xtx.map((row, i) => [...row, ...[...Array(p)].map((_, j) => (i === j ? 1 : 0))]);
   for (let c = 0; c < p; c++) {
     let piv = c;
-    for (let r = c + 1; r < p; r++) if (Math.abs(aug[r][c]) > Math.abs(aug[piv][c])) piv = r;
-    [aug[c], aug[piv]] = [aug[piv], aug[c]];
-    const d = aug[c][c];
-    for (let j = 0; j < 2 * p; j++) aug[c][j] /= d;
+    for (let r = c + 1; r < p; r++) if (Math.abs(aug[r]![c]) > Math.abs(aug[piv]![c])) piv = r;
+    [aug[c], aug[piv]] = [aug[piv]!, aug[c]!];
+    const d = aug[c]![c];
+    for (let j = 0; j < 2 * p; j++) aug[c]![j] /= d;
     for (let r = 0; r < p; r++) {
       if (r === c) continue;
-      const f = aug[r][c];
-      for (let j = 0; j < 2 * p; j++) aug[r][j] -= f * aug[c][j];
+      const f = aug[r]![c];
+      for (let j = 0; j < 2 * p; j++) aug[r]![j] -= f * aug[c]![j];
     }
   }
   const inv = aug.map((row) => row.slice(p));
   const beta = inv.map((row) => row.reduce((s, v, j) => s + v * xty[j], 0));
   const rss = rows.reduce((s, r) => s + (r.y - r.x.reduce((t, v, j) => t + v * beta[j], 0)) ** 2, 0);
   const df = rows.length - p;
-  const se = Math.sqrt((rss / df) * inv[p - 1][p - 1]);
+  const se = Math.sqrt((rss / df) * inv[p - 1]![p - 1]);
   return { delta: beta[p - 1], se, df };
 }
 

@@ -1,6 +1,6 @@
 /**
  * Checks that need the fitted units: plausibility of WT means and preparations against the trade's
- * typical ranges (src/defaults.ts PLAUSIBLE: kcat 4–7 s⁻¹, velocity 0.7–1.0 µm/s, Fmax 20–40 kPa,
+ * typical ranges (each assay's `plausible` in src/assays/<assay>/metrics.ts: kcat 4–7 s⁻¹, velocity 0.7–1.0 µm/s, Fmax 20–40 kPa,
  * pCa50 5.5–6.0, typical WT values from memory; turnover rates 0.030 and 0.0034 s⁻¹, Sarkar et
  * al., Sci Adv 2020); one preparation label in two batches; too few known controls.
  * Unit values are constructed; the expected numbers are computed by hand from them (a value read in
@@ -61,7 +61,7 @@ describe('implausible fitted values', () => {
     const kcat = 5 / 60;
     const issues = plausibilityIssues(atpaseUnits(kcat), [atpase], [rates('1/min')], VARIANTS);
     expect(issues).toHaveLength(1);
-    const [w] = issues;
+    const w = issues[0]!;
     expect(w).toMatchObject({ severity: 'warning', code: 'study.implausible-wt', at: { file: 'rates.csv', line: 1, column: 'rate', col: 5 }, variants: ['wt', 'a1b'] });
     expect(w.message).toContain('kcat of WT in this file: 0.0874 s⁻¹ (geometric mean of 2 preparations)');
     expect(w.message).toContain('below the plausible 0.4–70 s⁻¹ (typical 4–7 s⁻¹ for human β-cardiac myosin)');
@@ -72,7 +72,7 @@ describe('implausible fitted values', () => {
   it('values in the typical range give no warning; a file without WT is checked per preparation only', () => {
     expect(plausibilityIssues(atpaseUnits(5), [atpase], [rates('1/s')], VARIANTS)).toEqual([]);
     const onlyVariant = [unit('atpase', 'a1b', 'p1', 'B1', { kcat: 300, km: 40 })];
-    const [w] = plausibilityIssues(onlyVariant, [atpase], [rates('1/s')], VARIANTS);
+    const w = plausibilityIssues(onlyVariant, [atpase], [rates('1/s')], VARIANTS)[0]!;
     expect(w.code).toBe('study.implausible-preparation');
     // 300 s⁻¹ read as 1/min is 5 s⁻¹.
     expect(w.message).toContain("'p1' of 'A1B' (batch 'B1') 300 s⁻¹");
@@ -84,19 +84,19 @@ describe('implausible fitted values', () => {
     const issues = plausibilityIssues(units, [atpase], [rates('1/s')], VARIANTS);
     expect(issues).toHaveLength(1);
     expect(issues[0]).toMatchObject({ code: 'study.implausible-preparation', variants: ['c2d'], at: { file: 'rates.csv', column: 'rate' } });
-    expect(issues[0].at.lineEnd! - issues[0].at.line!).toBe(5);
+    expect(issues[0]!.at.lineEnd! - issues[0]!.at.line!).toBe(5);
   });
 
   it('tension headed Pa with values in kPa: Fmax of WT 0.025 kPa, read as kPa 25 kPa', () => {
     const units = [unit('force', 'wt', 'w1', 'B1', { fmax: 0.025, pCa50: 5.8 }, 'f.csv'), unit('force', 'wt', 'w2', 'B1', { fmax: 0.025, pCa50: 5.8 }, 'f.csv')];
-    const [w] = plausibilityIssues(units, [force], [file('f.csv', 'force-pca', [col('tension', 'Pa', 5)])], VARIANTS);
+    const w = plausibilityIssues(units, [force], [file('f.csv', 'force-pca', [col('tension', 'Pa', 5)])], VARIANTS)[0]!;
     expect(w.at).toMatchObject({ file: 'f.csv', line: 1, column: 'tension', col: 5 });
     expect(w.message).toContain('read as kPa, the values would give 25 kPa');
   });
 
   it('pCa50 of WT at 7.8: the pCa column is named (it has no unit)', () => {
     const units = [unit('force', 'wt', 'w1', 'B1', { fmax: 30, pCa50: 7.8 }, 'f.csv')];
-    const [w] = plausibilityIssues(units, [force], [file('f.csv', 'force-pca', [col('tension', 'kPa', 5)])], VARIANTS);
+    const w = plausibilityIssues(units, [force], [file('f.csv', 'force-pca', [col('tension', 'kPa', 5)])], VARIANTS)[0]!;
     expect(w.message).toContain('above the plausible 4.5–7');
     expect(w.message).toContain("Check the column 'pCa' of 'f.csv'");
   });
@@ -106,7 +106,7 @@ describe('implausible fitted values', () => {
     const units = [unit('turnover', 'wt', 'w1', 'B1', { kFast: 0.0005, kSlow: 0.0034 / 60, slowFraction: 0.3 }, 't.csv')];
     const issues = plausibilityIssues(units, [turnover], [file('t.csv', 'turnover', [col('time', 'min', 5)])], VARIANTS);
     expect(issues).toHaveLength(1);
-    expect(issues[0].message).toMatch(/^Fast-phase rate of WT in this file: 0\.0005 s⁻¹ .* Slow-phase rate of WT: 0\.0000567 s⁻¹ .* read as s, the values would give 0\.03 s⁻¹\.$/);
+    expect(issues[0]!.message).toMatch(/^Fast-phase rate of WT in this file: 0\.0005 s⁻¹ .* Slow-phase rate of WT: 0\.0000567 s⁻¹ .* read as s, the values would give 0\.03 s⁻¹\.$/);
   });
 
   it('excluded and extrapolated units do not count', () => {
@@ -128,7 +128,7 @@ describe('one preparation label in two batches', () => {
     const issues = preparationsInBatches(units, [atpase], VARIANTS);
     expect(issues).toHaveLength(1);
     expect(issues[0]).toMatchObject({ severity: 'warning', code: 'study.preparation-in-two-batches', variants: ['a1b'], at: { file: 'rates.csv', column: 'preparation' } });
-    expect(issues[0].message).toBe("Preparation 'p1' (batches 'B1', 'B2') of 'A1B' appears in more than one batch of the Actin-activated ATPase data: the comparison with WT counts each batch's values as a separate preparation, as if independent.");
+    expect(issues[0]!.message).toBe("Preparation 'p1' (batches 'B1', 'B2') of 'A1B' appears in more than one batch of the Actin-activated ATPase data: the comparison with WT counts each batch's values as a separate preparation, as if independent.");
   });
 });
 
@@ -149,8 +149,8 @@ describe('too few known controls', () => {
     expect(issues[0]).toMatchObject({ severity: 'warning', code: 'study.too-few-controls', at: { file: 'study.json', jsonPath: '/variants' } });
     // 1P+1B: no addition of one or two controls reaches a level (2P+2B, 1P+3B, 3P+1B: PS3 ≤ 2, BS3 ≥ 0.5);
     // three more benign give 1P+4B, PS3 1·5/2 = 2.5 (supporting).
-    expect(issues[0].message).toContain('With 1 pathogenic and 1 benign control measured in Actin-activated ATPase, no functional evidence level');
-    expect(issues[0].fix).toContain('3 more benign would make supporting evidence reachable');
+    expect(issues[0]!.message).toContain('With 1 pathogenic and 1 benign control measured in Actin-activated ATPase, no functional evidence level');
+    expect(issues[0]!.fix).toContain('3 more benign would make supporting evidence reachable');
     expect(controlsCheck({ variants: [variant('wt', true)], thresholds: {} }, [], [atpase]).map((i) => i.message)).toEqual([
       'With 0 pathogenic and 0 benign controls measured, no functional evidence level (PS3 or BS3) can be reached, even if every control reads as its class predicts.',
     ]);

@@ -38,10 +38,10 @@ describe('force: normalised force and curve', () => {
     expect(r.metrics.nH).toBeCloseTo(3, 5);
     // curve spans the measured range plus 0.25 pCa on each side, high pCa first
     const curve = r.plot.curve!;
-    expect(curve[0].pCa).toBeCloseTo(9.25, 9);
-    expect(curve[curve.length - 1].pCa).toBeCloseTo(4.25, 9);
-    expect(curve[0].normForce as number).toBeCloseTo(0, 6);
-    expect(curve[curve.length - 1].normForce as number).toBeCloseTo(1, 3);
+    expect(curve[0]!.pCa).toBeCloseTo(9.25, 9);
+    expect(curve[curve.length - 1]!.pCa).toBeCloseTo(4.25, 9);
+    expect(curve[0]!.normForce as number).toBeCloseTo(0, 6);
+    expect(curve[curve.length - 1]!.normForce as number).toBeCloseTo(1, 3);
     expect(r.flags).toEqual([]);
   });
 
@@ -66,14 +66,14 @@ describe('force: recovery of known truth from seeded noisy fibres', () => {
       const ses = fits.map((f) => f.metricSe![name] as number);
       const empiricalSd = sd(estimates);
       // Known truth of the simulation: the mean of 40 estimates is within 4 empirical SE of the truth.
-      expect(Math.abs(mean(estimates) - TRUTH[j])).toBeLessThan((4 * empiricalSd) / Math.sqrt(40));
+      expect(Math.abs(mean(estimates) - TRUTH[j]!)).toBeLessThan((4 * empiricalSd) / Math.sqrt(40));
       // Asymptotic SEs agree with the spread across simulated fibres within a factor 1.5 (common practice, no source).
       expect(mean(ses) / empiricalSd).toBeGreaterThan(1 / 1.5);
       expect(mean(ses) / empiricalSd).toBeLessThan(1.5);
     });
     // pCa50 is precise at this noise: every fibre within 0.05 of 5.8
     fits.forEach((f) => expect(Math.abs((f.metrics.pCa50 as number) - 5.8)).toBeLessThan(0.05));
-    expect(fits[0].nTechnical).toBe(pCas.length);
+    expect(fits[0]!.nTechnical).toBe(pCas.length);
   });
 });
 
@@ -131,12 +131,12 @@ describe('force module', () => {
       ['wt', 'f1', 'force'],
       ['v1', 'f2', 'force'],
     ]);
-    expect(units[1].metrics.pCa50).toBeCloseTo(5.95, 5);
-    expect(units[1].metrics.fmax).toBeCloseTo(36, 4);
-    for (const m of force.metrics) expect(m.id in units[0].metrics).toBe(true);
+    expect(units[1]!.metrics.pCa50).toBeCloseTo(5.95, 5);
+    expect(units[1]!.metrics.fmax).toBeCloseTo(36, 4);
+    for (const m of force.metrics) expect(m.id in units[0]!.metrics).toBe(true);
     const strict = force.analyse(makeStudy({ 'force-pca': rows }, { forceMinPoints: 20 }));
-    expect(strict[0].flags.map((f) => f.code)).toContain('too-few-points');
-    const spec = force.chart({ variantLabel: 'p.Xaa2Yaa (synthetic)', variantUnits: [units[1]], wtUnits: [units[0]] });
+    expect(strict[0]!.flags.map((f) => f.code)).toContain('too-few-points');
+    const spec = force.chart({ variantLabel: 'p.Xaa2Yaa (synthetic)', variantUnits: [units[1]!], wtUnits: [units[0]!] });
     expectChartCompiles(spec);
     expect(JSON.stringify(spec)).toContain('"reverse":true');
   });

@@ -25,12 +25,12 @@ describe('groupUnits', () => {
       ['v1', 'u1', 'B1', [2, 5]],
       ['wt', 'u1', 'B2', [3]],
     ]);
-    expect(groups[0].source).toEqual([
+    expect(groups[0]!.source).toEqual([
       { file: 'a.csv', line: 2, lineEnd: 3 },
       { file: 'b.csv', line: 9 },
     ]);
     // Lines 4 and 7 are not contiguous: two runs, so the unit counts 2 rows, not 4.
-    expect(groups[1].source).toEqual([
+    expect(groups[1]!.source).toEqual([
       { file: 'a.csv', line: 4 },
       { file: 'a.csv', line: 7 },
     ]);

@@ -15,7 +15,7 @@ describe('assay modules agree with the metric keys of their bands', () => {
   for (const mod of [motility, force, turnover]) {
     it(`${mod.id}: every BANDS key of the assay is a declared metric, and every primary metric has a band`, () => {
       const ids = mod.metrics.map((m) => m.id);
-      for (const id of EXPECTED[mod.id]) expect(ids).toContain(id);
+      for (const id of EXPECTED[mod.id]!) expect(ids).toContain(id);
       const bandKeys = Object.keys(BANDS).filter((k) => k.startsWith(`${mod.id}.`));
       for (const key of bandKeys) expect(ids).toContain(key.slice(mod.id.length + 1));
       for (const m of mod.metrics.filter((x) => x.primary)) expect(BANDS[`${mod.id}.${m.id}`]).toBeDefined();

@@ -124,7 +124,7 @@ describe('motility.analyse from velocity rows', () => {
     });
     const units = motility.analyse(study);
     expect(units).toHaveLength(2);
-    const [w, v] = units;
+    const [w, v] = [units[0]!, units[1]!];
     expect(w).toMatchObject({ assay: 'motility', variant: 'wt', unit: 'p1', batch: 'b1', nTechnical: 25 });
     expect(w.metrics.velocity).toBeCloseTo(0.82, 12);
     expect(w.metrics.fractionImmobile).toBe(0);
@@ -140,15 +140,15 @@ describe('motility.analyse from velocity rows', () => {
 
   it('takes the immobile threshold from study settings, then from the input file settings', () => {
     const rows = velocityRows('wt', 'p1', 'b1', [0.08, 0.5, 0.6, 0.7]);
-    expect(motility.analyse(makeStudy({ 'motility-velocities': rows }))[0].metrics.fractionImmobile).toBe(0);
+    expect(motility.analyse(makeStudy({ 'motility-velocities': rows }))[0]!.metrics.fractionImmobile).toBe(0);
     const bySettings = motility.analyse(makeStudy({ 'motility-velocities': rows }, { motilityImmobileUmS: 0.1 }));
-    expect(bySettings[0].metrics.fractionImmobile).toBeCloseTo(0.25, 12);
+    expect(bySettings[0]!.metrics.fractionImmobile).toBeCloseTo(0.25, 12);
     const byFile = motility.analyse(
       makeStudy({ 'motility-velocities': rows }, { motilityImmobileUmS: 0.1 }, [
         { kind: 'motility-velocities', path: 'motility.csv', sha256: '', rows: 4, settings: { motilityImmobileUmS: 0.6 } },
       ]),
     );
-    expect(byFile[0].metrics.fractionImmobile).toBeCloseTo(0.5, 12);
+    expect(byFile[0]!.metrics.fractionImmobile).toBeCloseTo(0.5, 12);
   });
 
   it('reads defaults from src/defaults.ts', () => {
@@ -201,7 +201,7 @@ describe('motility.analyse from tracks (recovery of known truth)', () => {
   it('recovers per-filament speeds, the unit mean and the immobile fraction', () => {
     const sim = simulateTracks(20240611, 'wt', 'p1', 0.8, 36, 4, 20);
     const study = makeStudy({ 'motility-tracks': sim.rows });
-    const [u] = motility.analyse(study);
+    const u = motility.analyse(study)[0]!;
     const trueMean = sim.speeds.reduce((a, b) => a + b, 0) / sim.speeds.length;
     // Known truth of the simulation; tolerance: chord-vs-arc shortening of the 1 s stride (default
     // motilityStrideS) on a 3 µm radius, 1 − sin(θ/2)/(θ/2) with θ = v·1 s / 3 µm: 0.30% at 0.8 µm/s,
@@ -215,16 +215,16 @@ describe('motility.analyse from tracks (recovery of known truth)', () => {
     expect(moving).toHaveLength(36);
     // per filament: below its simulated speed by no more than the chord shortening above
     moving.forEach((v, i) => {
-      const theta = sim.speeds[i] / 3;
+      const theta = sim.speeds[i]! / 3;
       const shortening = 1 - Math.sin(theta / 2) / (theta / 2);
-      expect(Math.abs(v / sim.speeds[i] - (1 - shortening))).toBeLessThan(0.006);
+      expect(Math.abs(v / sim.speeds[i]! - (1 - shortening))).toBeLessThan(0.006);
     });
   });
 
   it('leaves out tracks shorter than the minimum frames, with a flag', () => {
     const long = simulateTracks(7, 'wt', 'p1', 0.8, 3, 0, SETTINGS.motilityMinFrames).rows;
     const short = simulateTracks(8, 'wt', 'p1', 0.8, 2, 0, SETTINGS.motilityMinFrames - 1).rows.map((r) => ({ ...r, filament: `s${r.filament}` }));
-    const [u] = motility.analyse(makeStudy({ 'motility-tracks': [...long, ...short] }));
+    const u = motility.analyse(makeStudy({ 'motility-tracks': [...long, ...short] }))[0]!;
     expect(u.nTechnical).toBe(3);
     const flag = u.flags.find((f) => f.code === 'motility-short-tracks');
     expect(flag?.message).toContain('2 track(s)');
@@ -233,7 +233,7 @@ describe('motility.analyse from tracks (recovery of known truth)', () => {
 
   it('uses tracks and says so when a unit also has velocity rows', () => {
     const tracks = simulateTracks(9, 'wt', 'p1', 0.8, 25, 0, 10).rows;
-    const [u] = motility.analyse(makeStudy({ 'motility-tracks': tracks, 'motility-velocities': velocityRows('wt', 'p1', 'b1', [5, 5]) }));
+    const u = motility.analyse(makeStudy({ 'motility-tracks': tracks, 'motility-velocities': velocityRows('wt', 'p1', 'b1', [5, 5]) }))[0]!;
     expect(u.nTechnical).toBe(25);
     expect(u.flags.map((f) => f.code)).toContain('motility-both-inputs');
   });

@@ -70,9 +70,9 @@ describe('nadhToRates', () => {
     expect(rates).toHaveLength(1);
     // Computed with ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948): sample 0.026795 µM/s, background 0.0026795 µM/s,
     // (0.026795 − 0.0026795) / 0.01 µM = 2.41155 s⁻¹.
-    expect(rates[0].ratePerS).toBeCloseTo(2.41155, 4);
+    expect(rates[0]!.ratePerS).toBeCloseTo(2.41155, 4);
     expect(rates[0]).toMatchObject({ variant: 'v1', unit: 'p1', batch: 'b1', actinUM: 20, replicate: 'A1' });
-    expect(rates[0].at.file).toBe('nadh.csv');
+    expect(rates[0]!.at.file).toBe('nadh.csv');
   });
 
   it('averages several background wells', () => {
@@ -83,16 +83,16 @@ describe('nadhToRates', () => {
     ];
     // Computed with ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948): mean background −0.002/min → 0.005359 µM/s;
     // (0.026795 − 0.005359)/0.01 = 2.14362 s⁻¹.
-    expect(nadhToRates(rows).rates[0].ratePerS).toBeCloseTo(2.14362, 4);
+    expect(nadhToRates(rows).rates[0]!.ratePerS).toBeCloseTo(2.14362, 4);
   });
 
   it('keeps an unsubtracted rate with a warning when no background matches', () => {
     const { rates, flags } = nadhToRates(well({ well: 'A1', slopePerMin: -0.01 }));
     // computed with ε340 = 6220 M⁻¹cm⁻¹ (Horecker & Kornberg 1948) [C]: 0.026795 µM/s ÷ 0.01 µM = 2.6795 s⁻¹
-    expect(rates[0].ratePerS).toBeCloseTo(2.6795, 4);
+    expect(rates[0]!.ratePerS).toBeCloseTo(2.6795, 4);
     expect(flags).toHaveLength(1);
     expect(flags[0]).toMatchObject({ code: 'nadh-no-background', severity: 'warning' });
-    expect(flags[0].at).toEqual({ file: 'nadh.csv', line: expect.any(Number) });
+    expect(flags[0]!.at).toEqual({ file: 'nadh.csv', line: expect.any(Number) });
   });
 
   it('rejects wells with too few readings or no heads, with their source line', () => {
@@ -101,14 +101,14 @@ describe('nadhToRates', () => {
     const { rates, flags } = nadhToRates([...few, ...noHeads]);
     expect(rates).toEqual([]);
     expect(flags.map((f) => f.code).sort()).toEqual(['nadh-no-heads', 'nadh-too-few-readings']);
-    expect(flags.find((f) => f.code === 'nadh-too-few-readings')!.at).toEqual(few[0].at);
+    expect(flags.find((f) => f.code === 'nadh-too-few-readings')!.at).toEqual(few[0]!.at);
   });
 
   it('honours a nadhWindowS override from settings', () => {
     const rows = well({ well: 'A1', slopePerMin: -0.01, afterSlopePerMin: 0, breakS: 120 });
     // Window 120 s sees only the −0.010/min part → 2.6795 s⁻¹ (computed with ε340 = 6220 M⁻¹cm⁻¹, ÷ 0.01 µM).
-    expect(nadhToRates(rows, { nadhWindowS: 120 }).rates[0].ratePerS).toBeCloseTo(2.6795, 4);
-    expect(nadhToRates(rows, {}).rates[0].ratePerS).toBeLessThan(2.4);
+    expect(nadhToRates(rows, { nadhWindowS: 120 }).rates[0]!.ratePerS).toBeCloseTo(2.6795, 4);
+    expect(nadhToRates(rows, {}).rates[0]!.ratePerS).toBeLessThan(2.4);
   });
 
   it('recovers known rates from noisy synthetic traces (seeded)', () => {
@@ -129,7 +129,7 @@ describe('nadhToRates', () => {
     expect(rates).toHaveLength(4);
     // Known truth of the simulation; tolerance: noise SD 0.001 A over 11 readings in 300 s gives a slope SE
     // of about 0.001/√(Σ(t − t̄)²) = 0.001/314.6 ≈ 3.2e-6 /s → ≈ 0.010 s⁻¹ per head; with the background well ≈ 0.0145; 0.1 is ≈ 7 SE.
-    rates.forEach((r, i) => expect(Math.abs(r.ratePerS - truth[i])).toBeLessThan(0.1));
+    rates.forEach((r, i) => expect(Math.abs(r.ratePerS - truth[i]!)).toBeLessThan(0.1));
   });
 
   it('states the conversion in its methods sentences', () => {

@@ -19,7 +19,8 @@ vi.mock('../../src/assays/registry.js', async (importOriginal) => {
   return { ASSAYS, assayById: (id: string) => ASSAYS.find((a) => a.id === id) };
 });
 
-const { BANDS, SETTINGS } = await import('../../src/assays/assembled.js');
+const { BANDS, PLAUSIBLE, SETTINGS, assemble } = await import('../../src/assays/assembled.js');
+const { glow } = await import('../fixtures/assays/glow/module.js');
 const { buildStudy } = await import('../../src/pipeline/build-study.js');
 const { manifestSchemaText } = await import('../../src/study/manifest-schema.js');
 const { readManifest } = await import('../../src/study/manifest.js');
@@ -31,7 +32,7 @@ const { starterFiles } = await import('../../src/study/templates.js');
 export const NEW_ASSAY_FILES = [
   'src/assays/<id>/<kind>.schema.json (row schema of each input kind)',
   'src/assays/<id>/inputs.ts (input kinds: row types, file options, reading rules)',
-  'src/assays/<id>/metrics.ts (metrics with directions, default WT-like bands)',
+  'src/assays/<id>/metrics.ts (metrics with directions, default WT-like bands, typical ranges)',
   'src/assays/<id>/module.ts (the AssayModule: analysis, chart, methods text)',
   'src/assays/<id>/settings.ts (settings with their defaults)',
   'src/assays/registry.ts (one line)',
@@ -44,7 +45,7 @@ const dirs: string[] = [];
 afterAll(() => dirs.forEach((d) => rmSync(d, { recursive: true, force: true })));
 
 /** A small study of the glow assay: WT and one variant glowing 1.5 times faster, two batches. */
-function glowStudy(): string {
+function glowStudy(exposureUnit = 'ms'): string {
   const dir = mkdtempSync(join(tmpdir(), 'myofolio-glow-'));
   dirs.push(dir);
   const manifest = {
@@ -58,7 +59,7 @@ function glowStudy(): string {
     files: [{ path: 'glow.csv', kind: 'glow-wells' }],
     settings: { glowMinWells: 2 },
   };
-  const lines = ['variant,preparation,batch,well,exposure (ms),glow'];
+  const lines = [`variant,preparation,batch,well,exposure (${exposureUnit}),glow`];
   // Invented values: rate = glow / exposure; WT about 10 per s, G12A about 15 per s, small spread.
   const spread = [0.97, 1.0, 1.03];
   for (const batch of ['B1', 'B2']) {
@@ -111,6 +112,20 @@ describe('a new assay (the fictional glow assay of tests/fixtures/assays/glow/)'
     const assayPage = readFileSync(join(out, 'assays', 'glow.html'), 'utf8');
     expect(assayPage).toContain('Glow (fictional)');
     expect(readFileSync(join(out, 'methods.html'), 'utf8')).toContain('the glow rate is the mean over its wells');
+  });
+
+  it('gives the plausibility check its typical range, and a metric without a plausible entry is refused', async () => {
+    expect(PLAUSIBLE['glow.rate']).toMatchObject({ typical: [5, 20], scale: 'ratio' });
+    const { rate: _rate, ...none } = glow.plausible;
+    expect(() => assemble([{ ...glow, plausible: none }])).toThrow(/glow\.rate has no plausible entry/);
+    // Exposure headed s with values in ms: every rate is 1000 times too low (10 s⁻¹ read as 0.01 s⁻¹: SI prefix milli, SI Brochure 2019, Table 7).
+    const out = join(mkdtempSync(join(tmpdir(), 'myofolio-glow-out-')), 'site');
+    dirs.push(join(out, '..'));
+    const outcome = await buildStudy(glowStudy('s'), out, { store: false, sourceDateEpoch: 0 });
+    const w = outcome.issues.find((i) => i.code === 'study.implausible-wt')!;
+    expect(w.at).toMatchObject({ file: 'glow.csv', line: 1, column: 'exposure' });
+    expect(w.message).toContain('below the plausible 0.5–200 s⁻¹ (typical 5–20 s⁻¹ for the fictional glow assay)');
+    expect(w.message).toContain("The unit of 'exposure' in 'glow.csv' is the likely cause: its header 'exposure (s)' reads it as s; read as ms, the values would give");
   });
 
   it('changes only generated text elsewhere: the README input reference and the committed manifest schema', () => {

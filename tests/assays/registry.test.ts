@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { ASSAY_IDS, BANDS, DIFFERENCE_METRICS, KINDS, SETTINGS, assemble } from '../../src/assays/assembled.js';
+import { ASSAY_IDS, BANDS, DIFFERENCE_METRICS, KINDS, PLAUSIBLE, SETTINGS, assemble } from '../../src/assays/assembled.js';
 import { ASSAYS } from '../../src/assays/registry.js';
 import type { AssayModule } from '../../src/assays/types.js';
 import { manifestSchemaText } from '../../src/study/manifest-schema.js';
@@ -44,6 +44,25 @@ describe('the assay registry', () => {
     expect(SETTINGS.nadhEpsilon340).toBe(6220); // Horecker & Kornberg 1948
   });
 
+  it('gives every typical range from its assay, and every metric says whether it has one', () => {
+    for (const a of ASSAYS) expect(Object.keys(a.plausible).sort()).toEqual(a.metrics.map((m) => m.id).sort());
+    const ranged = ASSAYS.flatMap((a) => a.metrics.filter((m) => a.plausible[m.id]).map((m) => [`${a.id}.${m.id}`, { ...a.plausible[m.id], scale: m.scale }]));
+    expect(Object.entries(PLAUSIBLE)).toEqual(ranged);
+    // The ranges as they were in src/defaults.ts before they moved into the assays (sources as written there:
+    // from memory, and Sarkar et al., Sci Adv 2020 for the turnover rates).
+    const typical = Object.fromEntries(Object.entries(PLAUSIBLE).map(([k, p]) => [k, [...p.typical, p.scale]]));
+    expect(typical).toEqual({
+      'atpase.kcat': [4, 7, 'ratio'],
+      'atpase.km': [10, 100, 'ratio'],
+      'motility.velocity': [0.7, 1.0, 'ratio'],
+      'force.fmax': [20, 40, 'ratio'],
+      'force.pCa50': [5.5, 6.0, 'difference'],
+      'turnover.kFast': [0.03, 0.03, 'ratio'],
+      'turnover.kSlow': [0.0034, 0.0034, 'ratio'],
+    });
+    expect(PLAUSIBLE['turnover.kSlow']!.source).toBe('slow phase 0.0034 s⁻¹, Sarkar et al., Sci Adv 2020');
+  });
+
   it('lets the manifest set every setting and band of the registry, and a difference band below zero', () => {
     const settings = Object.fromEntries(Object.entries(SETTINGS).map(([k, v]) => [k, v * 2]));
     const bands = Object.fromEntries(Object.entries(BANDS));
@@ -66,5 +85,19 @@ describe('the assay registry', () => {
     expect(() => assemble([atpase, { ...motility, inputs: atpase.inputs }])).toThrow(/input kind 'atpase-rates' is read by two assays/);
     expect(() => assemble([atpase, { ...motility, settings: { atpaseMinPoints: 1 } }])).toThrow(/setting 'atpaseMinPoints'/);
     expect(() => assemble([{ ...atpase, bands: { nothing: [0.8, 1.25] } }])).toThrow(/'nothing', which is not one of its metrics/);
+  });
+
+  it('refuses a metric with no plausible entry, and a typical range that is no range or names a column its kinds lack', () => {
+    const [atpase] = ASSAYS as [AssayModule];
+    const kcat = atpase.plausible.kcat!;
+    const { basal: _basal, ...withoutBasal } = atpase.plausible;
+    expect(() => assemble([{ ...atpase, plausible: withoutBasal }])).toThrow(/atpase\.basal has no plausible entry: give its typical range, or null/);
+    expect(() => assemble([{ ...atpase, plausible: { ...atpase.plausible, nothing: null } }])).toThrow(/'nothing', which is not one of its metrics/);
+    expect(() => assemble([{ ...atpase, plausible: { ...atpase.plausible, kcat: { ...kcat, typical: [7, 4] } } }])).toThrow(/typical range of atpase\.kcat is not a range of positive values/);
+    expect(() => assemble([{ ...atpase, plausible: { ...atpase.plausible, kcat: { ...kcat, typical: [0, 4] } } }])).toThrow(/not a range of positive values/);
+    const wrongColumn = { ...kcat, causes: [{ kind: 'atpase-rates', column: 'rates', power: 1 as const }] };
+    expect(() => assemble([{ ...atpase, plausible: { ...atpase.plausible, kcat: wrongColumn } }])).toThrow(/the column 'rates', which 'atpase-rates' does not have/);
+    const wrongKind = { ...kcat, causes: [{ kind: 'force-pca', column: 'tension', power: 1 as const }] };
+    expect(() => assemble([{ ...atpase, plausible: { ...atpase.plausible, kcat: wrongKind } }])).toThrow(/the input kind 'force-pca', which atpase does not read/);
   });
 });

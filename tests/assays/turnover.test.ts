@@ -18,7 +18,7 @@ function times(end: number, step: number): number[] {
 }
 
 function traceRows(variant: string, unit: string, batch: string, trace: string, t: number[], y: number[]): TurnoverRow[] {
-  return t.map((timeS, i) => ({ variant, unit, batch, trace, timeS, fluorescence: y[i], at: at('turnover.csv', i + 2) }));
+  return t.map((timeS, i) => ({ variant, unit, batch, trace, timeS, fluorescence: y[i]!, at: at('turnover.csv', i + 2) }));
 }
 
 describe('fitTurnoverTrace', () => {
@@ -142,7 +142,7 @@ describe('turnover: recovery of known truth from seeded noisy traces', () => {
       ...traceRows('v1', 'p1', 'b1', 'B', t, two(0.4)),
       ...traceRows('v1', 'p1', 'b1', 'C', t, one),
     ];
-    const [r] = turnover.analyse(makeStudy({ turnover: rows }));
+    const r = turnover.analyse(makeStudy({ turnover: rows }))[0]!;
     expect(r.nTechnical).toBe(3);
     expect(r.fit).toBeUndefined();
     expect(r.metrics.slowFraction as number).toBeCloseTo(0.3, 1.5); // mean of 0.2 and 0.4 (known truth)
@@ -222,7 +222,7 @@ describe('turnover chart and methods', () => {
       ...traceRows('v1', 'p2', 'b1', 'A', t, t.map((s) => decay(s, 0.15, 0.03, 0.0034, 100, 5))),
     ];
     const units = turnover.analyse(makeStudy({ turnover: rows }));
-    const spec = turnover.chart({ variantLabel: 'p.Xaa3Yaa (synthetic)', variantUnits: [units[1]], wtUnits: [units[0]] });
+    const spec = turnover.chart({ variantLabel: 'p.Xaa3Yaa (synthetic)', variantUnits: [units[1]!], wtUnits: [units[0]!] });
     expectChartCompiles(spec);
   });
 
@@ -244,7 +244,7 @@ describe('turnover: short traces never throw', () => {
     const two = fitTurnoverTrace([0, 10], [1, 0.7], SETTINGS, 'Trace T');
     expect(two.model).toBe('none');
     expect(two.flags.map((f) => f.code)).toEqual(['not-converged']);
-    const [unit] = turnover.analyse(makeStudy({ turnover: traceRows('wt', 'p1', 'b1', 'T', [0, 10], [1, 0.7]) }));
+    const unit = turnover.analyse(makeStudy({ turnover: traceRows('wt', 'p1', 'b1', 'T', [0, 10], [1, 0.7]) }))[0]!;
     expect(unit.metrics).toEqual({ slowFraction: null, kFast: null, kSlow: null });
     expect(unit.plot.curve).toEqual([]);
   });

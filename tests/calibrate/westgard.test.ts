@@ -16,7 +16,7 @@ function rulesAt(values: number[]): string[][] {
 describe('westgard: check vectors constructed from the rules of Westgard et al. 1981 [C]', () => {
   it('[1.2, 1.5, 1.1, 1.3] → 4-1s (Westgard et al. 1981 rules)', () => {
     const r = westgard(series([1.2, 1.5, 1.1, 1.3]), UNIT);
-    expect(r.points[3].rules).toEqual(['4-1s']);
+    expect(r.points[3]!.rules).toEqual(['4-1s']);
     expect(r.points.slice(0, 3).every((p) => p.rules.length === 0)).toBe(true);
     expect(r.rejectedBatches).toEqual(['b3']);
   });
@@ -28,7 +28,7 @@ describe('westgard: check vectors constructed from the rules of Westgard et al. 
   it('ten values in (0, 1) → 10-x; nine → not (Westgard et al. 1981 rules)', () => {
     const ten = [0.1, 0.5, 0.9, 0.3, 0.7, 0.2, 0.8, 0.4, 0.6, 0.05];
     const r = westgard(series(ten), UNIT);
-    expect(r.points[9].rules).toEqual(['10-x']);
+    expect(r.points[9]!.rules).toEqual(['10-x']);
     expect(r.points.slice(0, 9).every((p) => p.rules.length === 0)).toBe(true);
     expect(r.rejectedBatches).toEqual(['b9']);
     expect(westgard(series(ten.slice(0, 9)), UNIT).rejectedBatches).toEqual([]);
@@ -62,14 +62,14 @@ describe('westgard: check vectors constructed from the rules of Westgard et al. 
 describe('westgard: each rule triggered and not triggered (common practice, constructed z values)', () => {
   it('1-2s is a warning only; exactly 2 SD is not beyond the limit', () => {
     const r = westgard(series([0.3, 2.5, -0.4]), UNIT);
-    expect(r.points[1].rules).toEqual(['1-2s']);
+    expect(r.points[1]!.rules).toEqual(['1-2s']);
     expect(r.rejectedBatches).toEqual([]);
     expect(r.warningBatches).toEqual(['b1']);
     expect(rulesAt([0.3, 1.9, -2, 2])).toEqual([[], [], [], []]);
   });
   it('1-3s: one value beyond ±3 SD rejects; 2.9 does not', () => {
     const r = westgard(series([0.2, -3.1]), UNIT);
-    expect(r.points[1].rules).toEqual(['1-2s', '1-3s']);
+    expect(r.points[1]!.rules).toEqual(['1-2s', '1-3s']);
     expect(r.rejectedBatches).toEqual(['b1']);
     expect(r.warningBatches).toEqual([]);
     expect(rulesAt([0.2, 2.9])[1]).toEqual(['1-2s']);
@@ -137,7 +137,7 @@ describe('westgard: each rule triggered and not triggered (common practice, cons
       { mean: 5, sd: 0.5 },
     );
     expect(r.points.map((p) => p.z)).toEqual([1, expect.closeTo(-3.2, 12), expect.closeTo(2.4, 12)]);
-    expect(r.points[1].rules).toEqual(['1-2s', '1-3s']);
+    expect(r.points[1]!.rules).toEqual(['1-2s', '1-3s']);
     expect(r.rejectedBatches).toEqual(['B']);
     expect(r.warningBatches).toEqual(['C']);
   });
@@ -203,7 +203,7 @@ describe('controlChart', () => {
     expect(chart.sd).toBe(0.2);
     expect(chart.baseline).toContain('declared by the lab, from: WT preparations 2023–2024. The values');
     // z of 9.0 is (9 − 5)/0.2 = 20 → 1-3s; computed from the inputs
-    expect(chart.points[4].rules).toContain('1-3s');
+    expect(chart.points[4]!.rules).toContain('1-3s');
     expect(chart.rejectedBatches).toEqual(['B4']);
   });
   it('too few values: no mean, no SD, no points, and the reason', () => {

@@ -28,7 +28,7 @@ describe('the same observation in two files', () => {
     const dup = o.issues.filter((i) => i.code === 'csv.duplicate-across-files');
     expect(dup).toHaveLength(1);
     expect(dup[0]).toMatchObject({ severity: 'error', count: 6, at: { file: 'rates-corrected.csv', line: 2, lineEnd: 7 } });
-    expect(dup[0].message).toBe(
+    expect(dup[0]!.message).toBe(
       "This row repeats the observation on line 2 of 'rates.csv' (variant WT, preparation w1, batch B1, actin 0 µM). The same on 5 more rows (6 in all, lines 2–7).",
     );
     expect(o.study).toBeUndefined();
@@ -76,7 +76,7 @@ describe('the same observation in two files', () => {
     const row = (actinUM: number, replicate?: string) => ({ variant: 'v', unit: 'u', batch: 'B', actinUM, ratePerS: 1, ...(replicate ? { replicate } : {}), at: { file: 'f', line: 1 } }) as RowBase;
     expect(hash(row(0))).toBe(hash(row(-0)));
     expect(hash(row(5))).not.toBe(hash(row(5, 'a')));
-    const [[group, hashes]] = groupKeyHashes('atpase-rates', [row(1), row(2), row(1)]);
+    const [group, hashes] = groupKeyHashes('atpase-rates', [row(1), row(2), row(1)])[0]!;
     expect(group).toBe('v\0u\0B');
     expect(hashes.length).toBe(2);
     expect(hashesMeet(Uint32Array.from([1, 5, 9]), Uint32Array.from([2, 9]))).toBe(true);

@@ -48,7 +48,7 @@ describe('CSV reading', () => {
     const t = parseCsv(text, 'f.csv');
     expect(t.header).toEqual({ cells: ['variant', 'x'], line: 2 });
     expect(t.rows.map((r) => r.line)).toEqual([5, 8]);
-    expect(t.rows[1].cells).toEqual(['A', '3']);
+    expect(t.rows[1]!.cells).toEqual(['A', '3']);
     expect(t.issues).toEqual([]);
   });
 

@@ -34,7 +34,7 @@ describe('demo study data-demo/', () => {
     const s = outcome.study!;
     expect(s.synthetic).toBe(true);
     expect(s.lab).toMatch(/invented/i);
-    expect(s.genes[0].symbol).toBe('ZZMYO1');
+    expect(s.genes[0]!.symbol).toBe('ZZMYO1');
     const controls = s.variants.filter((v) => v.control);
     expect(controls.filter((v) => /pathogenic/.test(v.control!.class)).length).toBeGreaterThanOrEqual(4);
     expect(controls.filter((v) => /benign/.test(v.control!.class)).length).toBeGreaterThanOrEqual(4);
@@ -102,7 +102,7 @@ describe('simulator', () => {
   it('WT rates follow v = basal + kcat·A/(KM + A) at the unit truth (noise-free check at high [actin] mean)', () => {
     const sim = simulateStudy(demoScenario());
     const truth = Object.entries(sim.truth).find(([k]) => k.startsWith('WT|WT-B1-1'))![1];
-    const rows = sim.files['atpase-rates.csv'].split('\n').filter((l) => l.startsWith('WT,WT-B1-1,') && l.endsWith(',100,') === false);
+    const rows = sim.files['atpase-rates.csv']!.split('\n').filter((l) => l.startsWith('WT,WT-B1-1,') && l.endsWith(',100,') === false);
     const at100 = rows.filter((l) => l.split(',')[4] === '100').map((l) => Number(l.split(',')[5]));
     const expected = truth.basal + (truth.kcat * 100) / (truth.km + 100); // computed from the model and the simulated truth
     const mean = at100.reduce((s, x) => s + x, 0) / at100.length;
@@ -113,7 +113,7 @@ describe('simulator', () => {
 describe('column catalogue', () => {
   it('every row schema column has a description and a typed-row field', () => {
     for (const kind of INPUT_KINDS) {
-      for (const c of CATALOGUE[kind].columns) {
+      for (const c of CATALOGUE[kind]!.columns) {
         expect(c.description.length, `${kind}.${c.name}`).toBeGreaterThan(5);
         expect(c.field, `${kind}.${c.name}`).toBeTruthy();
       }

@@ -111,8 +111,8 @@ describe('number cells', () => {
 describe('row pre-check', () => {
   for (const kind of INPUT_KINDS) {
     it(`${kind}: says "valid" exactly when ajv does`, () => {
-      const columns = CATALOGUE[kind].columns;
-      const validate = validators().rows[kind];
+      const columns = CATALOGUE[kind]!.columns;
+      const validate = validators().rows[kind]!;
       const value = (type: string, enumValues?: string[]) =>
         type === 'string'
           ? fc.oneof(fc.constantFrom(...(enumValues ?? ['a', 'WT'])), fc.constantFrom('other', 'sample', 'actin-only')).map((v): string | number => v)
@@ -121,7 +121,7 @@ describe('row pre-check', () => {
       fc.assert(
         fc.property(present, fc.tuple(...columns.map((c) => fc.option(value(c.type, c.enum), { nil: undefined }))), (names, values) => {
           const vals = names.map((n) => values[columns.findIndex((c) => c.name === n)]);
-          const check = compileRowCheck(ROW_SCHEMAS[kind], (n) => (names.includes(n) ? names.indexOf(n) : undefined))!;
+          const check = compileRowCheck(ROW_SCHEMAS[kind]!, (n) => (names.includes(n) ? names.indexOf(n) : undefined))!;
           const obj: Record<string, unknown> = {};
           names.forEach((n, i) => {
             if (vals[i] !== undefined) obj[n] = vals[i];
@@ -134,7 +134,7 @@ describe('row pre-check', () => {
   }
 
   it('compiles every row schema (no keyword falls back to ajv alone)', () => {
-    for (const kind of INPUT_KINDS) expect(compileRowCheck(ROW_SCHEMAS[kind], () => 0)).toBeTypeOf('function');
+    for (const kind of INPUT_KINDS) expect(compileRowCheck(ROW_SCHEMAS[kind]!, () => 0)).toBeTypeOf('function');
   });
 
   it('gives up on keywords it does not know', () => {
@@ -153,7 +153,7 @@ describe('duplicate observations in large files', () => {
     m.files = [{ path: 't.csv', kind: 'turnover' }];
     const { manifest } = readManifest(JSON.stringify(m), 'study.json');
     const issues: Issue[] = [];
-    readRows('turnover', parseCsv([head, ...rows].join('\n'), 't.csv'), manifest!.files[0], 't.csv', manifest!.byLabel, issues);
+    readRows('turnover', parseCsv([head, ...rows].join('\n'), 't.csv'), manifest!.files[0]!, 't.csv', manifest!.byLabel, issues);
     const dups = issues.filter((i) => i.code === 'csv.duplicate-observation');
     expect(dups.map((i) => [i.at.line, i.message.match(/line (\d+)/)![1]])).toEqual([
       [4002, '2'],
@@ -173,6 +173,6 @@ describe('typed rows', () => {
       ['variant', 'unit', 'batch', 'at', 'pCa', 'tensionKPa'],
     ]);
     // 0.01 mN over 0.0004 mm² is 25 kPa (computed from the inputs: 1 mN/mm² = 1 kPa).
-    expect(rows[0].tensionKPa).toBeCloseTo(25, 12);
+    expect(rows[0]!.tensionKPa).toBeCloseTo(25, 12);
   });
 });

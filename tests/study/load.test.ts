@@ -22,8 +22,8 @@ describe('a valid in-memory study', () => {
     ]);
     expect(rowsOf(s, ATPASE_RATES)[2]).toEqual({ variant: 'zzg1-r2q', unit: 'p1', batch: 'B1', actinUM: 0, ratePerS: 0.04, at: { file: 'rates.csv', line: 4 } });
     expect(s.files[0]).toMatchObject({ kind: 'atpase-rates', path: 'rates.csv', rows: 6 });
-    expect(s.files[0].sha256).toMatch(/^[0-9a-f]{64}$/);
-    expect(s.variants[1].control).toEqual({ class: 'pathogenic', source: 'invented' });
+    expect(s.files[0]!.sha256).toMatch(/^[0-9a-f]{64}$/);
+    expect(s.variants[1]!.control).toEqual({ class: 'pathogenic', source: 'invented' });
   });
 });
 
@@ -171,17 +171,17 @@ describe('one issue per problem, all problems in one pass', () => {
 describe('conversions and accepted forms', () => {
   it('velocity in nm/s becomes µm/s', () => {
     const o = loadWith('v.csv', 'motility-velocities', 'variant,preparation,batch,filament,velocity (nm/s)\nWT,w1,B1,f1,812.5\n');
-    expect(rowsOf(o.study!, MOTILITY_VELOCITIES)[0].velocityUmS).toBeCloseTo(0.8125, 12); // 812.5e-9 m/s = 0.8125e-6 m/s
+    expect(rowsOf(o.study!, MOTILITY_VELOCITIES)[0]!.velocityUmS).toBeCloseTo(0.8125, 12); // 812.5e-9 m/s = 0.8125e-6 m/s
   });
 
   it('force with an area column becomes tension: 12 µN on 400 µm² = 30 kPa (computed from SI definitions)', () => {
     const o = loadWith('f.csv', 'force-pca', 'variant,preparation,batch,pCa,force (uN),area (um2)\nWT,w1,B1,4.5,12,400\n');
-    expect(rowsOf(o.study!, FORCE_PCA)[0].tensionKPa).toBeCloseTo(30, 10);
+    expect(rowsOf(o.study!, FORCE_PCA)[0]!.tensionKPa).toBeCloseTo(30, 10);
   });
 
   it('force with a manifest cross-section per unit', () => {
     const o = loadWith('f.csv', 'force-pca', 'variant,preparation,batch,pCa,force (mN)\nWT,w1,B1,4.5,0.003\n', { crossSection: { unit: 'mm2', byPreparation: { w1: 0.0001 } } });
-    expect(rowsOf(o.study!, FORCE_PCA)[0].tensionKPa).toBeCloseTo(30, 10); // 0.003 mN / 1e-4 mm² = 30 mN/mm²
+    expect(rowsOf(o.study!, FORCE_PCA)[0]!.tensionKPa).toBeCloseTo(30, 10); // 0.003 mN / 1e-4 mm² = 30 mN/mm²
   });
 
   it('frames and pixels become seconds and micrometres', () => {
@@ -190,7 +190,7 @@ describe('conversions and accepted forms', () => {
       frameInterval: { value: 200, unit: 'ms' },
     });
     expect(errors(o)).toEqual([]);
-    const r = rowsOf(o.study!, MOTILITY_TRACKS)[0];
+    const r = rowsOf(o.study!, MOTILITY_TRACKS)[0]!;
     expect(r.timeS).toBeCloseTo(0.6, 12);
     expect(r.xUm).toBeCloseTo(1.6, 12);
     expect(r.yUm).toBeCloseTo(3.2, 12);
@@ -204,8 +204,8 @@ describe('conversions and accepted forms', () => {
     const a = rates('variant,preparation,batch,actin_uM,rate_per_s\nWT,w1,B1,5,1\n');
     expect(rowsOf(a.study!, ATPASE_RATES)[0]).toMatchObject({ actinUM: 5, ratePerS: 1 });
     const b = rates('variant,preparation,batch,actin [mM],rate (1/min)\nWT,w1,B1,0.05,60\n');
-    expect(rowsOf(b.study!, ATPASE_RATES)[0].actinUM).toBeCloseTo(50, 12); // 0.05 mM
-    expect(rowsOf(b.study!, ATPASE_RATES)[0].ratePerS).toBeCloseTo(1, 12); // 60 per minute
+    expect(rowsOf(b.study!, ATPASE_RATES)[0]!.actinUM).toBeCloseTo(50, 12); // 0.05 mM
+    expect(rowsOf(b.study!, ATPASE_RATES)[0]!.ratePerS).toBeCloseTo(1, 12); // 60 per minute
   });
 
   it("'00123' is 123 in a number column and stays text in a text column", () => {

@@ -27,6 +27,7 @@ describe('groupIssues', () => {
     const issues = [3, 4, 5, 9].map((l) => issue(MSG.notANumber('rate', 'x'), at(l, 'rate'), { variants: [l < 5 ? 'v-a' : 'v-b'] }));
     const [one, ...rest] = groupIssues(issues);
     expect(rest).toEqual([]);
+    if (!one) throw new Error('no issue');
     expect(one.count).toBe(4);
     expect(one.at).toEqual({ file: 'a.csv', line: 3, column: 'rate', col: 4, lineEnd: 9 });
     expect(one.message).toBe("'x' in 'rate' is not a number. The same on 3 more cells of 'rate' (4 in all, lines 3–5, 9).");
@@ -55,7 +56,7 @@ describe('groupIssues', () => {
       ['b.csv', 8, 1],
     ]);
     expect(out.every((i) => i.group === undefined)).toBe(true);
-    expect(out[2].message).toContain('The same on 1 more cell of \'variant\' (2 in all, lines 4, 6).');
+    expect(out[2]!.message).toContain('The same on 1 more cell of \'variant\' (2 in all, lines 4, 6).');
   });
 
   it('is unchanged by grouping twice', () => {
@@ -73,7 +74,7 @@ describe('the loader groups repeated findings', () => {
       ['csv.decimal-comma', 'actin', 600],
       ['csv.decimal-comma', 'rate', 600],
     ]);
-    expect(errors[0].message).toContain('(600 in all, lines 2–601)');
+    expect(errors[0]!.message).toContain('(600 in all, lines 2–601)');
   });
 
   it('actin in mM headed µM gives one warning for the column, on the variants it touches', () => {
@@ -125,7 +126,7 @@ describe('did you mean', () => {
     const o = load(baseManifest(), { 'rates.csv': [HEAD, ...rows].join('\n') });
     const unknown = o.issues.filter((i) => i.code === 'csv.unknown-variant');
     expect(unknown).toHaveLength(1);
-    expect(unknown[0].message).toBe("The variant 'R2W' is not declared in the manifest. Did you mean 'R2Q'? The same on 31 more cells of 'variant' (32 in all, lines 4–35).");
-    expect(unknown[0].fix).toBe("Correct the label to 'R2Q' if that was meant, or add 'R2W' to variants in the manifest.");
+    expect(unknown[0]!.message).toBe("The variant 'R2W' is not declared in the manifest. Did you mean 'R2Q'? The same on 31 more cells of 'variant' (32 in all, lines 4–35).");
+    expect(unknown[0]!.fix).toBe("Correct the label to 'R2Q' if that was meant, or add 'R2W' to variants in the manifest.");
   });
 });

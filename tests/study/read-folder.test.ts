@@ -26,7 +26,7 @@ describe('readStudyFolder', () => {
     const o = loadStudy(files);
     expect(o.issues).toEqual([]);
     // SHA-256 of the fixture text, computed with node:crypto at the reader; the loader keeps it.
-    expect(o.study!.files[0].sha256).toBe(files.sha256!.get('rates.csv'));
+    expect(o.study!.files[0]!.sha256).toBe(files.sha256!.get('rates.csv'));
   });
 
   it('refuses a symbolic link that points outside the folder', () => {

@@ -14,10 +14,10 @@ describe('README input reference agrees with the schemas', () => {
   it.each(INPUT_KINDS)('%s: every schema column is in the README table, with its required flag', (kind) => {
     const table = columnTable(kind);
     expect(README).toContain(table);
-    for (const c of CATALOGUE[kind].columns) {
+    for (const c of CATALOGUE[kind]!.columns) {
       const line = table.split('\n').find((l) => l.startsWith(`| \`${c.name}\` |`));
       expect(line, c.name).toBeDefined();
-      expect(line!.split('|')[2].trim() === 'yes').toBe(c.required);
+      expect(line!.split('|')[2]!.trim() === 'yes').toBe(c.required);
     }
   });
 

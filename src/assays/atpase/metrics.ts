@@ -3,6 +3,7 @@
  * WT-like bands.
  */
 import type { MetricDef } from '../../results/types.js';
+import type { PlausibleRange } from '../types.js';
 
 /** Unit flags that make kcat and KM extrapolations: such a unit does not enter their comparison (src/analysis/normalise.ts). */
 const EXTRAPOLATED = ['km-above-range'] as const;
@@ -69,4 +70,34 @@ export const ATPASE_BANDS: Record<string, [number, number]> = {
   km: [0.67, 1.5],
   kcatOverKm: [0.67, 1.5],
   basal: [-0.01, 0.01],
+};
+
+/**
+ * Typical WT ranges that fitted values are checked against (src/analysis/plausibility.ts). kcat/KM
+ * and the basal rate have none: kcat/KM follows from kcat and KM, which are checked, and the basal
+ * rate lies near zero, where no range tells a unit mistake from a weak preparation.
+ */
+export const ATPASE_PLAUSIBLE: Record<string, PlausibleRange | null> = {
+  kcat: {
+    typical: [4, 7],
+    of: 'human β-cardiac myosin',
+    source: 'typical WT values of the trade, from memory',
+    causes: [
+      { kind: 'atpase-rates', column: 'rate', power: 1 },
+      { kind: 'atpase-nadh', column: 'heads', power: -1 },
+      { kind: 'atpase-nadh', column: 'time', power: -1 },
+      { kind: 'atpase-nadh', column: 'path', power: -1 },
+    ],
+  },
+  km: {
+    typical: [10, 100],
+    of: 'human β-cardiac myosin',
+    source: '"tens of µM", typical WT values of the trade, from memory',
+    causes: [
+      { kind: 'atpase-rates', column: 'actin', power: 1 },
+      { kind: 'atpase-nadh', column: 'actin', power: 1 },
+    ],
+  },
+  kcatOverKm: null,
+  basal: null,
 };

@@ -19,7 +19,7 @@ import { assaySetting, groupUnits, relativeSeFlags, rowsOf } from '../assay-comm
 import { groupEncoding, unitChart } from '../chart-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec } from '../types.js';
 import { ATPASE_NADH, ATPASE_RATES, type AtpaseRateRow } from './inputs.js';
-import { ATPASE_BANDS, ATPASE_METRICS as METRICS } from './metrics.js';
+import { ATPASE_BANDS, ATPASE_METRICS as METRICS, ATPASE_PLAUSIBLE } from './metrics.js';
 import { nadhToRates } from './nadh.js';
 import { ATPASE_SETTINGS as SETTINGS } from './settings.js';
 
@@ -126,6 +126,7 @@ export const atpase: AssayModule = {
   inputs: [ATPASE_RATES, ATPASE_NADH],
   metrics: METRICS,
   bands: ATPASE_BANDS,
+  plausible: ATPASE_PLAUSIBLE,
   settings: SETTINGS,
   analyse,
   chart,

@@ -57,7 +57,9 @@ export function a340SlopeToTurnoverUMS(slopePerS: number, pathCm: number, epsilo
  */
 export function wellInitialRate(rows: readonly NadhRow[], windowS: number, epsilon: number): WellRate | null {
   const sorted = [...rows].sort((a, b) => a.timeS - b.timeS);
-  const t0 = sorted[0].timeS;
+  const [first] = sorted;
+  if (!first) return null;
+  const t0 = first.timeS;
   const inWindow = sorted.filter((r) => r.timeS - t0 <= windowS);
   if (inWindow.length < MIN_READINGS) return null;
   const fit = straightLineFit(
@@ -65,7 +67,6 @@ export function wellInitialRate(rows: readonly NadhRow[], windowS: number, epsil
     inWindow.map((r) => r.a340),
   );
   if (!Number.isFinite(fit.slope)) return null;
-  const first = sorted[0];
   return {
     well: first.well,
     batch: first.batch,
@@ -113,12 +114,13 @@ export function nadhToRates(rows: readonly NadhRow[], settings?: SettingsBag): {
   const wells: WellRate[] = [];
   for (const wellRows of groupBy(rows, (r) => JSON.stringify([r.at.file, r.batch, r.well])).values()) {
     const rate = wellInitialRate(wellRows, windowS, epsilon);
+    const head = wellRows[0]!; // a group has at least one row
     if (!rate) {
       flags.push({
         code: 'nadh-too-few-readings',
         severity: 'reject',
-        message: `Well ${wellRows[0].well} (batch ${wellRows[0].batch}) has fewer than ${MIN_READINGS} A340 readings within the first ${windowS} s; no rate was computed.`,
-        at: wellRows[0].at,
+        message: `Well ${head.well} (batch ${head.batch}) has fewer than ${MIN_READINGS} A340 readings within the first ${windowS} s; no rate was computed.`,
+        at: head.at,
       });
       continue;
     }

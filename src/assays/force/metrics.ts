@@ -3,6 +3,7 @@
  * WT-like bands.
  */
 import type { MetricDef } from '../../results/types.js';
+import type { PlausibleRange } from '../types.js';
 
 /** Unit flags that make the Hill parameters extrapolations or meaningless: such a unit does not enter their comparison. */
 const EXTRAPOLATED = ['pca50-out-of-range', 'force-no-activation'] as const;
@@ -69,4 +70,30 @@ export const FORCE_BANDS: Record<string, [number, number]> = {
   pCa50: [-0.1, 0.1],
   nH: [0.8, 1.25],
   passive: [-1, 1],
+};
+
+/**
+ * Typical WT ranges that fitted values are checked against (src/analysis/plausibility.ts). nH has
+ * no unit, and passive tension varies too widely between preparations for a range to tell a unit
+ * mistake; Fmax, from the same tension column, shows one.
+ */
+export const FORCE_PLAUSIBLE: Record<string, PlausibleRange | null> = {
+  fmax: {
+    typical: [20, 40],
+    of: 'human cardiomyocytes',
+    source: 'typical values of the trade (kN/m² = kPa), from memory',
+    causes: [
+      { kind: 'force-pca', column: 'tension', power: 1 },
+      { kind: 'force-pca', column: 'force', power: 1 },
+      { kind: 'force-pca', column: 'area', power: -1 },
+    ],
+  },
+  pCa50: {
+    typical: [5.5, 6.0],
+    of: 'cardiac preparations',
+    source: 'typical values of the trade, from memory',
+    causes: [{ kind: 'force-pca', column: 'pCa', power: 0 }],
+  },
+  nH: null,
+  passive: null,
 };

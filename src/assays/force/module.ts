@@ -19,7 +19,7 @@ import { groupEncoding, unitChart } from '../chart-common.js';
 import { groupUnits, relativeSeFlags } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { FORCE_PCA, type ForceRow } from './inputs.js';
-import { FORCE_BANDS, FORCE_METRICS } from './metrics.js';
+import { FORCE_BANDS, FORCE_METRICS, FORCE_PLAUSIBLE } from './metrics.js';
 import { FORCE_SETTINGS as SETTINGS } from './settings.js';
 
 /** Points of the fitted-curve grid per preparation (0.083 pCa apart over the usual 9.25–4.25 span: about 8 points across a steep transition). */
@@ -61,7 +61,9 @@ export function analyseForceUnit(
   rows: readonly ForceRow[],
   minPoints: number,
 ): Pick<UnitResult, 'metrics' | 'metricSe' | 'fit' | 'flags' | 'nTechnical' | 'plot'> {
-  const at = rows[0].at;
+  const [head] = rows;
+  if (!head) throw new Error('analyseForceUnit: a preparation without rows');
+  const at = head.at;
   const x = rows.map((r) => r.pCa);
   const y = rows.map((r) => r.tensionKPa);
   const flags: Flag[] = [];
@@ -124,8 +126,7 @@ export function analyseForceUnit(
   }
 
   const estimates = fit.parameters.map((p) => p.estimate);
-  const passive = metrics.passive;
-  const fmax = metrics.fmax;
+  const { passive = null, fmax = null } = metrics;
   const normalise = (tension: number) => (passive !== null && fmax !== null && fmax !== 0 ? (tension - passive) / fmax : NaN);
   const points = rows.map((r) => {
     const point: Record<string, number | string> = { pCa: r.pCa, tension: r.tensionKPa };
@@ -154,7 +155,7 @@ function fileSettings(study: AssayStudy, file: string | undefined): SettingsBag 
 /** Per-preparation analysis of a study's force–pCa rows. */
 export function analyseForce(study: AssayStudy): UnitResult[] {
   return groupUnits(rowsOf(study, FORCE_PCA)).map((g) => {
-    const minPoints = assaySetting(SETTINGS, 'forceMinPoints', study.settings, fileSettings(study, g.rows[0].at.file));
+    const minPoints = assaySetting(SETTINGS, 'forceMinPoints', study.settings, fileSettings(study, g.rows[0]!.at.file)); // a group holds at least one row
     const r = analyseForceUnit(g.rows, minPoints);
     return { assay: 'force', variant: g.variant, unit: g.unit, batch: g.batch, ...r, source: g.source };
   });
@@ -182,6 +183,7 @@ export const force: AssayModule = {
   inputs: [FORCE_PCA],
   metrics: FORCE_METRICS,
   bands: FORCE_BANDS,
+  plausible: FORCE_PLAUSIBLE,
   settings: SETTINGS,
   analyse: analyseForce,
   chart: forceChart,

@@ -3,6 +3,7 @@
  * WT-like bands.
  */
 import type { MetricDef } from '../../results/types.js';
+import type { PlausibleRange } from '../types.js';
 
 /** Unit flags that qualify the motility values: counted on the comparison rows. */
 const QUALIFIERS = ['motility-too-few-filaments', 'motility-high-immobile-fraction', 'motility-invalid-velocity', 'motility-duplicate-frames'] as const;
@@ -61,4 +62,25 @@ export const MOTILITY_BANDS: Record<string, [number, number]> = {
   medianVelocity: [0.8, 1.25],
   p95Velocity: [0.8, 1.25],
   fractionImmobile: [-0.1, 0.1],
+};
+
+/**
+ * Typical WT ranges that fitted values are checked against (src/analysis/plausibility.ts). Only the
+ * mean velocity has one: the median and 95th percentile follow the same columns, so a unit mistake
+ * shows in the mean already; the immobile fraction has no unit.
+ */
+export const MOTILITY_PLAUSIBLE: Record<string, PlausibleRange | null> = {
+  velocity: {
+    typical: [0.7, 1.0],
+    of: 'human β-cardiac myosin',
+    source: 'typical WT values of the trade, from memory',
+    causes: [
+      { kind: 'motility-velocities', column: 'velocity', power: 1 },
+      { kind: 'motility-tracks', column: 'x', power: 1 },
+      { kind: 'motility-tracks', column: 'time', power: -1 },
+    ],
+  },
+  medianVelocity: null,
+  p95Velocity: null,
+  fractionImmobile: null,
 };

@@ -18,7 +18,7 @@ import { assaySetting, roundForPlot, rowsOf } from '../assay-common.js';
 import { groupUnits, sourceRanges } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { MOTILITY_TRACKS, MOTILITY_VELOCITIES, type TrackRow, type VelocityRow } from './inputs.js';
-import { MOTILITY_BANDS, MOTILITY_METRICS } from './metrics.js';
+import { MOTILITY_BANDS, MOTILITY_METRICS, MOTILITY_PLAUSIBLE } from './metrics.js';
 import { MOTILITY_SETTINGS as SETTINGS } from './settings.js';
 import { tracksToFilaments } from './tracks.js';
 import type { FilamentVelocity } from './tracks.js';
@@ -131,7 +131,9 @@ function collectUnits(study: AssayStudy): UnitInput[] {
  */
 export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings): UnitResult {
   const flags: Flag[] = [];
-  const first = (input.tracks[0] ?? input.velocities[0]).at;
+  const head = input.tracks[0] ?? input.velocities[0];
+  if (!head) throw new Error('analyseMotilityUnit: a unit without tracks or velocities');
+  const first = head.at;
   let filaments: FilamentVelocity[];
   if (input.tracks.length > 0) {
     const fromTracks = tracksToFilaments(input.tracks, settings.minFrames, { strideS: settings.strideS, immobileUmS: settings.immobileUmS });
@@ -153,11 +155,12 @@ export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings
       });
     }
     if (input.velocities.length > 0) {
+      const [ignored] = input.velocities;
       flags.push({
         code: 'motility-both-inputs',
         severity: 'info',
         message: `This unit has both centroid tracks and ${input.velocities.length} velocity row(s); the velocities from tracks were used and the velocity rows ignored.`,
-        at: input.velocities[0].at,
+        at: ignored!.at, // velocities.length > 0
       });
     }
   } else {
@@ -436,6 +439,7 @@ export const motility: AssayModule = {
   inputs: [MOTILITY_TRACKS, MOTILITY_VELOCITIES],
   metrics: MOTILITY_METRICS,
   bands: MOTILITY_BANDS,
+  plausible: MOTILITY_PLAUSIBLE,
   settings: SETTINGS,
   analyse: analyseMotility,
   chart: motilityChart,

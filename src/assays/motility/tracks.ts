@@ -72,26 +72,28 @@ export function trackVelocity(points: readonly TrackPoint[], options: TrackOptio
   const kept: TrackPoint[] = [];
   let duplicateTimes = 0;
   for (const p of sorted) {
-    if (kept.length > 0 && p.timeS === kept[kept.length - 1].timeS) duplicateTimes++;
+    const prev = kept[kept.length - 1];
+    if (prev && p.timeS === prev.timeS) duplicateTimes++;
     else kept.push(p);
   }
   const first = kept[0];
   const last = kept[kept.length - 1];
-  const elapsedS = kept.length > 0 ? last.timeS - first.timeS : 0;
-  const netDisplacementUm = kept.length > 0 ? Math.hypot(last.xUm - first.xUm, last.yUm - first.yUm) : 0;
+  const elapsedS = first && last ? last.timeS - first.timeS : 0;
+  const netDisplacementUm = first && last ? Math.hypot(last.xUm - first.xUm, last.yUm - first.yUm) : 0;
   const netRateUmS = elapsedS > 0 ? netDisplacementUm / elapsedS : NaN;
   const intervals: number[] = [];
-  for (let i = 1; i < kept.length; i++) intervals.push(kept[i].timeS - kept[i - 1].timeS);
+  for (let i = 1; i < kept.length; i++) intervals.push(kept[i]!.timeS - kept[i - 1]!.timeS);
   intervals.sort((a, b) => a - b);
-  const medianDt = intervals.length > 0 ? intervals[Math.floor((intervals.length - 1) / 2)] : 0;
+  const medianDt = intervals[Math.floor((intervals.length - 1) / 2)] ?? 0;
   const strideFrames = options.strideS > 0 && medianDt > 0 ? Math.max(1, Math.round(options.strideS / medianDt)) : 1;
   let pathUm = 0;
   let lastSampled = 0;
   for (let i = strideFrames; i < kept.length; i += strideFrames) {
-    pathUm += Math.hypot(kept[i].xUm - kept[lastSampled].xUm, kept[i].yUm - kept[lastSampled].yUm);
+    const [p, q] = [kept[i]!, kept[lastSampled]!];
+    pathUm += Math.hypot(p.xUm - q.xUm, p.yUm - q.yUm);
     lastSampled = i;
   }
-  const pathElapsedS = kept.length > 0 ? kept[lastSampled].timeS - first.timeS : 0;
+  const pathElapsedS = first ? kept[lastSampled]!.timeS - first.timeS : 0;
   const immobile = Number.isFinite(netRateUmS) && netRateUmS < options.immobileUmS;
   const velocityUmS = !(elapsedS > 0) ? NaN : immobile || !(pathElapsedS > 0) ? netRateUmS : pathUm / pathElapsedS;
   return { velocityUmS, pathUm, netDisplacementUm, netRateUmS, immobile, elapsedS, frames: kept.length, strideFrames, duplicateTimes };
@@ -123,19 +125,20 @@ export function tracksToFilaments(
   let shortTracks = 0;
   let duplicateTimes = 0;
   for (const trackRows of byFilament.values()) {
+    const head = trackRows[0]!; // a group has at least one row
     const v = trackVelocity(trackRows, options);
     duplicateTimes += v.duplicateTimes;
     if (v.frames < minFrames || !Number.isFinite(v.velocityUmS)) {
       shortTracks++;
-      shortAt.push(trackRows[0].at);
+      shortAt.push(head.at);
       continue;
     }
     filaments.push({
-      movie: trackRows[0].movie,
-      filament: trackRows[0].filament,
+      movie: head.movie,
+      filament: head.filament,
       velocityUmS: v.velocityUmS,
       frames: v.frames,
-      at: trackRows[0].at,
+      at: head.at,
     });
   }
   return { filaments, shortTracks, duplicateTimes, shortAt };

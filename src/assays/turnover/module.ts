@@ -26,7 +26,7 @@ import { UNIT_CHART_HEIGHT, UNIT_CHART_WIDTH, groupChannel, groupCurveLayers, gr
 import { groupUnits, relativeSeFlags } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { TURNOVER, type TurnoverRow } from './inputs.js';
-import { TURNOVER_BANDS, TURNOVER_METRICS } from './metrics.js';
+import { TURNOVER_BANDS, TURNOVER_METRICS, TURNOVER_PLAUSIBLE } from './metrics.js';
 import { TURNOVER_SETTINGS as SETTINGS } from './settings.js';
 
 /** Thresholds in force for the turnover analysis. */
@@ -491,7 +491,7 @@ export function thinPerTrace<T extends Record<string, unknown>>(rows: readonly T
   const out: T[] = [];
   for (const list of byTrace.values()) {
     const every = Math.max(1, Math.ceil(list.length / max));
-    for (let i = 0; i < list.length; i += every) out.push(list[i]);
+    for (let i = 0; i < list.length; i += every) out.push(list[i]!);
   }
   return out;
 }
@@ -584,6 +584,7 @@ export const turnover: AssayModule = {
   inputs: [TURNOVER],
   metrics: TURNOVER_METRICS,
   bands: TURNOVER_BANDS,
+  plausible: TURNOVER_PLAUSIBLE,
   settings: SETTINGS,
   analyse: analyseTurnover,
   chart: turnoverChart,
