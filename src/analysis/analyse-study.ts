@@ -51,14 +51,14 @@ export interface AnalyseOptions {
 
 /** The comparison and decision methods, stated on the methods page and in results.json. */
 export const COMPARISON_METHOD =
-  'Each variant is compared with WT of the same batches on biological-unit values (natural log for ratio metrics, own units for difference metrics): ' +
+  'Each variant is compared with WT of the same batches on values per preparation (biological unit; natural log for ratio metrics, own units for difference metrics): ' +
   'y = μ_batch + δ·[variant] + ε, with a residual variance of its own for the variant and for WT (randomised block design, batches as blocks; ' +
   'generalised least squares fitted by restricted maximum likelihood, as R nlme::gls with varIdent, Pinheiro & Bates 2000 §5.2). ' +
-  'WT units of batches without the variant inform WT’s variance only. The 95% interval uses Satterthwaite’s degrees of freedom (Satterthwaite 1946; Giesbrecht & Burns 1985); ' +
+  'WT preparations of batches without the variant inform WT’s variance only. The 95% interval uses Satterthwaite’s degrees of freedom (Satterthwaite 1946; Giesbrecht & Burns 1985); ' +
   'with one variant unit, or no batch with two WT units, one pooled variance is used instead and the row says so. With one batch the comparison is Welch’s t test. ' +
   'Each effect is tested against its WT-like band: a minimum-effect test that it lies beyond the nearer edge (Murphy & Myors 1999), its p values adjusted by Benjamini–Hochberg across the study’s test variants (Benjamini & Hochberg 1995; known controls are outside that family, each scored as if added to it) ' +
   'and, for primary metrics, by Holm across the variant’s primary metrics (Holm 1979); and two one-sided tests that it lies inside the band (Schuirmann 1987). ' +
-  'n is the number of biological units (preparations); technical replicates are summarised within their unit first.';
+  'n is the number of preparations (biological units); technical replicates are summarised within their preparation first.';
 
 function matchesExclusion(u: UnitResult, e: Exclusion, variants: Variant[]): boolean {
   if (e.assay && e.assay !== u.assay) return false;
@@ -213,7 +213,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
     const overall = v.isWT
       ? { call: 'reference' as const, sentence: 'Wild-type reference: each variant is compared with the WT measured in the same batches; WT is not called against itself.', readout: null }
       : overallByVariant.get(v.id)!;
-    const flags = variantFlags(v, unitsByVariant.get(v.id) ?? [], comparisonsByVariant.get(v.id) ?? [], controlCharts);
+    const flags = variantFlags(v, unitsByVariant.get(v.id) ?? [], comparisonsByVariant.get(v.id) ?? [], controlCharts, labels);
     let evidence: VariantResult['evidence'];
     if (v.isWT) evidence = { level: 'none', scope: 'overall', sentence: 'Not applicable: wild-type reference.' };
     else if (v.control)
@@ -290,14 +290,14 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
 }
 
 /**
- * Flags about the variant as a whole: excluded units and comparisons made in batches whose WT control
+ * Flags about the variant as a whole: excluded preparations and comparisons made in batches whose WT control
  * values broke a Westgard rejection rule. Fit and comparison flags stay on their unit and comparison records.
  * `units` and `comparisons` are the variant's own (indexed once by the caller, not scanned per variant).
  */
-function variantFlags(v: Variant, units: UnitResult[], comparisons: MetricComparison[], charts: ControlChart[]): Flag[] {
+function variantFlags(v: Variant, units: UnitResult[], comparisons: MetricComparison[], charts: ControlChart[], labels: Record<string, string>): Flag[] {
   const flags: Flag[] = [];
   for (const u of units.filter((x) => x.excluded)) {
-    flags.push({ code: 'excluded', severity: 'info', message: `${u.assay}, unit ${u.unit} (batch ${u.batch}) excluded: ${u.excluded}` });
+    flags.push({ code: 'excluded', severity: 'info', message: `${labels[u.assay] ?? u.assay}: preparation ${u.unit} (batch ${u.batch}) excluded: ${u.excluded}` });
   }
   if (v.isWT) return flags;
   for (const chart of charts) {

@@ -161,16 +161,19 @@ export function groupUnits<T extends RowBase>(rows: readonly T[]): UnitGroup<T>[
 
 /**
  * Summarise row locations as runs of consecutive lines per file (one SourceRef per run), so that a
- * unit's provenance counts exactly the rows it was made from, even when they are not contiguous.
+ * unit's provenance counts exactly the rows it was made from, even when they are not contiguous. A
+ * derived row counts the input rows it was computed from (`from`), not only its own first line.
  * @example sourceRanges([{ at: { file: 'a.csv', line: 2 } }, { at: { file: 'a.csv', line: 3 } }, { at: { file: 'a.csv', line: 9 } }])
  * // → [{ file: 'a.csv', line: 2, lineEnd: 3 }, { file: 'a.csv', line: 9 }]
  */
-export function sourceRanges(rows: readonly { at: SourceRef }[]): SourceRef[] {
+export function sourceRanges(rows: readonly { at: SourceRef; from?: readonly SourceRef[] }[]): SourceRef[] {
   const byFile = new Map<string, number[]>();
-  for (const { at } of rows) {
-    const list = byFile.get(at.file);
-    if (list) list.push(at.line ?? 0);
-    else byFile.set(at.file, [at.line ?? 0]);
+  for (const row of rows) {
+    for (const at of row.from ?? [row.at]) {
+      const list = byFile.get(at.file);
+      if (list) list.push(at.line ?? 0);
+      else byFile.set(at.file, [at.line ?? 0]);
+    }
   }
   const out: SourceRef[] = [];
   for (const [file, lines] of byFile) {

@@ -17,6 +17,8 @@ export interface RowBase {
   unit: string;
   batch: string;
   at: SourceRef;
+  /** For a row derived from several input rows (a well's rate from its A340 readings): those rows, for provenance. */
+  from?: readonly SourceRef[];
 }
 
 /** Settings as the manifest gives them (study.settings or an input file's settings). */

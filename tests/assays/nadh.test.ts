@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { ATPASE_SETTINGS as SETTINGS } from '../../src/assays/atpase/settings.js';
+import { sourceRanges } from '../../src/assays/assay-common.js';
 import { a340SlopeToTurnoverUMS, nadhMethods, nadhToRates, wellInitialRate } from '../../src/assays/atpase/nadh.js';
 import type { NadhRow } from '../../src/assays/atpase/inputs.js';
 import { at, normalSource } from './helpers.js';
@@ -73,6 +74,19 @@ describe('nadhToRates', () => {
     expect(rates[0]!.ratePerS).toBeCloseTo(2.41155, 4);
     expect(rates[0]).toMatchObject({ variant: 'v1', unit: 'p1', batch: 'b1', actinUM: 20, replicate: 'A1' });
     expect(rates[0]!.at.file).toBe('nadh.csv');
+  });
+
+  it("lists as a rate's provenance every reading it used: its window and the subtracted background wells' windows", () => {
+    line = 2;
+    const sample = well({ well: 'A1', slopePerMin: -0.01 }); // lines 2–22, t = 0…600 s
+    const used = well({ well: 'H1', slopePerMin: -0.001, wellType: 'actin-only', variant: '', unit: '', headsUM: 0 }); // lines 23–43
+    const other = well({ well: 'H3', slopePerMin: -0.005, actinUM: 40, wellType: 'actin-only', variant: '', unit: '', headsUM: 0 }); // 44–64, not subtracted
+    const { rates } = nadhToRates([...sample, ...used, ...other], { nadhWindowS: 300 });
+    // The 300 s window holds t = 0, 30, …, 300: 11 readings of each well (hand-counted).
+    expect(sourceRanges(rates)).toEqual([
+      { file: 'nadh.csv', line: 2, lineEnd: 12 },
+      { file: 'nadh.csv', line: 23, lineEnd: 33 },
+    ]);
   });
 
   it('averages several background wells', () => {

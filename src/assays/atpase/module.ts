@@ -60,7 +60,7 @@ export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omi
     flags.push({
       code: 'not-converged',
       severity: 'warning',
-      message: `The Michaelis–Menten fit did not converge (${fit.stopReason}); kcat, KM, kcat/KM and basal are not reported for this unit.`,
+      message: `The Michaelis–Menten fit did not converge (${fit.stopReason}); kcat, KM, kcat/KM and basal are not reported for this preparation.`,
     });
   } else {
     for (const p of fit.parameters) {

@@ -37,6 +37,8 @@ export interface WellRate {
   turnoverUMS: number;
   readings: number;
   at: SourceRef;
+  /** The readings the slope was fitted to (inside the window). */
+  used: SourceRef[];
 }
 
 /**
@@ -79,6 +81,7 @@ export function wellInitialRate(rows: readonly NadhRow[], windowS: number, epsil
     turnoverUMS: a340SlopeToTurnoverUMS(fit.slope, first.pathCm, epsilon),
     readings: inWindow.length,
     at: first.at,
+    used: inWindow.map((r) => r.at),
   };
 }
 
@@ -103,7 +106,8 @@ function sameActin(a: number, b: number): boolean {
  * [actin], the rate is reported without subtraction and carries a warning flag
  * 'nadh-no-background' (it is then an upper bound: actin alone hydrolyses a little ATP).
  * Wells with fewer than 3 readings in the window, or a sample well with [heads] ≤ 0, give
- * no rate and a 'reject' flag. Flags carry the source position of the well's first reading.
+ * no rate and a 'reject' flag. Flags carry the source position of the well's first reading; each
+ * rate lists the readings it was computed from (`from`: its window and the subtracted actin-only wells').
  * @example nadhToRates(rows, {}) // A340 falling 0.010/min over 1 cm, 0.01 µM heads, no actin-only
  *   // well → rates[0].ratePerS ≈ 2.6795 s⁻¹ (0.026795 µM/s ÷ 0.01 µM) with a 'nadh-no-background' flag
  */
@@ -156,6 +160,8 @@ export function nadhToRates(rows: readonly NadhRow[], settings?: SettingsBag): {
       unit: w.unit,
       batch: w.batch,
       at: w.at,
+      // Provenance: the well's readings in the window and those of the actin-only wells subtracted.
+      from: [...w.used, ...matching.flatMap((b) => b.used)],
       actinUM: w.actinUM,
       ratePerS: turnover / w.headsUM,
       replicate: w.well,

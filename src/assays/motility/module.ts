@@ -159,7 +159,7 @@ export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings
       flags.push({
         code: 'motility-both-inputs',
         severity: 'info',
-        message: `This unit has both centroid tracks and ${input.velocities.length} velocity row(s); the velocities from tracks were used and the velocity rows ignored.`,
+        message: `This preparation has both centroid tracks and ${input.velocities.length} velocity row(s); the velocities from tracks were used and the velocity rows ignored.`,
         at: ignored!.at, // velocities.length > 0
       });
     }
@@ -191,7 +191,7 @@ export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings
     flags.push({
       code: 'motility-no-moving-filaments',
       severity: 'warning',
-      message: `No filament moved at or above ${settings.immobileUmS} µm/s; velocity is not estimable for this unit.`,
+      message: `No filament moved at or above ${settings.immobileUmS} µm/s; velocity is not estimable for this preparation.`,
       at: first,
     });
   }
