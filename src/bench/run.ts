@@ -84,6 +84,7 @@ function meter() {
       process.stderr.write(`  [${phase} done: ${fig.wallS.toFixed(2)} s wall, ${fig.cpuS.toFixed(2)} s CPU, peak ${Math.round(fig.peakMB)} MB]\n`);
       t = now;
       c = process.cpuUsage();
+      return fig;
     },
   };
 }
@@ -148,8 +149,7 @@ async function eleventyFloor(n: number): Promise<PhaseFigure> {
     });
     elev.disableLogger();
     await elev.write();
-    m.lap('eleventy');
-    return m.phases[0];
+    return m.lap('eleventy');
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
@@ -250,7 +250,10 @@ async function main(): Promise<void> {
       }
       if (mode.startsWith('warm')) {
         const i = changeable[(Math.max(0, middle) + changed++) % changeable.length] as number;
-        const label = (manifest.variants as Array<{ hgvs?: string }>)[1 + i].hgvs!.replace(/^p\./, '');
+        // The manifest declares WT first, then the variants in order.
+        const hgvs = (manifest.variants as Array<{ hgvs?: string }>)[1 + i]?.hgvs;
+        if (hgvs === undefined) throw new Error(`the synthetic manifest has no variant ${i}`);
+        const label = hgvs.replace(/^p\./, '');
         // As a lab would: the one file holding that variant's velocities is rewritten, the others
         // are left as they are (same bytes, same inode and times).
         changeOneVariantInFolder(studyDir, manifest, label);
