@@ -107,7 +107,7 @@ function estimateOf(c: MetricComparison): Estimate {
 }
 
 function metricRef(key: string, current: StudyResults, released: StudyResults): MetricRef {
-  const [assay, ...rest] = key.split('.');
+  const [assay = key, ...rest] = key.split('.');
   const metric = rest.join('.');
   const find = (r: StudyResults) => {
     const a = r.assays.find((x) => x.id === assay);

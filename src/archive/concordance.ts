@@ -127,7 +127,7 @@ export function judgeVariant(
   const ids = studies.map((s) => s.studyId);
   const withdrawn = withdrawnFrom.length ? ` It was withdrawn from ${joinAnd(withdrawnFrom)} after a release there, so that study's released calls are shown but not compared.` : '';
   if (studies.length < 2) {
-    const where = studies.length ? `Measured in one study only (${studies[0].studyName}), so there is nothing to compare it with.` : 'Not measured in the latest analysis of any study.';
+    const where = studies.length ? `Measured in one study only (${studies[0]!.studyName}), so there is nothing to compare it with.` : 'Not measured in the latest analysis of any study.';
     return { status: 'single study', studies: ids, disagreements: [], agreements: [], sentence: `${where}${withdrawn}` };
   }
   const n = `the ${studies.length} studies that measured it`;

@@ -225,7 +225,7 @@ function variantHistory(
         }),
       );
     }
-    const [assay, ...rest] = mk.split('.');
+    const [assay = mk, ...rest] = mk.split('.');
     const metric = rest.join('.');
     const label = names?.label ?? metric;
     const assayLabel = names?.assayLabel ?? assay;
@@ -248,7 +248,8 @@ function variantHistory(
     if (bands.size > 1) {
       notes.push(`The WT-like bands differ between rows (${[...bands].map(([t, ms]) => `${t} in ${joinRows(ms)}`).join('; ')}); each call is made against its own study's band.`);
     }
-    return { key: mk, assay, metric, label, assayLabel, unit: names?.unit ?? metricRows[0].unit, scales, rows: metricRows, agreement: scope.status, notes };
+    // mk came from a row's comparisons, so metricRows holds at least that row.
+    return { key: mk, assay, metric, label, assayLabel, unit: names?.unit ?? metricRows[0]!.unit, scales, rows: metricRows, agreement: scope.status, notes };
   });
 
   // 4. Concordance over the counted studies.
@@ -259,7 +260,8 @@ function variantHistory(
   );
 
   // 5. Latest call.
-  const latestRow = counted.length ? counted[counted.length - 1] : rows[rows.length - 1];
+  const latestRow = counted.at(-1) ?? rows.at(-1);
+  if (!latestRow) throw new Error(`variantHistory: no rows for ${key}`);
   const latest: LatestCall = entryRef(latestRow.entry, latestRow.variant.id, {
     call: latestRow.variant.overall.call,
     evidence: latestRow.variant.evidence.level,
@@ -270,7 +272,7 @@ function variantHistory(
   const controlIn = rows.filter((r) => r.variant.control);
   if (controlIn.length && controlIn.length < rows.length) {
     const ids = [...new Set(controlIn.map((r) => r.entry.studyId))];
-    notes.push(`A calibration control in ${ids.map(nameOf).join(' and ')} (known class ${controlIn[0].variant.control!.class}), where its calls calibrate the assays and carry no evidence level of their own.`);
+    notes.push(`A calibration control in ${ids.map(nameOf).join(' and ')} (known class ${controlIn[0]!.variant.control!.class}), where its calls calibrate the assays and carry no evidence level of their own.`);
   }
   const info = latestRow.variant;
   return {

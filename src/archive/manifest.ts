@@ -78,7 +78,7 @@ function at(value: unknown, pointer: string): unknown {
 function knownFields(path: string): string[] {
   const schema = archiveSchema as { properties: Record<string, { items?: { properties: Record<string, unknown> } }> };
   if (path === '') return Object.keys(schema.properties);
-  return Object.keys(schema.properties.studies.items!.properties);
+  return Object.keys(schema.properties.studies?.items?.properties ?? {});
 }
 
 function describeType(t: unknown): string {
@@ -127,7 +127,7 @@ export function normaliseStudyPath(path: string): { path: string } | { problem: 
   const segments = path.split('/').filter((s) => s !== '' && s !== '.');
   if (segments.includes('..')) return { problem: ARCHIVE_MSG.pathParent(path) };
   if (segments.length === 0) return { problem: ARCHIVE_MSG.pathIsArchive(path) };
-  if (segments[0].toLowerCase() === RELEASES_DIR) return { problem: ARCHIVE_MSG.pathReserved(path, RELEASES_DIR) };
+  if (segments[0]!.toLowerCase() === RELEASES_DIR) return { problem: ARCHIVE_MSG.pathReserved(path, RELEASES_DIR) };
   return { path: segments.join('/') };
 }
 

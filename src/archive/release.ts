@@ -83,8 +83,9 @@ export function isCalendarDate(text: string): boolean {
 /** Split a release id into its date and day number; undefined when it is not one. */
 export function parseReleaseId(id: string): { date: string; n: number } | undefined {
   const m = /^(\d{4}-\d{2}-\d{2})-([1-9]\d{0,3})$/.exec(id);
-  if (!m || !isCalendarDate(m[1])) return undefined;
-  return { date: m[1], n: Number(m[2]) };
+  const [, date, n] = m ?? [];
+  if (date === undefined || n === undefined || !isCalendarDate(date)) return undefined;
+  return { date, n: Number(n) };
 }
 
 /** Order of releases: by date, then by day number (release ids sort as text only up to 9 a day). */
@@ -146,7 +147,7 @@ const HEAD = /^\s*\{\s*"schemaVersion"\s*:\s*1\s*,\s*"tool"\s*:\s*\{\s*"name"\s*
 export function resultsHead(head: string): { toolVersion: string } | { problem: MessageText } {
   const m = HEAD.exec(head.charCodeAt(0) === 0xfeff ? head.slice(1) : head);
   if (!m) return { problem: ARCHIVE_MSG.releaseNotResults('it does not begin with {"schemaVersion": 1, "tool": {"name": "myofolio", "version": …}') };
-  return { toolVersion: JSON.parse(m[1]) as string };
+  return { toolVersion: JSON.parse(m[1] as string) as string }; // group 1 is not optional in HEAD
 }
 
 let resultsValidator: ValidateFunction | undefined;

@@ -81,14 +81,15 @@ function studyScale(label: string, units: number, run: (unit: number) => void): 
   const seconds = (performance.now() - started) / 1000;
   console.log(`${label}: ${units} units in ${seconds.toFixed(2)} s (${(units / seconds).toFixed(0)} units/s)`);
 }
+// Each dataset below has `count` rows of one y per x, so the indexes used are all present.
 const UNITS = 3000;
 const at = { file: 'synthetic.csv', line: 1 };
 const atpaseYs = datasets(michaelisMentenBasal, actinWells, [0.03, 5, 20], 0.2, UNITS, 6);
-studyScale('study scale, ATPase fits (8 × 3 wells)', UNITS, (u) => fitCurve(michaelisMentenBasal, actinWells, atpaseYs[u]));
+studyScale('study scale, ATPase fits (8 × 3 wells)', UNITS, (u) => fitCurve(michaelisMentenBasal, actinWells, atpaseYs[u]!));
 const forceYs = datasets(hillForcePca, pCa, [2, 30, 5.8, 3], 0.8, UNITS, 7);
 studyScale('study scale, force–pCa units (10 points)', UNITS, (u) =>
   analyseForceUnit(
-    pCa.map((p, i) => ({ variant: 'v', unit: `u${u}`, batch: 'b', at, pCa: p, tensionKPa: forceYs[u][i] })),
+    pCa.map((p, i) => ({ variant: 'v', unit: `u${u}`, batch: 'b', at, pCa: p, tensionKPa: forceYs[u]![i]! })),
     6,
   ),
 );
@@ -96,7 +97,7 @@ const traceYs = datasets(exponentialDouble, time400, [0.7, 0.03, 0.3, 0.0034, 0.
 studyScale('study scale, turnover units (3 traces × 400 points)', UNITS, (u) =>
   analyseTurnoverUnit(
     [0, 1, 2].flatMap((trace) =>
-      time400.map((timeS, i) => ({ variant: 'v', unit: `u${u}`, batch: 'b', at, trace: `t${trace}`, timeS, fluorescence: traceYs[3 * u + trace][i] })),
+      time400.map((timeS, i) => ({ variant: 'v', unit: `u${u}`, batch: 'b', at, trace: `t${trace}`, timeS, fluorescence: traceYs[3 * u + trace]![i]! })),
     ),
     settings,
   ),

@@ -20,14 +20,15 @@
  *   …-default-heap — any of these with V8's default young generation (src/pipeline/young-generation.ts),
  *   batch — after a new batch was added (one new variant with WT, every assay, in new files),
  * each in its own child process, so every peak-memory figure belongs to one build. Phases: load
- * (read + check), analyse (units + analyseStudy), charts (variant pages: charts drawn, pages
- * written by Eleventy in runs), pages (the study-level pages), write (results.json/csv + swap).
+ * (read + check), analyse (units + analyseStudy), downloads (results.json and results.csv),
+ * variants (variant pages and single-file reports: charts drawn, pages written by Eleventy in
+ * runs), study (the study-level pages), swap (the new output put in place).
  * Printed per phase: wall time, CPU time (process.cpuUsage()) and peak RSS (the OS high-water mark,
  * process.resourceUsage().maxRSS, so a phase shows the peak up to its end); then a table of the
  * builds side by side. Figures only; nothing is asserted.
  */
 import { execFileSync, spawn } from 'node:child_process';
-import { mkdirSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, realpathSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { availableParallelism, tmpdir, totalmem } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -83,6 +84,7 @@ function meter() {
       process.stderr.write(`  [${phase} done: ${fig.wallS.toFixed(2)} s wall, ${fig.cpuS.toFixed(2)} s CPU, peak ${Math.round(fig.peakMB)} MB]\n`);
       t = now;
       c = process.cpuUsage();
+      return fig;
     },
   };
 }
@@ -106,7 +108,6 @@ const STORE_KINDS: Record<string, ReadonlyArray<StoreKind>> = {
 /** One build of a study folder by buildStudy (src/pipeline/build-study.ts), timed phase by phase (child process). */
 async function buildOnce(studyDir: string, outDir: string, storeDir: string, mode: string, size: number): Promise<BuildFigures> {
   const m = meter();
-  let chartsDone = false;
   const kinds = STORE_KINDS[mode];
   const outcome = await buildStudy(studyDir, outDir, {
     force: true,
@@ -114,22 +115,22 @@ async function buildOnce(studyDir: string, outDir: string, storeDir: string, mod
     store: mode === 'plain' ? false : storeDir,
     ...(kinds ? { storeKinds: kinds } : {}),
     removePrevious: 'background',
+    // buildStudy's phases in order: read, check, analyse, write (results.json and .csv), pages;
+    // within pages, progress ('pages', 0, 1) when the variant pages are written, ('pages', 1, 1) after the study pages.
     onPhase: (phase: string) => {
       if (phase === 'analyse') m.lap('load');
-      else if (phase === 'pages') m.lap('analyse');
-      else if (phase === 'write') m.lap('pages');
+      else if (phase === 'write') m.lap('analyse');
+      else if (phase === 'pages') m.lap('downloads');
     },
-    onProgress: (phase: string) => {
-      if (phase === 'pages' && !chartsDone) {
-        chartsDone = true;
-        m.lap('charts');
-      }
+    onProgress: (phase: string, done: number) => {
+      if (phase === 'pages') m.lap(done === 0 ? 'variants' : 'study');
     },
   });
   if (!outcome.ok) throw new Error(`study has errors: ${JSON.stringify(outcome.issues.slice(0, 3))}`);
-  m.lap('write');
-  const resultsMB = statSync(join(outcome.out as string, 'downloads', 'results.json')).size / 1e6;
-  return { size, mode, phases: m.phases, pages: outcome.pages ?? 0, charts: outcome.charts ?? { rendered: 0, stored: 0 }, outMB: duMB(outcome.out as string), resultsMB };
+  m.lap('swap');
+  const out = realpathSync(outcome.out as string);
+  const resultsMB = statSync(join(out, 'downloads', 'results.json')).size / 1e6;
+  return { size, mode, phases: m.phases, pages: outcome.pages ?? 0, charts: outcome.charts ?? { rendered: 0, stored: 0 }, outMB: duMB(out), resultsMB };
 }
 
 /** Bare Eleventy: `n` trivial pages from one paginated template (the floor for the pages phase). */
@@ -148,8 +149,7 @@ async function eleventyFloor(n: number): Promise<PhaseFigure> {
     });
     elev.disableLogger();
     await elev.write();
-    m.lap('eleventy');
-    return m.phases[0];
+    return m.lap('eleventy');
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
@@ -250,7 +250,10 @@ async function main(): Promise<void> {
       }
       if (mode.startsWith('warm')) {
         const i = changeable[(Math.max(0, middle) + changed++) % changeable.length] as number;
-        const label = (manifest.variants as Array<{ hgvs?: string }>)[1 + i].hgvs!.replace(/^p\./, '');
+        // The manifest declares WT first, then the variants in order.
+        const hgvs = (manifest.variants as Array<{ hgvs?: string }>)[1 + i]?.hgvs;
+        if (hgvs === undefined) throw new Error(`the synthetic manifest has no variant ${i}`);
+        const label = hgvs.replace(/^p\./, '');
         // As a lab would: the one file holding that variant's velocities is rewritten, the others
         // are left as they are (same bytes, same inode and times).
         changeOneVariantInFolder(studyDir, manifest, label);

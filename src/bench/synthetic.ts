@@ -12,7 +12,7 @@
  */
 import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { createRng, simulateStudy, type AssayTruth, type Scenario, type ScenarioVariant } from '../demo/simulate.js';
+import { createRng, nth, simulateStudy, type AssayTruth, type Scenario, type ScenarioVariant } from '../demo/simulate.js';
 import { MANIFEST_NAME } from '../study/schemas.js';
 import { DEMO_WT } from '../demo/scenario.js';
 
@@ -67,7 +67,7 @@ export function benchScenario(o: SyntheticOptions): Scenario {
       hgvs: `p.${ref}${residue}${alt}`,
       ...(control ? { control } : {}),
       effects,
-      batches: [batches[b], batches[(b + 1) % nBatches]],
+      batches: [nth(batches, b), nth(batches, b + 1)],
       atpase: i % 5 === 4 ? 'nadh' : 'rates',
       motility: i % 5 === 3 ? 'tracks' : 'velocities',
       force: true,
@@ -107,7 +107,7 @@ function unitsOf(csv: string): Array<[string, string, string]> {
   const out: Array<[string, string, string]> = [];
   for (const line of csv.split('\n')) {
     if (!line || line.startsWith('#') || line.startsWith('variant,')) continue;
-    const [label, unit, batch] = line.split(',', 3);
+    const [label = '', unit = '', batch = ''] = line.split(',', 3);
     const key = `${label}|${unit}|${batch}`;
     if (!seen.has(key)) {
       seen.add(key);
@@ -123,11 +123,16 @@ export function syntheticStudy(o: SyntheticOptions): { manifest: Record<string, 
   const rng = createRng((o.seed ?? 9001) ^ 0xbe7c);
   const filaments = o.filaments ?? 300;
   const points = o.turnoverPoints ?? 400;
-  const truthOf = (l: string, u: string, b: string) => sim.truth[`${l}|${u}|${b}`];
+  const truthOf = (l: string, u: string, b: string) => {
+    const t = sim.truth[`${l}|${u}|${b}`];
+    if (!t) throw new Error(`no simulated truth for unit ${u} of ${l} in batch ${b}`);
+    return t;
+  };
   const files = { ...sim.files };
-  if (files['motility-velocities.csv']) {
+  const velocities = files['motility-velocities.csv'];
+  if (velocities) {
     const lines = [BANNER, 'variant,preparation,batch,movie,filament,velocity (nm/s)'];
-    for (const [l, u, b] of unitsOf(files['motility-velocities.csv'])) {
+    for (const [l, u, b] of unitsOf(velocities)) {
       const t = truthOf(l, u, b);
       for (let f = 1; f <= filaments; f++) {
         const immobile = rng.uniform() < t.fractionImmobile;
@@ -137,9 +142,10 @@ export function syntheticStudy(o: SyntheticOptions): { manifest: Record<string, 
     }
     files['motility-velocities.csv'] = lines.join('\n') + '\n';
   }
-  if (files['force-pca.csv']) {
+  const forces = files['force-pca.csv'];
+  if (forces) {
     const lines = [BANNER, 'variant,preparation,batch,pCa,force (uN),area (um2)'];
-    for (const [l, u, b] of unitsOf(files['force-pca.csv'])) {
+    for (const [l, u, b] of unitsOf(forces)) {
       const t = truthOf(l, u, b);
       const area = Math.round(Math.max(150, rng.normal(400, 60)));
       for (const pCa of PCA10) {
@@ -149,9 +155,10 @@ export function syntheticStudy(o: SyntheticOptions): { manifest: Record<string, 
     }
     files['force-pca.csv'] = lines.join('\n') + '\n';
   }
-  if (files['turnover.csv']) {
+  const traces = files['turnover.csv'];
+  if (traces) {
     const lines = [BANNER, 'variant,preparation,batch,trace,time (s),fluorescence'];
-    for (const [l, u, b] of unitsOf(files['turnover.csv'])) {
+    for (const [l, u, b] of unitsOf(traces)) {
       const t = truthOf(l, u, b);
       const amplitude = 100 * Math.exp(rng.normal(0, 0.1));
       const offset = 20 + rng.normal(0, 2);
@@ -178,11 +185,13 @@ function splitFiles(manifest: Record<string, unknown>, files: Record<string, str
   const outEntries: Array<Record<string, unknown>> = [];
   for (const entry of entries) {
     const p = entry.path as string;
-    const lines = files[p].split('\n').filter((l) => l !== '');
+    const text = files[p];
+    if (text === undefined) throw new Error(`the manifest names ${p}, which the study does not have`);
+    const lines = text.split('\n').filter((l) => l !== '');
     const head = lines.filter((l) => l.startsWith('#') || l.startsWith('variant,'));
     const body = lines.filter((l) => !(l.startsWith('#') || l.startsWith('variant,')));
     if (body.length <= maxRows) {
-      outFiles[p] = files[p];
+      outFiles[p] = text;
       outEntries.push(entry);
       continue;
     }
@@ -192,7 +201,7 @@ function splitFiles(manifest: Record<string, unknown>, files: Record<string, str
       let end = Math.min(body.length, start + maxRows);
       // Move the cut back to a unit boundary (first three cells change).
       const unitOf = (l: string) => l.split(',', 3).join(',');
-      while (end < body.length && end > start + 1 && unitOf(body[end]) === unitOf(body[end - 1])) end--;
+      while (end < body.length && end > start + 1 && unitOf(body[end]!) === unitOf(body[end - 1]!)) end--;
       const name = p.replace(/\.csv$/, `-part${part}.csv`);
       outFiles[name] = [...head, ...body.slice(start, end)].join('\n') + '\n';
       outEntries.push({ ...entry, path: name });
@@ -221,7 +230,9 @@ export function writeSyntheticStudy(dir: string, o: SyntheticOptions, sliceSize 
     const part = syntheticStudy({ ...o, slice: { first, count: Math.min(sliceSize, o.variants - first), index } });
     const prefix = `s${String(index + 1).padStart(3, '0')}-`;
     for (const entry of part.manifest.files as Array<Record<string, unknown>>) {
-      writeFileSync(join(dir, prefix + (entry.path as string)), part.files[entry.path as string]);
+      const text = part.files[entry.path as string];
+      if (text === undefined) throw new Error(`slice ${index + 1} has no file ${entry.path as string}`);
+      writeFileSync(join(dir, prefix + (entry.path as string)), text);
       files.push({ ...entry, path: prefix + (entry.path as string) });
     }
     // WT (and anything else listed in every slice) once.
@@ -245,7 +256,7 @@ export function changeOneVariantInFolder(dir: string, manifest: Record<string, u
     if (!/motility-velocities/.test(entry.path)) continue;
     const text = readFileSync(join(dir, entry.path), 'utf8');
     if (!text.includes(`\n${label},`)) continue;
-    writeFileSync(join(dir, entry.path), changeOneVariant({ 'motility-velocities.csv': text }, label)['motility-velocities.csv']);
+    writeFileSync(join(dir, entry.path), scaleVelocities(text, label));
     return;
   }
   throw new Error(`no velocity rows for ${label}`);
@@ -263,7 +274,8 @@ export function addBatchInFolder(dir: string, manifest: Record<string, unknown>)
   const variants = manifest.variants as Array<{ hgvs?: string; control?: unknown; wt?: boolean }>;
   const entries = manifest.files as Array<{ path: string; kind: string } & Record<string, unknown>>;
   const declared = new Set(variants.map((v) => v.hgvs));
-  const sequence = (manifest.genes as Array<{ sequence: string }>)[0].sequence;
+  const sequence = (manifest.genes as Array<{ sequence: string }>)[0]?.sequence;
+  if (sequence === undefined) throw new Error('the study declares no gene');
   let hgvs = '';
   for (let pos = sequence.length; pos > 0 && hgvs === ''; pos--) {
     const ref = sequence[pos - 1];
@@ -271,7 +283,9 @@ export function addBatchInFolder(dir: string, manifest: Record<string, unknown>)
   }
   const label = hgvs.slice(2);
   const firstBatch = (text: string) => text.split('\n').find((l) => l !== '' && !l.startsWith('#') && !l.startsWith('variant,'))?.split(',')[2];
-  const batch = firstBatch(readFileSync(join(dir, entries[0].path), 'utf8')) as string;
+  const firstFile = entries[0];
+  if (!firstFile) throw new Error('the study has no files');
+  const batch = firstBatch(readFileSync(join(dir, firstFile.path), 'utf8')) as string;
   const controls = new Set(variants.filter((v) => v.control !== undefined).map((v) => v.hgvs?.slice(2)));
   let model: string | undefined;
   const out = new Map<string, string[]>();
@@ -285,7 +299,7 @@ export function addBatchInFolder(dir: string, manifest: Record<string, unknown>)
       if (model === undefined && cells[0] !== 'WT' && cells[0] !== '' && !controls.has(cells[0])) model = cells[0];
       if (cells[0] !== 'WT' && cells[0] !== '' && cells[0] !== model) continue;
       const to = cells[0] === model ? label : cells[0];
-      rows.push([to, cells[1] === '' ? '' : `${cells[1].replace(model as string, label)}-new`, 'BNEW', ...cells.slice(3)].join(','));
+      rows.push([to, cells[1] === '' ? '' : `${cells[1]!.replace(model as string, label)}-new`, 'BNEW', ...cells.slice(3)].join(','));
     }
   }
   if (model === undefined) throw new Error(`no variant to model a new batch on in batch ${batch}`);
@@ -313,9 +327,15 @@ export function writeStudy(dir: string, study: { manifest: Record<string, unknow
  * (one file changes; every other variant's rows stay byte-identical).
  */
 export function changeOneVariant(files: Record<string, string>, label: string): Record<string, string> {
-  const path = Object.keys(files).find((p) => p.startsWith('motility-velocities') && files[p].includes(`\n${label},`));
-  if (!path) throw new Error(`no velocity rows for ${label}`);
-  const out = files[path]
+  const path = Object.keys(files).find((p) => p.startsWith('motility-velocities') && files[p]?.includes(`\n${label},`));
+  const text = path === undefined ? undefined : files[path];
+  if (path === undefined || text === undefined) throw new Error(`no velocity rows for ${label}`);
+  return { ...files, [path]: scaleVelocities(text, label) };
+}
+
+/** A velocities file with the velocities of the units labelled `label` scaled by 1.1. */
+function scaleVelocities(text: string, label: string): string {
+  return text
     .split('\n')
     .map((line) => {
       if (!line.startsWith(`${label},`)) return line;
@@ -324,5 +344,4 @@ export function changeOneVariant(files: Record<string, string>, label: string): 
       return cells.join(',');
     })
     .join('\n');
-  return { ...files, [path]: out };
 }

@@ -18,7 +18,7 @@
  */
 import { AMINO_ACIDS, parseProteinChange } from '../study/hgvs.js';
 import { DEMO_WT, demoSequence } from './scenario.js';
-import { createRng, type Scenario, type ScenarioVariant, simulateStudy } from './simulate.js';
+import { createRng, nth, residueAt, type Scenario, type ScenarioVariant, simulateStudy } from './simulate.js';
 
 export const ARCHIVE_SEED = 20250314;
 const AMINO = 'ACDEFGHIKLMNPQRSTVWY';
@@ -42,7 +42,7 @@ function sequenceOf(seed: number, length: number): string {
 
 /** HGVS of a substitution at a residue of a sequence: the residue there, and a seeded other one. */
 function substitution(sequence: string, residue: number, rng: ReturnType<typeof createRng>): string {
-  const ref = sequence[residue - 1];
+  const ref = residueAt(sequence, residue);
   let alt = ref;
   while (alt === ref) alt = rng.pick([...AMINO]);
   return `p.${AMINO_ACIDS[ref]}${residue}${AMINO_ACIDS[alt]}`;
@@ -74,7 +74,7 @@ function scenario(base: Pick<Scenario, 'seed' | 'title' | 'dates' | 'description
   const rng = createRng(base.seed ^ 0xa2c);
   const variants = plans.map((p, i) => {
     const { residue, ...rest } = p;
-    return { ...rest, hgvs: substitution(base.gene.sequence, residue, rng), batches: [base.batches[i % base.batches.length], base.batches[(i + 1) % base.batches.length]] };
+    return { ...rest, hgvs: substitution(base.gene.sequence, residue, rng), batches: [nth(base.batches, i), nth(base.batches, i + 1)] };
   });
   return {
     ...base,

@@ -61,5 +61,7 @@ try {
 
 // 3. The correction, after the release.
 const panel = studies.find((s) => s.id === DEMO_RELEASE.study)!;
-writeFileSync(join(out, ...panel.path.split('/'), 'atpase-rates.csv'), panel.study.files['atpase-rates.csv']);
+const corrected = panel.study.files['atpase-rates.csv'];
+if (corrected === undefined) throw new Error(`the demo study ${panel.id} has no atpase-rates.csv to correct`);
+writeFileSync(join(out, ...panel.path.split('/'), 'atpase-rates.csv'), corrected);
 process.stdout.write(`wrote the demo archive to ${out}: ${studies.length} studies, one release of ${DEMO_RELEASE.study} (${DEMO_RELEASE.date}) and the correction after it\n`);

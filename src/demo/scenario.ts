@@ -8,7 +8,7 @@
  * phases are too close to resolve.
  */
 import { AMINO_ACIDS } from '../study/hgvs.js';
-import { createRng, type AssayTruth, type Scenario, type ScenarioVariant } from './simulate.js';
+import { createRng, nth, residueAt, type AssayTruth, type Scenario, type ScenarioVariant } from './simulate.js';
 
 const SEED = 20250214;
 const AMINO = 'ACDEFGHIKLMNPQRSTVWY';
@@ -80,14 +80,14 @@ export function demoScenario(): Scenario {
   const rng = createRng(SEED ^ 0xa17);
   const batches = ['B1', 'B2', 'B3'];
   const variants: ScenarioVariant[] = PLANS.map((plan, i) => {
-    const ref = sequence[plan.residue - 1];
+    const ref = residueAt(sequence, plan.residue);
     let alt = ref;
     while (alt === ref) alt = rng.pick([...AMINO]);
     const { residue, ...rest } = plan;
     // Mix R403Q, p.R403Q and p.Arg403Gln spellings, to show normalisation.
     const hgvs =
       i % 3 === 0 ? `${ref}${residue}${alt}` : i % 3 === 1 ? `p.${ref}${residue}${alt}` : `p.${AMINO_ACIDS[ref]}${residue}${AMINO_ACIDS[alt]}`;
-    return { ...rest, hgvs, batches: [batches[i % batches.length], batches[(i + 1) % batches.length]] };
+    return { ...rest, hgvs, batches: [nth(batches, i), nth(batches, i + 1)] };
   });
   return {
     seed: SEED,

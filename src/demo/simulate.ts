@@ -100,7 +100,20 @@ export function createRng(seed: number): { uniform(): number; normal(mean?: numb
     while (u === 0) u = uniform();
     return mean + sd * Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * uniform());
   };
-  return { uniform, normal, pick: (xs) => xs[Math.floor(uniform() * xs.length)] };
+  return { uniform, normal, pick: (xs) => nth(xs, Math.floor(uniform() * xs.length)) };
+}
+
+/** The element at index i of a list, counting round from the start (a variant's batches taken in turn). */
+export function nth<T>(xs: readonly T[], i: number): T {
+  if (xs.length === 0) throw new Error('the scenario has an empty list where it needs an element');
+  return xs[i % xs.length] as T; // 0 <= i % length < length
+}
+
+/** The residue (one-letter code) at a 1-based position of a sequence. */
+export function residueAt(sequence: string, residue: number): string {
+  const r = sequence[residue - 1];
+  if (r === undefined) throw new Error(`residue ${residue} lies outside the scenario's sequence of ${sequence.length}`);
+  return r;
 }
 
 /** Format a number with a fixed number of decimals, without '-0'. */
@@ -174,7 +187,7 @@ export function simulateStudy(s: Scenario): SimulatedStudy {
     const label = v.label ?? (parsed.ok ? parsed.change.short : v.hgvs);
     const base = applyEffects(v.effects);
     for (let i = 1; i <= s.unitsPerVariant; i++) {
-      const batch = v.batches[(i - 1) % v.batches.length];
+      const batch = nth(v.batches, i - 1);
       variantUnits.push({ label, unit: `${label}-p${i}`, batch, truth: unitTruth(base, batch), variant: v, first: i === 1 });
     }
   }

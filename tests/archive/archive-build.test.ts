@@ -76,7 +76,7 @@ beforeAll(async () => {
   releaseRun = await run('release', 'archive', 'panel-2025', '--note', DEMO_RELEASE.note, '--date', DEMO_RELEASE.date, '--out', 'site');
   releasedBytes = readFileSync(join(archive, 'releases', 'panel-2025', '2025-03-14-1', 'results.json'));
   // The correction, after the release.
-  writeFileSync(join(panelDir, 'atpase-rates.csv'), panel.study.files['atpase-rates.csv']);
+  writeFileSync(join(panelDir, 'atpase-rates.csv'), panel.study.files['atpase-rates.csv'] ?? '');
   panelFolderBefore = snapshot(panelDir);
   secondBuild = await run('build', 'archive', '--out', 'site');
 }, 240_000);

@@ -55,7 +55,7 @@ describe('a corrected CSV after a release', () => {
   it('lists the changed call with the reason "corrected data in <file>"', () => {
     expect(cmp.reasons).toEqual([{ kind: 'file-changed', file: 'atpase-rates.csv', text: 'corrected data in atpase-rates.csv' }]);
     expect(cmp.variants.map((v) => [v.short, v.status])).toEqual([['R403Q', 'changed']]);
-    const call = cmp.variants[0].changes.find((c) => c.kind === 'overall-call')!;
+    const call = cmp.variants[0]!.changes.find((c) => c.kind === 'overall-call')!;
     expect(call).toMatchObject({ was: 'hypercontractile', now: 'indeterminate' });
     expect(call.sentence).toBe(
       'Changed since the release of 2026-03-02 (note: sent to the cardiogenetics clinic): overall call was hypercontractile, now indeterminate; reason: corrected data in atpase-rates.csv.',
@@ -63,14 +63,14 @@ describe('a corrected CSV after a release', () => {
   });
 
   it('lists the evidence level and the estimate that left its released CI, each with its reason', () => {
-    const kinds = cmp.variants[0].changes.map((c) => c.kind);
+    const kinds = cmp.variants[0]!.changes.map((c) => c.kind);
     // PS3 supporting (hypercontractile) → none (indeterminate): makeResults' evidence by call.
     expect(kinds).toEqual(['overall-call', 'evidence-level', 'estimate-outside-ci']);
-    const estimate = cmp.variants[0].changes[2];
+    const estimate = cmp.variants[0]!.changes[2];
     // 1.12 < 1.21, the released lower limit.
-    expect(estimate.text).toBe('kcat (Actin-activated ATPase) is now 1.12×, outside its released 95% CI 1.21× to 1.55× (released estimate 1.38×)');
-    expect(estimate.reasons.map((r) => r.text)).toEqual(['corrected data in atpase-rates.csv']);
-    expect(cmp.variants[0].sentence).toBe(
+    expect(estimate?.text).toBe('kcat (Actin-activated ATPase) is now 1.12×, outside its released 95% CI 1.21× to 1.55× (released estimate 1.38×)');
+    expect(estimate?.reasons.map((r) => r.text)).toEqual(['corrected data in atpase-rates.csv']);
+    expect(cmp.variants[0]?.sentence).toBe(
       `Changed ${SINCE}: overall call was hypercontractile, now indeterminate; evidence level was PS3 supporting, now none; kcat (Actin-activated ATPase) is now 1.12×, outside its released 95% CI 1.21× to 1.55× (released estimate 1.38×); reason: corrected data in atpase-rates.csv.`,
     );
   });
@@ -78,7 +78,7 @@ describe('a corrected CSV after a release', () => {
   it('leaves variants whose calls and estimates held unlisted, and counts them', () => {
     expect(cmp.unchanged).toBe(2);
     expect(cmp.summary).toBe(`Since the release of 2026-03-02 (note: sent to the cardiogenetics clinic): 1 variant changed; 2 unchanged (same overall call and evidence level, no estimate outside its released 95% CI).`);
-    expect(changeLines(cmp)[1]).toBe(`R403Q (ZZMYO9 p.Arg403Gln): ${cmp.variants[0].sentence}`);
+    expect(changeLines(cmp)[1]).toBe(`R403Q (ZZMYO9 p.Arg403Gln): ${cmp.variants[0]?.sentence}`);
     expect(changeFor(cmp, { gene: 'ZZMYO9', hgvs: 'p.Arg403Gln' })?.status).toBe('changed');
     expect(changeFor(cmp, { gene: 'ZZMYO9', hgvs: 'p.Glu500Lys' })).toBeUndefined();
   });
@@ -88,8 +88,8 @@ describe('a corrected CSV after a release', () => {
     // corrected, the file is another variant's data (it moves q values and calibration study-wide).
     const c2 = compareWithRelease('panel', study({ files: FILES(fakeSha('atpase v2')), variants: [R403Q, E500K, withVariant(D600N, { overall: 'indeterminate', metrics: { 'force.pCa50': [0.01, -0.12, 0.14, 'indeterminate'] } })] }), released, RELEASE);
     const d = c2.variants.find((v) => v.short === 'D600N')!;
-    expect(d.changes[0].reasons.map((r) => r.kind)).toEqual(['other-data']);
-    expect(d.changes[0].reasons[0].text).toBe('changed data of other variants (atpase-rates.csv), which moves q values and the calibration study-wide');
+    expect(d.changes[0]?.reasons.map((r) => r.kind)).toEqual(['other-data']);
+    expect(d.changes[0]?.reasons[0]?.text).toBe('changed data of other variants (atpase-rates.csv), which moves q values and the calibration study-wide');
     expect([...variantFiles(released, 'zzmyo9-d600n')]).toEqual(['force-pca.csv']);
     expect([...variantFiles(released, 'zzmyo9-r403q')]).toEqual(['atpase-rates.csv']);
   });
@@ -127,7 +127,7 @@ describe('reasons other than data', () => {
       ['settings-changed', 'assay setting immobileThreshold changed (0.2 → 0.3)'],
       ['thresholds-changed', 'q threshold changed (0.05 → 0.01)'],
     ]);
-    expect(cmp.variants[0].changes[0].sentence).toBe(
+    expect(cmp.variants[0]?.changes[0]?.sentence).toBe(
       `Changed ${SINCE}: overall call was hypercontractile, now indeterminate; reasons: exclusion added: batch B3 of atpase, assay setting immobileThreshold changed (0.2 → 0.3) and q threshold changed (0.05 → 0.01).`,
     );
   });
@@ -137,7 +137,7 @@ describe('reasons other than data', () => {
     const cmp = compareWithRelease('panel', current, study(), RELEASE);
     expect(cmp.releasedToolVersion).toBe('0.2.0');
     expect(cmp.currentToolVersion).toBe('0.3.0');
-    expect(cmp.variants[0].changes[0].sentence).toBe(
+    expect(cmp.variants[0]?.changes[0]?.sentence).toBe(
       `Changed ${SINCE}: overall call was hypercontractile, now indeterminate; reason: a different tool version (0.2.0 → 0.3.0; see the changes to the methods).`,
     );
   });
@@ -145,7 +145,7 @@ describe('reasons other than data', () => {
   it('a changed calibration explains a changed evidence level (and not a call)', () => {
     // Two more benign controls read normal: BS3 supporting → BS3 moderate for normal readouts (invented levels).
     const cal = defaultCalibration();
-    const after = [{ ...cal[0], counts: { ...cal[0].counts, benignNormal: 5 }, totalControls: 8, levelNormal: 'BS3 moderate' as const }];
+    const after = [{ ...cal[0]!, counts: { ...cal[0]!.counts, benignNormal: 5 }, totalControls: 8, levelNormal: 'BS3 moderate' as const }];
     const current = study({ calibration: after, variants: [R403Q, withVariant(E500K, { evidence: 'BS3 moderate' }), D600N] });
     const cmp = compareWithRelease('panel', current, study(), RELEASE);
     const e = cmp.variants.find((v) => v.short === 'E500K')!;
@@ -166,7 +166,7 @@ describe('reasons other than data', () => {
     const current = study({ variants: [withVariant(R403Q, { overall: 'indeterminate' }), D600N], manifest: { ...MANIFEST, variants: ['WT', 'R403Q', 'D600N'] } });
     const cmp = compareWithRelease('panel', current, study(), RELEASE);
     const r = cmp.variants.find((v) => v.short === 'R403Q')!;
-    expect(r.changes[0].reasons.map((x) => x.text)).toEqual(['the variant list in the manifest changed']);
+    expect(r.changes[0]?.reasons.map((x) => x.text)).toEqual(['the variant list in the manifest changed']);
     expect(cmp.variants.find((v) => v.short === 'E500K')?.status).toBe('withdrawn');
   });
 
@@ -174,9 +174,9 @@ describe('reasons other than data', () => {
     const spec = (basal: [number, number, number]) => withVariant(R403Q, { metrics: { 'atpase.kcat': [1.38, 1.21, 1.55, 'increased'], 'atpase.basal': [...basal, 'indeterminate'] } });
     const released = study({ scales: { 'atpase.basal': 'ratio' }, variants: [spec([1.2, 0.9, 1.6]), E500K, D600N] });
     const current = study({ toolVersion: '0.3.0', variants: [spec([0.01, -0.01, 0.03]), E500K, D600N] });
-    const change = compareWithRelease('panel', current, released, RELEASE).variants[0].changes[0];
-    expect(change.kind).toBe('scale-changed');
-    expect(change.text).toBe('basal rate (Actin-activated ATPase) is now compared as a difference (+0.0100), not as a ratio (released 1.20× (95% CI 0.900× to 1.60×)), so it cannot be set against the released interval');
+    const change = compareWithRelease('panel', current, released, RELEASE).variants[0]?.changes[0];
+    expect(change?.kind).toBe('scale-changed');
+    expect(change?.text).toBe('basal rate (Actin-activated ATPase) is now compared as a difference (+0.0100), not as a ratio (released 1.20× (95% CI 0.900× to 1.60×)), so it cannot be set against the released interval');
   });
 
   it('caveats changed are told in the summary even when no call changed', () => {
@@ -200,7 +200,7 @@ describe('estimates against the released interval', () => {
       compareWithRelease('panel', study({ variants: [withVariant(R403Q, { metrics: { 'atpase.kcat': [effect, effect - 0.15, effect + 0.15, 'increased'] } }), E500K, D600N] }), study(), RELEASE);
     expect(at(1.3).variants).toEqual([]);
     expect(at(1.21).variants).toEqual([]);
-    const moved = at(1.6).variants[0];
+    const moved = at(1.6).variants[0]!;
     expect(moved.changes.map((c) => c.kind)).toEqual(['estimate-outside-ci']);
     expect(moved.changes[0]).toMatchObject({ released: { effect: 1.38, ciLow: 1.21, ciHigh: 1.55 }, current: { effect: 1.6 } });
     expect(outsideInterval(1.55, 1.21, 1.55)).toBe(false);
@@ -210,7 +210,7 @@ describe('estimates against the released interval', () => {
 
   it('lists an estimate released and now not estimable', () => {
     const cmp = compareWithRelease('panel', study({ variants: [withVariant(R403Q, { overall: 'indeterminate', metrics: { 'atpase.kcat': [null, null, null, 'not estimable'] } }), E500K, D600N] }), study(), RELEASE);
-    const lost = cmp.variants[0].changes.find((c) => c.kind === 'estimate-lost')!;
+    const lost = cmp.variants[0]!.changes.find((c) => c.kind === 'estimate-lost')!;
     expect(lost.text).toBe('kcat (Actin-activated ATPase) was 1.38× (95% CI 1.21× to 1.55×) and is now not estimable');
   });
 });
@@ -220,7 +220,7 @@ describe('withdrawn and new variants', () => {
     const current = study({ variants: [E500K, D600N], manifest: { ...MANIFEST, variants: ['WT', 'E500K', 'D600N'] } });
     const cmp = compareWithRelease('panel', current, study(), RELEASE);
     expect(cmp.variants.map((v) => [v.short, v.status, v.releasedId, v.currentId])).toEqual([['R403Q', 'withdrawn', 'zzmyo9-r403q', undefined]]);
-    expect(cmp.variants[0].sentence).toBe(
+    expect(cmp.variants[0]?.sentence).toBe(
       `Withdrawn ${SINCE}: in the released results (overall call hypercontractile, evidence level PS3 supporting) but not in the current build; the released results stay as they were released; reason: the variant list in the manifest changed.`,
     );
     expect(cmp.summary).toContain(': 1 withdrawn; 2 unchanged');
@@ -235,7 +235,7 @@ describe('withdrawn and new variants', () => {
     });
     const cmp = compareWithRelease('panel', current, study(), RELEASE);
     expect(cmp.variants.map((v) => [v.short, v.status])).toEqual([['G700D', 'new']]);
-    expect(cmp.variants[0].sentence).toBe(
+    expect(cmp.variants[0]?.sentence).toBe(
       `New ${SINCE}: not in the released results; overall call now hypercontractile (evidence level PS3 supporting); reasons: new data file motility-velocities.csv and the variant list in the manifest changed.`,
     );
   });

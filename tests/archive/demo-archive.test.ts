@@ -35,17 +35,19 @@ describe('demo archive data-demo-archive/', () => {
   });
 
   it('the re-measuring study measures two panel variants again, and the third study another invented gene', () => {
-    const [panel, remeasure, thin] = archiveStudies().map((s) => s.study.manifest as { variants: Array<{ hgvs?: string }>; genes: Array<{ symbol: string }> });
-    const panelHgvs = new Set(panel.variants.map((v) => v.hgvs));
-    const again = remeasure.variants.filter((v) => v.hgvs);
+    const studies = archiveStudies();
+    expect(studies).toHaveLength(3);
+    const [panel, remeasure, thin] = studies.map((s) => s.study.manifest as { variants: Array<{ hgvs?: string }>; genes: Array<{ symbol: string }> });
+    const panelHgvs = new Set(panel!.variants.map((v) => v.hgvs));
+    const again = remeasure!.variants.filter((v) => v.hgvs);
     expect(again).toHaveLength(2);
     expect(again.every((v) => panelHgvs.has(v.hgvs))).toBe(true);
-    expect(thin.genes[0].symbol).toBe('ZZTNT3');
-    expect(panel.genes[0].symbol).toBe('ZZMYO1');
+    expect(thin!.genes[0]?.symbol).toBe('ZZTNT3');
+    expect(panel!.genes[0]?.symbol).toBe('ZZMYO1');
   });
 
   it('the correction changes only the corrected variant\'s rows', () => {
-    const corrected = archiveStudies()[0].study.files['atpase-rates.csv'];
+    const corrected = archiveStudies()[0]?.study.files['atpase-rates.csv'] ?? '';
     const before = releasedRates(corrected).split('\n');
     const after = corrected.split('\n');
     const differing = after.filter((line, i) => line !== before[i]);

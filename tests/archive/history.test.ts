@@ -82,7 +82,7 @@ describe('history of a variant', () => {
       ['panel', 'current build', null, 1.5, 1.3, 1.7, 'increased', 3],
       ['remeasure', 'current build', null, 1.45, 1.3, 1.6, 'increased', 3],
     ]);
-    expect(kcat.rows[0].label).toBe('Panel (2025-03-10), the release of 2025-04-01');
+    expect(kcat.rows[0]?.label).toBe('Panel (2025-03-10), the release of 2025-04-01');
     expect(kcat.label).toBe('kcat');
     expect(kcat.assayLabel).toBe('Actin-activated ATPase');
     expect(v.overall.map((r) => r.call)).toEqual(['hypercontractile', 'hypercontractile', 'hypercontractile']);
@@ -125,7 +125,7 @@ describe('history of a variant', () => {
     // kcat increased in one study, decreased in the other; overall hyper vs hypo.
     const a = makeResults({ variants: [R403Q('hypercontractile', [1.5, 1.3, 1.7, 'increased'])] });
     const b = makeResults({ variants: [R403Q('hypocontractile', [0.6, 0.5, 0.7, 'decreased'])] });
-    const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0];
+    const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0]!;
     expect(v.concordance.status).toBe('discordant');
     expect(v.concordance.disagreements.map((d) => d.kind)).toEqual(['opposite directions', 'opposite directions']);
     expect(v.concordance.sentence).toContain('kcat (Actin-activated ATPase) increased in A (2025-01-01), but decreased in B (2025-02-01) (opposite directions)');
@@ -135,7 +135,7 @@ describe('history of a variant', () => {
     // Overall hyper vs indeterminate, kcat increased vs indeterminate: one determinate call per scope.
     const a = makeResults({ variants: [R403Q('hypercontractile', [1.5, 1.3, 1.7, 'increased'])] });
     const b = makeResults({ variants: [R403Q('indeterminate', [1.3, 1.1, 1.5, 'indeterminate'])] });
-    const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0];
+    const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0]!;
     expect(v.concordance.status).toBe('inconclusive');
     expect(v.concordance.sentence).toMatch(/^Not comparable yet/);
   });
@@ -143,7 +143,7 @@ describe('history of a variant', () => {
   it('calls mixed beside hypercontractile inconclusive, not discordant, and says which calls differ', () => {
     const a = makeResults({ variants: [R403Q('mixed', [1.5, 1.3, 1.7, 'increased'])] });
     const b = makeResults({ variants: [R403Q('hypercontractile', [1.5, 1.3, 1.7, 'increased'])] });
-    const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0];
+    const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0]!;
     expect(v.concordance.status).toBe('inconclusive');
     expect(v.concordance.sentence).toContain('overall call mixed in A (2025-01-01), but hypercontractile in B (2025-02-01)');
   });
@@ -157,7 +157,7 @@ describe('history of a variant', () => {
     // Panel released G700D as hypercontractile and now calls it within WT range: one study, two analyses.
     const released = makeResults({ variants: [G700D('hypercontractile', [1.4, 1.28, 1.55, 'increased'])] });
     const now = makeResults({ variants: [G700D('within WT range', [1.02, 0.92, 1.12, 'within WT range'])] });
-    const v = buildHistory([entry('panel', 'Panel', '2025-03-10', released, { id: '2025-04-01-1', date: '2025-04-01', note: 'n' }), entry('panel', 'Panel', '2025-03-10', now)]).variants[0];
+    const v = buildHistory([entry('panel', 'Panel', '2025-03-10', released, { id: '2025-04-01-1', date: '2025-04-01', note: 'n' }), entry('panel', 'Panel', '2025-03-10', now)]).variants[0]!;
     expect(v.concordance.status).toBe('single study');
     expect(v.overall.map((r) => [r.origin, r.call])).toEqual([
       ['release', 'hypercontractile'],
@@ -169,7 +169,7 @@ describe('history of a variant', () => {
   it('keeps a variant withdrawn from a study listed, from its release, and does not compare it', () => {
     const released = makeResults({ variants: [R403Q('hypercontractile', [1.5, 1.3, 1.7, 'increased'])] });
     const now = makeResults({ variants: [] });
-    const v = buildHistory([entry('panel', 'Panel', '2025-03-10', released, { id: '2025-04-01-1', date: '2025-04-01', note: 'n' }), entry('panel', 'Panel', '2025-03-10', now)]).variants[0];
+    const v = buildHistory([entry('panel', 'Panel', '2025-03-10', released, { id: '2025-04-01-1', date: '2025-04-01', note: 'n' }), entry('panel', 'Panel', '2025-03-10', now)]).variants[0]!;
     expect(v.studies).toEqual([{ studyId: 'panel', title: 'Panel', date: '2025-03-10', withdrawn: true }]);
     expect(v.latest).toMatchObject({ origin: 'release', call: 'hypercontractile', withdrawn: true });
     expect(v.concordance.sentence).toBe(
@@ -183,7 +183,7 @@ describe('history of a variant', () => {
       variants: [{ ...R403Q('hypercontractile', [1.5, 1.3, 1.7, 'increased']), metrics: { 'atpase.kcat': [1.5, 1.3, 1.7, 'increased'], 'atpase.basal': [0.01, -0.01, 0.03, 'indeterminate'] } }],
       settings: { bands: { 'atpase.kcat': [0.85, 1.2] } },
     });
-    const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0];
+    const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0]!;
     const basal = v.metrics.find((m) => m.key === 'atpase.basal')!;
     expect(basal.scales).toEqual(['ratio', 'difference']);
     expect(basal.notes[0]).toContain('different scales');
@@ -196,7 +196,7 @@ describe('gene pages and the home page', () => {
   it('lists per gene every variant measured in any study, by residue, with its latest call and concordance', () => {
     const h = buildHistory(archive());
     expect(h.genes.map((g) => g.symbol)).toEqual(['ZZACT2', 'ZZMYO9']);
-    expect(h.genes[1].variants.map((v) => [v.short, v.studies, v.latest.call, v.concordance])).toEqual([
+    expect(h.genes[1]?.variants.map((v) => [v.short, v.studies, v.latest.call, v.concordance])).toEqual([
       ['R403Q', 2, 'hypercontractile', 'concordant'],
       ['E500K', 1, 'within WT range', 'single study'],
       ['G700D', 2, 'within WT range', 'discordant'],
@@ -226,7 +226,7 @@ describe('gene pages and the home page', () => {
   });
 
   it('refuses the same analysis twice (a caller error)', () => {
-    const e = archive()[0];
+    const e = archive()[0]!;
     expect(() => buildHistory([e, e])).toThrow(/two current builds/);
   });
 });

@@ -21,7 +21,7 @@ describe('findDuplicateKeys', () => {
   it('compares keys after decoding escapes, and escapes ~ and / in the pointer', () => {
     // "\u0074itle" decodes to "title" (U+0074 is 't').
     expect(findDuplicateKeys('{"title": 1, "\\u0074itle": 2}').map((d) => d.key)).toEqual(['title']);
-    expect(findDuplicateKeys('{"a/b~": 1, "a/b~": 2}')[0].pointer).toBe('/a~1b~0');
+    expect(findDuplicateKeys('{"a/b~": 1, "a/b~": 2}')[0]?.pointer).toBe('/a~1b~0');
     expect(pointerToken('~/')).toBe('~0~1');
   });
 
@@ -42,6 +42,6 @@ describe('findDuplicateKeys', () => {
     const text = `${'['.repeat(depth)}{"k": 1, "k": 2}${']'.repeat(depth)}`;
     const found = findDuplicateKeys(text);
     expect(found).toHaveLength(1);
-    expect(found[0].pointer).toBe(`${'/0'.repeat(depth)}/k`);
+    expect(found[0]?.pointer).toBe(`${'/0'.repeat(depth)}/k`);
   });
 });

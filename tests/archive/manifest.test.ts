@@ -49,8 +49,8 @@ describe('archive.json: refused', () => {
       { file: 'archive.json', line: 5, col: 41, jsonPath: '/studies/0/path' },
       { file: 'archive.json', line: 6, col: 3, jsonPath: '/title' },
     ]);
-    expect(dup[0].message).toContain('first on line 5, column 28');
-    expect(dup[0].fix).toMatch(/remove the other/);
+    expect(dup[0]?.message).toContain('first on line 5, column 28');
+    expect(dup[0]?.fix).toMatch(/remove the other/);
     // The kept value (../y) is checked too: all problems in one run.
     expect(out.issues.map((i) => i.code)).toContain('archive.path-outside');
   });
@@ -60,7 +60,7 @@ describe('archive.json: refused', () => {
     expect(out.manifest).toBeUndefined();
     expect(out.issues).toHaveLength(1);
     expect(out.issues[0]).toMatchObject({ severity: 'error', code: 'archive.path-outside', at: { file: 'archive.json', jsonPath: '/studies/0/path' } });
-    expect(out.issues[0].fix).toMatch(/without "\.\."/);
+    expect(out.issues[0]?.fix).toMatch(/without "\.\."/);
   });
 
   it('refuses absolute paths (POSIX, Windows drive, home) and backslashes', () => {

@@ -82,13 +82,13 @@ describe('createRelease', () => {
     expect(out.issues.map((i) => `${i.code} ${i.at.file} ${i.at.jsonPath}`)).toEqual(['release.date releases/panel /date', 'release.note releases/panel /note']);
     expect(readdirSync(path.join(dir, 'releases', 'panel'))).toEqual([]);
     const notResults = await createRelease(dir, request(new TextEncoder().encode('{"hello": 1}')));
-    expect(notResults.issues[0].code).toBe('release.results-schema');
+    expect(notResults.issues[0]?.code).toBe('release.results-schema');
     expect(readdirSync(path.join(dir, 'releases', 'panel'))).toEqual([]);
     const noArchive = await createRelease(path.join(dir, 'missing'), request(bytesOf(v1())));
     expect(noArchive.issues.map((i) => i.code)).toEqual(['release.write-failed']);
     expect(existsSync(path.join(dir, 'missing'))).toBe(false);
     const badId = await createRelease(dir, { ...request(bytesOf(v1())), studyId: '../escape' });
-    expect(badId.issues[0].code).toBe('release.study-id');
+    expect(badId.issues[0]?.code).toBe('release.study-id');
     expect(existsSync(path.join(dir, 'escape'))).toBe(false);
   });
 
@@ -97,7 +97,7 @@ describe('createRelease', () => {
     const ok = await createRelease(dir, request(bytesOf(v1())), { schemaCheckMaxBytes: 0 });
     expect(ok.release?.record.toolVersion).toBe('0.2.0');
     const bad = await createRelease(dir, request(new TextEncoder().encode('{"tool": 1}')), { schemaCheckMaxBytes: 0 });
-    expect(bad.issues[0].code).toBe('release.not-results');
+    expect(bad.issues[0]?.code).toBe('release.not-results');
   });
 });
 
@@ -157,7 +157,7 @@ describe('listReleases and loadRelease', () => {
     const listed = await listReleases(dir, 'panel');
     expect(listed.releases.map((r) => r.record.id)).toEqual(['2025-11-20-1']);
     expect(listed.issues.map((i) => `${i.code} ${i.at.file}`)).toEqual(['release.hash-mismatch releases/panel/2026-03-02-1/results.json']);
-    expect(listed.issues[0].fix).toMatch(/never edited/);
+    expect(listed.issues[0]?.fix).toMatch(/never edited/);
     const latest = await loadLatestRelease(dir, 'panel');
     expect(latest.release).toBeUndefined();
     expect(latest.issues.map((i) => i.code)).toEqual(['release.hash-mismatch']);
@@ -193,7 +193,7 @@ describe('a corrected CSV after a release, end to end through the store', () => 
     const current = makeResults({ title: 'Panel', variants: [{ ...R403Q, overall: 'indeterminate', metrics: { 'atpase.kcat': [1.12, 0.98, 1.28, 'indeterminate'] } }], files: files(fakeSha('v2')) });
     const latest = await loadLatestRelease(dir, 'panel');
     const cmp = compareWithRelease('panel', current, latest.release!.results, latest.release!.record);
-    expect(cmp.variants[0].changes[0].sentence).toBe(
+    expect(cmp.variants[0]?.changes[0]?.sentence).toBe(
       'Changed since the release of 2026-03-02 (note: sent to the cardiogenetics clinic): overall call was hypercontractile, now indeterminate; reason: corrected data in atpase-rates.csv.',
     );
     const onDisk = readFileSync(made.release!.resultsPath);

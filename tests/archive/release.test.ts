@@ -97,9 +97,9 @@ describe('makeRelease', () => {
     delete wrong.variants;
     const schema = makeRelease({ studyId: 'a', results: JSON.stringify(wrong), note: 'n', date: '2026-03-02', caveats: [], existingIds: [] });
     expect(schema.problems.map((p) => p.text.code)).toEqual(['release.results-schema']);
-    expect(schema.problems[0].text.message).toContain('variants');
+    expect(schema.problems[0]?.text.message).toContain('variants');
     const latin1 = makeRelease({ studyId: 'a', results: new Uint8Array([0x7b, 0xe9, 0x7d]), note: 'n', date: '2026-03-02', caveats: [], existingIds: [] });
-    expect(latin1.problems[0].text.message).toContain('UTF-8');
+    expect(latin1.problems[0]?.text.message).toContain('UTF-8');
   });
 });
 
@@ -121,7 +121,7 @@ describe('release.json', () => {
     // With the other fields whole, a date that disagrees with the id is caught.
     const moved = readReleaseRecord(JSON.stringify({ ...record, date: '2026-03-03' }));
     expect(moved.problems.map((p) => p.jsonPath)).toEqual(['/date']);
-    expect(readReleaseRecord('[').problems[0].text.code).toBe('release.record-not-json');
+    expect(readReleaseRecord('[').problems[0]?.text.code).toBe('release.record-not-json');
   });
 });
 

@@ -121,6 +121,19 @@ export function idOf(gene: string, short: string): string {
   return `${gene.toLowerCase()}-${short.toLowerCase()}`;
 }
 
+/** A metric key '<assay>.<metric>' split at its first dot. */
+function splitKey(key: string): [assay: string, metric: string] {
+  const dot = key.indexOf('.');
+  if (dot < 0) throw new Error(`a metric key needs '<assay>.<metric>': ${key}`);
+  return [key.slice(0, dot), key.slice(dot + 1)];
+}
+
+/** What the fixture looks up and must know. */
+function known<T>(value: T | undefined, what: string): T {
+  if (value === undefined) throw new Error(`the test fixture knows no ${what}`);
+  return value;
+}
+
 /** Build a minimal, schema-valid StudyResults from a spec. */
 export function makeResults(spec: StudySpec): StudyResults {
   const genes = spec.genes ?? [...new Set(spec.variants.map((v) => v.gene ?? 'ZZMYO9'))];
@@ -156,15 +169,15 @@ export function makeResults(spec: StudySpec): StudyResults {
     const gene = v.gene ?? 'ZZMYO9';
     const id = idOf(gene, v.short);
     const metricKeys = Object.keys(v.metrics ?? {});
-    const assaysOf = [...new Set(metricKeys.map((k) => k.split('.')[0]))];
+    const assaysOf = [...new Set(metricKeys.map((k) => splitKey(k)[0]))];
     for (const assay of assaysOf) {
       measuredAssays.add(assay);
-      const file = v.files?.[assay] ?? ASSAY_FILES[assay];
+      const file = v.files?.[assay] ?? known(ASSAY_FILES[assay], `input file of ${assay}`);
       units.push({ assay, variant: id, unit: `${id}-p1`, batch: 'B1', metrics: {}, flags: [], nTechnical: 4, plot: { points: [] }, source: [{ file, line: 2, lineEnd: 5 }] });
     }
     for (const key of metricKeys) {
-      const [assay, metric] = key.split('.');
-      const [effect, ciLow, ciHigh, call] = v.metrics![key];
+      const [assay, metric] = splitKey(key);
+      const [effect, ciLow, ciHigh, call] = known(v.metrics?.[key], `metric ${key}`);
       const def = defOf(key);
       comparisons.push({
         assay,
@@ -186,7 +199,7 @@ export function makeResults(spec: StudySpec): StudyResults {
         variantMean: null,
         wtMean: null,
         batches: ['B1'],
-        band: bands[key],
+        band: known(bands[key], `band of ${key}`),
         call,
         sentence: `${def.label} ${call} (test sentence).`,
         flags: [],
@@ -210,7 +223,7 @@ export function makeResults(spec: StudySpec): StudyResults {
   });
   for (const wt of wts) {
     for (const assay of measuredAssays) {
-      units.push({ assay, variant: wt.id, unit: `${wt.id}-p1`, batch: 'B1', metrics: {}, flags: [], nTechnical: 4, plot: { points: [] }, source: [{ file: ASSAY_FILES[assay], line: 6, lineEnd: 9 }] });
+      units.push({ assay, variant: wt.id, unit: `${wt.id}-p1`, batch: 'B1', metrics: {}, flags: [], nTechnical: 4, plot: { points: [] }, source: [{ file: known(ASSAY_FILES[assay], `input file of ${assay}`), line: 6, lineEnd: 9 }] });
     }
   }
 

@@ -94,7 +94,7 @@ describe('myofolio build data-demo', () => {
       const html = readFileSync(path.join(out, f), 'utf8');
       expect(html, f).toMatch(/Synthetic demonstration data/);
     }
-    const report = readFileSync(path.join(out, 'variants', readdirSync(path.join(out, 'variants'))[0]), 'utf8');
+    const report = readFileSync(path.join(out, 'variants', readdirSync(path.join(out, 'variants'))[0] ?? ''), 'utf8');
     expect(report).toMatch(/not a clinical test/);
     expect(report).toMatch(/one line of evidence/);
   });

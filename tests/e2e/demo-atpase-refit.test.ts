@@ -17,16 +17,19 @@ import { rowsOf } from '../../src/assays/assay-common.js';
 import { ATPASE_NADH, ATPASE_RATES } from '../../src/assays/atpase/inputs.js';
 
 function linearGivenKm(x: number[], y: number[], km: number) {
+  if (y.length !== x.length) throw new Error(`${x.length} concentrations but ${y.length} rates`);
+  // Paired by index: y[i] exists for every index of x.
+  const pairs = x.map((xi, i) => [xi, y[i] as number] as const);
   let n = 0, sg = 0, sgg = 0, sy = 0, sgy = 0;
-  for (let i = 0; i < x.length; i++) {
-    const g = x[i] / (km + x[i]);
-    n += 1; sg += g; sgg += g * g; sy += y[i]; sgy += g * y[i];
+  for (const [xi, yi] of pairs) {
+    const g = xi / (km + xi);
+    n += 1; sg += g; sgg += g * g; sy += yi; sgy += g * yi;
   }
   const det = n * sgg - sg * sg;
   const kcat = (n * sgy - sg * sy) / det;
   const basal = (sy - kcat * sg) / n;
   let rss = 0;
-  for (let i = 0; i < x.length; i++) rss += (y[i] - basal - (kcat * x[i]) / (km + x[i])) ** 2;
+  for (const [xi, yi] of pairs) rss += (yi - basal - (kcat * xi) / (km + xi)) ** 2;
   return { kcat, basal, rss };
 }
 

@@ -20,7 +20,7 @@ function fillStarter(dir: string): void {
     'atpase-rates.csv': ['WT', 'R2Q'].flatMap((v, k) => [0, 5, 10, 20, 40, 80].map((a) => `${v},${v}-1,B1,${a},${(0.03 + (5 + k) * a / (30 + a)).toFixed(3)},w1`)),
     'force-pca.csv': ['WT', 'R2Q'].flatMap((v) => [9, 6.5, 6, 5.75, 5.5, 5, 4.5].map((p, i) => `${v},${v}-1,B1,${p},${(1 + 30 * i / 6).toFixed(2)},r1`)),
   };
-  for (const f of m.files as Array<{ path: string }>) appendFileSync(path.join(dir, f.path), `${rows[f.path].join('\n')}\n`);
+  for (const f of m.files as Array<{ path: string }>) appendFileSync(path.join(dir, f.path), `${(rows[f.path] ?? []).join('\n')}\n`);
 }
 
 describe('README usage commands', () => {
@@ -37,7 +37,7 @@ describe('README usage commands', () => {
       // execFileSync throws on a non-zero exit code, with the output in the error.
       execFileSync(process.execPath, [launcher, ...args], { cwd: dir, encoding: 'utf8', env: { ...process.env, XDG_CACHE_HOME: path.join(dir, 'cache') } });
       // "…fill in study.json and the CSV files…" (an empty starter is refused by check, saying what to add).
-      if (args[0] === 'init') fillStarter(path.join(dir, args[1]));
+      if (args[0] === 'init') fillStarter(path.join(dir, args[1] ?? '.'));
     }
     expect(existsSync(path.join(dir, 'my-study', 'study.json'))).toBe(true);
     expect(existsSync(path.join(dir, 'my-study-site', 'index.html'))).toBe(true);

@@ -34,7 +34,7 @@ function entries(store: string): Record<string, string[]> {
 const damages: Array<[string, (file: string) => void]> = [
   ['a byte flipped', (f) => {
     const b = readFileSync(f);
-    b[b.length >> 1] ^= 0x40;
+    b[b.length >> 1]! ^= 0x40; // b is a stored entry's bytes, not empty
     writeFileSync(f, b);
   }],
   ['cut short', (f) => writeFileSync(f, readFileSync(f).subarray(0, readFileSync(f).length >> 1))],

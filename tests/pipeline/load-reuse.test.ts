@@ -54,12 +54,12 @@ describe('loadStudy with digests', () => {
     // Drop the WT rows of batch B3 from the turnover files: the variants of B3 have no WT there.
     const files = { ...made.files };
     for (const path of Object.keys(files).filter((p) => p.startsWith('turnover'))) {
-      files[path] = files[path].split('\n').filter((line) => !/^WT,[^,]*,B3,/.test(line)).join('\n');
+      files[path] = (files[path] ?? '').split('\n').filter((line) => !/^WT,[^,]*,B3,/.test(line)).join('\n');
     }
     const whole = loadStudy(input(files));
     const noWt = whole.issues.filter((i) => i.severity === 'error');
     expect(noWt.length).toBe(1);
-    expect(noWt[0].at).toMatchObject({ file: expect.stringMatching(/^turnover/), column: 'batch' });
+    expect(noWt[0]?.at).toMatchObject({ file: expect.stringMatching(/^turnover/), column: 'batch' });
     const store = memoryStore();
     store.load(files);
     const again = store.load(files);
@@ -74,7 +74,7 @@ describe('loadStudy with digests', () => {
     store.load(made.files);
     const variants = made.manifest.variants as Array<Record<string, unknown>>;
     const first = variants.findIndex((v) => v.wt !== true);
-    const [, ref, pos, alt] = /^p\.([A-Z])(\d+)([A-Z])$/.exec(variants[first].hgvs as string) as RegExpExecArray;
+    const [, ref, pos, alt] = /^p\.([A-Z])(\d+)([A-Z])$/.exec(variants[first]?.hgvs as string) as RegExpExecArray;
     const other = `p.${ref}${pos}${ref === 'W' || alt === 'W' ? 'Y' : 'W'}`;
     // Declared first, so that every other variant's place in the manifest moves; used by no file.
     const added = { ...made.manifest, variants: [{ hgvs: other }, ...variants] };
@@ -88,7 +88,7 @@ describe('loadStudy with digests', () => {
     // The label of that variant now names a variant with another id: the same bytes give other rows.
     const label = `${ref}${pos}${alt}`;
     const remapped = { ...made.manifest, variants: variants.map((v, i) => (i === first ? { ...v, hgvs: other, label } : v)) };
-    const using = Object.keys(made.files).filter((p) => made.files[p].includes(`\n${label},`));
+    const using = Object.keys(made.files).filter((p) => made.files[p]?.includes(`\n${label},`));
     expect(using.length).toBeGreaterThan(1);
     const whole2 = loadStudy(input(made.files, remapped));
     const again2 = store.load(made.files, remapped);
@@ -98,7 +98,7 @@ describe('loadStudy with digests', () => {
     for (const [kind, rows] of Object.entries(whole2.study!.rows)) {
       expect((again2.study!.rows as Record<string, unknown[]>)[kind]).toEqual((rows as Array<{ at: { file: string } }>).filter((r) => using.includes(r.at.file)));
     }
-    expect(whole2.study!.variants[first].id).not.toBe(whole.study!.variants[first + 1].id);
+    expect(whole2.study!.variants[first]?.id).not.toBe(whole.study!.variants[first + 1]?.id);
   });
 
   it('a label whose variant keeps its id but not its WT flag or gene does not resolve alike', () => {
@@ -116,7 +116,7 @@ describe('loadStudy with digests', () => {
     const store = memoryStore();
     store.load(made.files);
     const path = 'turnover-part2.csv';
-    const edited = { ...made.files, [path]: made.files[path].replace(/,(\d+)\.(\d)(\d*)\n/, ',$1.$2$31\n') };
+    const edited = { ...made.files, [path]: (made.files[path] ?? '').replace(/,(\d+)\.(\d)(\d*)\n/, ',$1.$2$31\n') };
     expect(edited[path]).not.toBe(made.files[path]);
     const again = store.load(edited);
     expect([...again.study!.omitted!.keys()]).not.toContain(path);
@@ -147,7 +147,7 @@ describe('loadAndAnalyse with the store', () => {
     const path = join(dir, name);
     const lines = readFileSync(path, 'utf8').split('\n');
     const i = lines.findIndex((l) => /^[A-Z]\d+A,/.test(l));
-    lines[i] = lines[i].replace(/,([0-9.]+)$/, (_m, f: string) => `,${(Number(f) * 1.3).toFixed(3)}`);
+    lines[i] = (lines[i] ?? '').replace(/,([0-9.]+)$/, (_m, f: string) => `,${(Number(f) * 1.3).toFixed(3)}`);
     writeFileSync(path, lines.join('\n'));
     return Buffer.byteLength(lines.join('\n'));
   };
@@ -189,16 +189,16 @@ describe('loadAndAnalyse with the store', () => {
     const manifest = JSON.parse(readFileSync(manifestPath, 'utf8')) as { variants: Array<Record<string, unknown>>; files: Array<Record<string, unknown>> };
     const turnover = manifest.files.filter((f) => f.kind === 'turnover').map((f) => readFileSync(join(dir, f.path as string), 'utf8'));
     const lines = turnover.flatMap((t) => t.split('\n'));
-    const preamble = turnover[0].split('\n').filter((l) => l.startsWith('#') || l.startsWith('variant,'));
+    const preamble = (turnover[0] ?? '').split('\n').filter((l) => l.startsWith('#') || l.startsWith('variant,'));
     const inB1 = lines.filter((l) => l.split(',')[2] === 'B1');
-    const oldLabel = (inB1.find((l) => !l.startsWith('WT,')) as string).split(',')[0];
+    const oldLabel = (inB1.find((l) => !l.startsWith('WT,')) as string).split(',')[0] as string; // split gives at least one part
     const at = manifest.variants.findIndex((v) => typeof v.hgvs === 'string' && v.hgvs.endsWith(oldLabel));
-    const [, ref, pos, alt] = /^p\.([A-Z])(\d+)([A-Z])$/.exec(manifest.variants[at].hgvs as string) as RegExpExecArray;
+    const [, ref, pos, alt] = /^p\.([A-Z])(\d+)([A-Z])$/.exec(manifest.variants[at]?.hgvs as string) as RegExpExecArray;
     const newLabel = `${ref}${pos}${ref === 'W' || alt === 'W' ? 'Y' : 'W'}`;
     const rows = inB1
       .filter((l) => l.startsWith('WT,') || l.startsWith(`${oldLabel},`))
       .map((l) => {
-        const [label, unit, , ...rest] = l.split(',');
+        const [label, unit = '', , ...rest] = l.split(',');
         const to = label === 'WT' ? 'WT' : newLabel;
         return [to, `${unit.replace(oldLabel, to)}-new`, 'BNEW', ...rest].join(',');
       });

@@ -30,12 +30,12 @@ describe('Store', () => {
   const damages: Array<[string, (file: string) => void]> = [
     ['one byte of the payload flipped', (f) => {
       const b = readFileSync(f);
-      b[b.length - 1] ^= 0x01;
+      b[b.length - 1]! ^= 0x01;
       writeFileSync(f, b);
     }],
     ['a byte of the header flipped', (f) => {
       const b = readFileSync(f);
-      b[20] ^= 0x01;
+      b[20]! ^= 0x01;
       writeFileSync(f, b);
     }],
     ['cut short', (f) => writeFileSync(f, readFileSync(f).subarray(0, 30))],

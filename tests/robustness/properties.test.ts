@@ -50,7 +50,9 @@ describe('CSV loader properties', () => {
   const m = baseManifest();
   const parsed = readManifest(JSON.stringify(m), 'study.json');
   const manifest = parsed.manifest!;
-  const spec = manifest.files[0];
+  const first = manifest.files[0];
+  if (!first) throw new Error('the base manifest has no file');
+  const spec = first;
 
   function account(text: string): void {
     const table = parseCsv(text, 'rates.csv');
@@ -166,7 +168,7 @@ describe('normaliser properties', () => {
         const { units, out } = normaliseSpecs(specs);
         for (const row of out) {
           const mine = units.filter((u) => u.variant === row.variant && !u.excluded);
-          const scaled = (x: number | null) => (x === null ? NaN : row.scale === 'ratio' ? (x > 0 ? Math.log(x) : NaN) : x);
+          const scaled = (x: number | null | undefined) => (x === null || x === undefined ? NaN : row.scale === 'ratio' ? (x > 0 ? Math.log(x) : NaN) : x);
           const notEstimable = mine.filter((u) => !Number.isFinite(scaled(u.metrics[row.metric])));
           const flagText = row.flags.map((f) => f.message).join(' | ');
           if (notEstimable.length > 0) expect(flagText).toContain(`${notEstimable.length} of ${mine.length} variant preparations`);
@@ -184,7 +186,7 @@ describe('normaliser properties', () => {
         const { units, out } = normaliseSpecs(specs);
         for (const row of out) {
           const mine = units.filter((u) => u.variant === row.variant && !u.excluded);
-          const scaled = (x: number | null) => (x === null ? NaN : row.scale === 'ratio' ? (x > 0 ? Math.log(x) : NaN) : x);
+          const scaled = (x: number | null | undefined) => (x === null || x === undefined ? NaN : row.scale === 'ratio' ? (x > 0 ? Math.log(x) : NaN) : x);
           const finite = mine.filter((u) => Number.isFinite(scaled(u.metrics[row.metric])));
           const notEstimable = mine.length - finite.length;
           const flagText = row.flags.map((f) => f.message).join(' | ');
