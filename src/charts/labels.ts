@@ -152,6 +152,39 @@ function candidates(req: LabelRequest, w: number, h: number, gap: number, step: 
 }
 
 /**
+ * Boxes filed by the square cells of a grid they touch, so that a test against "every box" looks at
+ * the boxes near the one asked about: the placement's answers are the same as a scan of all boxes
+ * (every box that can overlap the query shares a cell with it), only found without visiting the rest.
+ */
+class BoxGrid<T extends { box: Box }> {
+  private readonly cells = new Map<number, T[]>();
+  constructor(private readonly size: number) {}
+  private *keys(b: Box): Generator<number> {
+    const s = this.size;
+    for (let i = Math.floor(b.x0 / s); i <= Math.floor(b.x1 / s); i++) {
+      for (let j = Math.floor(b.y0 / s); j <= Math.floor(b.y1 / s); j++) yield i * 100_003 + j;
+    }
+  }
+  add(item: T): void {
+    for (const k of this.keys(item.box)) {
+      const list = this.cells.get(k);
+      if (list) list.push(item);
+      else this.cells.set(k, [item]);
+    }
+  }
+  /** Whether any filed item near `b` satisfies `test`. */
+  some(b: Box, test: (item: T) => boolean): boolean {
+    for (const k of this.keys(b)) {
+      for (const item of this.cells.get(k) ?? []) if (test(item)) return true;
+    }
+    return false;
+  }
+}
+
+/** The box around a segment. */
+const segmentBox = (x1: number, y1: number, x2: number, y2: number): Box => ({ x0: Math.min(x1, x2), y0: Math.min(y1, y2), x1: Math.max(x1, x2), y1: Math.max(y1, y2) });
+
+/**
  * Place labels in the order given. Returns the placed labels (in that order) and the ids of those
  * left off for want of room.
  * @example placeLabels([{ id: 'a', text: 'A', x: 50, y: 50, r: 5 }], { width: 100, height: 100, fontSize: 10 }).placed[0].align // → 'left' (to the right of its mark)
@@ -162,8 +195,12 @@ export function placeLabels(requests: readonly LabelRequest[], options: PlaceOpt
   const maxDistance = options.maxDistance ?? 110;
   const directions = options.directions ?? 'all';
   const markBoxes = requests.map((r) => ({ x0: r.x - r.r, y0: r.y - r.r, x1: r.x + r.r, y1: r.y + r.r }));
-  const fixed = [...markBoxes, ...(options.obstacles ?? [])];
+  const fixed = new BoxGrid<{ box: Box; index: number }>(32);
+  [...markBoxes, ...(options.obstacles ?? [])].forEach((box, index) => fixed.add({ box, index }));
   const placed: PlacedLabel[] = [];
+  // Placed labels by their box, and their leader lines by the box around each line.
+  const placedBoxes = new BoxGrid<{ box: Box }>(32);
+  const placedLeaders = new BoxGrid<{ box: Box; leader: NonNullable<PlacedLabel['leader']> }>(32);
   const unplaced: string[] = [];
   const h = fontSize * (INK_ABOVE_MIDDLE + INK_BELOW_MIDDLE);
   requests.forEach((req, index) => {
@@ -172,8 +209,9 @@ export function placeLabels(requests: readonly LabelRequest[], options: PlaceOpt
     for (const c of candidates(req, w + 2 * pad, h + 2 * pad, 2, Math.max(8, fontSize), maxDistance, directions)) {
       const box = { x0: c.cx - w / 2 - pad, x1: c.cx + w / 2 + pad, y0: c.cy - h / 2 - pad, y1: c.cy + h / 2 + pad };
       if (box.x0 < 0 || box.y0 < 0 || box.x1 > width || box.y1 > height) continue;
-      if (fixed.some((b) => overlaps(b, box))) continue;
-      if (placed.some((p) => overlaps(p.box, box) || (p.leader && segmentHitsBox(p.leader.x1, p.leader.y1, p.leader.x2, p.leader.y2, box)))) continue;
+      if (fixed.some(box, (f) => overlaps(f.box, box))) continue;
+      if (placedBoxes.some(box, (p) => overlaps(p.box, box))) continue;
+      if (placedLeaders.some(box, ({ leader: l }) => segmentHitsBox(l.x1, l.y1, l.x2, l.y2, box))) continue;
       let leader: PlacedLabel['leader'];
       if (c.leader) {
         const [x2, y2] = nearestPoint(box, req.x, req.y);
@@ -184,14 +222,18 @@ export function placeLabels(requests: readonly LabelRequest[], options: PlaceOpt
         const y1 = req.y + ((y2 - req.y) * (req.r + 1)) / len;
         const hits = (b: Box) => segmentHitsBox(x1, y1, x2, y2, b);
         // Marks that overlap the labelled one cannot be avoided by its leader; others must be.
-        if (fixed.some((b, i) => i !== index && !overlaps(b, own) && hits(b))) continue;
-        if (placed.some((p) => hits(p.box) || (p.leader && segmentsCross([x1, y1], [x2, y2], [p.leader.x1, p.leader.y1], [p.leader.x2, p.leader.y2])))) continue;
+        const line = segmentBox(x1, y1, x2, y2);
+        if (fixed.some(line, (f) => f.index !== index && !overlaps(f.box, own) && hits(f.box))) continue;
+        if (placedBoxes.some(line, (p) => hits(p.box))) continue;
+        if (placedLeaders.some(line, ({ leader: l }) => segmentsCross([x1, y1], [x2, y2], [l.x1, l.y1], [l.x2, l.y2]))) continue;
         leader = { x1, y1, x2, y2 };
       }
       // Anchor: the text's left edge when right of the mark, right edge when left of it, else its centre.
       const align: PlacedLabel['align'] = box.x0 >= req.x ? 'left' : box.x1 <= req.x ? 'right' : 'center';
       const x = align === 'left' ? box.x0 + pad : align === 'right' ? box.x1 - pad : c.cx;
       placed.push({ id: req.id, text: req.text, ...(req.colour ? { colour: req.colour } : {}), x, y: c.cy, align, box, ...(leader ? { leader } : {}) });
+      placedBoxes.add({ box });
+      if (leader) placedLeaders.add({ box: segmentBox(leader.x1, leader.y1, leader.x2, leader.y2), leader });
       return;
     }
     unplaced.push(req.id);
