@@ -1,6 +1,6 @@
 /**
  * Small wording helpers shared by the archive's sentences. Numbers are formatted as the call
- * sentences format them (src/analysis/format.ts), so that a change line reads like the report it
+ * sentences format them (src/results/format.ts), so that a change line reads like the report it
  * is printed on. Pure.
  */
 import { fmtEffect } from '../results/format.js';

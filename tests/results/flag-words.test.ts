@@ -61,7 +61,7 @@ describe('flag words', () => {
   });
 
   it('finds the flags of src/ (a collector that finds nothing would pass anything)', () => {
-    // Codes known to be emitted by the analysis and the assays (src/analysis/normalise.ts, src/assays/atpase.ts, src/assays/turnover.ts).
+    // Codes known to be emitted by the analysis and the assays (src/analysis/normalise.ts, src/assays/atpase/module.ts, src/assays/turnover/module.ts).
     expect(emitted).toEqual(expect.arrayContaining(['units-not-estimable', 'km-above-range', 'one-phase-trace', 'wt-qc-rejected', 'excluded']));
     expect(emitted.length).toBeGreaterThanOrEqual(20);
   });
