@@ -6,7 +6,7 @@
  * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
  * (src/bench/synthetic.ts) to os.tmpdir(), then builds it through buildStudy, as the CLI does:
  *   plain — one thread, no store: the baseline every other figure is set beside,
- *   cold  — the default build with an empty store,
+ *   cold  — the default build with an empty store (emptied first),
  *   warm  — the default build after one variant's velocities changed (its one file rewritten in
  *           place, as a lab would correct it), with the store of the builds before; with
  *           --warm-runs N, N such rebuilds, each for another variant, and their median,
@@ -105,14 +105,17 @@ const STORE_KINDS: Record<string, ReadonlyArray<StoreKind>> = {
   'warm-no-charts': ['file', 'units'],
 };
 
+/** A mode without its '-default-heap' suffix. */
+const baseMode = (mode: string) => mode.replace(/-default-heap$/, '');
+
 /** One build of a study folder by buildStudy (src/pipeline/build-study.ts), timed phase by phase (child process). */
 async function buildOnce(studyDir: string, outDir: string, storeDir: string, mode: string, size: number): Promise<BuildFigures> {
   const m = meter();
-  const kinds = STORE_KINDS[mode];
+  const kinds = STORE_KINDS[baseMode(mode)];
   const outcome = await buildStudy(studyDir, outDir, {
     force: true,
     sourceDateEpoch: 1_740_787_200,
-    store: mode === 'plain' ? false : storeDir,
+    store: baseMode(mode) === 'plain' ? false : storeDir,
     ...(kinds ? { storeKinds: kinds } : {}),
     removePrevious: 'background',
     // buildStudy's phases in order: read, check, analyse, write (results.json and .csv), pages;
@@ -243,12 +246,15 @@ async function main(): Promise<void> {
     const middle = changeable.indexOf(Math.floor(size / 2 / 25) * 25 + 2);
     let changed = 0;
     for (const mode of runs) {
-      if (STORE_KINDS[mode]) {
+      const base = baseMode(mode);
+      // A cold build starts from an empty store (which the rebuilds after it then use).
+      if (base === 'cold') rmSync(cacheDir, { recursive: true, force: true });
+      if (STORE_KINDS[base]) {
         // The store as this mode fills it: one build in this mode first (not measured), so that
         // the rebuild measured below finds what such a store would hold.
         await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced);
       }
-      if (mode.startsWith('warm')) {
+      if (base.startsWith('warm')) {
         const i = changeable[(Math.max(0, middle) + changed++) % changeable.length] as number;
         // The manifest declares WT first, then the variants in order.
         const hgvs = (manifest.variants as Array<{ hgvs?: string }>)[1 + i]?.hgvs;
@@ -257,7 +263,7 @@ async function main(): Promise<void> {
         // As a lab would: the one file holding that variant's velocities is rewritten, the others
         // are left as they are (same bytes, same inode and times).
         changeOneVariantInFolder(studyDir, manifest, label);
-      } else if (mode === 'batch') addBatchInFolder(studyDir, manifest);
+      } else if (base === 'batch') addBatchInFolder(studyDir, manifest);
       t = performance.now();
       try {
         const heap = mode.endsWith('-default-heap') ? ['--default-heap'] : [];
