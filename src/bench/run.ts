@@ -17,7 +17,6 @@
  *   warm-no-block  — the same rebuild without assay charts stored by their units (their specs built
  *                    and hashed; SVGs still found by spec),
  *   warm-no-charts — the same rebuild without any stored chart (every chart drawn),
- *   …-default-heap — any of these with V8's default young generation (src/pipeline/young-generation.ts),
  *   batch — after a new batch was added (one new variant with WT, every assay, in new files),
  * each in its own child process, so every peak-memory figure belongs to one build. Phases: load
  * (read + check), analyse (units + analyseStudy), downloads (results.json and results.csv),
@@ -34,7 +33,6 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import { type StoreKind, buildStudy } from '../pipeline/build-study.js';
-import { enlargeYoungGeneration } from '../pipeline/young-generation.js';
 import { addBatchInFolder, changeOneVariantInFolder, syntheticStudy, writeStudy, writeSyntheticStudy } from './synthetic.js';
 
 interface PhaseFigure {
@@ -105,17 +103,14 @@ const STORE_KINDS: Record<string, ReadonlyArray<StoreKind>> = {
   'warm-no-charts': ['file', 'units'],
 };
 
-/** A mode without its '-default-heap' suffix. */
-const baseMode = (mode: string) => mode.replace(/-default-heap$/, '');
-
 /** One build of a study folder by buildStudy (src/pipeline/build-study.ts), timed phase by phase (child process). */
 async function buildOnce(studyDir: string, outDir: string, storeDir: string, mode: string, size: number): Promise<BuildFigures> {
   const m = meter();
-  const kinds = STORE_KINDS[baseMode(mode)];
+  const kinds = STORE_KINDS[mode];
   const outcome = await buildStudy(studyDir, outDir, {
     force: true,
     sourceDateEpoch: 1_740_787_200,
-    store: baseMode(mode) === 'plain' ? false : storeDir,
+    store: mode === 'plain' ? false : storeDir,
     ...(kinds ? { storeKinds: kinds } : {}),
     removePrevious: 'background',
     // buildStudy's phases in order: read, check, analyse, write (results.json and .csv), pages;
@@ -199,8 +194,6 @@ async function main(): Promise<void> {
     return;
   }
   if (flag('--child')) {
-    // As the command line does (src/cli/myofolio.ts), unless the build is measured without it.
-    if (!flag('--default-heap')) enlargeYoungGeneration();
     const kind = value('--child');
     const size = Number(value('--size'));
     const fig =
@@ -246,15 +239,14 @@ async function main(): Promise<void> {
     const middle = changeable.indexOf(Math.floor(size / 2 / 25) * 25 + 2);
     let changed = 0;
     for (const mode of runs) {
-      const base = baseMode(mode);
       // A cold build starts from an empty store (which the rebuilds after it then use).
-      if (base === 'cold') rmSync(cacheDir, { recursive: true, force: true });
-      if (STORE_KINDS[base]) {
+      if (mode === 'cold') rmSync(cacheDir, { recursive: true, force: true });
+      if (STORE_KINDS[mode]) {
         // The store as this mode fills it: one build in this mode first (not measured), so that
         // the rebuild measured below finds what such a store would hold.
         await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced);
       }
-      if (base.startsWith('warm')) {
+      if (mode.startsWith('warm')) {
         const i = changeable[(Math.max(0, middle) + changed++) % changeable.length] as number;
         // The manifest declares WT first, then the variants in order.
         const hgvs = (manifest.variants as Array<{ hgvs?: string }>)[1 + i]?.hgvs;
@@ -263,11 +255,10 @@ async function main(): Promise<void> {
         // As a lab would: the one file holding that variant's velocities is rewritten, the others
         // are left as they are (same bytes, same inode and times).
         changeOneVariantInFolder(studyDir, manifest, label);
-      } else if (base === 'batch') addBatchInFolder(studyDir, manifest);
+      } else if (mode === 'batch') addBatchInFolder(studyDir, manifest);
       t = performance.now();
       try {
-        const heap = mode.endsWith('-default-heap') ? ['--default-heap'] : [];
-        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir, ...heap], sliced)) as BuildFigures;
+        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced)) as BuildFigures;
         printBuild(fig);
         summary.push(fig);
       } catch (err) {
