@@ -18,7 +18,6 @@ import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { buildArchive } from '../pipeline/build-archive.js';
-import { enlargeYoungGeneration } from '../pipeline/young-generation.js';
 import { changeOneVariantInFolder, syntheticStudy, writeStudy } from './synthetic.js';
 
 interface ArchiveFigures {
@@ -122,7 +121,6 @@ export async function archiveBench(args: string[]): Promise<void> {
 }
 
 if (process.argv.includes('--child')) {
-  enlargeYoungGeneration();
   const v = (name: string) => process.argv[process.argv.indexOf(name) + 1] as string;
   const fig = await buildOnce(v('--archive'), v('--out'), v('--cache'), v('--child'));
   process.stdout.write(`${JSON.stringify(fig)}\n`);

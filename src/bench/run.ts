@@ -6,7 +6,7 @@
  * For each size (default 100 and 1,000 variants; 10,000 with --full) it writes a synthetic study
  * (src/bench/synthetic.ts) to os.tmpdir(), then builds it through buildStudy, as the CLI does:
  *   plain — one thread, no store: the baseline every other figure is set beside,
- *   cold  — the default build with an empty store,
+ *   cold  — the default build with an empty store (emptied first),
  *   warm  — the default build after one variant's velocities changed (its one file rewritten in
  *           place, as a lab would correct it), with the store of the builds before; with
  *           --warm-runs N, N such rebuilds, each for another variant, and their median,
@@ -17,7 +17,6 @@
  *   warm-no-block  — the same rebuild without assay charts stored by their units (their specs built
  *                    and hashed; SVGs still found by spec),
  *   warm-no-charts — the same rebuild without any stored chart (every chart drawn),
- *   …-default-heap — any of these with V8's default young generation (src/pipeline/young-generation.ts),
  *   batch — after a new batch was added (one new variant with WT, every assay, in new files),
  * each in its own child process, so every peak-memory figure belongs to one build. Phases: load
  * (read + check), analyse (units + analyseStudy), downloads (results.json and results.csv),
@@ -34,7 +33,6 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import { type StoreKind, buildStudy } from '../pipeline/build-study.js';
-import { enlargeYoungGeneration } from '../pipeline/young-generation.js';
 import { addBatchInFolder, changeOneVariantInFolder, syntheticStudy, writeStudy, writeSyntheticStudy } from './synthetic.js';
 
 interface PhaseFigure {
@@ -196,8 +194,6 @@ async function main(): Promise<void> {
     return;
   }
   if (flag('--child')) {
-    // As the command line does (src/cli/myofolio.ts), unless the build is measured without it.
-    if (!flag('--default-heap')) enlargeYoungGeneration();
     const kind = value('--child');
     const size = Number(value('--size'));
     const fig =
@@ -243,6 +239,8 @@ async function main(): Promise<void> {
     const middle = changeable.indexOf(Math.floor(size / 2 / 25) * 25 + 2);
     let changed = 0;
     for (const mode of runs) {
+      // A cold build starts from an empty store (which the rebuilds after it then use).
+      if (mode === 'cold') rmSync(cacheDir, { recursive: true, force: true });
       if (STORE_KINDS[mode]) {
         // The store as this mode fills it: one build in this mode first (not measured), so that
         // the rebuild measured below finds what such a store would hold.
@@ -260,8 +258,7 @@ async function main(): Promise<void> {
       } else if (mode === 'batch') addBatchInFolder(studyDir, manifest);
       t = performance.now();
       try {
-        const heap = mode.endsWith('-default-heap') ? ['--default-heap'] : [];
-        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir, ...heap], sliced)) as BuildFigures;
+        const fig = (await child(['--child', mode, '--size', String(size), '--study', studyDir, '--out', outDir, '--cache', cacheDir], sliced)) as BuildFigures;
         printBuild(fig);
         summary.push(fig);
       } catch (err) {

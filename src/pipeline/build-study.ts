@@ -31,7 +31,7 @@ import { readStudyFolder } from '../study/read-folder.js';
 import type { FileDigest, Issue } from '../study/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { analyseUnits } from './analyse-units.js';
-import { COLLECT_AFTER_PARSED_BYTES, HEAVY_PAGES_PER_RUN, collectGarbage } from './collect-garbage.js';
+import { PAGES_PER_RUN, collectGarbage } from './collect-garbage.js';
 import { installedFingerprint } from './fingerprint.js';
 import { describeFault, openFileLimit } from './faults.js';
 import { OutputError, type RemovePrevious, honourUmask, planOutput, makeStaging, swapIn } from './output.js';
@@ -186,12 +186,11 @@ async function buildOrThrow(studyDir: string, outDir: string, options: BuildOpti
     return notes;
   };
   const kinds = new Set<StoreKind>(options.storeKinds ?? ['file', 'units', 'svg', 'block']);
-  const { issues, results, unitDigests, parsedBytes } = loadAndAnalyse(studyDir, options, store, kinds);
-  // A heavy build (much CSV parsed: a cold build) collects its dead rows now, and writes its
-  // pages in smaller runs, collecting after each (see src/pipeline/collect-garbage.ts).
-  const heavy = parsedBytes >= COLLECT_AFTER_PARSED_BYTES;
-  if (heavy) collectGarbage();
+  const { issues, results, unitDigests } = loadAndAnalyse(studyDir, options, store, kinds);
   if (!results) return { ok: false, issues, notes: withStoreNote() };
+  // A large build collects its dead rows now and after each run of pages (src/pipeline/collect-garbage.ts).
+  const large = results.variants.length > PAGES_PER_RUN;
+  if (large) collectGarbage();
   const staging = makeStaging(plan);
   const charts: ChartCounts = { rendered: 0, stored: 0 };
   let pages: number;
@@ -211,7 +210,8 @@ async function buildOrThrow(studyDir: string, outDir: string, options: BuildOpti
       resultsSha256,
       ...(store && kinds.has('svg') ? { render: storedRender(store, charts) } : {}),
       ...(store && kinds.has('block') ? { block: storedBlock(store, charts, unitDigests), blockRender: countedDraw(renderSvg, charts) } : {}),
-      ...(heavy ? { pagesPerRun: HEAVY_PAGES_PER_RUN, afterRun: collectGarbage } : {}),
+      pagesPerRun: PAGES_PER_RUN,
+      ...(large ? { afterRun: collectGarbage } : {}),
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
       ...(options.archive ? { archive: options.archive(results) } : {}),
     });
