@@ -20,6 +20,7 @@ vi.mock('../../src/assays/registry.js', async (importOriginal) => {
 });
 
 const { BANDS, PLAUSIBLE, SETTINGS, UNIT_FLAG_WORDS, assemble } = await import('../../src/assays/assembled.js');
+const { FLAG_WORDS } = await import('../../src/analysis/flag-words.js');
 const { glow } = await import('../fixtures/assays/glow/module.js');
 const { buildStudy } = await import('../../src/pipeline/build-study.js');
 const { manifestSchemaText } = await import('../../src/study/manifest-schema.js');
@@ -113,10 +114,13 @@ describe('a new assay (the fictional glow assay of tests/fixtures/assays/glow/)'
     const assayPage = readFileSync(join(out, 'assays', 'glow.html'), 'utf8');
     expect(assayPage).toContain('Glow (fictional)');
     expect(readFileSync(join(out, 'methods.html'), 'utf8')).toContain('the glow rate is the mean over its wells');
+    // The glossary page explains the glow flag, in the words of the glow folder's messages.ts.
+    expect(readFileSync(join(out, 'glossary.html'), 'utf8')).toContain('Fewer wells were measured for this preparation than the glowMinWells setting asks for');
   });
 
   it('gives the glossary its flag words, and a flag its metric names without words is refused', () => {
     expect(UNIT_FLAG_WORDS['glow-too-few-wells']).toBe(glow.flagWords['glow-too-few-wells']);
+    expect(FLAG_WORDS['glow-too-few-wells']!.label).toBe('few wells');
     expect(() => assemble([{ ...glow, flagWords: {} }])).toThrow(/the metric glow\.rate names the flag 'glow-too-few-wells', which glow does not raise/);
   });
 
