@@ -32,6 +32,7 @@ import type {
 } from '../results/types.js';
 import { groupIssues } from '../study/group-issues.js';
 import type { Exclusion, Issue, Study, Variant } from '../study/types.js';
+import { ANALYSIS_MSG } from './messages.js';
 import { compareAssay } from './normalise.js';
 import { assayCall, callComparisons, combiningRule, variantCall } from './score.js';
 import { wtControlCharts } from './control-charts.js';
@@ -139,11 +140,7 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
       const rejected = c.batches.filter((b) => chart.rejectedBatches.includes(b));
       if (rejected.length === 0) continue;
       const rules = [...new Set(chart.points.filter((p) => rejected.includes(p.batch)).flatMap((p) => p.rules).filter((r) => r !== '1-2s'))];
-      c.flags.push({
-        code: 'wt-qc-rejected',
-        severity: 'warning',
-        message: `Compared in batch ${rejected.join(', ')}, whose WT ${c.metric} values broke Westgard rule${rules.length === 1 ? '' : 's'} ${rules.join(', ')}: the batch's WT may be out of control.`,
-      });
+      c.flags.push(ANALYSIS_MSG.comparedInRejectedBatch(rejected, c.metric, rules));
     }
   }
 
@@ -296,8 +293,8 @@ export function analyseStudy(study: Study, options: AnalyseOptions): StudyResult
  */
 function variantFlags(v: Variant, units: UnitResult[], comparisons: MetricComparison[], charts: ControlChart[], labels: Record<string, string>): Flag[] {
   const flags: Flag[] = [];
-  for (const u of units.filter((x) => x.excluded)) {
-    flags.push({ code: 'excluded', severity: 'info', message: `${labels[u.assay] ?? u.assay}: preparation ${u.unit} (batch ${u.batch}) excluded: ${u.excluded}` });
+  for (const u of units) {
+    if (u.excluded) flags.push(ANALYSIS_MSG.excluded(labels[u.assay] ?? u.assay, u.unit, u.batch, u.excluded));
   }
   if (v.isWT) return flags;
   for (const chart of charts) {
@@ -305,11 +302,7 @@ function variantFlags(v: Variant, units: UnitResult[], comparisons: MetricCompar
     for (const b of chart.rejectedBatches) {
       if (!batches.has(b)) continue;
       const rules = [...new Set(chart.points.filter((p) => p.batch === b).flatMap((p) => p.rules).filter((r) => r !== '1-2s'))];
-      flags.push({
-        code: 'wt-qc-rejected',
-        severity: 'reject',
-        message: `${chart.assay} ${chart.metric}: compared in batch ${b}, whose WT control values broke Westgard rule${rules.length === 1 ? '' : 's'} ${rules.join(', ')}.`,
-      });
+      flags.push(ANALYSIS_MSG.variantInRejectedBatch(chart.assay, chart.metric, b, rules));
     }
   }
   return flags;

@@ -13,6 +13,7 @@
  */
 import type { Flag, MetricComparison, MetricDef, UnitResult } from '../results/types.js';
 import { beyondBandP, withinBandP } from '../stats/band-tests.js';
+import { ANALYSIS_MSG } from './messages.js';
 import { pairedEffect } from './paired-effect.js';
 
 export interface CompareOptions {
@@ -83,11 +84,7 @@ export function compareAssay(assay: string, metrics: readonly MetricDef[], units
       const flags: Flag[] = [];
       const notEstimable = vUnits.filter((u) => !Number.isFinite(value(u)));
       if (notEstimable.length > 0) {
-        flags.push({
-          code: 'units-not-estimable',
-          severity: 'warning',
-          message: `${notEstimable.length} of ${vUnits.length} variant preparations gave no ${def.label} value (${listUnits(notEstimable)}) and were left out of the comparison.`,
-        });
+        flags.push(ANALYSIS_MSG.unitsNotEstimable(notEstimable.length, vUnits.length, def.label, listUnits(notEstimable)));
       }
       const valued = vUnits.filter((u) => Number.isFinite(value(u)));
       const extrapolated = valued.filter((u) => flaggedWith(u, def.excludeFlagged));
@@ -96,11 +93,7 @@ export function compareAssay(assay: string, metrics: readonly MetricDef[], units
       const wtOut = wtLeftOut.filter((u) => batches.includes(u.batch));
       if (wtOut.length > 0) {
         const first = flaggedWith(wtOut[0]!, def.excludeFlagged)!;
-        flags.push({
-          code: 'wt-units-left-out',
-          severity: 'warning',
-          message: `${wtOut.length} WT preparation${wtOut.length === 1 ? '' : 's'} of these batches (${listUnits(wtOut)}) left out: ${first.message}`,
-        });
+        flags.push(ANALYSIS_MSG.wtUnitsLeftOut(wtOut.length, listUnits(wtOut), first));
       }
       const base = {
         assay,
@@ -115,11 +108,7 @@ export function compareAssay(assay: string, metrics: readonly MetricDef[], units
       };
       if (extrapolated.length > 0) {
         const first = flaggedWith(extrapolated[0]!, def.excludeFlagged)!;
-        flags.push({
-          code: first.code,
-          severity: 'warning',
-          message: `${extrapolated.length} of ${valued.length} variant preparations (${listUnits(extrapolated)}) are flagged: ${first.message} ${def.label} would rest on extrapolated values, so it is not compared.`,
-        });
+        flags.push(ANALYSIS_MSG.passedOn(first, extrapolated.length, valued.length, listUnits(extrapolated), def.label));
         out.push({
           ...base,
           effect: null,
@@ -148,27 +137,13 @@ export function compareAssay(assay: string, metrics: readonly MetricDef[], units
       const effect = pairedEffect({ confidenceLevel: options.confidenceLevel, batches: perBatch, otherWt });
       const unpaired = perBatch.filter((b) => b.variant.length > 0 && b.wt.length === 0).map((b) => b.batch);
       if (unpaired.length > 0) {
-        flags.push({
-          code: 'batch-without-wt',
-          severity: 'warning',
-          message: `Batch ${unpaired.join(', ')} had no WT ${def.label} value, so the variant's preparations there were not compared.`,
-        });
+        flags.push(ANALYSIS_MSG.batchWithoutWt(unpaired, def.label));
       }
       if (effect && effect.se === null) {
-        flags.push({
-          code: 'no-residual-df',
-          severity: 'warning',
-          message: `Too few preparations for a confidence interval (${effect.nVariant} variant, ${effect.nWt} WT; at least one more is needed).`,
-        });
+        flags.push(ANALYSIS_MSG.noResidualDf(effect.nVariant, effect.nWt));
       }
       if (effect && effect.se !== null && effect.variance === 'pooled') {
-        flags.push({
-          code: 'variance-pooled',
-          severity: 'info',
-          message: `One residual variance for variant and WT: ${
-            effect.nVariant < 2 ? 'the variant has one preparation' : 'no batch has two WT preparations'
-          }, so the interval assumes the variant's preparations scatter as WT's do.`,
-        });
+        flags.push(ANALYSIS_MSG.variancePooled(effect.nVariant));
       }
       const enteredVariant = valued.filter((u) => (wtByBatch.get(u.batch) ?? []).length > 0);
       const enteredWt = (effect?.batchesUsed ?? []).flatMap((b) => wtByBatch.get(b) ?? []);
@@ -177,11 +152,7 @@ export function compareAssay(assay: string, metrics: readonly MetricDef[], units
         const wFlagged = enteredWt.filter((u) => u.flags.some((f) => f.code === code));
         if (vFlagged.length + wFlagged.length === 0) continue;
         const sample = [...vFlagged, ...wFlagged][0]!.flags.find((f) => f.code === code)!;
-        flags.push({
-          code,
-          severity: sample.severity === 'reject' ? 'warning' : sample.severity,
-          message: `${vFlagged.length} of ${enteredVariant.length} variant and ${wFlagged.length} of ${enteredWt.length} WT preparations carry this flag; for example: ${sample.message}`,
-        });
+        flags.push(ANALYSIS_MSG.carried(sample, vFlagged.length, enteredVariant.length, wFlagged.length, enteredWt.length));
       }
       const back = (x: number | null) => fromAnalysisScale(x, def.scale);
       const m = (xs: number[]) => back(meanOf(xs));

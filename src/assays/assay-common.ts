@@ -5,7 +5,7 @@
  */
 import type { FitResult } from '../numeric/types.js';
 import type { SourceRef } from '../results/source.js';
-import type { Flag } from '../results/types.js';
+import { FIT_MSG, type FitFlag } from './fit-flags.js';
 import { mean } from '../stats/descriptive.js';
 import type { AssayStudy, InputKindDef, RowBase, SettingsBag } from './types.js';
 
@@ -188,20 +188,15 @@ export function sourceRanges(rows: readonly { at: SourceRef; from?: readonly Sou
   return out;
 }
 
-/** Flag parameters whose standard error exceeds `limit` × |estimate|. */
-export function relativeSeFlags(fit: FitResult, limit: number, labels: Record<string, string>, which: string[]): Flag[] {
-  const flags: Flag[] = [];
+/** Flag parameters whose standard error exceeds `limit` × |estimate| (messages: src/assays/fit-flags.ts). */
+export function relativeSeFlags(fit: FitResult, limit: number, labels: Record<string, string>, which: string[]): FitFlag[] {
+  const flags: FitFlag[] = [];
   for (const p of fit.parameters) {
     if (!which.includes(p.name)) continue;
     const rel = Math.abs(p.se / p.estimate);
     if (!Number.isFinite(rel) || rel > limit) {
-      flags.push({
-        code: 'poorly-determined',
-        severity: 'warning',
-        message: Number.isFinite(rel)
-          ? `${labels[p.name] ?? p.name} is poorly determined (standard error ${(rel * 100).toFixed(0)}% of the value; limit ${(limit * 100).toFixed(0)}%).`
-          : `${labels[p.name] ?? p.name} has no standard error (the fit's Jacobian is singular at the optimum).`,
-      });
+      const label = labels[p.name] ?? p.name;
+      flags.push(Number.isFinite(rel) ? FIT_MSG.poorlyDetermined(label, rel, limit) : FIT_MSG.noStandardError(label));
     }
   }
   return flags;

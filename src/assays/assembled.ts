@@ -1,12 +1,13 @@
 /**
  * What the rest of the tool reads from the assay registry, assembled once: the input kinds with
- * their row schemas, the default WT-like band of every metric and the default of every setting.
+ * their row schemas, the default WT-like band of every metric, the default of every setting, the
+ * typical ranges and the plain words of every unit flag code.
  * Each is defined once, in its assay's folder; `assemble` checks that the assays fit together.
  * Pure.
  */
 import type { MetricScale } from '../results/types.js';
 import { ASSAYS } from './registry.js';
-import type { AssayModule, InputKindDef, PlausibleRange } from './types.js';
+import type { AssayModule, FlagWords, InputKindDef, PlausibleRange } from './types.js';
 
 /** A metric's typical range with the metric's scale (ratio: bounds are factors; difference: shifts). */
 export type PlausibleMetric = PlausibleRange & { scale: MetricScale };
@@ -24,16 +25,21 @@ export interface Assembled {
   settings: Record<string, number>;
   /** Typical range per metric key `<assay>.<metric>`, for the metrics that have one. */
   plausible: Record<string, PlausibleMetric>;
+  /** Every unit flag code the assays raise, in plain words, in registry order (a code first raised by an earlier assay keeps its place). */
+  flagWords: Record<string, FlagWords>;
 }
 
 /**
  * Assemble a list of assay modules; throws when two assays claim one id, input kind, file option
  * or setting name, when a band names no metric of its assay, or a kind differs from its schema's
  * x-kind, and when a metric has no plausible entry (a range, or null to say it has none) or a
- * range is not a range or names a column its assay's kinds do not have. These are mistakes in the code, found when it is first loaded.
+ * range is not a range or names a column its assay's kinds do not have, and when two assays word one
+ * flag code differently or a metric names a flag its assay does not raise. These are mistakes in
+ * the code, found when it is first loaded.
  */
 export function assemble(assays: readonly AssayModule[]): Assembled {
-  const out: Assembled = { assayIds: [], kinds: [], bands: {}, differenceMetrics: new Set(), settings: {}, plausible: {} };
+  const out: Assembled = { assayIds: [], kinds: [], bands: {}, differenceMetrics: new Set(), settings: {}, plausible: {}, flagWords: {} };
+  const flagOwner = new Map<string, string>();
   const kindNames = new Set<string>();
   const optionNames = new Set<string>();
   for (const a of assays) {
@@ -71,6 +77,20 @@ export function assemble(assays: readonly AssayModule[]): Assembled {
       }
       out.plausible[`${a.id}.${m.id}`] = { ...p, scale: m.scale };
     }
+    for (const [code, words] of Object.entries(a.flagWords)) {
+      const owner = flagOwner.get(code);
+      if (owner === undefined) {
+        flagOwner.set(code, a.id);
+        out.flagWords[code] = words;
+      } else if (JSON.stringify(out.flagWords[code]) !== JSON.stringify(words)) {
+        throw new Error(`assay registry: the flag '${code}' is worded differently by ${owner} and ${a.id} (take one wording, e.g. from src/assays/fit-flags.ts)`);
+      }
+    }
+    for (const m of a.metrics) {
+      for (const code of [...(m.excludeFlagged ?? []), ...(m.carryFlags ?? [])]) {
+        if (!(code in a.flagWords)) throw new Error(`assay registry: the metric ${a.id}.${m.id} names the flag '${code}', which ${a.id} does not raise (its flagWords have no such code)`);
+      }
+    }
     for (const [name, value] of Object.entries(a.settings)) {
       if (name in out.settings) throw new Error(`assay registry: the setting '${name}' is declared by two assays`);
       out.settings[name] = value;
@@ -93,3 +113,5 @@ export const DIFFERENCE_METRICS: ReadonlySet<string> = ASSEMBLED.differenceMetri
 export const SETTINGS: Readonly<Record<string, number>> = ASSEMBLED.settings;
 /** Typical range per metric key `<assay>.<metric>`, for the metrics that have one (src/analysis/plausibility.ts). */
 export const PLAUSIBLE: Readonly<Record<string, PlausibleMetric>> = ASSEMBLED.plausible;
+/** Every unit flag code the assays raise, in plain words (the glossary: src/analysis/flag-words.ts). */
+export const UNIT_FLAG_WORDS: Readonly<Record<string, FlagWords>> = ASSEMBLED.flagWords;

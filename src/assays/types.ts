@@ -6,7 +6,7 @@
  * manifest schema, the analysis and the pages read all of these through the registry.
  */
 import type { MessageText, SourceRef } from '../results/source.js';
-import type { MetricDef, UnitResult } from '../results/types.js';
+import type { Flag, MetricDef, UnitResult } from '../results/types.js';
 
 /** A Vega-Lite specification (kept loose here; checked by vega-lite at render time). */
 export type ChartSpec = Record<string, unknown>;
@@ -69,6 +69,26 @@ export interface PlausibleRange {
    */
   causes: ReadonlyArray<{ kind: string; column: string; power: 1 | -1 | 0 }>;
 }
+
+/** Where a flag code is attached: a biological unit's fit, a variant-versus-WT comparison, or the variant as a whole. */
+export type FlagLevel = 'unit' | 'comparison' | 'variant';
+
+/**
+ * A flag code in plain words, for the glossary page and a report's flag list. A flag's own
+ * message (Flag.message) says what happened to one record, with its numbers; these words say what
+ * the code means wherever it appears.
+ */
+export interface FlagWords {
+  /** A few words for a table cell, e.g. 'KM above the actin range'. */
+  label: string;
+  /** What the flag means and what it does to the result, in one or two plain sentences. */
+  explanation: string;
+  /** Levels the code is attached at. */
+  levels: readonly FlagLevel[];
+}
+
+/** A flag whose code is one of C (a catalogue's codes): a flag of a code without words does not compile. */
+export type FlagOf<C extends string> = Flag & { code: C };
 
 /** What a kind's reading rules see of one file. */
 export interface KindFile {
@@ -160,6 +180,12 @@ export interface AssayModule {
    * entry, so that a new metric is a choice, never an oversight (src/assays/assembled.ts checks).
    */
   plausible: Readonly<Record<string, PlausibleRange | null>>;
+  /**
+   * Every flag code the assay's analysis can raise on a unit, in plain words (the assay's
+   * messages.ts, where each flag's message is written too). The glossary page shows them
+   * (src/analysis/flag-words.ts); a code two assays raise must be worded alike.
+   */
+  flagWords: Readonly<Record<string, FlagWords>>;
   /** Default of each setting of the assay (manifest: settings.<name>); names are unique across assays. */
   settings: Readonly<Record<string, number>>;
   /** Per-unit analysis: rows → one UnitResult per (variant, unit). Pure: no I/O. */

@@ -5,7 +5,7 @@ import type { ChartSpec } from '../assays/types.js';
 import { renderSvg, type RenderOptions } from '../charts/render.js';
 import type { Calibration, Flag, FunctionCall, HyperDirection, MetricCall } from '../results/types.js';
 import type { SourceRef } from '../study/types.js';
-import { flagAnchor, flagWords } from '../results/flag-words.js';
+import { flagAnchor, flagWords } from '../analysis/flag-words.js';
 import { PATHS, slug } from './paths.js';
 
 export interface ChartBlock {
@@ -146,7 +146,7 @@ export function where(at: SourceRef | undefined): string {
 export interface FlagView {
   severity: string;
   code: string;
-  /** Plain words for the code (src/results/flag-words.ts); the code itself when this version does not know it. */
+  /** Plain words for the code (src/analysis/flag-words.ts); the code itself when this version does not know it. */
   label: string;
   /** What the code means, or '' when unknown. */
   explanation: string;

@@ -5,7 +5,7 @@ import { effectsChart } from '../charts/effects.js';
 import { leveyJenningsChart } from '../charts/levey-jennings.js';
 import { residueMapChart } from '../charts/residue-map.js';
 import { scatterCharts } from '../charts/scatter.js';
-import { FLAG_WORDS, flagAnchor } from '../results/flag-words.js';
+import { FLAG_WORDS, flagAnchor } from '../analysis/flag-words.js';
 import { fmt, fmtBand } from '../results/format.js';
 import type { Calibration, StudyResults } from '../results/types.js';
 import { PATHS } from './paths.js';

@@ -19,7 +19,8 @@ vi.mock('../../src/assays/registry.js', async (importOriginal) => {
   return { ASSAYS, assayById: (id: string) => ASSAYS.find((a) => a.id === id) };
 });
 
-const { BANDS, PLAUSIBLE, SETTINGS, assemble } = await import('../../src/assays/assembled.js');
+const { BANDS, PLAUSIBLE, SETTINGS, UNIT_FLAG_WORDS, assemble } = await import('../../src/assays/assembled.js');
+const { FLAG_WORDS } = await import('../../src/analysis/flag-words.js');
 const { glow } = await import('../fixtures/assays/glow/module.js');
 const { buildStudy } = await import('../../src/pipeline/build-study.js');
 const { manifestSchemaText } = await import('../../src/study/manifest-schema.js');
@@ -32,6 +33,7 @@ const { starterFiles } = await import('../../src/study/templates.js');
 export const NEW_ASSAY_FILES = [
   'src/assays/<id>/<kind>.schema.json (row schema of each input kind)',
   'src/assays/<id>/inputs.ts (input kinds: row types, file options, reading rules)',
+  'src/assays/<id>/messages.ts (flag codes in plain words, the message of each flag, its own input problems)',
   'src/assays/<id>/metrics.ts (metrics with directions, default WT-like bands, typical ranges)',
   'src/assays/<id>/module.ts (the AssayModule: analysis, chart, methods text)',
   'src/assays/<id>/settings.ts (settings with their defaults)',
@@ -75,9 +77,9 @@ function glowStudy(exposureUnit = 'ms'): string {
 }
 
 describe('a new assay (the fictional glow assay of tests/fixtures/assays/glow/)', () => {
-  it('is one folder: a row schema and four small files', () => {
-    expect(readdirSync(FOLDER).sort()).toEqual(['glow-wells.schema.json', 'inputs.ts', 'metrics.ts', 'module.ts', 'settings.ts']);
-    expect(NEW_ASSAY_FILES.filter((f) => f.startsWith('src/assays/<id>/'))).toHaveLength(5);
+  it('is one folder: a row schema and five small files', () => {
+    expect(readdirSync(FOLDER).sort()).toEqual(['glow-wells.schema.json', 'inputs.ts', 'messages.ts', 'metrics.ts', 'module.ts', 'settings.ts']);
+    expect(NEW_ASSAY_FILES.filter((f) => f.startsWith('src/assays/<id>/'))).toHaveLength(6);
   });
 
   it('gives the loader its input kind, schema and setting, and the analysis its band, through the registry line', () => {
@@ -112,6 +114,14 @@ describe('a new assay (the fictional glow assay of tests/fixtures/assays/glow/)'
     const assayPage = readFileSync(join(out, 'assays', 'glow.html'), 'utf8');
     expect(assayPage).toContain('Glow (fictional)');
     expect(readFileSync(join(out, 'methods.html'), 'utf8')).toContain('the glow rate is the mean over its wells');
+    // The glossary page explains the glow flag, in the words of the glow folder's messages.ts.
+    expect(readFileSync(join(out, 'glossary.html'), 'utf8')).toContain('Fewer wells were measured for this preparation than the glowMinWells setting asks for');
+  });
+
+  it('gives the glossary its flag words, and a flag its metric names without words is refused', () => {
+    expect(UNIT_FLAG_WORDS['glow-too-few-wells']).toBe(glow.flagWords['glow-too-few-wells']);
+    expect(FLAG_WORDS['glow-too-few-wells']!.label).toBe('few wells');
+    expect(() => assemble([{ ...glow, flagWords: {} }])).toThrow(/the metric glow\.rate names the flag 'glow-too-few-wells', which glow does not raise/);
   });
 
   it('gives the plausibility check its typical range, and a metric without a plausible entry is refused', async () => {

@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { ASSAY_IDS, BANDS, DIFFERENCE_METRICS, KINDS, PLAUSIBLE, SETTINGS, assemble } from '../../src/assays/assembled.js';
+import { ASSAY_IDS, BANDS, DIFFERENCE_METRICS, KINDS, PLAUSIBLE, SETTINGS, UNIT_FLAG_WORDS, assemble } from '../../src/assays/assembled.js';
 import { ASSAYS } from '../../src/assays/registry.js';
 import type { AssayModule } from '../../src/assays/types.js';
 import { manifestSchemaText } from '../../src/study/manifest-schema.js';
@@ -99,5 +99,30 @@ describe('the assay registry', () => {
     expect(() => assemble([{ ...atpase, plausible: { ...atpase.plausible, kcat: wrongColumn } }])).toThrow(/the column 'rates', which 'atpase-rates' does not have/);
     const wrongKind = { ...kcat, causes: [{ kind: 'force-pca', column: 'tension', power: 1 as const }] };
     expect(() => assemble([{ ...atpase, plausible: { ...atpase.plausible, kcat: wrongKind } }])).toThrow(/the input kind 'force-pca', which atpase does not read/);
+  });
+
+  it('gives the plain words of every unit flag code from its assay, and every flag a metric names is one its assay raises', () => {
+    const codes = [...new Set(ASSAYS.flatMap((a) => Object.keys(a.flagWords)))];
+    expect(Object.keys(UNIT_FLAG_WORDS)).toEqual(codes);
+    for (const a of ASSAYS) {
+      for (const [code, words] of Object.entries(a.flagWords)) expect(UNIT_FLAG_WORDS[code], `${a.id}: ${code}`).toEqual(words);
+      for (const m of a.metrics) for (const code of [...(m.excludeFlagged ?? []), ...(m.carryFlags ?? [])]) expect(a.flagWords, `${a.id}.${m.id}`).toHaveProperty([code]);
+    }
+    // The codes of src/assays/*/messages.ts (and the fit flags three assays share), in registry order.
+    expect(codes).toEqual([
+      'not-converged', 'too-few-points', 'poorly-determined', 'km-above-range', 'nadh-too-few-readings', 'nadh-no-heads', 'nadh-no-background',
+      'motility-short-tracks', 'motility-duplicate-frames', 'motility-both-inputs', 'motility-invalid-velocity', 'motility-too-few-filaments', 'motility-no-moving-filaments', 'motility-high-immobile-fraction',
+      'pca50-out-of-range', 'force-no-activation',
+      'window-too-short', 'one-phase-trace', 'no-reference-rates',
+    ]);
+  });
+
+  it('refuses one flag code worded two ways, and a metric naming a flag its assay does not raise', () => {
+    const [atpase, motility, force] = ASSAYS as [AssayModule, AssayModule, AssayModule];
+    const notConverged = force.flagWords['not-converged']!;
+    expect(() => assemble([atpase, { ...force, flagWords: { ...force.flagWords, 'not-converged': { ...notConverged, label: 'no fit' } } }])).toThrow(/the flag 'not-converged' is worded differently by atpase and force/);
+    expect(() => assemble([atpase, motility, force])).not.toThrow();
+    const { 'km-above-range': _km, ...withoutKm } = atpase.flagWords;
+    expect(() => assemble([{ ...atpase, flagWords: withoutKm }])).toThrow(/the metric atpase\.kcat names the flag 'km-above-range', which atpase does not raise/);
   });
 });

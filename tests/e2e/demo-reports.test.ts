@@ -11,7 +11,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildStudy } from '../../src/pipeline/build-study.js';
-import { flagWords } from '../../src/results/flag-words.js';
+import { flagWords } from '../../src/analysis/flag-words.js';
 import type { StudyResults } from '../../src/results/types.js';
 import { uniqueSlugs } from '../../src/site/paths.js';
 import { controlRows } from '../../src/site/view-study.js';

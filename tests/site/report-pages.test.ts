@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ASSAYS } from '../../src/assays/registry.js';
 import { chartsFromModules } from '../../src/charts/assay-charts.js';
-import { FLAG_WORDS } from '../../src/results/flag-words.js';
+import { FLAG_WORDS } from '../../src/analysis/flag-words.js';
 import { jsonSha256 } from '../../src/results/json.js';
 import type { StudyResults } from '../../src/results/types.js';
 import { buildSite } from '../../src/site/build-site.js';

@@ -2,10 +2,10 @@
  * The ATPase assay's input kinds: per-head rates at each [actin] (atpase-rates), or raw
  * NADH-coupled A340 readings (atpase-nadh), turned into rates by nadh.ts.
  */
-import type { MessageText } from '../../results/source.js';
 import type { InputKindDef, RowBase } from '../types.js';
 import nadhSchema from './atpase-nadh.schema.json' with { type: 'json' };
 import ratesSchema from './atpase-rates.schema.json' with { type: 'json' };
+import { ATPASE_INPUT_MSG } from './messages.js';
 
 /** Steady-state ATPase: per-head rate at one [actin]. */
 export interface AtpaseRateRow extends RowBase {
@@ -30,20 +30,6 @@ export interface NadhRow extends RowBase {
   pathCm: number;
 }
 
-const NEEDS_PATH_LENGTH: MessageText = {
-  severity: 'error',
-  code: 'csv.needs-path-length',
-  message: 'No optical path length: the file has no path column and the manifest no pathLength.',
-  fix: 'Add "pathLength": {"value": …, "unit": "cm"} to the file entry or a path column.',
-};
-
-const needsVariantUnit = (column: string): MessageText => ({
-  severity: 'error',
-  code: 'csv.empty-cell',
-  message: `The cell in '${column}' is empty, but sample wells need it.`,
-  fix: `Fill in '${column}' (only actin-only wells leave variant and preparation empty).`,
-});
-
 export const ATPASE_RATES: InputKindDef<AtpaseRateRow> = {
   kind: 'atpase-rates',
   schema: ratesSchema,
@@ -64,8 +50,8 @@ export const ATPASE_NADH: InputKindDef<NadhRow> = {
   reading(file) {
     const pathCm = file.options.pathLength as number | undefined;
     return {
-      headerProblems: !file.has('path') && pathCm === undefined ? [NEEDS_PATH_LENGTH] : [],
-      emptyCell: (column) => (column === 'variant' || column === 'preparation' ? needsVariantUnit(column) : undefined),
+      headerProblems: !file.has('path') && pathCm === undefined ? [ATPASE_INPUT_MSG.needsPathLength()] : [],
+      emptyCell: (column) => (column === 'variant' || column === 'preparation' ? ATPASE_INPUT_MSG.needsVariantUnit(column) : undefined),
       complete(row) {
         if (row.pathCm === undefined) row.pathCm = pathCm;
         return true;

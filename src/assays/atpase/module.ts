@@ -14,11 +14,12 @@ import { FIT } from '../../defaults.js';
 import { fitCurve } from '../../numeric/nls.js';
 import { michaelisMentenBasal } from '../../numeric/models/michaelis-menten-basal.js';
 import type { FitResult } from '../../numeric/types.js';
-import type { Flag, UnitResult } from '../../results/types.js';
+import type { UnitResult } from '../../results/types.js';
 import { assaySetting, groupUnits, relativeSeFlags, rowsOf } from '../assay-common.js';
 import { groupEncoding, unitChart } from '../chart-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec } from '../types.js';
 import { ATPASE_NADH, ATPASE_RATES, type AtpaseRateRow } from './inputs.js';
+import { ATPASE_FLAG_WORDS, ATPASE_MSG, type AtpaseFlag } from './messages.js';
 import { ATPASE_BANDS, ATPASE_METRICS as METRICS, ATPASE_PLAUSIBLE } from './metrics.js';
 import { nadhToRates } from './nadh.js';
 import { ATPASE_SETTINGS as SETTINGS } from './settings.js';
@@ -43,25 +44,17 @@ export function kcatOverKmOf(fit: FitResult): { estimate: number; se: number | n
 export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omit<UnitResult, 'assay' | 'variant' | 'unit' | 'batch' | 'source'> {
   const x = rows.map((r) => r.actinUM);
   const y = rows.map((r) => r.ratePerS);
-  const flags: Flag[] = [];
+  const flags: AtpaseFlag[] = [];
   const concentrations = new Set(x).size;
   const maxActin = Math.max(...x);
   const fit: FitResult = fitCurve(michaelisMentenBasal, x, y);
   const metrics: Record<string, number | null> = { kcat: null, km: null, kcatOverKm: null, basal: null };
   const metricSe: Record<string, number | null> = { kcat: null, km: null, kcatOverKm: null, basal: null };
   if (concentrations < minPoints) {
-    flags.push({
-      code: 'too-few-points',
-      severity: 'warning',
-      message: `Only ${concentrations} actin concentrations (at least ${minPoints} recommended for a three-parameter curve).`,
-    });
+    flags.push(ATPASE_MSG.tooFewPoints(concentrations, minPoints));
   }
   if (!fit.converged) {
-    flags.push({
-      code: 'not-converged',
-      severity: 'warning',
-      message: `The Michaelis–Menten fit did not converge (${fit.stopReason}); kcat, KM, kcat/KM and basal are not reported for this preparation.`,
-    });
+    flags.push(ATPASE_MSG.notConverged(fit.stopReason));
   } else {
     for (const p of fit.parameters) {
       metrics[p.name] = p.estimate;
@@ -72,11 +65,7 @@ export function analyseAtpaseUnit(rows: AtpaseRateRow[], minPoints: number): Omi
     metricSe.kcatOverKm = slope.se;
     const km = metrics.km as number;
     if (km > maxActin) {
-      flags.push({
-        code: 'km-above-range',
-        severity: 'warning',
-        message: `KM (${km.toPrecision(3)} µM) is above the highest actin concentration measured (${maxActin} µM): kcat and KM are extrapolations.`,
-      });
+      flags.push(ATPASE_MSG.kmAboveRange(km, maxActin));
     }
     flags.push(...relativeSeFlags(fit, FIT.maxRelativeSe, { kcat: 'kcat', km: 'KM', basal: 'basal rate' }, ['kcat', 'km']));
   }
@@ -127,6 +116,7 @@ export const atpase: AssayModule = {
   metrics: METRICS,
   bands: ATPASE_BANDS,
   plausible: ATPASE_PLAUSIBLE,
+  flagWords: ATPASE_FLAG_WORDS,
   settings: SETTINGS,
   analyse,
   chart,

@@ -9,7 +9,7 @@
  * ATP hydrolysed, so the rate of A340 loss gives the ATP turnover. Pure: no I/O.
  */
 import type { SourceRef } from '../../results/source.js';
-import type { Flag } from '../../results/types.js';
+import { ATPASE_MSG, type AtpaseFlag } from './messages.js';
 import { mean } from '../../stats/descriptive.js';
 import { assaySetting, groupBy, straightLineFit } from '../assay-common.js';
 import type { SettingsBag } from '../types.js';
@@ -111,21 +111,16 @@ function sameActin(a: number, b: number): boolean {
  * @example nadhToRates(rows, {}) // A340 falling 0.010/min over 1 cm, 0.01 µM heads, no actin-only
  *   // well → rates[0].ratePerS ≈ 2.6795 s⁻¹ (0.026795 µM/s ÷ 0.01 µM) with a 'nadh-no-background' flag
  */
-export function nadhToRates(rows: readonly NadhRow[], settings?: SettingsBag): { rates: AtpaseRateRow[]; flags: Flag[] } {
+export function nadhToRates(rows: readonly NadhRow[], settings?: SettingsBag): { rates: AtpaseRateRow[]; flags: AtpaseFlag[] } {
   const windowS = assaySetting(SETTINGS, 'nadhWindowS', settings);
   const epsilon = assaySetting(SETTINGS, 'nadhEpsilon340', settings);
-  const flags: Flag[] = [];
+  const flags: AtpaseFlag[] = [];
   const wells: WellRate[] = [];
   for (const wellRows of groupBy(rows, (r) => JSON.stringify([r.at.file, r.batch, r.well])).values()) {
     const rate = wellInitialRate(wellRows, windowS, epsilon);
     const head = wellRows[0]!; // a group has at least one row
     if (!rate) {
-      flags.push({
-        code: 'nadh-too-few-readings',
-        severity: 'reject',
-        message: `Well ${head.well} (batch ${head.batch}) has fewer than ${MIN_READINGS} A340 readings within the first ${windowS} s; no rate was computed.`,
-        at: head.at,
-      });
+      flags.push(ATPASE_MSG.nadhTooFewReadings(head.well, head.batch, MIN_READINGS, windowS, head.at));
       continue;
     }
     wells.push(rate);
@@ -135,23 +130,13 @@ export function nadhToRates(rows: readonly NadhRow[], settings?: SettingsBag): {
   for (const w of wells) {
     if (w.wellType !== 'sample') continue;
     if (!(w.headsUM > 0)) {
-      flags.push({
-        code: 'nadh-no-heads',
-        severity: 'reject',
-        message: `Sample well ${w.well} (batch ${w.batch}) has a myosin head concentration of ${w.headsUM} µM; a rate per head cannot be computed.`,
-        at: w.at,
-      });
+      flags.push(ATPASE_MSG.nadhNoHeads(w.well, w.batch, w.headsUM, w.at));
       continue;
     }
     const matching = backgrounds.filter((b) => b.batch === w.batch && sameActin(b.actinUM, w.actinUM));
     let turnover = w.turnoverUMS;
     if (matching.length === 0) {
-      flags.push({
-        code: 'nadh-no-background',
-        severity: 'warning',
-        message: `No actin-only well in batch ${w.batch} at ${w.actinUM} µM actin for well ${w.well}; its rate is not background-subtracted and reads high by the actin-only ATPase.`,
-        at: w.at,
-      });
+      flags.push(ATPASE_MSG.nadhNoBackground(w.well, w.batch, w.actinUM, w.at));
     } else {
       turnover -= mean(matching.map((b) => b.turnoverUMS));
     }

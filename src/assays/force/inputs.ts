@@ -2,9 +2,9 @@
  * The force–pCa assay's input kind (force-pca): steady tension at each pCa, or force with the
  * preparation's cross-sectional area, converted here to tension.
  */
-import type { MessageText } from '../../results/source.js';
 import type { InputKindDef, RowBase } from '../types.js';
 import schema from './force-pca.schema.json' with { type: 'json' };
+import { FORCE_INPUT_MSG } from './messages.js';
 
 /** Force–pCa: steady force at one pCa for one preparation (tension in kPa = mN/mm²). */
 export interface ForceRow extends RowBase {
@@ -21,13 +21,6 @@ export interface ForceRow extends RowBase {
 export function tensionKPa(forceMN: number, areaMm2: number): number {
   return forceMN / areaMm2;
 }
-
-const needsCrossSection = (unit: string): MessageText => ({
-  severity: 'error',
-  code: 'csv.needs-cross-section',
-  message: `Force is given without a cross-sectional area for preparation '${unit}'.`,
-  fix: 'Add an area column, or "crossSection" (value or byPreparation) to the file entry, or give tension instead.',
-});
 
 export const FORCE_PCA: InputKindDef<ForceRow> = {
   kind: 'force-pca',
@@ -55,7 +48,7 @@ export const FORCE_PCA: InputKindDef<ForceRow> = {
         const unit = row.unit as string;
         const area = (cell('area') as number | undefined) ?? crossSection?.byUnit?.[unit] ?? crossSection?.value;
         if (area === undefined) {
-          if (!warned.has(unit)) report.problem(needsCrossSection(unit), 'force');
+          if (!warned.has(unit)) report.problem(FORCE_INPUT_MSG.needsCrossSection(unit), 'force');
           warned.add(unit);
           return false;
         }

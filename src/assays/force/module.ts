@@ -13,12 +13,13 @@ import { FIT } from '../../defaults.js';
 import { fitCurve } from '../../numeric/nls.js';
 import { hillForcePca } from '../../numeric/models/hill-force-pca.js';
 import type { FitResult } from '../../numeric/types.js';
-import type { Flag, UnitResult } from '../../results/types.js';
+import type { UnitResult } from '../../results/types.js';
 import { assaySetting, rowsOf } from '../assay-common.js';
 import { groupEncoding, unitChart } from '../chart-common.js';
 import { groupUnits, relativeSeFlags } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { FORCE_PCA, type ForceRow } from './inputs.js';
+import { FORCE_FLAG_WORDS, FORCE_MSG, type ForceFlag } from './messages.js';
 import { FORCE_BANDS, FORCE_METRICS, FORCE_PLAUSIBLE } from './metrics.js';
 import { FORCE_SETTINGS as SETTINGS } from './settings.js';
 
@@ -66,7 +67,7 @@ export function analyseForceUnit(
   const at = head.at;
   const x = rows.map((r) => r.pCa);
   const y = rows.map((r) => r.tensionKPa);
-  const flags: Flag[] = [];
+  const flags: ForceFlag[] = [];
   const distinct = new Set(x).size;
   const lowPCa = Math.min(...x);
   const highPCa = Math.max(...x);
@@ -74,21 +75,11 @@ export function analyseForceUnit(
   const metrics: Record<string, number | null> = { fmax: null, pCa50: null, nH: null, passive: null };
   const metricSe: Record<string, number | null> = { fmax: null, pCa50: null, nH: null, passive: null };
   if (distinct < minPoints) {
-    flags.push({
-      code: 'too-few-points',
-      severity: 'warning',
-      message: `Only ${distinct} distinct pCa values (at least ${minPoints} recommended for a four-parameter Hill fit).`,
-      at,
-    });
+    flags.push(FORCE_MSG.tooFewPoints(distinct, minPoints, at));
   }
   const byName = new Map(fit.parameters.map((p) => [p.name, p]));
   if (!fit.converged) {
-    flags.push({
-      code: 'not-converged',
-      severity: 'warning',
-      message: `The Hill fit did not converge (${fit.stopReason}); Fmax, pCa50, nH and passive tension are not reported for this preparation.`,
-      at,
-    });
+    flags.push(FORCE_MSG.notConverged(fit.stopReason, at));
   } else {
     for (const p of fit.parameters) {
       metrics[p.name] = p.estimate;
@@ -96,31 +87,15 @@ export function analyseForceUnit(
     }
     const pCa50 = byName.get('pCa50')!;
     if (pCa50.estimate < lowPCa || pCa50.estimate > highPCa) {
-      flags.push({
-        code: 'pca50-out-of-range',
-        severity: 'warning',
-        message: `pCa50 (${pCa50.estimate.toFixed(2)}) lies outside the measured pCa range ${lowPCa}–${highPCa}: it is an extrapolation.`,
-        at,
-      });
+      flags.push(FORCE_MSG.pCa50OutOfRange(pCa50.estimate, lowPCa, highPCa, at));
     }
     if (!(byName.get('fmax')!.estimate > 0)) {
-      flags.push({
-        code: 'force-no-activation',
-        severity: 'warning',
-        message: 'The fitted calcium-activated tension is not positive: check the pCa and tension columns.',
-        at,
-      });
+      flags.push(FORCE_MSG.noActivation(at));
     }
-    const seFlags = relativeSeFlags(fit, FIT.maxRelativeSe, { fmax: 'Fmax', nH: 'Hill coefficient' }, ['fmax', 'nH']);
+    const seFlags: ForceFlag[] = relativeSeFlags(fit, FIT.maxRelativeSe, { fmax: 'Fmax', nH: 'Hill coefficient' }, ['fmax', 'nH']);
     const relCa = pCa50RelativeSe(pCa50.se);
     if (!Number.isFinite(relCa) || relCa > FIT.maxRelativeSe) {
-      seFlags.push({
-        code: 'poorly-determined',
-        severity: 'warning',
-        message: Number.isFinite(relCa)
-          ? `pCa50 is poorly determined (SE ${pCa50.se.toFixed(3)} pCa units, i.e. ${(relCa * 100).toFixed(0)}% of [Ca²⁺]50; limit ${(FIT.maxRelativeSe * 100).toFixed(0)}%).`
-          : 'pCa50 has no standard error (the fit’s Jacobian is singular at the optimum).',
-      });
+      seFlags.push(Number.isFinite(relCa) ? FORCE_MSG.pCa50PoorlyDetermined(pCa50.se, relCa, FIT.maxRelativeSe) : FORCE_MSG.pCa50NoStandardError());
     }
     flags.push(...seFlags.map((f) => ({ ...f, at: f.at ?? at })));
   }
@@ -184,6 +159,7 @@ export const force: AssayModule = {
   metrics: FORCE_METRICS,
   bands: FORCE_BANDS,
   plausible: FORCE_PLAUSIBLE,
+  flagWords: FORCE_FLAG_WORDS,
   settings: SETTINGS,
   analyse: analyseForce,
   chart: forceChart,

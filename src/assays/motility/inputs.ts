@@ -3,8 +3,8 @@
  * (motility-velocities), or per-frame centroid tracks (motility-tracks), turned into one
  * velocity per filament by tracks.ts.
  */
-import type { MessageText } from '../../results/source.js';
 import type { InputKindDef, RowBase } from '../types.js';
+import { MOTILITY_INPUT_MSG } from './messages.js';
 import tracksSchema from './motility-tracks.schema.json' with { type: 'json' };
 import velocitiesSchema from './motility-velocities.schema.json' with { type: 'json' };
 
@@ -23,13 +23,6 @@ export interface TrackRow extends RowBase {
   xUm: number;
   yUm: number;
 }
-
-const NEEDS_FRAME_INTERVAL: MessageText = {
-  severity: 'error',
-  code: 'csv.needs-frame-interval',
-  message: 'Tracks are given by frame but the manifest gives no frameInterval for this file.',
-  fix: 'Add "frameInterval": {"value": …, "unit": "s"} to the file entry, or give a time column.',
-};
 
 export const MOTILITY_VELOCITIES: InputKindDef<VelocityRow> = {
   kind: 'motility-velocities',
@@ -61,7 +54,7 @@ export const MOTILITY_TRACKS: InputKindDef<TrackRow> = {
   reading(file) {
     const frameIntervalS = file.options.frameInterval as number | undefined;
     return {
-      headerProblems: file.has('frame') && !file.has('time') && frameIntervalS === undefined ? [NEEDS_FRAME_INTERVAL] : [],
+      headerProblems: file.has('frame') && !file.has('time') && frameIntervalS === undefined ? [MOTILITY_INPUT_MSG.needsFrameInterval()] : [],
       complete(row, cell) {
         if (row.timeS === undefined) row.timeS = (cell('frame') as number) * frameIntervalS!;
         return true;

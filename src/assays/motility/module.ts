@@ -12,12 +12,13 @@
  * within the unit, and only units count as n downstream. Pure: no I/O.
  */
 import type { SourceRef } from '../../results/source.js';
-import type { Flag, UnitResult } from '../../results/types.js';
+import type { UnitResult } from '../../results/types.js';
 import { mean, quantile } from '../../stats/descriptive.js';
 import { assaySetting, roundForPlot, rowsOf } from '../assay-common.js';
 import { groupUnits, sourceRanges } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { MOTILITY_TRACKS, MOTILITY_VELOCITIES, type TrackRow, type VelocityRow } from './inputs.js';
+import { MOTILITY_FLAG_WORDS, MOTILITY_MSG, type MotilityFlag } from './messages.js';
 import { MOTILITY_BANDS, MOTILITY_METRICS, MOTILITY_PLAUSIBLE } from './metrics.js';
 import { MOTILITY_SETTINGS as SETTINGS } from './settings.js';
 import { tracksToFilaments } from './tracks.js';
@@ -130,7 +131,7 @@ function collectUnits(study: AssayStudy): UnitInput[] {
  *   //   flags ['motility-too-few-filaments', 'motility-high-immobile-fraction']
  */
 export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings): UnitResult {
-  const flags: Flag[] = [];
+  const flags: MotilityFlag[] = [];
   const head = input.tracks[0] ?? input.velocities[0];
   if (!head) throw new Error('analyseMotilityUnit: a unit without tracks or velocities');
   const first = head.at;
@@ -139,40 +140,20 @@ export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings
     const fromTracks = tracksToFilaments(input.tracks, settings.minFrames, { strideS: settings.strideS, immobileUmS: settings.immobileUmS });
     filaments = fromTracks.filaments;
     if (fromTracks.shortTracks > 0) {
-      flags.push({
-        code: 'motility-short-tracks',
-        severity: 'info',
-        message: `${fromTracks.shortTracks} track(s) with fewer than ${settings.minFrames} frames gave no velocity and were left out.`,
-        at: fromTracks.shortAt[0],
-      });
+      flags.push(MOTILITY_MSG.shortTracks(fromTracks.shortTracks, settings.minFrames, fromTracks.shortAt[0]));
     }
     if (fromTracks.duplicateTimes > 0) {
-      flags.push({
-        code: 'motility-duplicate-frames',
-        severity: 'warning',
-        message: `${fromTracks.duplicateTimes} track row(s) repeat the time of an earlier frame of the same filament; the first was kept.`,
-        at: first,
-      });
+      flags.push(MOTILITY_MSG.duplicateFrames(fromTracks.duplicateTimes, first));
     }
     if (input.velocities.length > 0) {
       const [ignored] = input.velocities;
-      flags.push({
-        code: 'motility-both-inputs',
-        severity: 'info',
-        message: `This preparation has both centroid tracks and ${input.velocities.length} velocity row(s); the velocities from tracks were used and the velocity rows ignored.`,
-        at: ignored!.at, // velocities.length > 0
-      });
+      flags.push(MOTILITY_MSG.bothInputs(input.velocities.length, ignored!.at)); // velocities.length > 0
     }
   } else {
     const fromRows = velocityRowsToFilaments(input.velocities);
     filaments = fromRows.filaments;
     if (fromRows.invalid.length > 0) {
-      flags.push({
-        code: 'motility-invalid-velocity',
-        severity: 'warning',
-        message: `${fromRows.invalid.length} filament velocity value(s) are negative or not numbers and were left out.`,
-        at: fromRows.invalid[0],
-      });
+      flags.push(MOTILITY_MSG.invalidVelocity(fromRows.invalid.length, fromRows.invalid[0]));
     }
   }
   const summary = summariseFilaments(
@@ -180,28 +161,13 @@ export function analyseMotilityUnit(input: UnitInput, settings: MotilitySettings
     settings.immobileUmS,
   );
   if (summary.nFilaments < settings.minFilaments) {
-    flags.push({
-      code: 'motility-too-few-filaments',
-      severity: 'warning',
-      message: `Only ${summary.nFilaments} filament(s) analysed (at least ${settings.minFilaments} recommended per preparation).`,
-      at: first,
-    });
+    flags.push(MOTILITY_MSG.tooFewFilaments(summary.nFilaments, settings.minFilaments, first));
   }
   if (summary.nFilaments > 0 && summary.nMoving === 0) {
-    flags.push({
-      code: 'motility-no-moving-filaments',
-      severity: 'warning',
-      message: `No filament moved at or above ${settings.immobileUmS} µm/s; velocity is not estimable for this preparation.`,
-      at: first,
-    });
+    flags.push(MOTILITY_MSG.noMovingFilaments(settings.immobileUmS, first));
   }
   if (summary.fractionImmobile !== null && summary.fractionImmobile > settings.maxImmobileFraction) {
-    flags.push({
-      code: 'motility-high-immobile-fraction',
-      severity: 'warning',
-      message: `${(summary.fractionImmobile * 100).toFixed(1)}% of filaments are immobile (above ${settings.maxImmobileFraction * 100}%): check the preparation for dead heads.`,
-      at: first,
-    });
+    flags.push(MOTILITY_MSG.highImmobileFraction(summary.fractionImmobile, settings.maxImmobileFraction, first));
   }
   const points = motilityPlotPoints(filaments, settings.immobileUmS);
   return {
@@ -440,6 +406,7 @@ export const motility: AssayModule = {
   metrics: MOTILITY_METRICS,
   bands: MOTILITY_BANDS,
   plausible: MOTILITY_PLAUSIBLE,
+  flagWords: MOTILITY_FLAG_WORDS,
   settings: SETTINGS,
   analyse: analyseMotility,
   chart: motilityChart,

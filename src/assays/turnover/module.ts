@@ -19,13 +19,14 @@ import { exponentialSingle } from '../../numeric/models/exponential-single.js';
 import { fitCurve } from '../../numeric/nls.js';
 import type { CurveModel, FitResult } from '../../numeric/types.js';
 import type { SourceRef } from '../../results/source.js';
-import type { Flag, UnitResult } from '../../results/types.js';
+import type { UnitResult } from '../../results/types.js';
 import { mean, se } from '../../stats/descriptive.js';
 import { assaySetting, groupBy, rowsOf } from '../assay-common.js';
 import { UNIT_CHART_HEIGHT, UNIT_CHART_WIDTH, groupChannel, groupCurveLayers, groupParams } from '../chart-common.js';
 import { groupUnits, relativeSeFlags } from '../assay-common.js';
 import type { AssayChartInput, AssayModule, AssayStudy, ChartSpec, SettingsBag } from '../types.js';
 import { TURNOVER, type TurnoverRow } from './inputs.js';
+import { TURNOVER_FLAG_WORDS, TURNOVER_MSG, type TurnoverFlag } from './messages.js';
 import { TURNOVER_BANDS, TURNOVER_METRICS, TURNOVER_PLAUSIBLE } from './metrics.js';
 import { TURNOVER_SETTINGS as SETTINGS } from './settings.js';
 
@@ -64,7 +65,7 @@ export interface TraceResult {
   durationS: number;
   /** With model 'one-phase': which phase's rate was fixed, and at what (s⁻¹). */
   fixedRate?: { phase: 'slow' | 'fast'; rate: number };
-  flags: Flag[];
+  flags: TurnoverFlag[];
 }
 
 function param(fit: FitResult, name: string): number {
@@ -102,7 +103,7 @@ export function fitTurnoverTrace(
   const single = fitCurve(exponentialSingle, timeS, fluorescence);
   const double = fitCurve(exponentialDouble, timeS, fluorescence);
   const durationS = Math.max(...timeS) - Math.min(...timeS);
-  const flags: Flag[] = [];
+  const flags: TurnoverFlag[] = [];
   const test = extraSumOfSquaresF(single, double, settings.fTestAlpha);
   const aFast = param(double, 'aFast');
   const aSlow = param(double, 'aSlow');
@@ -124,12 +125,7 @@ export function fitTurnoverTrace(
   if (problems.length === 0) {
     const sf = slowFraction(double);
     if (durationS < settings.minSlowTimeConstants / kSlow) {
-      flags.push({
-        code: 'window-too-short',
-        severity: 'warning',
-        message: `${label} lasts ${durationS.toPrecision(3)} s, less than ${settings.minSlowTimeConstants} slow-phase time constant(s) (1/kSlow = ${(1 / kSlow).toPrecision(3)} s): the slow phase is not followed long enough.`,
-        at,
-      });
+      flags.push(TURNOVER_MSG.windowTooShort(label, durationS, settings.minSlowTimeConstants, kSlow, at));
     }
     return {
       ...base,
@@ -146,21 +142,11 @@ export function fitTurnoverTrace(
   }
   const reason = `phases not separated (${problems.join('; ')})`;
   if (!single.converged) {
-    flags.push({
-      code: 'not-converged',
-      severity: 'warning',
-      message: `Neither the double nor the single exponential fit of ${label} converged (${single.stopReason}); the trace gives no values.`,
-      at,
-    });
+    flags.push(TURNOVER_MSG.noFit(label, single.stopReason, at));
     return { ...base, model: 'none', reason, slowFraction: null, slowFractionSe: null, kFast: null, kSlow: null, kSingle: null, flags };
   }
   const k = param(single, 'k');
-  flags.push({
-    code: 'one-phase-trace',
-    severity: 'warning',
-    message: `${label}: ${reason}; one phase (k = ${k.toPrecision(3)} s⁻¹) was resolved.`,
-    at,
-  });
+  flags.push(TURNOVER_MSG.onePhase(label, reason, k, at));
   return { ...base, model: 'single', fit: single, reason, slowFraction: null, slowFractionSe: null, kFast: null, kSlow: null, kSingle: k, flags };
 }
 
@@ -197,44 +183,23 @@ export function resolveOnePhase(
   if (!reference) {
     return {
       ...trace,
-      flags: [
-        ...trace.flags,
-        {
-          code: 'no-reference-rates',
-          severity: 'warning',
-          message: `${label}: the batch has no WT trace with two resolved phases, so the one phase cannot be placed; the trace gives no slow fraction.`,
-          at,
-        },
-      ],
+      flags: [...trace.flags, TURNOVER_MSG.noReferenceRates(label, at)],
     };
   }
-  const isFast = trace.kSingle >= Math.sqrt(reference.kFast * reference.kSlow);
+  const midpoint = Math.sqrt(reference.kFast * reference.kSlow);
+  const isFast = trace.kSingle >= midpoint;
   const fixedRate = isFast ? reference.kSlow : reference.kFast;
   const fit = fitCurve(exponentialDoubleFixedRate(isFast ? 'slow' : 'fast', fixedRate), timeS, fluorescence);
-  const which = isFast ? 'fast' : 'slow';
   const other = isFast ? 'slow' : 'fast';
   if (!fit.converged) {
     return {
       ...trace,
-      flags: [
-        ...trace.flags,
-        {
-          code: 'not-converged',
-          severity: 'warning',
-          message: `${label}: the refit with the ${other} rate fixed at WT's ${fixedRate.toPrecision(3)} s⁻¹ did not converge (${fit.stopReason}); the trace gives no slow fraction.`,
-          at,
-        },
-      ],
+      flags: [...trace.flags, TURNOVER_MSG.refitNotConverged(label, other, fixedRate, fit.stopReason, at)],
     };
   }
   const sf = slowFraction(fit);
   const free = param(fit, isFast ? 'kFast' : 'kSlow');
-  const message =
-    `${label}: ${trace.reason}; the one resolved phase (k = ${trace.kSingle.toPrecision(3)} s⁻¹) is taken as the ${which} phase, ` +
-    `${isFast ? 'at or above' : 'below'} √(kFast·kSlow) = ${Math.sqrt(reference.kFast * reference.kSlow).toPrecision(3)} s⁻¹ of WT (${reference.source}); ` +
-    `refitted with the ${other} rate fixed at WT's ${fixedRate.toPrecision(3)} s⁻¹: slow fraction ${sf.estimate.toFixed(3)}` +
-    (Number.isFinite(sf.se) ? ` ± ${sf.se.toFixed(3)} (SE)` : '') +
-    '.';
+  const placed = TURNOVER_MSG.onePhasePlaced(label, { reason: trace.reason, kSingle: trace.kSingle, isFast, midpoint, source: reference.source, fixedRate, slowFraction: sf.estimate, slowFractionSe: sf.se }, at);
   return {
     ...trace,
     model: 'one-phase',
@@ -244,7 +209,7 @@ export function resolveOnePhase(
     slowFractionSe: Number.isFinite(sf.se) ? sf.se : null,
     kFast: isFast ? free : null,
     kSlow: isFast ? null : free,
-    flags: [...trace.flags.filter((f) => f.code !== 'one-phase-trace'), { code: 'one-phase-trace', severity: 'warning', message, at }],
+    flags: [...trace.flags.filter((f) => f.code !== 'one-phase-trace'), placed],
   };
 }
 
@@ -350,7 +315,7 @@ export function summariseTurnoverUnit(
   fitted: readonly FittedTrace[],
   reference: ReferenceRates | null,
 ): Pick<UnitResult, 'metrics' | 'metricSe' | 'fit' | 'modelNote' | 'flags' | 'nTechnical' | 'plot'> {
-  const flags: Flag[] = [];
+  const flags: TurnoverFlag[] = [];
   const points: Array<Record<string, number | string>> = [];
   const curve: Array<Record<string, number | string>> = [];
   const results: TraceResult[] = [];
@@ -585,6 +550,7 @@ export const turnover: AssayModule = {
   metrics: TURNOVER_METRICS,
   bands: TURNOVER_BANDS,
   plausible: TURNOVER_PLAUSIBLE,
+  flagWords: TURNOVER_FLAG_WORDS,
   settings: SETTINGS,
   analyse: analyseTurnover,
   chart: turnoverChart,
