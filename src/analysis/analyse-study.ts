@@ -56,7 +56,7 @@ export const COMPARISON_METHOD =
   'y = μ_batch + δ·[variant] + ε, with a residual variance of its own for the variant and for WT (randomised block design, batches as blocks; ' +
   'generalised least squares fitted by restricted maximum likelihood, as R nlme::gls with varIdent, Pinheiro & Bates 2000 §5.2). ' +
   'WT preparations of batches without the variant inform WT’s variance only. The 95% interval uses Satterthwaite’s degrees of freedom (Satterthwaite 1946; Giesbrecht & Burns 1985); ' +
-  'with one variant unit, or no batch with two WT units, one pooled variance is used instead and the row says so. With one batch the comparison is Welch’s t test. ' +
+  'with one variant preparation, or no batch with two WT preparations, one pooled variance is used instead and the row says so. With one batch the comparison is Welch’s t test. ' +
   'Each effect is tested against its WT-like band: a minimum-effect test that it lies beyond the nearer edge (Murphy & Myors 1999), its p values adjusted by Benjamini–Hochberg across the study’s test variants (Benjamini & Hochberg 1995; known controls are outside that family, each scored as if added to it) ' +
   'and, for primary metrics, by Holm across the variant’s primary metrics (Holm 1979); and two one-sided tests that it lies inside the band (Schuirmann 1987). ' +
   'n is the number of preparations (biological units); technical replicates are summarised within their preparation first.';

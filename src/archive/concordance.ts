@@ -127,13 +127,13 @@ export function judgeVariant(
   const ids = studies.map((s) => s.studyId);
   const withdrawn = withdrawnFrom.length ? ` It was withdrawn from ${joinAnd(withdrawnFrom)} after a release there, so that study's released calls are shown but not compared.` : '';
   if (studies.length < 2) {
-    const where = studies.length ? `Measured in one study only (${studies[0]!.studyName}), so there is nothing to compare it with.` : 'Not measured in the latest analysis of any study.';
+    const where = studies.length ? `Measured in one study only, ${studies[0]!.studyName}; there is nothing to compare it with.` : 'Not measured in the latest analysis of any study.';
     return { status: 'single study', studies: ids, disagreements: [], agreements: [], sentence: `${where}${withdrawn}` };
   }
   const n = `the ${studies.length} studies that measured it`;
   const discordant = disagreements.filter((d) => d.kind !== 'different changes');
   if (discordant.length) {
-    const parts = discordant.map((d) => `${d.label} ${describeCalls(d.calls)}${d.kind === 'opposite directions' ? ' (opposite directions)' : ''}`);
+    const parts = discordant.map((d) => `${d.label}${d.kind === 'opposite directions' ? ', in opposite directions:' : ''} ${describeCalls(d.calls)}`);
     return { status: 'discordant', studies: ids, disagreements, agreements, sentence: `Discordant between ${n}: ${parts.join('; ')}.${withdrawn}` };
   }
   if (disagreements.length) {
@@ -143,12 +143,12 @@ export function judgeVariant(
       studies: ids,
       disagreements,
       agreements,
-      sentence: `Not concordant, though not contradictory: ${n} show different changes (${parts.join('; ')}).${withdrawn}`,
+      sentence: `Not concordant, though not contradictory: ${n} show different changes — ${parts.join('; ')}.${withdrawn}`,
     };
   }
   if (agreements.length) {
     const parts = agreements.map((a) => `${a.label} ${a.call}`);
-    return { status: 'concordant', studies: ids, disagreements, agreements, sentence: `Concordant: ${n} agree on every call two or more of them could make (${parts.join('; ')}).${withdrawn}` };
+    return { status: 'concordant', studies: ids, disagreements, agreements, sentence: `Concordant: ${n} agree on every call two or more of them could make — ${parts.join('; ')}.${withdrawn}` };
   }
   return {
     status: 'inconclusive',

@@ -57,3 +57,21 @@ export interface MessageText {
   message: string;
   fix: string;
 }
+
+/** Longest text from the input shown whole in a message (in characters); longer texts are cut. */
+export const SHOWN_MAX = 40;
+
+/**
+ * Text from the input (a cell, a label, a header) as a message shows it: control characters
+ * written as escapes (\r, \t, \u0007), and a text longer than SHOWN_MAX characters cut, with
+ * its length, so that a 10 MB cell cannot flood the terminal.
+ * @example shown('1,5') // '1,5'
+ * @example shown('9'.repeat(100)) // the first 39 nines, then '… (100 characters)'
+ */
+export function shown(text: string, max = SHOWN_MAX): string {
+  let cut = text.length > max ? text.slice(0, max - 1) : text;
+  // Never end on the first half of a surrogate pair.
+  if (cut.length < text.length && /[\uD800-\uDBFF]$/.test(cut)) cut = cut.slice(0, -1);
+  const visible = cut.replace(/[\u0000-\u001f\u007f]/g, (c) => (c === '\r' ? '\\r' : c === '\n' ? '\\n' : c === '\t' ? '\\t' : `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`));
+  return cut.length < text.length ? `${visible}… (${text.length.toLocaleString('en-GB')} characters)` : visible;
+}

@@ -95,7 +95,7 @@ describe('history of a variant', () => {
     expect(v.concordance.status).toBe('concordant');
     expect(v.concordance.studies).toEqual(['panel', 'remeasure']);
     expect(v.concordance.sentence).toBe(
-      'Concordant: the 2 studies that measured it agree on every call two or more of them could make (overall call hypercontractile; kcat (Actin-activated ATPase) increased).',
+      'Concordant: the 2 studies that measured it agree on every call two or more of them could make — overall call hypercontractile; kcat (Actin-activated ATPase) increased.',
     );
     expect(v.latest).toMatchObject({ studyId: 'remeasure', origin: 'current build', call: 'hypercontractile', withdrawn: false });
   });
@@ -128,7 +128,7 @@ describe('history of a variant', () => {
     const v = buildHistory([entry('a', 'A', '2025-01-01', a), entry('b', 'B', '2025-02-01', b)]).variants[0]!;
     expect(v.concordance.status).toBe('discordant');
     expect(v.concordance.disagreements.map((d) => d.kind)).toEqual(['opposite directions', 'opposite directions']);
-    expect(v.concordance.sentence).toContain('kcat (Actin-activated ATPase) increased in A (2025-01-01), but decreased in B (2025-02-01) (opposite directions)');
+    expect(v.concordance.sentence).toContain('kcat (Actin-activated ATPase), in opposite directions: increased in A (2025-01-01), but decreased in B (2025-02-01)');
   });
 
   it('does not call two studies concordant when only one of them could make a call', () => {
@@ -150,7 +150,7 @@ describe('history of a variant', () => {
 
   it('says single study for a variant measured once', () => {
     const v = buildHistory(archive()).variants.find((x) => x.short === 'E500K')!;
-    expect(v.concordance).toMatchObject({ status: 'single study', sentence: 'Measured in one study only (Panel (2025-03-10)), so there is nothing to compare it with.' });
+    expect(v.concordance).toMatchObject({ status: 'single study', sentence: 'Measured in one study only, Panel (2025-03-10); there is nothing to compare it with.' });
   });
 
   it('counts each study once, by its latest analysis: a release that differs from its own current build is not a second study', () => {

@@ -96,4 +96,8 @@ describe('the assays’ input problems', () => {
       fix: 'Add "frameInterval": {"value": …, "unit": "s"} to the file entry, or give a time column.',
     });
   });
+
+  it('cut a label from the input as every other message does (src/results/source.ts shown)', () => {
+    expect(FORCE_INPUT_MSG.needsCrossSection('F'.repeat(5000)).message).toBe(`Force is given without a cross-sectional area for preparation '${'F'.repeat(39)}… (5,000 characters)'.`);
+  });
 });

@@ -6,7 +6,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { groupIssues, lineRanges, rangesText } from '../../src/study/group-issues.js';
-import { MSG, issue, shown } from '../../src/study/messages.js';
+import { shown } from '../../src/results/source.js';
+import { MSG, issue } from '../../src/study/messages.js';
 import { closestNames, didYouMean, editDistance } from '../../src/study/suggest.js';
 import { baseManifest, load, loadWith } from './fixtures.js';
 

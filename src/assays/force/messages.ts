@@ -3,7 +3,7 @@
  * (the glossary page), and the message of each flag (what happened to one preparation, with its
  * numbers); the problems only its input kind can have.
  */
-import type { MessageText, SourceRef } from '../../results/source.js';
+import { type MessageText, type SourceRef, shown } from '../../results/source.js';
 import { FIT_FLAG_WORDS } from '../fit-flags.js';
 import type { FlagOf, FlagWords } from '../types.js';
 
@@ -68,7 +68,7 @@ export const FORCE_INPUT_MSG = {
   needsCrossSection: (unit: string): MessageText => ({
     severity: 'error',
     code: 'csv.needs-cross-section',
-    message: `Force is given without a cross-sectional area for preparation '${unit}'.`,
+    message: `Force is given without a cross-sectional area for preparation '${shown(unit)}'.`,
     fix: 'Add an area column, or "crossSection" (value or byPreparation) to the file entry, or give tension instead.',
   }),
 };
