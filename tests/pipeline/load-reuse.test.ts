@@ -128,12 +128,13 @@ describe('loadStudy with digests', () => {
 describe('loadAndAnalyse with the store', () => {
   const dir = join(tmp, 'study');
   const cache = join(tmp, 'cache');
-  let parsed = 0;
+  /** Units entries of the last build with the store: found and not found. */
+  let lookups = { hits: 0, misses: 0 };
   const run = async (withStore: boolean) => {
     const store = withStore ? new Store(cache, 'test') : undefined;
     const got = loadAndAnalyse(dir, { sourceDateEpoch: 1_700_000_000 }, store);
     expect(got.results).toBeDefined();
-    parsed = got.parsedBytes;
+    if (store) lookups = { hits: store.counts.hits, misses: store.counts.misses };
     // results.json as the build writes it is JSON.stringify of the results.
     const file = join(tmp, 'results.json');
     writeJsonStreamed(file, got.results as never);
@@ -149,41 +150,44 @@ describe('loadAndAnalyse with the store', () => {
     const i = lines.findIndex((l) => /^[A-Z]\d+A,/.test(l));
     lines[i] = (lines[i] ?? '').replace(/,([0-9.]+)$/, (_m, f: string) => `,${(Number(f) * 1.3).toFixed(3)}`);
     writeFileSync(path, lines.join('\n'));
-    return Buffer.byteLength(lines.join('\n'));
   };
   /** Edit a reading of `name`: the results change, and the build with the cache gives those of a build without. */
   const editAndCompare = async (name: string) => {
     const before = await run(false);
-    const size = editReading(name);
+    editReading(name);
     const fresh = await run(false);
     expect(fresh).not.toBe(before);
     expect(await run(true)).toBe(fresh);
-    return { size, fresh };
+    return fresh;
   };
 
-  it('cold, warm (all files left out) and after one file changed: the results of a build without cache', async () => {
+  it('cold, warm (every batch from the store) and after one file changed: the results of a build without cache', async () => {
     writeStudy(dir, made);
     const reference = await run(false);
     expect(await run(true)).toBe(reference);
+    expect(lookups.hits).toBe(0);
+    const batches = lookups.misses;
+    expect(batches).toBeGreaterThan(1);
     expect(await run(true)).toBe(reference);
-    expect(parsed).toBe(0);
-    // One turnover reading of a variant edited: its file is read, and the files holding rows of
-    // its batches (stored per assay and batch), but not every file.
-    const { size, fresh } = await editAndCompare('turnover-part2.csv');
-    expect(parsed).toBeGreaterThanOrEqual(size);
-    expect(parsed).toBeLessThan(Object.values(made.files).reduce((n, t) => n + Buffer.byteLength(t), 0));
+    expect(lookups).toEqual({ hits: batches, misses: 0 });
+    // One turnover reading of a variant edited: the turnover batches of its file are fitted
+    // again (stored per assay and batch), but not every batch.
+    const fresh = await editAndCompare('turnover-part2.csv');
+    expect(lookups.misses).toBeGreaterThan(0);
+    expect(lookups.hits).toBeGreaterThan(0);
+    expect(lookups.hits + lookups.misses).toBe(batches);
     expect(await run(true)).toBe(fresh);
-    expect(parsed).toBe(0);
+    expect(lookups).toEqual({ hits: batches, misses: 0 });
   }, 180_000);
 
   it('after one NADH trace changed: the results of a build without cache (its batch is analysed whole)', async () => {
     // Continues from the study and cache of the test above.
-    const { size } = await editAndCompare('atpase-nadh-part4.csv');
-    // The files that share its batches are read too: ATPase units need their batch.
-    expect(parsed).toBeGreaterThan(size);
+    await editAndCompare('atpase-nadh-part4.csv');
+    expect(lookups.misses).toBeGreaterThan(0);
+    expect(lookups.hits).toBeGreaterThan(0);
   }, 180_000);
 
-  it('a new batch of a new variant in a new file, then a label naming another variant (the old one withdrawn): only the files concerned are read, and the results are those of a build without cache', async () => {
+  it('a new batch of a new variant in a new file, then a label naming another variant (the old one withdrawn): only the batches concerned are fitted again, and the results are those of a build without cache', async () => {
     // Continues from the study and cache of the tests above.
     const manifestPath = join(dir, 'study.json');
     const manifest = JSON.parse(readFileSync(manifestPath, 'utf8')) as { variants: Array<Record<string, unknown>>; files: Array<Record<string, unknown>> };
@@ -209,19 +213,21 @@ describe('loadAndAnalyse with the store', () => {
     writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
     const fresh = await run(false);
     expect(await run(true)).toBe(fresh);
-    expect(parsed).toBe(Buffer.byteLength(text));
+    // The new batch's turnover units are fitted; every other batch comes from the store.
+    expect(lookups.misses).toBe(1);
 
     // The old label now names the new variant (the old variant is withdrawn: a label may not be
-    // another declared variant's short form): the same bytes give other rows. The files using the
-    // label are parsed (see the loadStudy test above), and so are the files sharing cache entries
-    // with them: an entry's file key covers the labels of each of its files as a whole, so every
-    // entry with rows in those files is looked up by its rows.
+    // another declared variant's short form): the same bytes give other rows. An entry's key covers
+    // the labels of each of its files with the variants they resolve to, so every entry with rows
+    // in the files using the label is fitted again.
     manifest.variants[manifest.variants.length - 1] = { hgvs: `p.${newLabel}`, label: oldLabel };
     manifest.variants.splice(at, 1);
     writeFileSync(manifestPath, JSON.stringify(manifest, null, 1));
     const swapped = await run(false);
     expect(swapped).not.toBe(fresh);
     expect(await run(true)).toBe(swapped);
+    expect(lookups.misses).toBeGreaterThan(0);
+    expect(lookups.hits).toBeGreaterThan(0);
   }, 180_000);
 
   it('the demo study (one unit excluded in its manifest): the same results cold and warm', async () => {
@@ -229,9 +235,11 @@ describe('loadAndAnalyse with the store', () => {
     const store = () => new Store(join(tmp, 'demo-cache'), 'test');
     const first = store();
     const cold = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, first);
-    const warm = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, store());
+    const second = store();
+    const warm = loadAndAnalyse(demo, { sourceDateEpoch: 1_700_000_000 }, second);
     expect(cold.results!.units.filter((u) => u.excluded).length).toBe(1);
-    expect(warm.parsedBytes).toBe(0);
+    expect(second.counts.misses).toBe(0);
+    expect(second.counts.hits).toBe(first.counts.misses);
     expect(JSON.stringify(warm.results)).toBe(JSON.stringify(cold.results));
   }, 180_000);
 });
