@@ -1,8 +1,8 @@
 /**
- * Files whose batches are all in the store are not parsed on a rebuild: their stored readings
- * stand in for their rows (src/study/load.ts, src/pipeline/analyse-units.ts). Whatever is left out,
- * the issues, the study's description of its files and the analysis must be exactly those of a
- * study read whole. Study: the benchmark generator's (synthetic, invented values).
+ * A rebuild through the store gives exactly the results of a build without it: cold, warm, and
+ * after files, variants or labels changed; the units of a batch whose inputs are unchanged come
+ * from the store, and those of a changed batch are fitted again (src/pipeline/analyse-units.ts).
+ * Study: the benchmark generator's (synthetic, invented values).
  */
 import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -13,117 +13,12 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { syntheticStudy, writeStudy } from '../../src/bench/synthetic.js';
 import { loadAndAnalyse } from '../../src/pipeline/build-study.js';
 import { Store } from '../../src/pipeline/store.js';
-import { type ParsedDigest, labelsResolveAlike, loadStudy, variantFacts } from '../../src/study/load.js';
-import type { FileDigest } from '../../src/study/types.js';
 import { writeJsonStreamed } from '../../src/results/json.js';
 
-const tmp = mkdtempSync(join(tmpdir(), 'myofolio-load-reuse-'));
+const tmp = mkdtempSync(join(tmpdir(), 'myofolio-rebuild-results-'));
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
 
 const made = syntheticStudy({ variants: 10, perBatch: 3, filaments: 30, turnoverPoints: 60, maxRowsPerFile: 2000 });
-const input = (files: Record<string, string>, manifest: unknown = made.manifest) => ({ manifest: JSON.stringify(manifest), files });
-
-/** An in-memory digest store, and a load that saves what it parsed. */
-function memoryStore() {
-  const kept = new Map<string, FileDigest>();
-  const reuse = { context: 'test', get: (key: string) => kept.get(key) };
-  const load = (files: Record<string, string>, manifest: unknown = made.manifest) => {
-    const out = loadStudy(input(files, manifest), { reuse });
-    for (const d of out.digests ?? ([] as ParsedDigest[])) kept.set(d.key, d.digest);
-    return out;
-  };
-  return { kept, load };
-}
-
-describe('loadStudy with digests', () => {
-  it('leaves out every file it has a digest for, with the same issues and file list as a whole load', () => {
-    const whole = loadStudy(input(made.files));
-    const store = memoryStore();
-    const first = store.load(made.files);
-    expect(first.study?.omitted).toBeUndefined();
-    expect(store.kept.size).toBe(Object.keys(made.files).length);
-    const again = store.load(made.files);
-    expect(again.study?.omitted?.size).toBe(Object.keys(made.files).length);
-    expect(Object.values(again.study!.rows).every((rows) => rows?.length === 0)).toBe(true);
-    expect(again.issues).toEqual(whole.issues);
-    expect(again.study!.files).toEqual(whole.study!.files);
-    expect(again.digests).toEqual([]);
-  });
-
-  it('reports a batch without WT at the same line whether its files were parsed or left out', () => {
-    // Drop the WT rows of batch B3 from the turnover files: the variants of B3 have no WT there.
-    const files = { ...made.files };
-    for (const path of Object.keys(files).filter((p) => p.startsWith('turnover'))) {
-      files[path] = (files[path] ?? '').split('\n').filter((line) => !/^WT,[^,]*,B3,/.test(line)).join('\n');
-    }
-    const whole = loadStudy(input(files));
-    const noWt = whole.issues.filter((i) => i.severity === 'error');
-    expect(noWt.length).toBe(1);
-    expect(noWt[0]?.at).toMatchObject({ file: expect.stringMatching(/^turnover/), column: 'batch' });
-    const store = memoryStore();
-    store.load(files);
-    const again = store.load(files);
-    // Each file is fine on its own, so all were left out; the check across files still fires.
-    expect(store.kept.size).toBe(Object.keys(files).length);
-    expect(again.issues).toEqual(whole.issues);
-    expect(again.study).toBeUndefined();
-  });
-
-  it('a variant declared: no file is parsed; a label that now names another variant: the files using it are parsed', () => {
-    const store = memoryStore();
-    store.load(made.files);
-    const variants = made.manifest.variants as Array<Record<string, unknown>>;
-    const first = variants.findIndex((v) => v.wt !== true);
-    const [, ref, pos, alt] = /^p\.([A-Z])(\d+)([A-Z])$/.exec(variants[first]?.hgvs as string) as RegExpExecArray;
-    const other = `p.${ref}${pos}${ref === 'W' || alt === 'W' ? 'Y' : 'W'}`;
-    // Declared first, so that every other variant's place in the manifest moves; used by no file.
-    const added = { ...made.manifest, variants: [{ hgvs: other }, ...variants] };
-    const whole = loadStudy(input(made.files, added));
-    const again = store.load(made.files, added);
-    expect(again.study?.omitted?.size).toBe(Object.keys(made.files).length);
-    expect(again.issues).toEqual(whole.issues);
-    expect(again.issues.map((i) => i.code)).toContain('manifest.variant-unused');
-    expect(again.study!.files).toEqual(whole.study!.files);
-
-    // The label of that variant now names a variant with another id: the same bytes give other rows.
-    const label = `${ref}${pos}${alt}`;
-    const remapped = { ...made.manifest, variants: variants.map((v, i) => (i === first ? { ...v, hgvs: other, label } : v)) };
-    const using = Object.keys(made.files).filter((p) => made.files[p]?.includes(`\n${label},`));
-    expect(using.length).toBeGreaterThan(1);
-    const whole2 = loadStudy(input(made.files, remapped));
-    const again2 = store.load(made.files, remapped);
-    expect([...again2.study!.omitted!.keys()].sort()).toEqual(Object.keys(made.files).filter((p) => !using.includes(p)).sort());
-    expect(again2.issues).toEqual(whole2.issues);
-    expect(again2.study!.files).toEqual(whole2.study!.files);
-    for (const [kind, rows] of Object.entries(whole2.study!.rows)) {
-      expect((again2.study!.rows as Record<string, unknown[]>)[kind]).toEqual((rows as Array<{ at: { file: string } }>).filter((r) => using.includes(r.at.file)));
-    }
-    expect(whole2.study!.variants[first]?.id).not.toBe(whole.study!.variants[first + 1]?.id);
-  });
-
-  it('a label whose variant keeps its id but not its WT flag or gene does not resolve alike', () => {
-    const v = loadStudy(input(made.files)).study!.variants.find((x) => !x.isWT)!;
-    const labels: FileDigest['labels'] = [[v.label, variantFacts(v)]];
-    expect(labelsResolveAlike(labels, new Map([[v.label, v]]))).toBe(true);
-    expect(labelsResolveAlike(labels, new Map([[v.label, { ...v, isWT: true }]]))).toBe(false);
-    expect(labelsResolveAlike(labels, new Map([[v.label, { ...v, gene: 'OTHER' }]]))).toBe(false);
-    expect(labelsResolveAlike(labels, new Map())).toBe(false);
-    // A digest stored without labels (an older format) is never taken.
-    expect(labelsResolveAlike(undefined as never, new Map([[v.label, v]]))).toBe(false);
-  });
-
-  it('parses a file again when its bytes change', () => {
-    const store = memoryStore();
-    store.load(made.files);
-    const path = 'turnover-part2.csv';
-    const edited = { ...made.files, [path]: (made.files[path] ?? '').replace(/,(\d+)\.(\d)(\d*)\n/, ',$1.$2$31\n') };
-    expect(edited[path]).not.toBe(made.files[path]);
-    const again = store.load(edited);
-    expect([...again.study!.omitted!.keys()]).not.toContain(path);
-    expect(again.study!.omitted!.size).toBe(Object.keys(made.files).length - 1);
-    expect(again.study!.rows.turnover!.every((r) => r.at.file === path)).toBe(true);
-  });
-});
 
 describe('loadAndAnalyse with the store', () => {
   const dir = join(tmp, 'study');
