@@ -18,7 +18,7 @@ export const INPUT = {
 /** The store in the user's cache folder (src/pipeline/store.ts). */
 export const CACHE = {
   /**
-   * Days a store entry (a file's reading, a batch's units, a chart) is kept without a build using
+   * Days a store entry (a batch's units, a chart) is kept without a build using
    * it: a study rebuilt at least monthly keeps its rebuilds fast; entries of old code versions and
    * retired studies go after it.
    */

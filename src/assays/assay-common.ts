@@ -203,17 +203,15 @@ export function relativeSeFlags(fit: FitResult, limit: number, labels: Record<st
 }
 
 /**
- * Each unit (variant, unit, batch) of rows[from, to) in order of first appearance; NADH
- * actin-only wells (no variant, no unit) belong to no unit and are left out.
+ * Each unit (variant, unit, batch) of the rows in order of first appearance; NADH actin-only
+ * wells (no variant, no unit) belong to no unit and are left out.
  * @example unitsInOrder([{ variant: 'a', unit: 'u1', batch: 'B1' }, { variant: 'a', unit: 'u1', batch: 'B1' }] as RowBase[]) // → [['a', 'u1', 'B1']]
  */
-export function unitsInOrder(rows: readonly RowBase[], from = 0, to = rows.length): Array<[variant: string, unit: string, batch: string]> {
+export function unitsInOrder(rows: readonly RowBase[]): Array<[variant: string, unit: string, batch: string]> {
   const seen = new Map<string, Map<string, Set<string>>>();
   const out: Array<[string, string, string]> = [];
   let last: RowBase | undefined;
-  const end = Math.min(to, rows.length);
-  for (let i = from; i < end; i++) {
-    const r = rows[i]!;
+  for (const r of rows) {
     if (r.variant === '' && r.unit === '') continue;
     // Files are written unit by unit: a row of the previous row's unit adds nothing.
     if (last && r.variant === last.variant && r.unit === last.unit && r.batch === last.batch) continue;
@@ -230,9 +228,3 @@ export function unitsInOrder(rows: readonly RowBase[], from = 0, to = rows.lengt
   return out;
 }
 
-/** Does the study hold rows of this kind (counting the rows of omitted files)? */
-export function hasRows(study: Pick<AssayStudy, 'rows' | 'omitted'>, kind: string): boolean {
-  if ((study.rows[kind]?.length ?? 0) > 0) return true;
-  for (const d of study.omitted?.values() ?? []) if (d.kind === kind && d.kept > 0) return true;
-  return false;
-}

@@ -152,8 +152,6 @@ export interface AssayStudy {
   /** Input files with their own settings. */
   files: ReadonlyArray<{ path: string; settings: SettingsBag }>;
   variants: ReadonlyArray<{ id: string; isWT: boolean }>;
-  /** Files left out of `rows` because the store holds their analysis (src/pipeline/analyse-units.ts). */
-  omitted?: ReadonlyMap<string, { kind: string; kept: number }>;
 }
 
 export interface AssayChartInput {

@@ -12,8 +12,7 @@
  *           --warm-runs N, N such rebuilds, each for another variant, and their median,
  *   warm-no-…      — the same rebuild with a kind of store entry left out (after one build in that
  *                    mode, not measured, so that the store holds what such a store would):
- *   warm-no-file   — without the stored file readings (every file parsed),
- *   warm-no-units  — the same rebuild without stored units (every batch fitted, every file parsed),
+ *   warm-no-units  — the same rebuild without stored units (every batch fitted),
  *   warm-no-block  — the same rebuild without assay charts stored by their units (their specs built
  *                    and hashed; SVGs still found by spec),
  *   warm-no-charts — the same rebuild without any stored chart (every chart drawn),
@@ -97,10 +96,9 @@ function duMB(dir: string): number {
 
 /** The store's kinds of entry a mode leaves out (src/pipeline/build-study.ts, BuildOptions.storeKinds). */
 const STORE_KINDS: Record<string, ReadonlyArray<StoreKind>> = {
-  'warm-no-file': ['units', 'svg', 'block'],
   'warm-no-units': ['svg', 'block'],
-  'warm-no-block': ['file', 'units', 'svg'],
-  'warm-no-charts': ['file', 'units'],
+  'warm-no-block': ['units', 'svg'],
+  'warm-no-charts': ['units'],
 };
 
 /** One build of a study folder by buildStudy (src/pipeline/build-study.ts), timed phase by phase (child process). */

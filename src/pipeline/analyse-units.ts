@@ -13,15 +13,11 @@
  * wells of its batch; no module reads rows of another batch. Why the files stand for the rows:
  * a file's rows are a function of its bytes, the manifest entry it is read with and the variants
  * its labels name (all in the key), and of the code and schemas (in the store's fingerprint), so
- * an unchanged file need not be parsed to know its rows are unchanged.
- *
- * Files the loader left out (Study.omitted: their digests stand in for their rows) count by their
- * digests' rows per batch; a batch that is not stored and has rows in such a file is answered
- * with `needRows` (those files), and the caller loads them and asks again.
+ * the key need not hash the rows themselves.
  */
 import { createHash } from 'node:crypto';
 import { deserialize, serialize } from 'node:v8';
-import { hasRows, unitsInOrder } from '../assays/assay-common.js';
+import { unitsInOrder } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import type { UnitResult } from '../results/types.js';
@@ -29,8 +25,8 @@ import type { InputKind, RowBase, Study } from '../study/types.js';
 import type { Store } from './store.js';
 
 /** Modules that have rows in the study, in registry order: the same filter analyseStudy applies. */
-export function activeModules(study: Pick<Study, 'rows' | 'omitted'>, modules: readonly AssayModule[] = ASSAYS): AssayModule[] {
-  return modules.filter((a) => a.inputs.some((k) => hasRows(study, k.kind)));
+export function activeModules(study: Pick<Study, 'rows'>, modules: readonly AssayModule[] = ASSAYS): AssayModule[] {
+  return modules.filter((a) => a.inputs.some((k) => (study.rows[k.kind]?.length ?? 0) > 0));
 }
 
 /**
@@ -45,28 +41,7 @@ export function analyseOrder(study: Study, m: AssayModule, units: UnitResult[]):
       if (!rank.has(k)) rank.set(k, rank.size);
     }
   };
-  for (const { kind } of m.inputs) {
-    const rows = (study.rows[kind] ?? []) as RowBase[];
-    if (!study.omitted?.size) {
-      see(unitsInOrder(rows));
-      continue;
-    }
-    // Files in manifest order: a left-out file's units from its digest, a read file's from its
-    // rows (one contiguous run of the kind's rows, in the same order).
-    let i = 0;
-    for (const f of study.files) {
-      if (f.kind !== kind) continue;
-      const digest = study.omitted.get(f.path);
-      if (digest) {
-        see(digest.unitOrder);
-        continue;
-      }
-      let j = i;
-      while (j < rows.length && rows[j]!.at.file === f.path) j++;
-      see(unitsInOrder(rows, i, j));
-      i = j;
-    }
-  }
+  for (const { kind } of m.inputs) see(unitsInOrder((study.rows[kind] ?? []) as RowBase[]));
   const end = rank.size;
   return units
     .map((u, i) => ({ u, i, r: rank.get(JSON.stringify([u.variant, u.unit, u.batch])) ?? end + i }))
@@ -74,14 +49,12 @@ export function analyseOrder(study: Study, m: AssayModule, units: UnitResult[]):
     .map((x) => x.u);
 }
 
-export type StoredAnalysis =
-  | {
-      units: UnitResult[];
-      counts: { analysed: number; stored: number };
-      /** With a store: SHA-256 of each unit's JSON as analysed, in the order of `units`. */
-      digests?: string[];
-    }
-  | { needRows: string[] };
+export interface StoredAnalysis {
+  units: UnitResult[];
+  counts: { analysed: number; stored: number };
+  /** With a store: SHA-256 of each unit's JSON as analysed, in the order of `units`. */
+  digests?: string[];
+}
 
 /**
  * Units of every active module: from the store where a batch's files are unchanged, else
@@ -90,9 +63,7 @@ export type StoredAnalysis =
  */
 export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASSAYS, store?: Store): StoredAnalysis {
   const active = activeModules(study, modules);
-  const omitted = study.omitted ?? new Map();
   if (!store || active.some((m) => !ASSAYS.includes(m))) {
-    if (omitted.size > 0) return { needRows: [...omitted.keys()] };
     const units = active.flatMap((m) => m.analyse(study));
     return { units, counts: { analysed: new Set(units.map((u) => `${u.assay}\0${u.batch}`)).size, stored: 0 } };
   }
@@ -106,11 +77,10 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
 
   const found: UnitResult[] = [];
   const digestOf = new Map<UnitResult, string>();
-  const needRows = new Set<string>();
   const missed: Array<{ m: AssayModule; batches: Map<string, string> }> = [];
   let stored = 0;
   for (const m of active) {
-    // Rows of each batch per file, in the rows read and in the digests of files left out.
+    // Rows of each batch per file.
     const perBatch = new Map<string, Map<string, number>>();
     const add = (batch: string, path: string, n: number) => {
       let perFile = perBatch.get(batch);
@@ -118,7 +88,6 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
       perFile.set(path, (perFile.get(path) ?? 0) + n);
     };
     for (const { kind } of m.inputs) for (const r of (study.rows[kind] ?? []) as RowBase[]) add(r.batch, r.at.file, 1);
-    for (const [path, d] of omitted) if (m.inputs.some((k) => k.kind === d.kind)) for (const [, , batch, n] of d.unitRows) add(batch, path, n);
     const mine = new Map<string, string>();
     for (const [batch, perFile] of perBatch) {
       const key = store.key('units', [m.id, batch, study.settings, [...perFile].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([path, n]) => [files.get(path) ?? path, n])]);
@@ -130,13 +99,10 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
         stored++;
         continue;
       }
-      const left = [...perFile.keys()].filter((p) => omitted.has(p));
-      if (left.length > 0) left.forEach((p) => needRows.add(p));
-      else mine.set(batch, key);
+      mine.set(batch, key);
     }
     if (mine.size > 0) missed.push({ m, batches: mine });
   }
-  if (needRows.size > 0) return { needRows: [...needRows] };
 
   let analysed = 0;
   for (const { m, batches } of missed) {
@@ -146,8 +112,7 @@ export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASS
       const list = ((study.rows[kind] ?? []) as RowBase[]).filter((r) => batches.has(r.batch));
       if (list.length > 0) rows[kind] = list;
     }
-    const { omitted: _left, ...whole } = study;
-    const units = m.analyse({ ...whole, rows: rows as Study['rows'] });
+    const units = m.analyse({ ...study, rows: rows as Study['rows'] });
     for (const u of units) digestOf.set(u, unitDigest(u));
     for (const [batch, key] of batches) {
       // A batch whose rows give no unit (e.g. only NADH actin-only wells) is stored empty.

@@ -9,12 +9,11 @@
  *                ──buildSite───────▶ pages, single-file reports (quoting results.json's SHA-256), SVG charts (through the store) src/site/build-site.ts
  *                ──swapIn──────────▶ output folder (atomic rename; the last good output survives a failure)
  *
- * The store (src/pipeline/store.ts) keeps a file's reading, a module's units of a batch, each
- * chart's SVG and each variant's assay charts by the units they draw; a rebuild parses only the files whose batches changed, fits only those batches and
- * draws only the charts whose specs changed. Returns issues as data; the CLI decides what to print
- * and the exit code.
+ * The store (src/pipeline/store.ts) keeps a module's units of a batch, each chart's SVG and each
+ * variant's assay charts by the units they draw; a rebuild reads and checks every file, fits only
+ * the batches whose files changed and draws only the charts whose specs changed. Returns issues
+ * as data; the CLI decides what to print and the exit code.
  */
-import { deserialize, serialize } from 'node:v8';
 import { existsSync, rmSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { analyseStudy } from '../analysis/analyse-study.js';
@@ -26,9 +25,9 @@ import { writeJsonStreamed } from '../results/json.js';
 import type { StudyResults, UnitResult } from '../results/types.js';
 import { buildSite } from '../site/build-site.js';
 import type { SiteArchive } from '../site/archive-links.js';
-import { type LoadReuse, loadStudy } from '../study/load.js';
+import { loadStudy } from '../study/load.js';
 import { readStudyFolder } from '../study/read-folder.js';
-import type { FileDigest, Issue } from '../study/types.js';
+import type { Issue } from '../study/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { analyseUnits } from './analyse-units.js';
 import { PAGES_PER_RUN, collectGarbage } from './collect-garbage.js';
@@ -52,9 +51,9 @@ export interface BuildOptions {
    */
   store?: string | false;
   /**
-   * Which kinds of store entry are used (default all): 'file' (a file's reading, so unchanged
-   * files need not be parsed), 'units' (a module's units of a batch), 'svg' (a chart by its spec),
-   * 'block' (a variant's assay chart by its units). For the benchmark, which measures what each earns.
+   * Which kinds of store entry are used (default all): 'units' (a module's units of a batch),
+   * 'svg' (a chart by its spec), 'block' (a variant's assay chart by its units). For the benchmark,
+   * which measures what each earns.
    */
   storeKinds?: ReadonlyArray<StoreKind>;
   /** Fingerprint of what computes the stored entries (default: this installation's, src/pipeline/fingerprint.ts). */
@@ -72,7 +71,7 @@ export interface BuildOptions {
   plainFolder?: boolean;
 }
 
-export type StoreKind = 'file' | 'units' | 'svg' | 'block';
+export type StoreKind = 'units' | 'svg' | 'block';
 
 export interface BuildOutcome {
   ok: boolean;
@@ -96,63 +95,24 @@ export function openStore(studyDir: string, options: Pick<BuildOptions, 'store' 
   return { store: new Store(dir, options.fingerprint ?? installedFingerprint()), ...(note ? { note } : {}) };
 }
 
-/** The loader's file readings kept in the store, under keys that include the fingerprint. */
-function fileReadings(store: Store, mustRead: ReadonlySet<string>): LoadReuse {
-  return {
-    context: store.fingerprint,
-    get(key, file) {
-      if (mustRead.has(file)) return undefined;
-      const bytes = store.get('file', store.key('file', key));
-      if (!bytes) return undefined;
-      try {
-        const digest = deserialize(bytes) as FileDigest;
-        return digest && typeof digest === 'object' && Array.isArray(digest.issues) && Array.isArray(digest.unitRows) ? digest : undefined;
-      } catch {
-        return undefined;
-      }
-    },
-  };
-}
-
-/**
- * Read, check and analyse. With a store, files whose batches are all stored are not parsed
- * (their stored readings stand in for them); if a batch they hold turns out not to be stored,
- * they are read after all, in a second pass.
- */
-export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'sourceDateEpoch' | 'onPhase'>, store?: Store, kinds: ReadonlySet<StoreKind> = new Set(['file', 'units'])): { issues: Issue[]; results?: StudyResults; parsedBytes: number; unitDigests?: Map<UnitResult, string> } {
-  const fileStore = kinds.has('file') && kinds.has('units') ? store : undefined;
+/** Read, check and analyse; with a store, the units of each assay × batch whose inputs are unchanged come from it. */
+export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'sourceDateEpoch' | 'onPhase'>, store?: Store): { issues: Issue[]; results?: StudyResults; unitDigests?: Map<UnitResult, string> } {
   const phase = options.onPhase ?? (() => {});
   let folder: ReturnType<typeof readStudyFolder> | undefined = readStudyFolder(studyDir);
   phase('check');
-  const mustRead = new Set<string>();
-  /** Bytes of the files parsed (not left out), over all passes. */
-  let parsedBytes = 0;
+  const loaded = loadStudy(folder);
+  folder = undefined; // the files' bytes can go now: the rows hold what the analysis needs
+  const issues = loaded.issues;
+  if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues };
+  phase('analyse');
   const epoch = options.sourceDateEpoch;
   const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
-  for (let pass = 0; ; pass++) {
-    const loaded = loadStudy(folder as ReturnType<typeof readStudyFolder>, fileStore ? { reuse: fileReadings(fileStore, mustRead) } : {});
-    for (const f of loaded.study?.files ?? []) if (!loaded.study?.omitted?.has(f.path)) parsedBytes += (folder as ReturnType<typeof readStudyFolder>).files.get(f.path)?.length ?? 0;
-    // The files' bytes are needed again only if some files were left out: else they can go now.
-    if (!loaded.study?.omitted) folder = undefined;
-    for (const d of loaded.digests ?? []) {
-      fileStore?.put('file', fileStore.key('file', d.key), serialize(d.digest));
-      mustRead.add(d.path);
-    }
-    const issues = loaded.issues;
-    if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues, parsedBytes };
-    if (pass === 0) phase('analyse');
-    const got = analyseUnits(loaded.study, ASSAYS, kinds.has('units') ? store : undefined);
-    if ('needRows' in got) {
-      // Only files left out are asked for, and those join mustRead: the next pass reads them.
-      got.needRows.forEach((p) => mustRead.add(p));
-      continue;
-    }
-    const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units, issues });
-    // analyseStudy copies the units in their order (marking exclusions): each copy takes its original's digest.
-    const digests = got.digests;
-    const unitDigests = digests ? new Map(results.units.map((u, i) => [u, digests[i] as string])) : undefined;
-    return { issues: results.issues, results, parsedBytes, ...(unitDigests ? { unitDigests } : {}) };
-  }
+  const got = analyseUnits(loaded.study, ASSAYS, store);
+  const results = analyseStudy(loaded.study, { toolVersion: TOOL_VERSION, builtAt, units: got.units, issues });
+  // analyseStudy copies the units in their order (marking exclusions): each copy takes its original's digest.
+  const digests = got.digests;
+  const unitDigests = digests ? new Map(results.units.map((u, i) => [u, digests[i] as string])) : undefined;
+  return { issues: results.issues, results, ...(unitDigests ? { unitDigests } : {}) };
 }
 
 /**
@@ -185,8 +145,8 @@ async function buildOrThrow(studyDir: string, outDir: string, options: BuildOpti
     if (damaged > 0) notes.push(`${damaged} damaged cache ${damaged === 1 ? 'entry was' : 'entries were'} discarded and computed again (cache folder ${store?.dir}).`);
     return notes;
   };
-  const kinds = new Set<StoreKind>(options.storeKinds ?? ['file', 'units', 'svg', 'block']);
-  const { issues, results, unitDigests } = loadAndAnalyse(studyDir, options, store, kinds);
+  const kinds = new Set<StoreKind>(options.storeKinds ?? ['units', 'svg', 'block']);
+  const { issues, results, unitDigests } = loadAndAnalyse(studyDir, options, kinds.has('units') ? store : undefined);
   if (!results) return { ok: false, issues, notes: withStoreNote() };
   // A large build collects its dead rows now and after each run of pages (src/pipeline/collect-garbage.ts).
   const large = results.variants.length > PAGES_PER_RUN;

@@ -1,6 +1,6 @@
 /**
  * The store: one content-addressed folder for what is costly to recompute (a module's units of
- * one batch, a file's reading, a chart's SVG), shared by every build of every study.
+ * one batch, a chart's SVG), shared by every build of every study.
  *
  *   (kind, fingerprint, key parts) ──SHA-256──▶ <dir>/<kind>/<a>/<hash>   (<a>: the hash's first hex digit)
  *   entry file: 'myofolio-store 2 <SHA-256 of kind, key and payload> <payload bytes>\n' + payload

@@ -10,15 +10,10 @@
  * groups found in more than one file are compared row by row, by the kind's observation key
  * (`x-rowKey` of its row schema) on the typed values in canonical units (so 5 µM in one file meets
  * 5000 nM in another). Within one file the row reader checks the key itself (src/study/rows.ts).
- *
- * A file left out by its stored digest (src/study/load.ts) has no rows to compare: its digest keeps,
- * per group, the sorted 32-bit hashes of its observation keys (FNV-1a), so a shared group is read
- * again only when the hashes of two files meet; the rows then decide (a hash collision costs a read,
- * never a false error).
  */
 import { MSG, issue } from './messages.js';
 import { catalogueOf } from './schemas.js';
-import type { FileDigest, InputKind, Issue, RowBase, Variant } from './types.js';
+import type { InputKind, Issue, RowBase, Variant } from './types.js';
 import { UNITS } from './units.js';
 
 /** The group of a row that two files can share (see the module comment). */
@@ -46,12 +41,6 @@ export function groupsOfRows(kind: InputKind, rows: readonly RowBase[]): Map<str
     if (line > last!.last) last!.last = line;
   }
   return out;
-}
-
-/** The groups of a file known only by its digest (its rows were not read). */
-export function groupsOfDigest(d: FileDigest): Set<string> {
-  if (d.kind === 'atpase-nadh') return new Set(d.batches);
-  return new Set(d.unitRows.map(([variant, unit, batch]) => `${variant}\0${unit}\0${batch}`));
 }
 
 /** Per kind, each group held by more than one file, with those files in manifest order. */
@@ -98,70 +87,6 @@ export function observationKey(kind: InputKind): (row: RowBase) => string {
     }
     return out;
   };
-}
-
-const float = new Float64Array(1);
-const halves = new Uint32Array(float.buffer);
-
-/**
- * Hash of a row's observation key within its group (the group's own fields left out): 32-bit FNV-1a (Fowler, Noll and Vo; offset basis 2166136261,
- * prime 16777619), fed field by field without building the key's text: a tag per field (1 no value,
- * 2 number, 3 text), then a text's UTF-16 code units or a number's two 32-bit halves (−0 as 0).
- */
-export function observationHash(kind: InputKind): (row: RowBase) => number {
-  // The fields of the group are the same for every row compared (a group is compared with itself in another file).
-  const inGroup = kind === 'atpase-nadh' ? ['batch'] : ['variant', 'unit', 'batch'];
-  const fields = keyFields(kind)
-    .map((k) => k.field)
-    .filter((f) => !inGroup.includes(f));
-  return (row) => {
-    const r = row as unknown as Record<string, unknown>;
-    let h = 0x811c9dc5;
-    for (const field of fields) {
-      const v = r[field];
-      if (typeof v === 'number') {
-        float[0] = v === 0 ? 0 : v;
-        h = Math.imul(h ^ 2, 0x01000193);
-        h = Math.imul(h ^ halves[0]!, 0x01000193); // halves: the two 32-bit words of one float64
-        h = Math.imul(h ^ halves[1]!, 0x01000193);
-      } else if (typeof v === 'string') {
-        h = Math.imul(h ^ 3, 0x01000193);
-        for (let i = 0; i < v.length; i++) h = Math.imul(h ^ v.charCodeAt(i), 0x01000193);
-      } else h = Math.imul(h ^ 1, 0x01000193);
-    }
-    return h >>> 0;
-  };
-}
-
-/** Per group of a file's rows (only the groups in `only`, when given), the sorted distinct hashes of their observation keys (FileDigest.groupKeys). */
-export function groupKeyHashes(kind: InputKind, rows: readonly RowBase[], only?: ReadonlySet<string>): Array<[group: string, hashes: Uint32Array]> {
-  const hash = observationHash(kind);
-  const lists = new Map<string, number[]>();
-  let last: RowBase | undefined;
-  let list: number[] | undefined;
-  for (const r of rows) {
-    if (!last || !sameGroup(kind, r, last)) {
-      const g = sharedGroupKey(kind, r);
-      list = only && !only.has(g) ? undefined : lists.get(g);
-      if (!list && (!only || only.has(g))) lists.set(g, (list = []));
-    }
-    last = r;
-    if (list) list.push(hash(r));
-  }
-  return [...lists].map(([g, hashes]) => [g, Uint32Array.from(new Set(hashes)).sort()]);
-}
-
-/** Do two sorted hash lists share a value? */
-export function hashesMeet(a: Uint32Array, b: Uint32Array): boolean {
-  let i = 0;
-  let j = 0;
-  while (i < a.length && j < b.length) {
-    const [x, y] = [a[i]!, b[j]!]; // i, j within bounds by the loop condition
-    if (x === y) return true;
-    if (x < y) i++;
-    else j++;
-  }
-  return false;
 }
 
 /**

@@ -126,49 +126,11 @@ export interface Study {
   /** Optional assay settings from the manifest (e.g. motility immobile threshold), keyed by setting name. */
   settings: Record<string, number | string | boolean>;
   files: InputFile[];
-  /** Rows of every input file, by kind, in manifest file order (except the files in `omitted`). */
+  /** Rows of every input file, by kind, in manifest file order. */
   rows: Partial<RowsByKind>;
-  /**
-   * Input files whose rows were left out of `rows` because the store already holds the analysis of
-   * every batch they touch (see loadAndAnalyse in src/pipeline/build-study.ts), with what the study needs of them
-   * instead. Absent (or empty) in a study loaded whole.
-   */
-  omitted?: ReadonlyMap<string, FileDigest>;
   /** Manifest as given (parsed JSON), for the provenance page. */
   manifestRaw: unknown;
   manifestSha256: string;
-}
-
-/**
- * What one input file gives the study besides its rows: enough to check the study across files,
- * key the store's per-batch units and order units, without the rows (src/study/load.ts).
- */
-export interface FileDigest {
-  kind: InputKind;
-  /** Data rows read (InputFile.rows) and rows kept (the length of the file's part of Study.rows). */
-  rowCount: number;
-  kept: number;
-  /** The file's issues (parse, then rows), in order; a digest is only kept for a file without errors. */
-  issues: Issue[];
-  variantsSeen: string[];
-  /** Each variant label met in the file, in order of first appearance, with variantFacts of the variant it resolved to (src/study/load.ts). */
-  labels: Array<[label: string, facts: string]>;
-  batches: string[];
-  units: string[];
-  /** Rows kept per (variant, unit, batch), in order of first appearance; NADH actin-only wells count under variant and unit ''. */
-  unitRows: Array<[variant: string, unit: string, batch: string, rows: number]>;
-  /** What the WT-per-batch check needs, per batch (see wildTypeFacts in src/study/checks.ts). */
-  wildType: WildTypeFacts;
-  /** Each unit (variant, unit, batch) in order of first appearance; NADH actin-only wells (no variant, no unit) left out. */
-  unitOrder: Array<[variant: string, unit: string, batch: string]>;
-  /** The file's measurement columns with their units (InputFile.columns). */
-  columns: ColumnUnit[];
-  /**
-   * Per group two files can share (a preparation; for NADH readings a batch), the sorted 32-bit
-   * hashes of its rows' observation keys: compared with other files' without reading this one
-   * (src/study/across-files.ts).
-   */
-  groupKeys: Array<[group: string, hashes: Uint32Array]>;
 }
 
 /**

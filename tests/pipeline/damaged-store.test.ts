@@ -1,5 +1,5 @@
 /**
- * Every kind of store entry (file readings, units, SVGs, assay chart blocks) damaged at once, in each of several ways:
+ * Every kind of store entry (units, SVGs, assay chart blocks) damaged at once, in each of several ways:
  * the build discards them, computes them again, says so in one note, and gives the output of a
  * cold build, without hanging or throwing. Study: three files of the demo study (synthetic data).
  */
@@ -50,7 +50,7 @@ describe('a damaged store', () => {
   it('a cold build fills the store with every kind of entry', async () => {
     cold = await build(join(root, 'reference-store'), join(root, 'reference-out'));
     const made = entries(join(root, 'reference-store'));
-    expect(Object.keys(made).sort()).toEqual(['block', 'file', 'svg', 'units']);
+    expect(Object.keys(made).sort()).toEqual(['block', 'svg', 'units']);
     for (const list of Object.values(made)) expect(list.length).toBeGreaterThan(0);
     expect(cold.outcome.notes).toEqual([]);
     expect((await build(false, join(root, 'plain-out'))).tree).toEqual(cold.tree);

@@ -1,13 +1,11 @@
 /**
- * The same observation in two files is an error naming both places, also when one file is known
- * only by its stored digest; a preparation split over files without repeats is fine. A study with
- * no data rows, or with no variant besides WT, is an error saying what to add.
+ * The same observation in two files is an error naming both places; a preparation split over
+ * files without repeats is fine. A study with no data rows, or with no variant besides WT, is an
+ * error saying what to add.
  * Fixtures are invented (common practice, no source).
  */
 import { describe, expect, it } from 'vitest';
-import { groupKeyHashes, hashesMeet, observationHash } from '../../src/study/across-files.js';
-import { loadStudy, type ParsedDigest } from '../../src/study/load.js';
-import type { FileDigest, RowBase } from '../../src/study/types.js';
+import { loadStudy } from '../../src/study/load.js';
 import { RATES, baseManifest } from './fixtures.js';
 
 const HEAD = 'variant,preparation,batch,actin (uM),rate (1/s)';
@@ -46,41 +44,6 @@ describe('the same observation in two files', () => {
     expect(o.issues).toEqual([]);
     const more = loadStudy(two(RATES, `${HEAD}\nR2Q,p1,B1,100,3.3\n`));
     expect(more.issues).toEqual([]);
-  });
-
-  it('is found when the old file is known only by its stored digest, and the result equals a whole load', () => {
-    const kept = new Map<string, FileDigest>();
-    const reuse = { context: 'test', get: (key: string) => kept.get(key) };
-    const first = loadStudy({ manifest: JSON.stringify(baseManifest()), files: { 'rates.csv': RATES } }, { reuse });
-    for (const d of first.digests ?? ([] as ParsedDigest[])) kept.set(d.key, d.digest);
-    expect(kept.size).toBe(1);
-    const input = two(RATES, RATES.replace('K4E,p2,B1,50,2.5', 'K4E,p2,B1,50,2.7'));
-    const whole = loadStudy(input);
-    const again = loadStudy(input, { reuse });
-    expect(again.issues).toEqual(whole.issues);
-    expect(again.issues.some((i) => i.code === 'csv.duplicate-across-files')).toBe(true);
-  });
-
-  it('a file known by its digest and sharing a preparation without repeats stays unread', () => {
-    const kept = new Map<string, FileDigest>();
-    const reuse = { context: 'test', get: (key: string) => kept.get(key) };
-    const input = two(RATES, `${HEAD}\nR2Q,p1,B1,100,3.3\n`);
-    for (const d of loadStudy(input, { reuse }).digests ?? []) kept.set(d.key, d.digest);
-    const again = loadStudy(input, { reuse });
-    expect(again.issues).toEqual([]);
-    expect(again.study!.omitted?.size).toBe(2);
-  });
-
-  it('hashes of observation keys: equal keys hash alike, 0 and −0 alike; sorted lists meet only on a shared value', () => {
-    const hash = observationHash('atpase-rates');
-    const row = (actinUM: number, replicate?: string) => ({ variant: 'v', unit: 'u', batch: 'B', actinUM, ratePerS: 1, ...(replicate ? { replicate } : {}), at: { file: 'f', line: 1 } }) as RowBase;
-    expect(hash(row(0))).toBe(hash(row(-0)));
-    expect(hash(row(5))).not.toBe(hash(row(5, 'a')));
-    const [group, hashes] = groupKeyHashes('atpase-rates', [row(1), row(2), row(1)])[0]!;
-    expect(group).toBe('v\0u\0B');
-    expect(hashes.length).toBe(2);
-    expect(hashesMeet(Uint32Array.from([1, 5, 9]), Uint32Array.from([2, 9]))).toBe(true);
-    expect(hashesMeet(Uint32Array.from([1, 5, 9]), Uint32Array.from([2, 6, 10]))).toBe(false);
   });
 });
 
