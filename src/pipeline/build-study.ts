@@ -23,14 +23,14 @@ import { renderSvg } from '../charts/render.js';
 import { resultsCsv } from '../results/csv.js';
 import { writeJsonStreamed } from '../results/json.js';
 import type { StudyResults, UnitResult } from '../results/types.js';
-import { buildSite } from '../site/build-site.js';
+import { PAGES_PER_RUN, buildSite } from '../site/build-site.js';
 import type { SiteArchive } from '../site/archive-links.js';
 import { loadStudy } from '../study/load.js';
 import { readStudyFolder } from '../study/read-folder.js';
 import type { Issue } from '../study/types.js';
 import { TOOL_VERSION } from '../version.js';
 import { analyseUnits } from './analyse-units.js';
-import { PAGES_PER_RUN, collectGarbage } from './collect-garbage.js';
+import { collectGarbage } from './collect-garbage.js';
 import { installedFingerprint } from './fingerprint.js';
 import { describeFault, openFileLimit } from './faults.js';
 import { OutputError, type RemovePrevious, honourUmask, planOutput, makeStaging, swapIn } from './output.js';
@@ -148,9 +148,7 @@ async function buildOrThrow(studyDir: string, outDir: string, options: BuildOpti
   const kinds = new Set<StoreKind>(options.storeKinds ?? ['units', 'svg', 'block']);
   const { issues, results, unitDigests } = loadAndAnalyse(studyDir, options, kinds.has('units') ? store : undefined);
   if (!results) return { ok: false, issues, notes: withStoreNote() };
-  // A large build collects its dead rows now and after each run of pages (src/pipeline/collect-garbage.ts).
   const large = results.variants.length > PAGES_PER_RUN;
-  if (large) collectGarbage();
   const staging = makeStaging(plan);
   const charts: ChartCounts = { rendered: 0, stored: 0 };
   let pages: number;
@@ -164,13 +162,14 @@ async function buildOrThrow(studyDir: string, outDir: string, options: BuildOpti
     const resultsSha256 = writeJsonStreamed(path.join(downloads, 'results.json'), results as unknown as Record<string, unknown>);
     writeFileSync(path.join(downloads, 'results.csv'), resultsCsv(results));
     phase('pages');
+    // A large build collects its dead rows before the pages and after each run of them (src/pipeline/collect-garbage.ts).
+    if (large) collectGarbage();
     const site = await buildSite(results, staging, {
       chartsFor: chartsFromModules(results, ASSAYS),
       sourceDateEpoch: options.sourceDateEpoch,
       resultsSha256,
       ...(store && kinds.has('svg') ? { render: storedRender(store, charts) } : {}),
       ...(store && kinds.has('block') ? { block: storedBlock(store, charts, unitDigests), blockRender: countedDraw(renderSvg, charts) } : {}),
-      pagesPerRun: PAGES_PER_RUN,
       ...(large ? { afterRun: collectGarbage } : {}),
       ...(options.onProgress ? { onProgress: options.onProgress } : {}),
       ...(options.archive ? { archive: options.archive(results) } : {}),

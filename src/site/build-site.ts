@@ -3,7 +3,7 @@
  *
  *   StudyResults ──view builders (slugs, relative paths, numbers as text)──▶ site data
  *                ──chart specs ──render (renderSvg, or the build's stored render)──▶ SVG strings
- *   variant pages, in batches of VARIANT_BATCH: charts ──▶ Eleventy on templates/variant.njk and
+ *   variant pages, in runs of PAGES_PER_RUN: charts ──▶ Eleventy on templates/variant.njk and
  *                 report.njk alone ──▶ each variant's page and its single-file report in outDir
  *   study pages: site data without variants ──Eleventy (templates/, .eleventy.js)──▶ HTML in outDir
  *   templates/assets ──passthrough copy (.eleventy.js)──▶ outDir/assets
@@ -41,7 +41,7 @@ export interface BuildSiteOptions {
   /** Assay chart blocks by their inputs (the build's store), and the renderer of their charts; see VariantPagesOptions. */
   block?: BlockFn;
   blockRender?: RenderFn;
-  /** Variant pages per Eleventy run (default VARIANT_BATCH). */
+  /** Variant pages per Eleventy run (default PAGES_PER_RUN). */
   pagesPerRun?: number;
   /** Called after each run of variant pages (the build collects garbage there when it is heavy). */
   afterRun?: () => void;
@@ -60,7 +60,7 @@ const variantTemplates = join(templatesDir, '{variant,report}.njk');
  * Variant pages built and written per Eleventy run (default): each run compiles the templates
  * again, and one run's pages and SVGs are in memory at a time, so this bounds the build's memory.
  */
-export const VARIANT_BATCH = 250;
+export const PAGES_PER_RUN = 75;
 
 export { variantSiteData };
 
@@ -109,7 +109,7 @@ export async function buildSite(results: StudyResults, outDir: string, options: 
     ...(progress ? { onVariant: (d: number) => progress('charts', d, total) } : {}),
   });
   let pages = 0;
-  const perRun = options.pagesPerRun ?? VARIANT_BATCH;
+  const perRun = options.pagesPerRun ?? PAGES_PER_RUN;
   // Every chart also as an SVG file of its own (charts/), each block given its file's path.
   const chartFiles = chartFileWriter(outDir);
   for (let i = 0; i < results.variants.length; i += perRun) {
