@@ -105,6 +105,8 @@ export function loadAndAnalyse(studyDir: string, options: Pick<BuildOptions, 'so
   const issues = loaded.issues;
   if (!loaded.study || issues.some((i) => i.severity === 'error')) return { issues };
   phase('analyse');
+  // A large study's parsing garbage goes before the fits add theirs (src/pipeline/collect-garbage.ts).
+  if (loaded.study.variants.length > PAGES_PER_RUN) collectGarbage();
   const epoch = options.sourceDateEpoch;
   const builtAt = new Date(epoch !== undefined ? epoch * 1000 : Date.now()).toISOString();
   const got = analyseUnits(loaded.study, ASSAYS, store);
