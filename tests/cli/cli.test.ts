@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { appendFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -121,6 +121,34 @@ describe('myofolio CLI', () => {
     expect(r.out).toContain('no functional evidence level (PS3 or BS3) can be reached');
     expect(r.code).toBe(0);
   });
+
+  it('build --no-cache neither reads nor writes the cache folder; a build without it does', async () => {
+    const before = process.env.XDG_CACHE_HOME;
+    const epoch = process.env.SOURCE_DATE_EPOCH;
+    const cache = join(root, 'nocache-home');
+    process.env.XDG_CACHE_HOME = cache;
+    process.env.SOURCE_DATE_EPOCH = '1740787200';
+    try {
+      cpSync(join(REPO, 'data-demo'), join(root, 'nocache-study'), { recursive: true });
+      const fresh = await run('build', 'nocache-study', '--out', 'nocache-site', '--no-cache');
+      expect(fresh.code).toBe(0);
+      expect(existsSync(cache)).toBe(false);
+      const cached = await run('build', 'nocache-study', '--out', 'nocache-site2');
+      expect(cached.code).toBe(0);
+      expect(readdirSync(join(cache, 'myofolio')).length).toBeGreaterThan(0);
+      // The same site either way, byte for byte (README).
+      const files = (dir: string) => (readdirSync(join(root, dir), { recursive: true }) as string[]).filter((f) => f.includes('.')).sort();
+      expect(files('nocache-site').length).toBeGreaterThan(50);
+      expect(files('nocache-site2')).toEqual(files('nocache-site'));
+      const differ = files('nocache-site').filter((f) => !readFileSync(join(root, 'nocache-site', f)).equals(readFileSync(join(root, 'nocache-site2', f))));
+      expect(differ).toEqual([]);
+    } finally {
+      if (before === undefined) delete process.env.XDG_CACHE_HOME;
+      else process.env.XDG_CACHE_HOME = before;
+      if (epoch === undefined) delete process.env.SOURCE_DATE_EPOCH;
+      else process.env.SOURCE_DATE_EPOCH = epoch;
+    }
+  }, 120_000);
 
   it('check prints file:line:col: severity: message — fix and exits 1 on errors', async () => {
     await run('init', 'broken');

@@ -6,11 +6,12 @@ import { buildArchive } from '../../pipeline/build-archive.js';
 import type { Io } from '../command.js';
 import { runBuild } from '../build-run.js';
 
-export async function runArchiveBuild(dir: string, out: string, options: { force: boolean; sourceDateEpoch?: number }, io: Io): Promise<number> {
+export async function runArchiveBuild(dir: string, out: string, options: { force: boolean; noCache?: boolean; sourceDateEpoch?: number }, io: Io): Promise<number> {
   const started = Date.now();
   const outcome = await runBuild(io, ARCHIVE_MANIFEST_NAME, (progress) =>
     buildArchive(dir, out, {
       force: options.force,
+      ...(options.noCache ? { store: false as const } : {}),
       ...(options.sourceDateEpoch !== undefined ? { sourceDateEpoch: options.sourceDateEpoch } : {}),
       onPhase: (p) => progress.onProgress(p, 0, 1),
       onProgress: progress.onProgress,

@@ -1,4 +1,4 @@
-/** `myofolio build <study-dir> [--out <dir>] [--force]`: check, analyse and write the report site. */
+/** `myofolio build <study-dir> [--out <dir>] [--force] [--no-cache]`: check, analyse and write the report site. */
 import { existsSync, readdirSync, statSync } from 'node:fs';
 import { getHeapStatistics } from 'node:v8';
 import { isAbsolute, join, relative } from 'node:path';
@@ -17,14 +17,16 @@ interface BuildArgs {
   study: string;
   out: string;
   force: boolean;
+  /** Build without the store: nothing read from it or written to it. */
+  noCache: boolean;
 }
 
 function parseArgs(args: string[]): BuildArgs | string {
-  const got = readArguments(args, { '--out': { alias: '-o', needs: 'a folder' } }, ['--force']);
+  const got = readArguments(args, { '--out': { alias: '-o', needs: 'a folder' } }, ['--force', '--no-cache']);
   if ('problem' in got) return got.problem;
   const [study] = got.positional;
   if (got.positional.length !== 1 || study === undefined) return 'give exactly one study folder';
-  return { study, out: got.values.get('--out') ?? DEFAULT_OUT, force: got.flags.has('--force') };
+  return { study, out: got.values.get('--out') ?? DEFAULT_OUT, force: got.flags.has('--force'), noCache: got.flags.has('--no-cache') };
 }
 
 /** SOURCE_DATE_EPOCH (reproducible builds spec): whole seconds since 1970, or undefined. */
@@ -67,7 +69,7 @@ export function memoryWarning(dir: string, heapLimit: number, cmd = 'myofolio'):
 
 export const command: Command = {
   name: 'build',
-  usage: 'build <study-dir> [--out <dir>] [--force]',
+  usage: 'build <study-dir> [--out <dir>] [--force] [--no-cache]',
   summary: `Check, analyse and write the report site of a study, or of an archive of studies (default --out ${DEFAULT_OUT}).`,
   async run(args: string[], io: Io): Promise<number> {
     const parsed = parseArgs(args);
@@ -82,7 +84,7 @@ export const command: Command = {
       io.stderr.write(`myofolio build: cannot read the study folder '${parsed.study}': no such folder.\n`);
       return 1;
     }
-    if (isArchiveFolder(dir)) return runArchiveBuild(dir, out, { force: parsed.force, sourceDateEpoch: sourceDateEpoch(process.env) }, io);
+    if (isArchiveFolder(dir)) return runArchiveBuild(dir, out, { force: parsed.force, noCache: parsed.noCache, sourceDateEpoch: sourceDateEpoch(process.env) }, io);
     if (!existsSync(join(dir, MANIFEST_NAME))) {
       io.stderr.write(`myofolio build: '${parsed.study}' has no ${MANIFEST_NAME}. Run '${io.command ?? 'myofolio'} init <dir>' for a starter study.\n`);
       return 1;
@@ -93,6 +95,7 @@ export const command: Command = {
     const outcome = await runBuild(io, MANIFEST_NAME, (progress) =>
       buildStudy(dir, out, {
         force: parsed.force,
+        ...(parsed.noCache ? { store: false as const } : {}),
         sourceDateEpoch: sourceDateEpoch(process.env),
         onPhase: (p) => progress.onProgress(p, 0, 1),
         onProgress: progress.onProgress,
