@@ -13,7 +13,7 @@
  *
  * No I/O, no clock: the build time comes in as an argument.
  */
-import { groupBy } from '../assays/assay-common.js';
+import { activeModules, groupBy } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import { bandFromBenignControls } from '../calibrate/bands.js';
@@ -90,7 +90,7 @@ function resolveBands(study: Study): { bands: Record<string, [number, number]>; 
 }
 
 export function analyseStudy(study: Study, options: AnalyseOptions): StudyResults {
-  const modules = (options.assays ?? ASSAYS).filter((a) => a.inputs.some((k) => (study.rows[k.kind]?.length ?? 0) > 0));
+  const modules = activeModules(study, options.assays ?? ASSAYS);
   const variants = study.variants;
   const qThreshold = study.thresholds.qThreshold ?? STATS.qThreshold;
 

@@ -7,9 +7,14 @@ import type { FitResult } from '../numeric/types.js';
 import type { SourceRef } from '../results/source.js';
 import { FIT_MSG, type FitFlag } from './fit-flags.js';
 import { mean } from '../stats/descriptive.js';
-import type { AssayStudy, InputKindDef, RowBase, SettingsBag } from './types.js';
+import type { AssayModule, AssayStudy, InputKindDef, RowBase, SettingsBag } from './types.js';
 
 export type { SettingsBag } from './types.js';
+
+/** Modules that have rows in the study, in registry order (the analysis and the units store take the same ones). */
+export function activeModules(study: Pick<AssayStudy, 'rows'>, modules: readonly AssayModule[]): AssayModule[] {
+  return modules.filter((a) => a.inputs.some((k) => (study.rows[k.kind]?.length ?? 0) > 0));
+}
 
 /**
  * The value of a numeric assay setting: the first finite number among the bags given

@@ -17,17 +17,12 @@
  */
 import { createHash } from 'node:crypto';
 import { deserialize, serialize } from 'node:v8';
-import { unitsInOrder } from '../assays/assay-common.js';
+import { activeModules, unitsInOrder } from '../assays/assay-common.js';
 import { ASSAYS } from '../assays/registry.js';
 import type { AssayModule } from '../assays/types.js';
 import type { UnitResult } from '../results/types.js';
 import type { InputKind, RowBase, Study } from '../study/types.js';
 import type { Store } from './store.js';
-
-/** Modules that have rows in the study, in registry order: the same filter analyseStudy applies. */
-export function activeModules(study: Pick<Study, 'rows'>, modules: readonly AssayModule[] = ASSAYS): AssayModule[] {
-  return modules.filter((a) => a.inputs.some((k) => (study.rows[k.kind]?.length ?? 0) > 0));
-}
 
 /**
  * Order units as module.analyse(study) does: by first appearance of their (variant, unit, batch)
@@ -59,7 +54,7 @@ export interface StoredAnalysis {
 /**
  * Units of every active module: from the store where a batch's files are unchanged, else
  * analysed. Without a store (or with modules outside the registry, whose code the fingerprint
- * does not cover) this is `activeModules(study).flatMap((m) => m.analyse(study))`.
+ * does not cover) this is `activeModules(study, modules).flatMap((m) => m.analyse(study))`.
  */
 export function analyseUnits(study: Study, modules: readonly AssayModule[] = ASSAYS, store?: Store): StoredAnalysis {
   const active = activeModules(study, modules);
